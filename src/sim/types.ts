@@ -1,0 +1,70 @@
+import type { AnalysisId, Plan } from '../core/plan';
+
+/** One Monte Carlo estimate's summary across replications; each figure has its Monte Carlo SE. */
+export interface SimAnalysisSummary {
+  id: AnalysisId;
+  meanEstimate: number;
+  meanEstimateMCSE: number;
+  /** meanEstimate - tau. */
+  bias: number;
+  biasMCSE: number;
+  empiricalSE: number;
+  empiricalSEMCSE: number;
+  meanModelSE: number;
+  meanModelSEMCSE: number;
+  rmse: number;
+  rmseMCSE: number;
+  /** Share of 95% CIs that cover tau. */
+  coverage: number;
+  coverageMCSE: number;
+  /** Share of replications with p < alpha (false-positive rate when tau = 0, power otherwise). */
+  rejectionRate: number;
+  rejectionRateMCSE: number;
+  /** Share significant with the sign opposite to the hypothesised effect. */
+  wrongSignRate: number;
+  wrongSignRateMCSE: number;
+  /** Replications in which this analysis could be computed. */
+  replications: number;
+}
+
+export interface SimMatchingSummary {
+  meanMatchedProgramme: number;
+  meanMatchedProgrammeMCSE: number;
+  discardedProgrammeShare: number;
+  discardedProgrammeShareMCSE: number;
+  /** Observed pretest difference (programme - comparison), raw points. */
+  observedDifferenceBefore: number;
+  observedDifferenceAfter: number;
+  observedDifferenceAfterMCSE: number;
+  /** SMD (pooled SD) versions. */
+  observedSMDBefore: number;
+  observedSMDAfter: number;
+  /** True-score difference after matching: the hidden imbalance. */
+  trueDifferenceBefore: number;
+  trueDifferenceAfter: number;
+  trueDifferenceAfterMCSE: number;
+  trueSMDBefore: number;
+  trueSMDAfter: number;
+  /** Variance ratio (programme / comparison) of the observed pretest after matching. */
+  varianceRatioAfter: number;
+}
+
+/** One example replication's matched sets, for charts. */
+export interface ExamplePair {
+  programme: { observed: number; trueScore: number; outcome: number };
+  comparison: { observed: number; trueScore: number; outcome: number }[];
+}
+
+export interface SimulationResult {
+  plan: Plan;
+  seed: number;
+  replications: number;
+  tau: number;
+  analyses: Record<AnalysisId, SimAnalysisSummary>;
+  /** ANCOVA on the observed pretest in the full unmatched sample. */
+  ancovaFullSample: SimAnalysisSummary;
+  matching: SimMatchingSummary;
+  /** Per-replication estimates per analysis (histogram-ready), in replication order. */
+  estimates: Record<AnalysisId, number[]>;
+  example: { pairs: ExamplePair[]; discarded: { observed: number; trueScore: number }[] };
+}

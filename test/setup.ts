@@ -1,0 +1,18 @@
+// Shared Vitest setup. DOM-only shims are applied when a test file opts into
+// jsdom (`// @vitest-environment jsdom`); node tests are untouched.
+import '@testing-library/jest-dom/vitest';
+
+if (typeof window !== 'undefined' && typeof SVGElement !== 'undefined') {
+  // jsdom has no layout: estimate text boxes so svg2pdf can place labels.
+  const proto = SVGElement.prototype as unknown as { getBBox?: () => DOMRect };
+  if (!proto.getBBox) {
+    proto.getBBox = function getBBox(this: SVGElement) {
+      const text = this.textContent ?? '';
+      const size = Number.parseFloat(this.getAttribute('font-size') ?? '10') || 10;
+      return { x: 0, y: -size, width: text.length * size * 0.55, height: size } as DOMRect;
+    };
+  }
+  if (typeof HTMLCanvasElement !== 'undefined') {
+    HTMLCanvasElement.prototype.getContext = (() => null) as unknown as HTMLCanvasElement['getContext'];
+  }
+}
