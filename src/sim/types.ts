@@ -60,9 +60,14 @@ export interface SimulationResult {
   seed: number;
   replications: number;
   tau: number;
+  /**
+   * The four analyses: matchedDifference in the matched sample; ancova,
+   * gainScore and correctedAncova in the full unmatched sample (as in the
+   * closed forms they are checked against).
+   */
   analyses: Record<AnalysisId, SimAnalysisSummary>;
-  /** ANCOVA on the observed pretest in the full unmatched sample. */
-  ancovaFullSample: SimAnalysisSummary;
+  /** ANCOVA on the observed pretest within the matched sample. */
+  ancovaMatchedSample: SimAnalysisSummary;
   matching: SimMatchingSummary;
   /** Per-replication estimates per analysis (histogram-ready), in replication order. */
   estimates: Record<AnalysisId, number[]>;

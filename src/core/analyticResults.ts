@@ -1,0 +1,78 @@
+import type { AnalysisId } from './plan';
+import type { ModelParameters } from './modelParameters';
+
+/** How an expected artefact changes the study's conclusion about a hoped-for effect. */
+export type ArtefactVerdict =
+  | 'negligible' // |bias| within the tolerable share of the effect
+  | 'hides' // same sign as nothing/opposite to effect, shrinks the estimate toward zero
+  | 'reverses' // expected estimate has the opposite sign to the hoped-for effect
+  | 'inflates' // bias has the effect's sign: the programme looks better than it is
+  | 'invents'; // hoped-for effect is zero, yet a non-trivial difference is expected
+
+/** Closed-form (infinite pool) results for one analysis. */
+export interface AnalyticAnalysis {
+  id: AnalysisId;
+  /** Plain name, e.g. "Matched post-test difference". */
+  name: string;
+  /** One-line statement of the assumption under which this analysis is unbiased. */
+  assumption: string;
+  /** Expected estimate of the programme effect, posttest points. */
+  expectedEstimate: number;
+  /** expectedEstimate - tau, posttest points. */
+  bias: number;
+  /** bias / posttest SD (comparison group). */
+  biasSD: number;
+  /** bias / tau; null when tau = 0. */
+  biasShare: number | null;
+  verdict: ArtefactVerdict;
+  /** Approximate standard error of the estimate for the planned sample, points. */
+  se: number;
+  df: number;
+  /** Sample sizes the SE assumes (programme, comparison). */
+  nProgramme: number;
+  nComparison: number;
+  /** P(p < alpha) when the true effect is tau and the bias is as above. */
+  power: number;
+  /** Power the same design would have with no bias. */
+  powerWithoutBias: number;
+  /** P(p < alpha) when the programme does nothing (tau = 0) but the bias remains. */
+  falsePositiveRate: number;
+  /** P(significant with the sign opposite to the hoped-for effect); null when tau = 0. */
+  wrongSignRate: number | null;
+  /** Per-group n for the plan's target power given tau + bias; null when unreachable. */
+  requiredNPerGroup: number | null;
+}
+
+export interface BreakEven {
+  /** Within-group (comparison) reliability at which |matched-difference artefact| = tolerable share × |tau|; null when tau = 0 or no artefact. */
+  reliability: number | null;
+  /** Whether the current pretest already meets it. */
+  alreadyMet: boolean;
+  /** Averaged parallel pretests (Spearman–Brown) needed to reach it, rounded up; null when not applicable. */
+  parallelForms: number | null;
+  /** Plain-language explanation when a figure is null. */
+  note: string;
+}
+
+export interface Remedy {
+  id: 'more-reliable-pretest' | 'corrected-ancova' | 'gain-score' | 'tighter-caliper' | 'looser-caliper' | 'larger-pools';
+  title: string;
+  /** What the remedy buys, plain language with numbers. */
+  summary: string;
+  /** Expected artefact (points) with the remedy in place. */
+  remainingBias: number;
+  /** remainingBias / tau; null when tau = 0. */
+  remainingBiasShare: number | null;
+  /** Approximate share of the programme pool discarded; null when not applicable. */
+  discardedShare: number | null;
+  assumption: string;
+}
+
+export interface AnalyticResults {
+  model: ModelParameters;
+  reliability: { programme: number; comparison: number; sem: number };
+  tau: number;
+  analyses: Record<AnalysisId, AnalyticAnalysis>;
+  breakEven: BreakEven;
+  remedies: Remedy[];
+}
