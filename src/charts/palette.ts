@@ -1,0 +1,52 @@
+import type { AnalysisId } from '../core/plan';
+
+/** Marker shapes drawn beside each analysis, so colour is never the only cue. */
+export type MarkerShape = 'circle' | 'square' | 'triangle' | 'diamond';
+
+/** How one analysis is drawn in every chart, the on-screen tables and the PDF. */
+export interface AnalysisStyle {
+  /** Stroke and fill colour (hex). */
+  colour: string;
+  /** A paler tint of the same hue for fills behind text (hex). */
+  tint: string;
+  /** SVG stroke-dasharray ('' = solid line). */
+  dash: string;
+  /** Marker drawn at points and in legends. */
+  marker: MarkerShape;
+  /** Short label for legends (our own words). */
+  shortLabel: string;
+}
+
+/**
+ * Meanward's analysis palette. The four hues differ in lightness as well as
+ * hue (rust, blue, ochre, plum), so they stay apart under the common forms of
+ * colour-vision deficiency and in greyscale print; each also has its own dash
+ * pattern and marker shape. UI and report code reuse this object so an
+ * analysis looks the same everywhere.
+ */
+export const ANALYSIS_STYLES: Record<AnalysisId, AnalysisStyle> = {
+  matchedDifference: { colour: '#b5401a', tint: '#f3d9cf', dash: '', marker: 'circle', shortLabel: 'Matched difference' },
+  ancova: { colour: '#1f5c9e', tint: '#d3e1f1', dash: '7 3', marker: 'square', shortLabel: 'ANCOVA' },
+  gainScore: { colour: '#8a6a00', tint: '#efe3bf', dash: '2 3', marker: 'triangle', shortLabel: 'Gain score' },
+  correctedAncova: { colour: '#6a3d8f', tint: '#e3d6ee', dash: '9 3 2 3', marker: 'diamond', shortLabel: 'Corrected ANCOVA' },
+};
+
+/**
+ * Colours for the two groups and for reference marks. Groups use teal and
+ * dark grey (with solid vs dashed lines) so they are not mistaken for analyses.
+ */
+export const GROUP_COLOURS = {
+  programme: '#0b6e69',
+  comparison: '#4d4d4d',
+  reference: '#333333',
+  band: '#cfe8d4',
+  region: '#ececec',
+  threshold: '#777777',
+  muted: '#555555',
+} as const;
+
+/** Opacity for series that are not the highlighted analysis. */
+export const DIMMED_OPACITY = 0.22;
+
+/** The one font family charts use (svg2pdf.js knows only the standard PDF fonts). */
+export const CHART_FONT = 'sans-serif';
