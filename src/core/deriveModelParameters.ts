@@ -1,5 +1,9 @@
 import type { Plan } from './plan';
 import type { ModelParameters } from './modelParameters';
+import { formatNumber } from './inputChecks';
+import { outcomeSlope } from './outcomeSlope';
+import { reliabilityToSem } from './reliabilityToSem';
+import { trueScoreSD } from './trueScoreSD';
 
 /**
  * Derive the generating model's parameters from a plan's researcher-facing inputs.
@@ -27,14 +31,13 @@ export function deriveModelParameters(plan: Plan): ModelParameters {
   const { programme, comparison } = plan.groups;
   const sem = standardErrorOfMeasurement(plan);
   const trueVar = (sd: number, who: string): number => {
-    const v = sd * sd - sem * sem;
-    if (!(v > 0)) {
+    if (!(sd > sem)) {
       throw new Error(
         `The pretest's SEM (${fmt(sem)} points) is not smaller than the ${who} group's pretest SD (${fmt(sd)}): ` +
           'the pretest would measure nothing but error in that group. Use a smaller SEM, a higher reliability, or check the SD.',
       );
     }
-    return v;
+    return trueScoreSD(sd, sem) ** 2;
   };
   const tvP = trueVar(programme.pretestSD, 'programme');
   const tvC = trueVar(comparison.pretestSD, 'comparison');
@@ -45,14 +48,9 @@ export function deriveModelParameters(plan: Plan): ModelParameters {
   const pooled = (nP * tvP + nC * tvC) / (nP * programme.pretestSD ** 2 + nC * comparison.pretestSD ** 2);
 
   const { posttestSD, prePostCorrelation: r } = plan.outcome;
-  if (r * r > rhoC + 1e-12) {
-    throw new Error(
-      `A pre–post correlation of ${fmt(r)} is impossible with a within-group pretest reliability of ${fmt(rhoC)}: ` +
-        `a correlation with a fallible pretest cannot exceed the square root of its reliability (${fmt(Math.sqrt(rhoC))}).`,
-    );
-  }
-  const beta = (r * posttestSD) / (comparison.pretestSD * rhoC);
-  const residualVar = Math.max(0, posttestSD * posttestSD * (1 - (r * r) / rhoC));
+  // Throws the explanatory message when r^2 > rho_C.
+  const { beta, residualSD } = outcomeSlope(comparison.pretestSD, rhoC, posttestSD, r);
+  const residualVar = residualSD * residualSD;
   const effect =
     plan.outcome.effectScale === 'points' ? plan.outcome.hypothesisedEffect : plan.outcome.hypothesisedEffect * posttestSD;
 
@@ -85,9 +83,7 @@ export function standardErrorOfMeasurement(plan: Plan): number {
     throw new Error('Give the pretest either a reliability or an SEM.');
   }
   const ref = referenceSD ?? plan.groups.comparison.pretestSD;
-  return ref * Math.sqrt(1 - reliability);
+  return reliabilityToSem(reliability, ref);
 }
 
-function fmt(x: number): string {
-  return Number.isInteger(x) ? String(x) : x.toFixed(3).replace(/0+$/, '').replace(/\.$/, '');
-}
+const fmt = formatNumber;

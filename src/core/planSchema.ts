@@ -1,0 +1,243 @@
+import { z } from 'zod';
+
+/**
+ * The plan file's schema (format "meanward-plan", version 1) and, beside it,
+ * the plain-language rule for every field. The schema checks each field on
+ * its own (type and range); checks that involve several fields (for example
+ * a pre–post correlation that the pretest's reliability makes impossible)
+ * live in validatePlan.ts. Messages never come from zod: validatePlan turns
+ * each schema problem into "<field> must be <rule>; got <value>." using
+ * FIELD_RULES below, so the rule text and the schema come from one place.
+ *
+ * Ranges are those a researcher would accept (common practice): SDs > 0,
+ * reliabilities in (0, 1), |correlation| < 1, alpha in (0, 0.5),
+ * caliper in (0, 5] SDs, pools of 2 to 100000 people.
+ */
+
+/** Plain-language name of a field and the rule it must meet (sentence fragments). */
+export interface FieldRule {
+  /** What the field is, e.g. "Pretest reliability". */
+  label: string;
+  /** What it must be, e.g. "between 0 and 1 (exclusive)". */
+  rule: string;
+}
+
+/** The plan file's format name and the only version this build reads. */
+export const PLAN_FORMAT = 'meanward-plan';
+export const PLAN_VERSION = 1;
+
+/** Limits shared by the schema, the messages and the documentation. */
+export const PLAN_LIMITS = {
+  titleMaxLength: 200,
+  labelMaxLength: 80,
+  poolSizeMin: 2,
+  poolSizeMax: 100_000,
+  caliperMax: 5,
+  ratioMax: 5,
+  replicationsMax: 100_000,
+  seedMax: 4_294_967_295,
+  effectSDMax: 3,
+  /** With random choice within the caliper, wider than this is barely matching at all. */
+  randomCaliperMax: 2,
+} as const;
+
+/** Defaults filled in when a plan file leaves optional fields out. */
+export const PLAN_DEFAULTS = {
+  order: 'random',
+  tolerableBiasShare: 0.25,
+  targetPower: 0.8,
+} as const;
+
+/** Rules keyed by dotted path ("pretest.reliability"). Filled as the schema is built. */
+export const FIELD_RULES: Record<string, FieldRule> = {};
+
+interface NumberBounds {
+  gt?: number;
+  gte?: number;
+  lt?: number;
+  lte?: number;
+  integer?: boolean;
+}
+
+function numberRuleText(b: NumberBounds): string {
+  const lo = b.gt ?? b.gte;
+  const hi = b.lt ?? b.lte;
+  if (b.integer) {
+    if (lo !== undefined && hi !== undefined) return `a whole number from ${lo} to ${hi}`;
+    return 'a whole number';
+  }
+  if (lo !== undefined && hi !== undefined) {
+    if (b.gt !== undefined && b.lt !== undefined) return `a number between ${lo} and ${hi} (exclusive)`;
+    if (b.gte !== undefined && b.lte !== undefined) return `a number from ${lo} to ${hi}`;
+    if (b.gt !== undefined) return `a number greater than ${lo} and at most ${hi}`;
+    return `a number at least ${lo} and less than ${hi}`;
+  }
+  if (b.gt !== undefined) return `a number greater than ${b.gt}`;
+  if (b.gte !== undefined) return `a number at least ${b.gte}`;
+  return 'a number';
+}
+
+function num(path: string, label: string, description: string, b: NumberBounds = {}) {
+  FIELD_RULES[path] = { label, rule: numberRuleText(b) };
+  let s = b.integer ? z.number().int() : z.number();
+  if (b.gt !== undefined) s = s.gt(b.gt);
+  if (b.gte !== undefined) s = s.gte(b.gte);
+  if (b.lt !== undefined) s = s.lt(b.lt);
+  if (b.lte !== undefined) s = s.lte(b.lte);
+  return s.describe(description);
+}
+
+function text(path: string, label: string, description: string, min: number, max: number) {
+  FIELD_RULES[path] = {
+    label,
+    rule: min > 0 ? `text of ${min} to ${max} characters` : `text of at most ${max} characters`,
+  };
+  return z.string().min(min).max(max).describe(description);
+}
+
+function oneOf<const T extends readonly [string, ...string[]]>(path: string, label: string, description: string, values: T) {
+  const listed = values.map((v) => `"${v}"`);
+  const rule = listed.length === 2 ? `${listed[0]} or ${listed[1]}` : `one of ${listed.join(', ')}`;
+  FIELD_RULES[path] = { label, rule };
+  return z.enum(values).describe(description);
+}
+
+function section<T extends z.ZodRawShape>(path: string, label: string, description: string, shape: T) {
+  FIELD_RULES[path] = { label, rule: 'a section of named fields' };
+  return z.object(shape).describe(description);
+}
+
+function group(who: 'programme' | 'comparison') {
+  const p = `groups.${who}`;
+  const Who = who === 'programme' ? 'Programme group' : 'Comparison group';
+  return section(p, `The ${who} group`, `The ${who} group's pool.`, {
+    label: text(`${p}.label`, `${Who} name`, 'Plain-language name shown on screen and in reports.', 1, PLAN_LIMITS.labelMaxLength),
+    poolSize: num(`${p}.poolSize`, `${Who} pool size`, 'Number of people available in this pool.', {
+      integer: true,
+      gte: PLAN_LIMITS.poolSizeMin,
+      lte: PLAN_LIMITS.poolSizeMax,
+    }),
+    pretestMean: num(`${p}.pretestMean`, `${Who} pretest mean`, 'Mean of the observed pretest in this group, in test points.'),
+    pretestSD: num(`${p}.pretestSD`, `${Who} pretest SD`, 'Within-group SD of the observed pretest, in test points.', { gt: 0 }),
+  });
+}
+
+/** The zod schema of a version-1 plan file. Unknown extra fields are accepted and dropped. */
+export const planSchema = z
+  .object({
+    format: z.literal(PLAN_FORMAT).describe('Always "meanward-plan".'),
+    version: z.literal(PLAN_VERSION).describe('Plan file version; this build reads version 1.'),
+    title: text('title', 'Title', 'A short title for the study plan.', 0, PLAN_LIMITS.titleMaxLength),
+    groups: section('groups', 'The groups section', 'The two pools: programme (non-randomised treated group) and comparison.', {
+      programme: group('programme'),
+      comparison: group('comparison'),
+    }),
+    pretest: section(
+      'pretest',
+      'The pretest section',
+      'The pretest instrument: give either reliability (with optional referenceSD) or sem, not both.',
+      {
+        reliability: num(
+          'pretest.reliability',
+          'Pretest reliability',
+          'Reliability of the pretest as reported for a population with SD referenceSD.',
+          { gt: 0, lt: 1 },
+        ).optional(),
+        referenceSD: num(
+          'pretest.referenceSD',
+          'Reference SD of the pretest',
+          'SD of the population the reliability was estimated in, test points (default: the comparison group pretest SD).',
+          { gt: 0 },
+        ).optional(),
+        sem: num('pretest.sem', 'Pretest SEM', 'Standard error of measurement of the pretest, test points.', { gt: 0 }).optional(),
+      },
+    ),
+    outcome: section('outcome', 'The outcome section', 'The posttest (outcome) and the hoped-for effect.', {
+      posttestSD: num('outcome.posttestSD', 'Posttest SD', 'Within-group SD of the posttest (comparison group), posttest points.', {
+        gt: 0,
+      }),
+      prePostCorrelation: num(
+        'outcome.prePostCorrelation',
+        'Pre–post correlation',
+        'Within-group correlation of observed pretest and posttest (comparison group).',
+        { gt: -1, lt: 1 },
+      ),
+      growthGap: num(
+        'outcome.growthGap',
+        'Growth gap',
+        'Programme-minus-comparison growth that is not the programme effect, posttest points.',
+      ),
+      hypothesisedEffect: num('outcome.hypothesisedEffect', 'Hypothesised effect', 'The programme effect the study hopes to detect.'),
+      effectScale: oneOf('outcome.effectScale', 'Effect scale', 'Whether the effect is in posttest points or posttest-SD units.', [
+        'points',
+        'sd',
+      ] as const),
+    }),
+    matching: section('matching', 'The matching section', 'How comparison partners are chosen on the observed pretest.', {
+      method: oneOf('matching.method', 'Matching method', 'Nearest partner, or a random partner within the caliper.', [
+        'nearest',
+        'random-within-caliper',
+      ] as const),
+      caliper: num('matching.caliper', 'Caliper', 'Caliper width in SDs of the pooled observed pretest.', {
+        gt: 0,
+        lte: PLAN_LIMITS.caliperMax,
+      }),
+      ratio: num('matching.ratio', 'Matching ratio', 'Comparison partners per programme member.', {
+        integer: true,
+        gte: 1,
+        lte: PLAN_LIMITS.ratioMax,
+      }),
+      replacement: (() => {
+        FIELD_RULES['matching.replacement'] = { label: 'Matching with replacement', rule: 'true or false' };
+        return z.boolean().describe('Whether a comparison member may serve more than one programme member.');
+      })(),
+      order: oneOf('matching.order', 'Matching order', 'Order in which programme members take partners (without replacement).', [
+        'random',
+        'lowest-first',
+        'highest-first',
+      ] as const).default(PLAN_DEFAULTS.order),
+    }),
+    analysis: section('analysis', 'The analysis section', 'Significance level, assumed reliability, tolerance and target power.', {
+      alpha: num('analysis.alpha', 'Significance level (alpha)', 'Two-sided significance level.', { gt: 0, lt: 0.5 }),
+      assumedReliability: num(
+        'analysis.assumedReliability',
+        'Assumed reliability for the corrected ANCOVA',
+        'Reliability assumed by the reliability-corrected (Porter) ANCOVA.',
+        { gt: 0, lte: 1 },
+      ),
+      tolerableBiasShare: num(
+        'analysis.tolerableBiasShare',
+        'Tolerable bias share',
+        'Share of the hypothesised effect an artefact may reach and still be tolerated.',
+        { gt: 0, lte: 1 },
+      ).default(PLAN_DEFAULTS.tolerableBiasShare),
+      targetPower: num('analysis.targetPower', 'Target power', 'Power the study aims for when the required n is computed.', {
+        gte: 0.5,
+        lte: 0.99,
+      }).default(PLAN_DEFAULTS.targetPower),
+    }),
+    simulation: section('simulation', 'The simulation section', 'Monte Carlo settings.', {
+      replications: num('simulation.replications', 'Number of simulated replications', 'Monte Carlo replications.', {
+        integer: true,
+        gte: 1,
+        lte: PLAN_LIMITS.replicationsMax,
+      }),
+      seed: num('simulation.seed', 'Simulation seed', 'Random seed (unsigned 32-bit integer); same plan and seed, same numbers.', {
+        integer: true,
+        gte: 0,
+        lte: PLAN_LIMITS.seedMax,
+      }),
+    }),
+  })
+  .describe('A Meanward study plan (version 1).');
+
+/**
+ * The plan file's JSON Schema (draft 2020-12), generated from planSchema; the
+ * committed public/meanward-plan.schema.json must equal this.
+ * @returns a plain JSON-serialisable object describing the input file (defaults optional).
+ * @example planJsonSchema().properties.format // { const: "meanward-plan", ... }
+ */
+export function planJsonSchema(): Record<string, unknown> {
+  const schema = z.toJSONSchema(planSchema, { io: 'input' }) as Record<string, unknown>;
+  return { ...schema, title: 'Meanward plan file, version 1' };
+}

@@ -1,0 +1,226 @@
+import type { Plan } from './plan';
+import { FIELD_RULES, PLAN_FORMAT, PLAN_LIMITS, PLAN_VERSION, planSchema } from './planSchema';
+
+/** One thing wrong with a plan: the field (dotted path) and a message a researcher understands. */
+export interface PlanProblem {
+  /** Dotted path, e.g. "pretest.reliability"; "" for the plan as a whole. */
+  field: string;
+  message: string;
+}
+
+export type PlanCheck = { ok: true; plan: Plan } | { ok: false; problems: PlanProblem[] };
+
+/**
+ * Check anything that claims to be a plan and report every problem at once.
+ *
+ * Field rules (type, range) come from planSchema; cross-field rules follow
+ * classical test theory (Lord & Novick 1968): the SEM must be smaller than
+ * each group's pretest SD, and an observed pre–post correlation cannot exceed
+ * the square root of the pretest's within-group reliability (Spearman 1904).
+ * Unknown extra fields are ignored (forward compatibility); a different
+ * format or version is reported alone, since the rest would be noise.
+ * Defaults are filled in (matching.order "random", tolerableBiasShare 0.25,
+ * targetPower 0.8).
+ *
+ * @param input parsed JSON (any value).
+ * @returns { ok: true, plan } with defaults filled, or { ok: false, problems }.
+ *   Never throws.
+ * @example
+ *   validatePlan({ ...demo, pretest: { reliability: 1.4 } }).problems[0].message
+ *   // "Pretest reliability must be a number between 0 and 1 (exclusive); got 1.4."
+ */
+export function validatePlan(input: unknown): PlanCheck {
+  if (!isRecord(input)) {
+    return fail('', `This is not a Meanward plan: a plan is a set of named fields, but this is ${describeKind(input)}.`);
+  }
+  if (input.format !== PLAN_FORMAT) {
+    return fail(
+      'format',
+      input.format === undefined
+        ? `This is not a Meanward plan: it has no "format" field (a plan file says "format": "${PLAN_FORMAT}").`
+        : `This is not a Meanward plan: its "format" must be "${PLAN_FORMAT}"; got ${show(input.format)}.`,
+    );
+  }
+  if (input.version !== PLAN_VERSION) {
+    const v = input.version;
+    const message =
+      typeof v === 'number' && Number.isInteger(v) && v > PLAN_VERSION
+        ? `This plan was written for version ${v} of the plan file, newer than this Meanward reads (version ${PLAN_VERSION}). Use a newer Meanward, or re-save the plan as version ${PLAN_VERSION}.`
+        : `Plan file version must be ${PLAN_VERSION}; got ${show(v)}.`;
+    return fail('version', message);
+  }
+
+  const problems: PlanProblem[] = [];
+  const bad = new Set<string>();
+  const parsed = planSchema.safeParse(input);
+  if (!parsed.success) {
+    for (const issue of parsed.error.issues) {
+      const field = issue.path.map(String).join('.');
+      if (bad.has(field)) continue; // one message per field
+      bad.add(field);
+      problems.push({ field, message: fieldMessage(field, valueAt(input, field)) });
+    }
+  }
+  problems.push(...crossFieldProblems(input, bad));
+  if (problems.length > 0 || !parsed.success) return { ok: false, problems };
+  return { ok: true, plan: parsed.data as Plan };
+}
+
+/** The message for a field that failed its own rule. */
+function fieldMessage(field: string, value: unknown): string {
+  const rule = FIELD_RULES[field];
+  const label = rule?.label ?? `The field "${field}"`;
+  const what = rule?.rule ?? 'valid';
+  if (value === undefined) return `${label} is missing; it must be ${what}.`;
+  if (rule?.rule === 'a section of named fields') return `${label} must be ${what}; got ${describeKind(value)}.`;
+  if (typeof value === 'string' && what.startsWith('text')) return `${label} must be ${what}; got ${value.length} characters.`;
+  return `${label} must be ${what}; got ${show(value)}.`;
+}
+
+function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): PlanProblem[] {
+  const out: PlanProblem[] = [];
+  // A field's value for cross-checks, only when it passed its own rule.
+  const ok = (field: string): number | undefined => {
+    if (bad.has(field) || [...bad].some((b) => field.startsWith(`${b}.`))) return undefined;
+    const v = valueAt(input, field);
+    return typeof v === 'number' && Number.isFinite(v) ? v : undefined;
+  };
+  const present = (field: string) => valueAt(input, field) !== undefined;
+
+  // Either reliability or SEM, not both, not neither.
+  const pretestUsable = !bad.has('pretest');
+  if (pretestUsable) {
+    const hasRel = present('pretest.reliability');
+    const hasSem = present('pretest.sem');
+    if (hasRel && hasSem) {
+      out.push({
+        field: 'pretest',
+        message: `Give the pretest either a reliability or an SEM, not both; got reliability ${show(valueAt(input, 'pretest.reliability'))} and SEM ${show(valueAt(input, 'pretest.sem'))}.`,
+      });
+    } else if (!hasRel && !hasSem) {
+      out.push({
+        field: 'pretest',
+        message:
+          'Give the pretest either a reliability (a number between 0 and 1, exclusive) or an SEM (in test points, greater than 0); neither was given.',
+      });
+    }
+  }
+
+  // The SEM, given or derived, must be smaller than each group's pretest SD.
+  const sdP = ok('groups.programme.pretestSD');
+  const sdC = ok('groups.comparison.pretestSD');
+  let sem: number | undefined;
+  let semField = 'pretest.sem';
+  let semFrom = '';
+  if (pretestUsable && present('pretest.sem') && !present('pretest.reliability')) {
+    sem = ok('pretest.sem');
+  } else if (pretestUsable && present('pretest.reliability') && !present('pretest.sem')) {
+    const rel = ok('pretest.reliability');
+    const ref = present('pretest.referenceSD') ? ok('pretest.referenceSD') : sdC;
+    if (rel !== undefined && ref !== undefined) {
+      sem = ref * Math.sqrt(1 - rel);
+      semField = 'pretest.reliability';
+      semFrom = ` (from reliability ${fmt(rel)} in a population with SD ${fmt(ref)})`;
+    }
+  }
+  let rhoC: number | undefined;
+  if (sem !== undefined) {
+    const groups: Array<[string, number | undefined]> = [
+      ['programme', sdP],
+      ['comparison', sdC],
+    ];
+    for (const [who, sd] of groups) {
+      if (sd !== undefined && !(sem < sd)) {
+        out.push({
+          field: semField,
+          message: `The pretest's SEM must be smaller than each group's pretest SD, or the pretest would measure nothing but error in that group; got an SEM of ${fmt(sem)} points${semFrom} against the ${who} group's pretest SD of ${fmt(sd)}.`,
+        });
+      }
+    }
+    if (sdC !== undefined && sem < sdC) rhoC = 1 - (sem * sem) / (sdC * sdC);
+  }
+
+  // A correlation with a fallible pretest cannot exceed the root of its reliability.
+  const r = ok('outcome.prePostCorrelation');
+  if (r !== undefined && rhoC !== undefined && r * r > rhoC + 1e-12) {
+    out.push({
+      field: 'outcome.prePostCorrelation',
+      message: `Pre–post correlation must be at most ${fmt(Math.sqrt(rhoC))} in size with this pretest: a correlation with a fallible pretest cannot exceed the square root of its within-group reliability (${fmt(rhoC)} in the comparison group); got ${fmt(r)}.`,
+    });
+  }
+
+  // An effect in SD units beyond a few SDs is almost certainly a points value.
+  const effect = ok('outcome.hypothesisedEffect');
+  if (effect !== undefined && valueAt(input, 'outcome.effectScale') === 'sd' && Math.abs(effect) > PLAN_LIMITS.effectSDMax) {
+    out.push({
+      field: 'outcome.hypothesisedEffect',
+      message: `Hypothesised effect in posttest-SD units must be between -${PLAN_LIMITS.effectSDMax} and ${PLAN_LIMITS.effectSDMax}; got ${fmt(effect)}. If it is in posttest points, set the effect scale to "points".`,
+    });
+  }
+
+  // Matching must be able to form at least one matched set.
+  const ratio = ok('matching.ratio');
+  const nC = ok('groups.comparison.poolSize');
+  if (ratio !== undefined && nC !== undefined && ratio > nC) {
+    out.push({
+      field: 'matching.ratio',
+      message: `Matching ratio must be at most the comparison pool size (${fmt(nC)} people), or not even one programme member can get their partners; got ${fmt(ratio)}.`,
+    });
+  }
+
+  // Random choice within a very wide caliper is hardly matching at all.
+  const caliper = ok('matching.caliper');
+  if (
+    caliper !== undefined &&
+    valueAt(input, 'matching.method') === 'random-within-caliper' &&
+    caliper > PLAN_LIMITS.randomCaliperMax
+  ) {
+    out.push({
+      field: 'matching.caliper',
+      message: `With a random partner within the caliper, the caliper must be at most ${PLAN_LIMITS.randomCaliperMax} SDs of the pretest, or partners are barely matched at all; got ${fmt(caliper)}.`,
+    });
+  }
+  return out;
+}
+
+function fail(field: string, message: string): PlanCheck {
+  return { ok: false, problems: [{ field, message }] };
+}
+
+function isRecord(x: unknown): x is Record<string, unknown> {
+  return typeof x === 'object' && x !== null && !Array.isArray(x);
+}
+
+function valueAt(root: unknown, field: string): unknown {
+  if (field === '') return root;
+  let cur: unknown = root;
+  for (const key of field.split('.')) {
+    if (!isRecord(cur)) return undefined;
+    cur = cur[key];
+  }
+  return cur;
+}
+
+function describeKind(x: unknown): string {
+  if (x === null) return 'null';
+  if (Array.isArray(x)) return 'a list';
+  if (typeof x === 'string') return `the text ${show(x)}`;
+  if (typeof x === 'number' || typeof x === 'boolean') return `the value ${show(x)}`;
+  if (x === undefined) return 'nothing';
+  return `a ${typeof x}`;
+}
+
+/** A received value, shown as the user typed it (text quoted, long text cut). */
+function show(x: unknown): string {
+  if (typeof x === 'string') return JSON.stringify(x.length > 40 ? `${x.slice(0, 40)}…` : x);
+  if (typeof x === 'number') return Number.isFinite(x) ? String(x) : String(x);
+  if (x === null) return 'null';
+  if (x === undefined) return 'nothing';
+  if (Array.isArray(x)) return 'a list';
+  if (typeof x === 'object') return 'a section of fields';
+  return String(x);
+}
+
+function fmt(x: number): string {
+  return Number.isInteger(x) ? String(x) : x.toFixed(3).replace(/0+$/, '').replace(/\.$/, '');
+}
