@@ -1,0 +1,94 @@
+import type { Plan } from '../core/plan';
+import { DEMO_PLAN } from './demoPlan';
+
+/** A built-in example plan with a short name and a one-paragraph description. */
+export interface ExamplePlan {
+  /** File-name-safe id; the plan is also served as public/examples/<id>.json. */
+  id: string;
+  name: string;
+  description: string;
+  plan: Plan;
+}
+
+/**
+ * INVENTED EXAMPLES: every scenario and number below is made up to show how
+ * the artefact behaves; none describes a real study.
+ */
+const VOLUNTEER_MENTORING: Plan = {
+  format: 'meanward-plan',
+  version: 1,
+  title: 'Invented example: volunteer peer-mentoring for newly qualified nurses, matched on a clinical-knowledge quiz',
+  groups: {
+    programme: { label: 'Nurses who volunteered', poolSize: 150, pretestMean: 66, pretestSD: 12 },
+    comparison: { label: 'Nurses who did not', poolSize: 900, pretestMean: 60, pretestSD: 12 },
+  },
+  pretest: { reliability: 0.7, referenceSD: 12 },
+  outcome: { posttestSD: 12, prePostCorrelation: 0.6, growthGap: 0, hypothesisedEffect: 0.2, effectScale: 'sd' },
+  matching: { method: 'nearest', caliper: 0.2, ratio: 2, replacement: false, order: 'random' },
+  analysis: { alpha: 0.05, assumedReliability: 0.7, tolerableBiasShare: 0.25, targetPower: 0.8 },
+  simulation: { replications: 2000, seed: 41729 },
+};
+
+const NO_GAP_BACK_CARE: Plan = {
+  format: 'meanward-plan',
+  version: 1,
+  title: 'Invented example: back-care workshops offered at some depots, no baseline gap between sites',
+  groups: {
+    programme: { label: 'Staff at workshop depots', poolSize: 240, pretestMean: 32, pretestSD: 8 },
+    comparison: { label: 'Staff at other depots', poolSize: 480, pretestMean: 32, pretestSD: 8 },
+  },
+  pretest: { sem: 3.2 },
+  outcome: { posttestSD: 8, prePostCorrelation: 0.55, growthGap: 0, hypothesisedEffect: -2, effectScale: 'points' },
+  matching: { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random' },
+  analysis: { alpha: 0.05, assumedReliability: 0.84, tolerableBiasShare: 0.25, targetPower: 0.8 },
+  simulation: { replications: 2000, seed: 7301 },
+};
+
+const GAIN_SCORE_READING: Plan = {
+  format: 'meanward-plan',
+  version: 1,
+  title: 'Invented example: an adult evening reading course, words read correctly per minute on the same passage twice',
+  groups: {
+    programme: { label: 'Course enrolees', poolSize: 120, pretestMean: 95, pretestSD: 20 },
+    comparison: { label: 'Library members not enrolled', poolSize: 600, pretestMean: 115, pretestSD: 20 },
+  },
+  pretest: { reliability: 0.81, referenceSD: 20 },
+  // r * posttestSD / (pretestSD * reliability) = 0.72 * 22.5 / (20 * 0.81) = 1: a true-score
+  // slope of 1, the condition under which the gain score is unbiased.
+  outcome: { posttestSD: 22.5, prePostCorrelation: 0.72, growthGap: 0, hypothesisedEffect: 5, effectScale: 'points' },
+  matching: { method: 'random-within-caliper', caliper: 0.25, ratio: 1, replacement: true, order: 'random' },
+  analysis: { alpha: 0.05, assumedReliability: 0.81, tolerableBiasShare: 0.25, targetPower: 0.8 },
+  simulation: { replications: 2000, seed: 90210 },
+};
+
+/** The built-in examples, the demo first. Callers must copy a plan before changing it. */
+export const EXAMPLE_PLANS: readonly ExamplePlan[] = [
+  {
+    id: 'demo-falls-prevention',
+    name: 'Falls prevention (demo)',
+    description:
+      'Invented. People referred to exercise classes start one SD lower on a balance score; matching on a pretest of reliability .75 leaves them lower in true balance, so the artefact hides most of a 2.5-point benefit.',
+    plan: DEMO_PLAN,
+  },
+  {
+    id: 'volunteer-mentoring',
+    name: 'Volunteers start higher',
+    description:
+      'Invented. Nurses who volunteer for mentoring already score higher; after matching they are still higher in true knowledge, so the artefact inflates the effect and a programme that does nothing can look helpful.',
+    plan: VOLUNTEER_MENTORING,
+  },
+  {
+    id: 'no-gap-back-care',
+    name: 'No baseline gap',
+    description:
+      'Invented. Workshop and comparison depots have the same mean disability score, so matching on a fallible pretest produces no regression artefact: every analysis is unbiased and the choice is about precision.',
+    plan: NO_GAP_BACK_CARE,
+  },
+  {
+    id: 'gain-score-reading',
+    name: 'Gain score fits',
+    description:
+      'Invented. The same reading passage before and after, and everyone improves alike (true-score slope 1): the gain score is unbiased while matching and ANCOVA on the fallible pretest are not.',
+    plan: GAIN_SCORE_READING,
+  },
+];

@@ -1,0 +1,99 @@
+import type { Plan } from '../core/plan';
+import { validatePlan, type PlanCheck } from '../core/validatePlan';
+
+/**
+ * The plan with its keys in the file's fixed order (format, version, title,
+ * groups, pretest, outcome, matching, analysis, simulation) and absent
+ * optional fields left out, so the same plan always gives the same text.
+ */
+export function canonicalPlan(plan: Plan): Plan {
+  const group = (g: Plan['groups']['programme']) => ({
+    label: g.label,
+    poolSize: g.poolSize,
+    pretestMean: g.pretestMean,
+    pretestSD: g.pretestSD,
+  });
+  const pretest: Plan['pretest'] = {};
+  if (plan.pretest.reliability !== undefined) pretest.reliability = plan.pretest.reliability;
+  if (plan.pretest.referenceSD !== undefined) pretest.referenceSD = plan.pretest.referenceSD;
+  if (plan.pretest.sem !== undefined) pretest.sem = plan.pretest.sem;
+  const matching: Plan['matching'] = {
+    method: plan.matching.method,
+    caliper: plan.matching.caliper,
+    ratio: plan.matching.ratio,
+    replacement: plan.matching.replacement,
+  };
+  if (plan.matching.order !== undefined) matching.order = plan.matching.order;
+  const analysis: Plan['analysis'] = {
+    alpha: plan.analysis.alpha,
+    assumedReliability: plan.analysis.assumedReliability,
+    tolerableBiasShare: plan.analysis.tolerableBiasShare,
+  };
+  if (plan.analysis.targetPower !== undefined) analysis.targetPower = plan.analysis.targetPower;
+  return {
+    format: plan.format,
+    version: plan.version,
+    title: plan.title,
+    groups: { programme: group(plan.groups.programme), comparison: group(plan.groups.comparison) },
+    pretest,
+    outcome: {
+      posttestSD: plan.outcome.posttestSD,
+      prePostCorrelation: plan.outcome.prePostCorrelation,
+      growthGap: plan.outcome.growthGap,
+      hypothesisedEffect: plan.outcome.hypothesisedEffect,
+      effectScale: plan.outcome.effectScale,
+    },
+    matching,
+    analysis,
+    simulation: { replications: plan.simulation.replications, seed: plan.simulation.seed },
+  };
+}
+
+/**
+ * The plan file's text: JSON with a stable key order, two-space indent and a
+ * trailing newline (the format "meanward-plan", version 1).
+ * @example serializePlan(demoPlan()).startsWith('{\n  "format": "meanward-plan"') // true
+ */
+export function serializePlan(plan: Plan): string {
+  return `${JSON.stringify(canonicalPlan(plan), null, 2)}\n`;
+}
+
+/**
+ * Read a plan file's text: parse the JSON and validate it, reporting every
+ * problem at once (see validatePlan). Text that is not JSON gets one message
+ * with the line and column where reading stopped. Never throws.
+ * @example parsePlanText('{').ok // false: "This file is not a plan file: it is not valid JSON ..."
+ */
+export function parsePlanText(text: string): PlanCheck {
+  const body = text.replace(/^\uFEFF/, '');
+  if (body.trim() === '') {
+    return { ok: false, problems: [{ field: '', message: 'This file is empty: a plan file holds the plan as JSON text.' }] };
+  }
+  let data: unknown;
+  try {
+    data = JSON.parse(body);
+  } catch (err) {
+    const where = jsonErrorLocation(body, err);
+    return {
+      ok: false,
+      problems: [{ field: '', message: `This file is not a plan file: it is not valid JSON${where}.` }],
+    };
+  }
+  return validatePlan(data);
+}
+
+/** " (line L, column C)" for a JSON.parse error, from whatever the engine reports. */
+function jsonErrorLocation(text: string, err: unknown): string {
+  const msg = err instanceof Error ? err.message : String(err);
+  const lc = /line (\d+) column (\d+)/i.exec(msg);
+  if (lc) return ` (line ${lc[1]}, column ${lc[2]})`;
+  const pos = /position (\d+)/i.exec(msg);
+  let offset: number | undefined = pos ? Number(pos[1]) : undefined;
+  if (offset === undefined && /end of (JSON )?(input|data)/i.test(msg)) offset = text.length;
+  if (offset === undefined) return '';
+  const before = text.slice(0, offset);
+  const line = before.split('\n').length;
+  const column = offset - before.lastIndexOf('\n');
+  const ending = offset >= text.length ? ': the text ends too soon' : '';
+  return ` (line ${line}, column ${column})${ending}`;
+}
