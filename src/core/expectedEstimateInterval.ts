@@ -1,5 +1,5 @@
-import jStat from 'jstat';
 import { requireFinite, requireNonNegative, requireOpenInterval } from './inputChecks';
+import { normalQuantile } from './distributions';
 
 /** Range in which an analysis' estimate is expected to fall in repeated studies. */
 export interface EstimateInterval {
@@ -25,6 +25,6 @@ export function expectedEstimateInterval(expectedEstimate: number, se: number, c
   requireFinite(expectedEstimate, 'The expected estimate');
   requireNonNegative(se, 'The standard error');
   requireOpenInterval(coverage, 0, 1, 'The coverage');
-  const z = jStat.normal.inv(1 - (1 - coverage) / 2, 0, 1) as number;
+  const z = normalQuantile(1 - (1 - coverage) / 2);
   return { lower: expectedEstimate - z * se, upper: expectedEstimate + z * se, z };
 }

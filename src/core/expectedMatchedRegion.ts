@@ -1,6 +1,6 @@
-import jStat from 'jstat';
 import type { ModelParameters } from './modelParameters';
 import { requireFinite, requirePositive } from './inputChecks';
+import { normalCdf } from './distributions';
 
 /** An interval of observed pretest scores, test points. */
 export interface PretestRange {
@@ -36,7 +36,7 @@ export function expectedMatchedRegion(model: ModelParameters, caliper: number, r
   requirePositive(ratio, 'The matching ratio');
   const c = caliper * Math.sqrt((model.observedSD.programme ** 2 + model.observedSD.comparison ** 2) / 2);
   const count = (n: number, mu: number, sd: number) => (x: number) =>
-    n * ((jStat.normal.cdf(x + c, mu, sd) as number) - (jStat.normal.cdf(x - c, mu, sd) as number));
+    n * (normalCdf((x + c - mu) / sd) - normalCdf((x - c - mu) / sd));
   const p = interval(count(model.n.programme, model.mean.programme, model.observedSD.programme), 1, model.mean.programme, model.observedSD.programme);
   const q = interval(count(model.n.comparison, model.mean.comparison, model.observedSD.comparison), ratio, model.mean.comparison, model.observedSD.comparison);
   if (!p || !q) return null;

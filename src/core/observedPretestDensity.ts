@@ -1,4 +1,5 @@
 import { requireFinite, requirePositive } from './inputChecks';
+import { normalPdf } from './distributions';
 
 /**
  * Density of a group's observed pretest at x under the model's normal
@@ -16,6 +17,5 @@ export function observedPretestDensity(x: number, mean: number, sd: number): num
   requireFinite(x, 'The pretest score');
   requireFinite(mean, 'The pretest mean');
   requirePositive(sd, 'The pretest SD');
-  const z = (x - mean) / sd;
-  return Math.exp(-0.5 * z * z) / (sd * Math.sqrt(2 * Math.PI));
+  return normalPdf((x - mean) / sd) / sd;
 }
