@@ -1,0 +1,353 @@
+import { jsPDF } from 'jspdf';
+import type { AnalyticResults } from '../core/analyticResults';
+import { ANALYSIS_IDS, type Plan } from '../core/plan';
+import { serializePlan } from '../io/planFile';
+import type { SimAnalysisSummary, SimulationResult } from '../sim/types';
+import { drawSvgChart, parseChartSvg, svgSize } from './drawSvgChart';
+import {
+  formatCount,
+  formatDateTime,
+  formatPoints,
+  formatProbability,
+  formatReliability,
+  formatSD,
+  formatShare,
+  formatSignedPoints,
+  withMcse,
+} from './format';
+import { PdfWriter, type TableColumn } from './pdfWriter';
+import { planInputRows, type InputSource } from './planInputRows';
+import { CONTINUATION, PLAN_BEGIN, PLAN_END } from './planJsonBlock';
+import { FONT_SANS, loadReportFonts, registerReportFonts, type ReportFonts } from './reportFonts';
+import { CAUTION_LINE, CAUTIONS, MODEL_LINES, REFERENCES, VERDICT_LABEL, VERDICT_TEXT } from './reportText';
+
+/** A chart to include: its SVG text (as rendered on screen) and how to read it. */
+export interface ReportChart {
+  id: string;
+  title: string;
+  svg: string;
+  caption: string;
+}
+
+export interface ReportInput {
+  plan: Plan;
+  analytic: AnalyticResults;
+  /** Monte Carlo results, or null when no simulation has been run for this plan. */
+  simulation: SimulationResult | null;
+  charts: ReportChart[];
+  /** The app's version (package.json). */
+  appVersion: string;
+  generatedAt: Date;
+  /** Where each input came from, by dotted plan path; defaults as in planInputRows. */
+  provenance?: Partial<Record<string, InputSource>>;
+  /** Embedded fonts; loaded from src/report/fonts when omitted. */
+  fonts?: ReportFonts;
+}
+
+/** Title printed at the top of every summary. */
+export const REPORT_HEADING = 'Meanward planning summary';
+
+function samePlan(a: Plan, b: Plan): boolean {
+  return serializePlan(a) === serializePlan(b);
+}
+
+/**
+ * Build the PDF summary of a plan for an ethics board, a grant panel or a
+ * pre-registration: summary and verdict, inputs and their sources, closed-form
+ * and simulated results, charts (vector), ranked remedies, the model and
+ * references, cautions, and the complete plan file for reproduction.
+ *
+ * Every figure is taken from `analytic` (analysePlan) and `simulation`
+ * (simulatePlan) and formatted with ./format; nothing is recomputed here.
+ *
+ * @param input see ReportInput. A simulation run for a different plan is left
+ *   out (and the PDF says so).
+ * @returns the PDF file's bytes.
+ * @throws Error when the fonts cannot be loaded. A chart whose SVG cannot be
+ *   read is replaced by a sentence saying so, not an exception.
+ * @example
+ *   const bytes = await buildReportPdf({ plan, analytic: analysePlan(plan), simulation: null,
+ *     charts: [], appVersion: '0.1.0', generatedAt: new Date() });
+ *   // bytes starts with "%PDF-"
+ */
+export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
+  const { plan, analytic, charts, appVersion, generatedAt } = input;
+  const simulationForOtherPlan = input.simulation !== null && !samePlan(input.simulation.plan, plan);
+  const sim = simulationForOtherPlan ? null : input.simulation;
+  const fonts = input.fonts ?? (await loadReportFonts());
+
+  const doc = new jsPDF({ unit: 'pt', format: 'a4', compress: true });
+  registerReportFonts(doc, fonts);
+  doc.setProperties({
+    title: `${REPORT_HEADING}: ${plan.title}`,
+    subject: 'Study plan: expected regression-toward-the-mean artefact, power and cautions',
+    creator: `Meanward ${appVersion}`,
+  });
+  doc.setFont(FONT_SANS, 'normal');
+  const w = new PdfWriter(doc);
+  const A = analytic.analyses;
+  const P = plan.groups.programme;
+  const C = plan.groups.comparison;
+
+  // ---- Title, date, caution -------------------------------------------------
+  w.heading(REPORT_HEADING, 1);
+  w.paragraph(plan.title, { size: 13, bold: true, after: 2 });
+  w.paragraph(`Generated ${formatDateTime(generatedAt)} by Meanward ${appVersion}.`, { size: 9, muted: true, after: 8 });
+  w.note(`Caution: ${CAUTION_LINE}`);
+
+  // ---- Summary -------------------------------------------------------------
+  w.heading('Summary');
+  const md = A.matchedDifference;
+  const gap = analytic.model.pretestGap;
+  const best = analytic.remedies[0];
+  const summary = [
+    `This plan compares “${P.label}” (${formatCount(P.poolSize)} people available) with “${C.label}” (${formatCount(C.poolSize)} available).`,
+    `On the pretest the programme group’s mean is ${formatPoints(Math.abs(gap))} points ${gap < 0 ? 'below' : gap > 0 ? 'above' : 'equal to'}${gap === 0 ? ' ' : ' '}the comparison group’s; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`,
+    `Each programme member is to be matched to ${plan.matching.ratio} comparison ${plan.matching.ratio === 1 ? 'person' : 'people'} within a caliper of ${plan.matching.caliper} SD of the pretest, and the study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points.`,
+    `Under the model, the matched post-test difference is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a bias of ${formatSignedPoints(md.bias)} points${md.biasShare === null ? '' : ` (${formatShare(md.biasShare)} of the hoped-for effect)`}, so ${VERDICT_TEXT[md.verdict]}.`,
+    best
+      ? `The first-ranked remedy is “${best.title}”, which leaves an expected artefact of ${formatSignedPoints(best.remainingBias)} points (assumption: ${lowerFirst(best.assumption)}).`
+      : '',
+  ]
+    .filter(Boolean)
+    .join(' ');
+  w.paragraph(summary);
+
+  // ---- Assumptions ---------------------------------------------------------
+  w.heading('Inputs and where they came from');
+  const inputs = planInputRows(plan, input.provenance);
+  w.table(
+    [
+      { header: 'Input', width: 44 },
+      { header: 'Value', width: 26 },
+      { header: 'Unit', width: 18 },
+      { header: 'Source', width: 12 },
+    ],
+    inputs.map((r) => [r.label, r.value, r.unit, r.source]),
+  );
+  w.heading('Derived by the planner from these inputs', 3);
+  const m = analytic.model;
+  w.table(
+    [
+      { header: 'Quantity', width: 60 },
+      { header: 'Value', width: 20, align: 'right' },
+      { header: 'Unit', width: 20 },
+    ],
+    [
+      ['Standard error of measurement (SEM)', formatPoints(analytic.reliability.sem), 'test points'],
+      ['Within-group reliability, programme group (ρ_P)', formatReliability(analytic.reliability.programme), 'coefficient'],
+      ['Within-group reliability, comparison group (ρ_C)', formatReliability(analytic.reliability.comparison), 'coefficient'],
+      ['True-score gap, programme − comparison (Δ)', formatSignedPoints(m.pretestGap), 'test points'],
+      ['Slope of the outcome on the true pretest (β)', formatPoints(m.beta, 3), 'post-test per test point'],
+      ['Residual SD of the outcome (σ_e)', formatPoints(m.residualSD), 'post-test points'],
+      ['Programme effect (τ)', formatSignedPoints(analytic.tau), 'post-test points'],
+    ],
+  );
+
+  // ---- Results -------------------------------------------------------------
+  w.heading('Results by analysis');
+  w.paragraph(
+    'Closed form: expected values for infinitely large pools and exact matching. “Bias” is the expected estimate minus the programme effect τ.',
+    { size: 9, muted: true },
+  );
+  const analysisCols: TableColumn[] = [
+    { header: '', width: 24 },
+    ...ANALYSIS_IDS.map((id) => ({ header: A[id].name, width: 19, align: 'right' as const })),
+  ];
+  const row = (label: string, f: (id: (typeof ANALYSIS_IDS)[number]) => string) => [label, ...ANALYSIS_IDS.map(f)];
+  w.table(
+    analysisCols,
+    [
+      row('Expected estimate (points)', (id) => formatSignedPoints(A[id].expectedEstimate)),
+      row('Expected bias (points)', (id) => formatSignedPoints(A[id].bias)),
+      row('Expected bias (post-test SDs)', (id) => formatSD(A[id].biasSD)),
+      row('Bias as a share of the effect', (id) => (A[id].biasShare === null ? 'no effect hoped for' : formatShare(A[id].biasShare))),
+      row('Verdict', (id) => VERDICT_LABEL[A[id].verdict]),
+      row('Sample sizes assumed (programme / comparison)', (id) => `${formatCount(A[id].nProgramme)} / ${formatCount(A[id].nComparison)}`),
+      row('Power', (id) => formatProbability(A[id].power)),
+      row('Power if there were no bias', (id) => formatProbability(A[id].powerWithoutBias)),
+      row('False-positive rate if the programme does nothing', (id) => formatProbability(A[id].falsePositiveRate)),
+      row('Wrong-sign rate (significant, opposite sign)', (id) => (A[id].wrongSignRate === null ? 'no effect hoped for' : formatProbability(A[id].wrongSignRate))),
+      row(`Per-group n for ${formatProbability(plan.analysis.targetPower ?? 0.8)} power`, (id) =>
+        A[id].requiredNPerGroup === null ? 'not reachable' : formatCount(A[id].requiredNPerGroup),
+      ),
+    ],
+    { boldRows: [1], boldFirstColumn: true },
+  );
+  for (const id of ANALYSIS_IDS) {
+    w.paragraph(`${A[id].name}, assumption: ${A[id].assumption}`, { size: 8.5, muted: true, after: 2 });
+  }
+  w.gap(6);
+
+  w.heading('Simulated studies', 3);
+  if (sim === null) {
+    w.note(
+      simulationForOtherPlan
+        ? 'The simulation on record was run for a different version of this plan, so its figures are left out. Run the simulation again in the planner to add simulated bias, RMSE, coverage and balance after matching; the figures above are closed-form only.'
+        : 'No simulation has been run for this plan yet: the figures above are closed-form (analytic) only. Run the simulation in the planner to add simulated bias, RMSE, CI coverage, rejection rates and balance after matching.',
+    );
+  } else {
+    w.paragraph(
+      `${formatCount(sim.replications)} simulated studies (seed ${sim.seed}). Each figure is followed by its Monte Carlo standard error. The matched difference and “ANCOVA in the matched sample” use the matched people only; the other analyses use everyone available.`,
+      { size: 9, muted: true },
+    );
+    const simCols: (SimAnalysisSummary & { label: string })[] = [
+      ...ANALYSIS_IDS.map((id) => ({ ...sim.analyses[id], label: A[id].name })),
+      { ...sim.ancovaMatchedSample, label: 'ANCOVA in the matched sample' },
+    ];
+    const srow = (label: string, f: (s: SimAnalysisSummary) => string) => [label, ...simCols.map(f)];
+    const rejectionLabel = sim.tau === 0 ? 'False-positive rate (share significant)' : 'Power (share significant)';
+    w.table(
+      [{ header: '', width: 22 }, ...simCols.map((s) => ({ header: s.label, width: 15.6, align: 'right' as const }))],
+      [
+        ['Expected bias, closed form', ...ANALYSIS_IDS.map((id) => formatSignedPoints(A[id].bias)), '—'],
+        srow('Simulated bias (points)', (s) => withMcse(formatSignedPoints(s.bias), s.biasMCSE, (x) => formatPoints(x))),
+        srow('Mean estimate (points)', (s) => withMcse(formatSignedPoints(s.meanEstimate), s.meanEstimateMCSE, (x) => formatPoints(x))),
+        srow('Empirical SE (points)', (s) => withMcse(formatPoints(s.empiricalSE), s.empiricalSEMCSE, (x) => formatPoints(x))),
+        srow('RMSE (points)', (s) => withMcse(formatPoints(s.rmse), s.rmseMCSE, (x) => formatPoints(x))),
+        srow('95% CI coverage of τ', (s) => withMcse(formatProbability(s.coverage), s.coverageMCSE, formatProbability)),
+        srow(rejectionLabel, (s) => withMcse(formatProbability(s.rejectionRate), s.rejectionRateMCSE, formatProbability)),
+        srow('Wrong-sign rate', (s) => withMcse(formatProbability(s.wrongSignRate), s.wrongSignRateMCSE, formatProbability)),
+        srow('Replications analysed', (s) => formatCount(s.replications)),
+      ],
+      { boldRows: [1], boldFirstColumn: true, fontSize: 8 },
+    );
+    const mt = sim.matching;
+    w.heading('Matching and balance (simulated)', 3);
+    w.paragraph(
+      'Balance on the observed pretest can look fine after matching while the true scores of matched people still differ: that hidden gap is what produces the artefact.',
+      { size: 9, muted: true },
+    );
+    w.table(
+      [
+        { header: 'Quantity', width: 46 },
+        { header: 'Before matching', width: 22, align: 'right' },
+        { header: 'After matching', width: 32, align: 'right' },
+      ],
+      [
+        [
+          'Programme members matched (mean per study)',
+          formatCount(P.poolSize),
+          withMcse(formatCount(mt.meanMatchedProgramme), mt.meanMatchedProgrammeMCSE, (x) => formatPoints(x, 1)),
+        ],
+        ['Share of the programme pool discarded', '—', withMcse(formatShare(mt.discardedProgrammeShare), mt.discardedProgrammeShareMCSE, formatProbability)],
+        [
+          'Observed pretest difference (points)',
+          formatSignedPoints(mt.observedDifferenceBefore),
+          withMcse(formatSignedPoints(mt.observedDifferenceAfter), mt.observedDifferenceAfterMCSE, (x) => formatPoints(x)),
+        ],
+        ['Observed pretest SMD', formatSD(mt.observedSMDBefore), formatSD(mt.observedSMDAfter)],
+        [
+          'True-score difference (points): hidden imbalance',
+          formatSignedPoints(mt.trueDifferenceBefore),
+          withMcse(formatSignedPoints(mt.trueDifferenceAfter), mt.trueDifferenceAfterMCSE, (x) => formatPoints(x)),
+        ],
+        ['True-score SMD', formatSD(mt.trueSMDBefore), formatSD(mt.trueSMDAfter)],
+        ['Variance ratio of the observed pretest (programme / comparison)', '—', formatPoints(mt.varianceRatioAfter)],
+      ],
+      { boldRows: [4] },
+    );
+  }
+
+  // ---- Charts --------------------------------------------------------------
+  if (charts.length > 0) {
+    w.heading('Charts');
+    for (const chart of charts) {
+      let svg: SVGSVGElement | null = null;
+      let problem = '';
+      try {
+        svg = parseChartSvg(chart.svg, FONT_SANS);
+      } catch (e) {
+        problem = e instanceof Error ? e.message : String(e);
+      }
+      if (!svg) {
+        w.heading(chart.title, 3);
+        w.paragraph(`This chart could not be drawn in the PDF (${problem}). ${chart.caption}`);
+        continue;
+      }
+      const size = svgSize(svg);
+      let cw = w.width;
+      let ch = (size.height / size.width) * cw;
+      const maxH = (w.bottom - w.top) * 0.62;
+      if (ch > maxH) {
+        cw *= maxH / ch;
+        ch = maxH;
+      }
+      // Title, chart and the first caption lines stay together on one page.
+      w.ensure(30 + ch + 40);
+      w.heading(chart.title, 3);
+      const x = w.left + (w.width - cw) / 2;
+      try {
+        await drawSvgChart(doc, svg, { x, y: w.y, width: cw, height: ch });
+        w.gap(ch + 6);
+      } catch (e) {
+        w.paragraph(`This chart could not be drawn in the PDF (${e instanceof Error ? e.message : String(e)}).`);
+      }
+      doc.setFont(FONT_SANS, 'normal');
+      w.paragraph(`How to read it: ${chart.caption}`, { size: 9, muted: true, after: 10 });
+    }
+  }
+
+  // ---- Remedies ------------------------------------------------------------
+  w.heading('Recommended design and remedies, ranked');
+  const be = analytic.breakEven;
+  if (be.reliability !== null) {
+    w.paragraph(
+      be.alreadyMet
+        ? `The pretest’s within-group reliability already meets the level at which the matched artefact stays within ${formatShare(plan.analysis.tolerableBiasShare)} of the hoped-for effect (${formatReliability(be.reliability)}).`
+        : `For the matched artefact to stay within ${formatShare(plan.analysis.tolerableBiasShare)} of the hoped-for effect, the within-group reliability would need to reach ${formatReliability(be.reliability)}${be.parallelForms === null ? '' : `, for example by averaging ${be.parallelForms} parallel forms of the pretest (Spearman–Brown)`}.`,
+    );
+  }
+  if (be.note) w.paragraph(be.note, { size: 9, muted: true });
+  if (analytic.remedies.length === 0) {
+    w.paragraph('No remedy is needed under this model: the planned design already keeps the expected artefact within the tolerable share.');
+  }
+  analytic.remedies.forEach((r, i) => {
+    const parts = [
+      `${r.title}${i === 0 ? ' (recommended)' : ''}. ${r.summary}`,
+      `Expected artefact with this remedy: ${formatSignedPoints(r.remainingBias)} points${r.remainingBiasShare === null ? '' : ` (${formatShare(r.remainingBiasShare)} of the effect)`}${r.discardedShare === null ? '' : `; about ${formatShare(r.discardedShare)} of the programme pool discarded`}.`,
+      `Assumes: ${r.assumption}`,
+    ];
+    w.item(`${i + 1}.`, parts.join(' '));
+  });
+
+  // ---- Method and references ----------------------------------------------
+  w.heading('How this was computed');
+  for (const line of MODEL_LINES) w.item('•', line, 9.5);
+  w.heading('References', 3);
+  for (const ref of REFERENCES) w.item('–', ref, 9);
+
+  // ---- Cautions ------------------------------------------------------------
+  w.heading('Cautions');
+  for (const c of CAUTIONS) w.item('•', c, 9.5);
+
+  // ---- Reproducibility -----------------------------------------------------
+  w.heading('Reproducibility');
+  w.table(
+    [
+      { header: 'Item', width: 40 },
+      { header: 'Value', width: 60 },
+    ],
+    [
+      ['Meanward version', appVersion],
+      ['Generated', formatDateTime(generatedAt)],
+      ['Random seed', String(sim ? sim.seed : plan.simulation.seed) + (sim ? '' : ' (simulation not yet run)')],
+      ['Replications', formatCount(sim ? sim.replications : plan.simulation.replications) + (sim ? '' : ' (planned)')],
+    ],
+  );
+  w.paragraph(
+    `The complete plan file follows. To recreate the plan, copy the lines between the two marker lines into a text file, join each line ending in ${CONTINUATION} to the next (removing the ${CONTINUATION} and the line break), and open the file in Meanward. The same plan and seed give the same simulated figures.`,
+    { size: 9 },
+  );
+  const json = serializePlan(plan).replace(/\n$/, '');
+  w.mono([PLAN_BEGIN, ...json.split('\n'), PLAN_END], CONTINUATION);
+
+  w.footers(`Meanward ${appVersion} · ${REPORT_HEADING} · planning aid, not a statistician’s review`);
+  return new Uint8Array(doc.output('arraybuffer'));
+}
+
+/** "The groups …." → "the groups …" (for use inside a sentence; no final full stop). */
+function lowerFirst(s: string): string {
+  const t = s.trim().replace(/\.$/, '');
+  return t.length > 1 && /^[A-Z][a-z]/.test(t) ? t.charAt(0).toLowerCase() + t.slice(1) : t;
+}

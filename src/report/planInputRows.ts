@@ -1,0 +1,78 @@
+import type { Plan } from '../core/plan';
+import { DEMO_PLAN } from '../io/demoPlan';
+import { formatInput } from './format';
+
+/** Where an input value came from. */
+export type InputSource = 'entered' | 'example' | 'pilot data';
+
+/** One row of the assumptions table: an input as the researcher gave it. */
+export interface PlanInputRow {
+  /** Dotted path in the plan file, e.g. "groups.programme.poolSize". */
+  path: string;
+  label: string;
+  value: string;
+  unit: string;
+  source: InputSource;
+}
+
+function at(obj: unknown, path: string): unknown {
+  return path.split('.').reduce<unknown>((o, k) => (o && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
+}
+
+const MATCHING_METHOD: Record<Plan['matching']['method'], string> = {
+  nearest: 'nearest neighbour within the caliper',
+  'random-within-caliper': 'random partner within the caliper',
+};
+const MATCHING_ORDER: Record<NonNullable<Plan['matching']['order']>, string> = {
+  random: 'random order',
+  'lowest-first': 'lowest pretest first',
+  'highest-first': 'highest pretest first',
+};
+
+/**
+ * Every input of the plan, with its unit and source, in the order of the
+ * planner's form. Values are shown as entered (no statistic is computed).
+ * Source: the `provenance` map when given; otherwise "example" for values that
+ * equal the built-in invented demo plan's when the plan is that demo, else
+ * "entered".
+ */
+export function planInputRows(plan: Plan, provenance?: Partial<Record<string, InputSource>>): PlanInputRow[] {
+  const isDemo = plan.title === DEMO_PLAN.title;
+  const rows: Omit<PlanInputRow, 'source'>[] = [];
+  const add = (path: string, label: string, unit: string, display?: (v: unknown) => string) => {
+    const v = at(plan, path);
+    if (v === undefined) return;
+    rows.push({ path, label, unit, value: display ? display(v) : formatInput(v as number | string | boolean) });
+  };
+  for (const g of ['programme', 'comparison'] as const) {
+    const name = g === 'programme' ? 'Programme group' : 'Comparison group';
+    add(`groups.${g}.label`, `${name}: name`, '');
+    add(`groups.${g}.poolSize`, `${name}: people available`, 'people');
+    add(`groups.${g}.pretestMean`, `${name}: pretest mean`, 'test points');
+    add(`groups.${g}.pretestSD`, `${name}: pretest SD (within group)`, 'test points');
+  }
+  add('pretest.reliability', 'Pretest reliability (as published)', 'coefficient, 0–1');
+  add('pretest.referenceSD', 'SD of the population that reliability was estimated in', 'test points');
+  add('pretest.sem', 'Standard error of measurement (SEM)', 'test points');
+  add('outcome.posttestSD', 'Post-test SD (within group)', 'post-test points');
+  add('outcome.prePostCorrelation', 'Pre–post correlation (within group)', 'correlation');
+  add('outcome.growthGap', 'Growth gap not due to the programme (δ)', 'post-test points');
+  add('outcome.hypothesisedEffect', 'Hoped-for programme effect (τ)', plan.outcome.effectScale === 'sd' ? 'post-test SDs' : 'post-test points');
+  add('matching.method', 'Matching method', '', (v) => MATCHING_METHOD[v as Plan['matching']['method']] ?? String(v));
+  add('matching.caliper', 'Caliper', 'SDs of the pooled pretest');
+  add('matching.ratio', 'Comparison partners per programme member', 'people');
+  add('matching.replacement', 'Comparison people may be reused', '');
+  add('matching.order', 'Matching order', '', (v) => MATCHING_ORDER[v as NonNullable<Plan['matching']['order']>] ?? String(v));
+  add('analysis.alpha', 'Significance level (two-sided)', 'probability');
+  add('analysis.assumedReliability', 'Reliability assumed by the corrected ANCOVA (ρ′)', 'coefficient, 0–1');
+  add('analysis.tolerableBiasShare', 'Tolerable artefact, as a share of the effect', 'share');
+  add('analysis.targetPower', 'Target power', 'probability');
+  add('simulation.replications', 'Simulated studies (replications)', 'count');
+  add('simulation.seed', 'Random seed', '');
+  return rows.map((r) => {
+    const given = provenance?.[r.path];
+    const source: InputSource =
+      given ?? (isDemo && JSON.stringify(at(plan, r.path)) === JSON.stringify(at(DEMO_PLAN, r.path)) ? 'example' : 'entered');
+    return { ...r, source };
+  });
+}
