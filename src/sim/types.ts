@@ -3,6 +3,8 @@ import type { AnalysisId, Plan } from '../core/plan';
 /** One Monte Carlo estimate's summary across replications; each figure has its Monte Carlo SE. */
 export interface SimAnalysisSummary {
   id: AnalysisId;
+  /** Sample the analysis was run in: the full unmatched pools or the matched sample (added; optional for older readers). */
+  sample?: 'full' | 'matched';
   meanEstimate: number;
   meanEstimateMCSE: number;
   /** meanEstimate - tau. */
@@ -47,6 +49,8 @@ export interface SimMatchingSummary {
   trueSMDAfter: number;
   /** Variance ratio (programme / comparison) of the observed pretest after matching. */
   varianceRatioAfter: number;
+  /** Replications in which at least one programme member was matched (the "after" figures average over these). Added. */
+  replicationsWithMatches?: number;
 }
 
 /** One example replication's matched sets, for charts. */
