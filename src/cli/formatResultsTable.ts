@@ -1,0 +1,52 @@
+import type { AnalyticResults } from '../core/analyticResults';
+import { ANALYSIS_IDS, type Plan } from '../core/plan';
+
+/** The caution printed under every result. */
+export const PLANNING_CAUTION =
+  'Caution: Meanward is a planning aid built on stated assumptions; it is not a substitute for review by a statistician or an ethics board.';
+
+/** Display formats (formatting only; every figure comes from analysePlan). */
+export const fmtPoints = (x: number): string => x.toFixed(2);
+export const fmtSD = (x: number): string => x.toFixed(3);
+export const fmtReliability = (x: number): string => x.toFixed(3);
+export const fmtPercent = (x: number | null): string => (x === null ? 'n/a' : `${(x * 100).toFixed(1)}%`);
+
+/**
+ * The readable result of "meanward run": per analysis the expected estimate,
+ * bias (points and SD units), bias as a share of the effect, power and
+ * false-positive rate; then the reliabilities, SEM and break-even reliability.
+ */
+export function formatResultsTable(plan: Plan, results: AnalyticResults): string {
+  const lines: string[] = [];
+  lines.push(plan.title === '' ? 'Untitled plan' : plan.title);
+  lines.push('');
+  lines.push(
+    `Hypothesised effect: ${fmtPoints(results.tau)} posttest points. Programme: ${plan.groups.programme.label} (${plan.groups.programme.poolSize}); comparison: ${plan.groups.comparison.label} (${plan.groups.comparison.poolSize}).`,
+  );
+  lines.push('');
+  lines.push('Expected results (closed form: large pools, exact matching)');
+  const header = ['Analysis', 'Expected estimate', 'Bias (points)', 'Bias (SD)', 'Share of effect', 'Power', 'False-positive rate'];
+  const rows = ANALYSIS_IDS.map((id) => {
+    const a = results.analyses[id];
+    return [a.name, fmtPoints(a.expectedEstimate), fmtPoints(a.bias), fmtSD(a.biasSD), fmtPercent(a.biasShare), fmtPercent(a.power), fmtPercent(a.falsePositiveRate)];
+  });
+  const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c]!.length)));
+  const line = (cells: string[]) => cells.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]!) : cell.padStart(widths[c]!))).join('  ');
+  lines.push(line(header));
+  lines.push(widths.map((w) => '-'.repeat(w)).join('  '));
+  for (const r of rows) lines.push(line(r));
+  lines.push('');
+  lines.push('Pretest');
+  lines.push(`  Within-group reliability, programme:  ${fmtReliability(results.reliability.programme)}`);
+  lines.push(`  Within-group reliability, comparison: ${fmtReliability(results.reliability.comparison)}`);
+  lines.push(`  Standard error of measurement (SEM):  ${fmtPoints(results.reliability.sem)} points`);
+  const be = results.breakEven;
+  lines.push(
+    be.reliability === null
+      ? `  Break-even reliability: not applicable. ${be.note}`
+      : `  Break-even reliability: ${fmtReliability(be.reliability)} (${be.alreadyMet ? 'already met' : 'not met'}${
+          be.parallelForms !== null && !be.alreadyMet ? `; about ${be.parallelForms} averaged parallel pretests would reach it` : ''
+        }). ${be.note}`.trimEnd(),
+  );
+  return `${lines.join('\n')}\n`;
+}

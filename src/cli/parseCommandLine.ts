@@ -1,0 +1,97 @@
+import { PLAN_LIMITS } from '../core/planSchema';
+
+/** What the command line asked for, after checking every flag. */
+export type CommandLine =
+  | { command: 'help' }
+  | { command: 'demo' }
+  | {
+      command: 'run';
+      file: string;
+      json: boolean;
+      /** false with --no-sim. */
+      simulate: boolean;
+      /** --reps N overrides the plan's simulation.replications. */
+      replications?: number;
+      /** --seed S overrides the plan's simulation.seed. */
+      seed?: number;
+    };
+
+export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; problems: string[] };
+
+/**
+ * Read the arguments after "meanward": `run <plan.json> [--json] [--reps N]
+ * [--seed S] [--no-sim]`, `demo`, or `--help`. Reports every problem at once.
+ */
+export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
+  const args = [...argv];
+  if (args.length === 0) return { ok: false, problems: ['No command given. Try "meanward --help".'] };
+  if (args.includes('--help') || args.includes('-h') || args[0] === 'help') return { ok: true, value: { command: 'help' } };
+  const [command, ...rest] = args;
+  if (command === 'demo') {
+    if (rest.length > 0) return { ok: false, problems: [`"meanward demo" takes no arguments; got ${rest.map(quote).join(' ')}.`] };
+    return { ok: true, value: { command: 'demo' } };
+  }
+  if (command !== 'run') {
+    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run" and "demo"; see "meanward --help".`] };
+  }
+  const problems: string[] = [];
+  const files: string[] = [];
+  let json = false;
+  let simulate = true;
+  let replications: number | undefined;
+  let seed: number | undefined;
+  for (let i = 0; i < rest.length; i++) {
+    const a = rest[i]!;
+    const eq = a.indexOf('=');
+    const flag = a.startsWith('--') && eq > 0 ? a.slice(0, eq) : a;
+    const inline = a.startsWith('--') && eq > 0 ? a.slice(eq + 1) : undefined;
+    const takeValue = (): string | undefined => {
+      if (inline !== undefined) return inline;
+      const next = rest[i + 1];
+      if (next === undefined || next.startsWith('--')) return undefined;
+      i++;
+      return next;
+    };
+    switch (flag) {
+      case '--json':
+        json = true;
+        break;
+      case '--no-sim':
+        simulate = false;
+        break;
+      case '--reps': {
+        const v = takeValue();
+        const n = wholeNumber(v, 1, PLAN_LIMITS.replicationsMax);
+        if (n === undefined) {
+          problems.push(`--reps (number of simulated replications) must be a whole number from 1 to ${PLAN_LIMITS.replicationsMax}; got ${v === undefined ? 'nothing' : quote(v)}.`);
+        } else replications = n;
+        break;
+      }
+      case '--seed': {
+        const v = takeValue();
+        const n = wholeNumber(v, 0, PLAN_LIMITS.seedMax);
+        if (n === undefined) {
+          problems.push(`--seed (simulation seed) must be a whole number from 0 to ${PLAN_LIMITS.seedMax}; got ${v === undefined ? 'nothing' : quote(v)}.`);
+        } else seed = n;
+        break;
+      }
+      default:
+        if (a.startsWith('-') && a !== '-') problems.push(`Unknown option ${quote(a)}. "meanward run" takes --json, --reps N, --seed S and --no-sim.`);
+        else files.push(a);
+    }
+  }
+  if (files.length === 0) problems.push('"meanward run" needs a plan file, e.g. "meanward run plan.json".');
+  if (files.length > 1) problems.push(`"meanward run" takes one plan file; got ${files.length}: ${files.map(quote).join(', ')}.`);
+  if (problems.length > 0) return { ok: false, problems };
+  return { ok: true, value: { command: 'run', file: files[0]!, json, simulate, replications, seed } };
+}
+
+function wholeNumber(v: string | undefined, min: number, max: number): number | undefined {
+  if (v === undefined || !/^\d+$/.test(v)) return undefined;
+  const n = Number(v);
+  return n >= min && n <= max ? n : undefined;
+}
+
+function quote(s: string): string {
+  return JSON.stringify(s);
+}
