@@ -1,0 +1,72 @@
+import type { AnalyticAnalysis } from './analyticResults';
+import type { AnalysisId } from './plan';
+import type { ModelParameters } from './modelParameters';
+import { ANALYSIS_DESCRIPTIONS } from './analysisDescriptions';
+import { analysisStandardError } from './analysisStandardError';
+import { classifyArtefact } from './classifyArtefact';
+import { expectedEstimate } from './expectedEstimate';
+import { falsePositiveRate, twoSidedPower, wrongSignRate } from './power';
+import { requiredNPerGroup } from './requiredNPerGroup';
+
+/** The plan settings one analysis' results depend on. */
+export interface AnalysisSettings {
+  /** Two-sided significance level in (0, 1). */
+  alpha: number;
+  /** rho' for the corrected ANCOVA, in (0, 1]. */
+  assumedReliability: number;
+  /** Share of |tau| an artefact may reach (≥ 0). */
+  tolerableBiasShare: number;
+  /** Target power for the required n, in (alpha, 1). */
+  targetPower: number;
+  /** Comparison partners per matched programme member (≥ 1). */
+  ratio: number;
+  /** Expected number of matched programme members (programme pool × expected matched share). */
+  matchedProgramme: number;
+}
+
+/**
+ * Closed-form results for one analysis: expected estimate, bias (in points, in
+ * posttest SDs and as a share of tau), verdict, approximate SE and df, power
+ * with and without the bias, false-positive and wrong-sign rates, and the n per
+ * group needed for the target power.
+ *
+ * Reference: expected estimates — Thorndike (1942), Lord (1960), Porter (1967);
+ * power — Cohen (1988), ch. 2. SEs are the approximations documented in
+ * analysisStandardError.
+ *
+ * @param id analysis. @param m model parameters. @param s settings (see AnalysisSettings).
+ * @returns an AnalyticAnalysis record.
+ * @throws Error when a setting is out of range.
+ * @example demo plan, matchedDifference → bias −2 points (0.8·0.25·(−10)), verdict 'hides'
+ */
+export function analyseAnalysis(id: AnalysisId, m: ModelParameters, s: AnalysisSettings): AnalyticAnalysis {
+  const tau = m.effect;
+  const estimate = expectedEstimate(id, m, s.assumedReliability);
+  const bias = estimate - tau;
+  const options = { assumedReliability: s.assumedReliability, ratio: s.ratio };
+  const sizes =
+    id === 'matchedDifference'
+      ? { programme: s.matchedProgramme, comparison: s.matchedProgramme * s.ratio }
+      : { programme: m.n.programme, comparison: m.n.comparison };
+  const { se, df, nProgramme, nComparison } = analysisStandardError(id, m, sizes, options);
+  const design = (n: number) => analysisStandardError(id, m, { programme: n, comparison: n }, options);
+  return {
+    id,
+    name: ANALYSIS_DESCRIPTIONS[id].name,
+    assumption: ANALYSIS_DESCRIPTIONS[id].assumption,
+    expectedEstimate: estimate,
+    bias,
+    biasSD: bias / m.posttestSD.comparison,
+    biasShare: tau === 0 ? null : bias / tau,
+    verdict: classifyArtefact(tau, bias, s.tolerableBiasShare),
+    se,
+    df,
+    nProgramme,
+    nComparison,
+    power: twoSidedPower(estimate, se, df, s.alpha),
+    powerWithoutBias: twoSidedPower(tau, se, df, s.alpha),
+    falsePositiveRate: falsePositiveRate(bias, se, df, s.alpha),
+    wrongSignRate: wrongSignRate(tau, bias, se, df, s.alpha),
+    requiredNPerGroup: requiredNPerGroup(estimate, tau, design, s.alpha, s.targetPower),
+  };
+}

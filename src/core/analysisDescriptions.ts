@@ -1,0 +1,29 @@
+import type { AnalysisId } from './plan';
+
+/**
+ * Plain names of the four analyses and the one-line assumption under which
+ * each is unbiased (Lord 1960; Porter 1967; Campbell & Erlebacher 1970;
+ * common practice). Shown on screen and in reports: use these, never retype them.
+ */
+export const ANALYSIS_DESCRIPTIONS: Record<AnalysisId, { name: string; assumption: string }> = {
+  matchedDifference: {
+    name: 'Matched post-test difference',
+    assumption:
+      'Unbiased only if the groups do not differ in true pretest scores, or the pretest is perfectly reliable, and growth is parallel.',
+  },
+  ancova: {
+    name: 'ANCOVA on the observed pretest',
+    assumption:
+      'Unbiased only if assignment depended on the observed pretest itself, or the pretest is perfectly reliable, and growth is parallel.',
+  },
+  gainScore: {
+    name: 'Gain score (post-test minus pretest)',
+    assumption:
+      'Unbiased only if both groups would have grown alike without the programme: parallel growth and a slope of 1 on the pretest.',
+  },
+  correctedAncova: {
+    name: 'Reliability-corrected ANCOVA',
+    assumption:
+      'Unbiased only if the assumed reliability equals the true within-group reliability and growth is parallel.',
+  },
+};
