@@ -30,3 +30,11 @@ export interface ChartText {
   sentences: string[];
   table: TextTable;
 }
+
+/** What every chart transform reads: the plan, its closed-form results, and (optionally) a simulation. */
+export interface ChartInput {
+  plan: import('../core/plan').Plan;
+  analytic: import('../core/analyticResults').AnalyticResults;
+  /** Present once a simulation of this plan has run; charts get richer with it. */
+  simulation?: import('../sim/types').SimulationResult | null;
+}

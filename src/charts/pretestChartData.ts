@@ -1,0 +1,109 @@
+import { expectedMatchedRegion } from '../core/expectedMatchedRegion';
+import { matchedSampleMeans } from '../core/matchedSampleMeans';
+import { matchedTrueScoreMeans, type MatchedTrueScoreMeans } from '../core/matchedTrueScoreMeans';
+import { observedPretestDensity } from '../core/observedPretestDensity';
+import type { ChartInput } from './chartTypes';
+
+export type GroupKey = 'programme' | 'comparison';
+
+/** One group's observed-pretest curve. */
+export interface PretestGroupCurve {
+  label: string;
+  mean: number;
+  observedSD: number;
+  reliability: number;
+  /** Density per test point at evenly spaced scores. */
+  points: { x: number; density: number }[];
+}
+
+/** A scatter of one group's matched members in the example replication. */
+export interface ExampleMarks {
+  observed: number;
+  trueScore: number;
+}
+
+/** Plain data for the "Pretest distributions" chart. */
+export interface PretestChartData {
+  chart: 'pretest';
+  title: string;
+  xLabel: string;
+  xDomain: [number, number];
+  yMax: number;
+  groups: Record<GroupKey, PretestGroupCurve>;
+  /** Where programme members are expected to find partners, or where they did in the example study. */
+  region: { lower: number; upper: number; source: 'closed-form' | 'example' } | null;
+  /**
+   * Matched members' mean observed pretest and their expected true-score means
+   * (Kelley). Closed form: exact matching from an unlimited pool. With a
+   * simulation: Kelley's expectation at the example study's matched observed means.
+   */
+  kelley: MatchedTrueScoreMeans & { source: 'closed-form' | 'example' };
+  /** The example simulated study's matched members, when a simulation exists. */
+  example: {
+    programme: ExampleMarks[];
+    comparison: ExampleMarks[];
+    discarded: number;
+    means: { observed: Record<GroupKey, number>; trueScore: Record<GroupKey, number> };
+  } | null;
+}
+
+const GRID = 121;
+
+/**
+ * Transform plan + results into the pretest-distributions chart's data.
+ * Pure and deterministic; every statistic comes from src/core or the simulation.
+ */
+export function pretestChartData({ plan, analytic, simulation }: ChartInput): PretestChartData {
+  const m = analytic.model;
+  const keys: GroupKey[] = ['programme', 'comparison'];
+  const lo = Math.min(m.mean.programme - 3.5 * m.observedSD.programme, m.mean.comparison - 3.5 * m.observedSD.comparison);
+  const hi = Math.max(m.mean.programme + 3.5 * m.observedSD.programme, m.mean.comparison + 3.5 * m.observedSD.comparison);
+  let yMax = 0;
+  const groups = {} as Record<GroupKey, PretestGroupCurve>;
+  for (const g of keys) {
+    const points = Array.from({ length: GRID }, (_, i) => {
+      const x = lo + ((hi - lo) * i) / (GRID - 1);
+      return { x, density: observedPretestDensity(x, m.mean[g], m.observedSD[g]) };
+    });
+    for (const p of points) yMax = Math.max(yMax, p.density);
+    groups[g] = {
+      label: plan.groups[g].label,
+      mean: m.mean[g],
+      observedSD: m.observedSD[g],
+      reliability: m.reliability[g],
+      points,
+    };
+  }
+
+  const pairs = simulation?.example.pairs ?? [];
+  let region: PretestChartData['region'] = null;
+  let kelley: PretestChartData['kelley'];
+  let example: PretestChartData['example'] = null;
+  if (simulation && pairs.length > 0) {
+    const means = matchedSampleMeans(pairs);
+    kelley = { ...matchedTrueScoreMeans(m, means.observed), source: 'example' };
+    const matchedX = pairs.map((p) => p.programme.observed);
+    region = { lower: Math.min(...matchedX), upper: Math.max(...matchedX), source: 'example' };
+    example = {
+      programme: pairs.map((p) => ({ observed: p.programme.observed, trueScore: p.programme.trueScore })),
+      comparison: pairs.flatMap((p) => p.comparison.map((c) => ({ observed: c.observed, trueScore: c.trueScore }))),
+      discarded: simulation.example.discarded.length,
+      means: { observed: means.observed, trueScore: means.trueScore },
+    };
+  } else {
+    kelley = { ...matchedTrueScoreMeans(m), source: 'closed-form' };
+    const r = expectedMatchedRegion(m, plan.matching.caliper, plan.matching.ratio);
+    region = r ? { ...r, source: 'closed-form' } : null;
+  }
+  return {
+    chart: 'pretest',
+    title: 'Pretest distributions: matched on the observed score, apart on the true score',
+    xLabel: 'Observed pretest score (test points)',
+    xDomain: [lo, hi],
+    yMax,
+    groups,
+    region,
+    kelley,
+    example,
+  };
+}
