@@ -1,0 +1,45 @@
+// Public API of the statistical core. UI, report, CLI and simulation import from here.
+export * from './plan';
+export type { ModelParameters } from './modelParameters';
+export type * from './analyticResults';
+export { deriveModelParameters, standardErrorOfMeasurement } from './deriveModelParameters';
+export { reliabilityToSem } from './reliabilityToSem';
+export { semToReliability } from './semToReliability';
+export { trueScoreSD } from './trueScoreSD';
+export { withinGroupReliability } from './withinGroupReliability';
+export { kelleyTrueScore } from './kelleyTrueScore';
+export { spearmanBrown } from './spearmanBrown';
+export { parallelFormsNeeded } from './parallelFormsNeeded';
+export { outcomeSlope, type OutcomeModel } from './outcomeSlope';
+export {
+  matchedDifferenceEstimate,
+  ancovaEstimate,
+  gainScoreEstimate,
+  correctedAncovaEstimate,
+  expectedEstimate,
+} from './expectedEstimate';
+export {
+  analysisStandardError,
+  type StandardErrorResult,
+  type StandardErrorOptions,
+} from './analysisStandardError';
+export { normalCdf, normalPdf, normalQuantile, studentTCdf, studentTQuantile, noncentralTCdf } from './distributions';
+export { twoSidedPower, falsePositiveRate, wrongSignRate } from './power';
+export { requiredNPerGroup, type DesignAtN } from './requiredNPerGroup';
+export { caliperWidth } from './caliperWidth';
+export { expectedMatchedShare, type MatchingDemand } from './expectedMatchedShare';
+export { breakEvenReliability } from './breakEvenReliability';
+export { classifyArtefact } from './classifyArtefact';
+export { modelWithSem, modelWithPretestGap, modelWithPoolSizes } from './adjustModel';
+export { rankRemedies } from './rankRemedies';
+export {
+  sensitivityCurve,
+  type SensitivityCurve,
+  type SensitivityPoint,
+  type SensitivityVariable,
+} from './sensitivityCurve';
+export { ANALYSIS_DESCRIPTIONS } from './analysisDescriptions';
+export { analyseAnalysis, type AnalysisSettings } from './analyseAnalysis';
+export { analysePlan, DEFAULT_TARGET_POWER } from './analysePlan';
+export { assertFiniteOutput } from './assertFiniteOutput';
+export { formatNumber } from './inputChecks';

@@ -1,0 +1,110 @@
+import { ANALYSIS_IDS, type AnalysisId, type Plan } from './plan';
+import type { ModelParameters } from './modelParameters';
+import { modelWithPretestGap, modelWithSem } from './adjustModel';
+import { assertFiniteOutput } from './assertFiniteOutput';
+import { breakEvenReliability } from './breakEvenReliability';
+import { deriveModelParameters } from './deriveModelParameters';
+import { expectedEstimate } from './expectedEstimate';
+import { formatNumber } from './inputChecks';
+
+/** What the sensitivity curve varies. */
+export type SensitivityVariable = 'reliability' | 'pretestGap';
+
+/** One point of a sensitivity curve: x and the expected bias (points) of each analysis. */
+export interface SensitivityPoint {
+  x: number;
+  bias: Record<AnalysisId, number>;
+}
+
+export interface SensitivityCurve {
+  variable: SensitivityVariable;
+  /** Axis label, plain language. */
+  xLabel: string;
+  /** The plan's current x. */
+  current: number;
+  points: SensitivityPoint[];
+  /** Hoped-for effect tau, posttest points. */
+  effect: number;
+  /** Bias band tolerated: ±tolerableBiasShare·|tau|, posttest points. */
+  tolerableBand: { lower: number; upper: number };
+  /** x values at which the matched-difference artefact reaches the band's edge (growth gap aside); may be empty. */
+  breakEvenX: number[];
+}
+
+/**
+ * Expected bias of each analysis as one design feature varies, for charts.
+ *
+ * - 'reliability': x is the pretest's reliability in its reference population
+ *   (SD = plan.pretest.referenceSD, default the comparison pretest SD), on a
+ *   grid from 0.3 to 1. True scores and the outcome model stay fixed; the SEM
+ *   is referenceSD·sqrt(1 − x) (Lord & Novick 1968, from memory), and each
+ *   group's within-group reliability follows.
+ * - 'pretestGap': x is the programme-minus-comparison pretest gap, on a grid
+ *   symmetric around the current gap (± max(|gap|, pooled pretest SD)).
+ * Biases are the closed forms of expectedEstimate (Thorndike 1942; Lord 1960;
+ * Porter 1967). Pure and deterministic.
+ *
+ * @param plan a validated plan.
+ * @param variable 'reliability' | 'pretestGap'.
+ * @param points grid points (integer 3..1001; default 41).
+ * @returns the curve, band and break-even x values (all finite).
+ * @throws Error when points is out of range or the plan's inputs contradict each other.
+ * @example demo plan, 'reliability': at x = 1 the matched-difference bias is 0,
+ *   at x = 0.75 it is −2 points; break-even x ≈ 0.936
+ */
+export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, points = 41): SensitivityCurve {
+  if (!Number.isInteger(points) || points < 3 || points > 1001) {
+    throw new Error(`The number of curve points must be a whole number from 3 to 1001; got ${formatNumber(points)}.`);
+  }
+  const m = deriveModelParameters(plan);
+  const tau = m.effect;
+  const share = plan.analysis.tolerableBiasShare;
+  const rhoA = plan.analysis.assumedReliability;
+  const biasOf = (mx: ModelParameters): Record<AnalysisId, number> =>
+    Object.fromEntries(ANALYSIS_IDS.map((id) => [id, expectedEstimate(id, mx, rhoA) - tau])) as Record<AnalysisId, number>;
+  const grid = (lo: number, hi: number): number[] =>
+    Array.from({ length: points }, (_, i) => (i === points - 1 ? hi : lo + ((hi - lo) * i) / (points - 1)));
+
+  let result: SensitivityCurve;
+  const band = { lower: -share * Math.abs(tau), upper: share * Math.abs(tau) };
+  if (variable === 'reliability') {
+    const refSD = plan.pretest.referenceSD ?? plan.groups.comparison.pretestSD;
+    const semAt = (x: number): number => refSD * Math.sqrt(Math.max(0, 1 - x));
+    const be = breakEvenReliability(m, share);
+    const breakEvenX: number[] = [];
+    if (be.reliability !== null) {
+      // Within-group rho* ↔ SEM² = trueVar_C (1 − rho*)/rho* ↔ reference reliability 1 − SEM²/refSD².
+      const sem2 = (m.trueSD.comparison ** 2 * (1 - be.reliability)) / be.reliability;
+      const x = 1 - sem2 / (refSD * refSD);
+      if (x > 0 && x <= 1) breakEvenX.push(x);
+    }
+    result = {
+      variable,
+      xLabel: 'Pretest reliability in its reference population',
+      current: 1 - (m.sem * m.sem) / (refSD * refSD),
+      points: grid(0.3, 1).map((x) => ({ x, bias: biasOf(modelWithSem(m, semAt(x))) })),
+      effect: tau,
+      tolerableBand: band,
+      breakEvenX,
+    };
+  } else {
+    const pooledSD = Math.sqrt((m.observedSD.programme ** 2 + m.observedSD.comparison ** 2) / 2);
+    const w = Math.max(Math.abs(m.pretestGap), pooledSD);
+    const slope = m.beta * (1 - m.reliability.comparison);
+    const breakEvenX: number[] = [];
+    if (tau !== 0 && slope !== 0) {
+      const g = (share * Math.abs(tau)) / Math.abs(slope);
+      for (const x of [-g, g]) if (x >= m.pretestGap - w && x <= m.pretestGap + w) breakEvenX.push(x);
+    }
+    result = {
+      variable,
+      xLabel: 'Pretest gap, programme minus comparison (points)',
+      current: m.pretestGap,
+      points: grid(m.pretestGap - w, m.pretestGap + w).map((x) => ({ x, bias: biasOf(modelWithPretestGap(m, x)) })),
+      effect: tau,
+      tolerableBand: band,
+      breakEvenX,
+    };
+  }
+  return assertFiniteOutput(result, 'sensitivity curve');
+}
