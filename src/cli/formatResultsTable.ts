@@ -6,10 +6,12 @@ export const PLANNING_CAUTION =
   'Caution: Meanward is a planning aid built on stated assumptions; it is not a substitute for review by a statistician or an ethics board.';
 
 /** Display formats (formatting only; every figure comes from analysePlan). */
-export const fmtPoints = (x: number): string => x.toFixed(2);
-export const fmtSD = (x: number): string => x.toFixed(3);
-export const fmtReliability = (x: number): string => x.toFixed(3);
-export const fmtPercent = (x: number | null): string => (x === null ? 'n/a' : `${(x * 100).toFixed(1)}%`);
+// A tiny negative number rounds to "-0.00"; show it as "0.00".
+const fixed = (x: number, digits: number): string => x.toFixed(digits).replace(/^-(0\.?0*)$/, '$1');
+export const fmtPoints = (x: number): string => fixed(x, 2);
+export const fmtSD = (x: number): string => fixed(x, 3);
+export const fmtReliability = (x: number): string => fixed(x, 3);
+export const fmtPercent = (x: number | null): string => (x === null ? 'n/a' : `${fixed(x * 100, 1)}%`);
 
 /**
  * The readable result of "meanward run": per analysis the expected estimate,
@@ -43,10 +45,8 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   const be = results.breakEven;
   lines.push(
     be.reliability === null
-      ? `  Break-even reliability: not applicable. ${be.note}`
-      : `  Break-even reliability: ${fmtReliability(be.reliability)} (${be.alreadyMet ? 'already met' : 'not met'}${
-          be.parallelForms !== null && !be.alreadyMet ? `; about ${be.parallelForms} averaged parallel pretests would reach it` : ''
-        }). ${be.note}`.trimEnd(),
+      ? `  Break-even reliability: not applicable. ${be.note}`.trimEnd()
+      : `  Break-even reliability: ${fmtReliability(be.reliability)} (${be.alreadyMet ? 'already met' : 'not met'}). ${be.note}`.trimEnd(),
   );
   return `${lines.join('\n')}\n`;
 }
