@@ -1,0 +1,31 @@
+import { StrictMode } from 'react';
+import { createRoot } from 'react-dom/client';
+import { demoPlan } from './io/demoPlan';
+import { defaultDeps } from './state/defaultDeps';
+import { isShareFragment } from './state/persistenceSlice';
+import { createSimulationRunner } from './state/simulationRunner';
+import { createMeanwardStore, getAppStore, setAppStoreFactory } from './state/store';
+import { App } from './ui/App';
+import './ui/styles.css';
+
+setAppStoreFactory(() =>
+  createMeanwardStore({
+    deps: defaultDeps(typeof Worker === 'undefined' ? null : createSimulationRunner()),
+    demo: demoPlan,
+  }),
+);
+
+const store = getAppStore();
+// A shared link wins over the autosave; a bad link keeps the restored plan and says why.
+if (isShareFragment(location.hash)) store.getState().openShareFragment(location.hash);
+window.addEventListener('hashchange', () => {
+  if (isShareFragment(location.hash)) store.getState().openShareFragment(location.hash);
+});
+
+const root = document.getElementById('root');
+if (!root) throw new Error('The page has no #root element.');
+createRoot(root).render(
+  <StrictMode>
+    <App />
+  </StrictMode>,
+);

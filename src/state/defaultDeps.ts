@@ -1,0 +1,33 @@
+import { analysePlan } from '../core/analysePlan';
+import { validatePlan } from '../core/validatePlan';
+import { EXAMPLE_PLANS } from '../io/examplePlans';
+import { parsePlanText, serializePlan } from '../io/planFile';
+import { decodePlanFromLink, encodePlanForLink } from '../io/shareLink';
+import type { MeanwardDeps, SimulationRunner } from './deps';
+
+/** The browser's localStorage, or null when it is blocked (some private modes). */
+function browserStorage(): MeanwardDeps['storage'] {
+  try {
+    const s = globalThis.localStorage;
+    if (!s) return null;
+    s.getItem('meanward.probe');
+    return s;
+  } catch {
+    return null;
+  }
+}
+
+/** The real dependencies: core, io, and (when given) the simulation worker client. */
+export function defaultDeps(simulation: SimulationRunner | null): MeanwardDeps {
+  return {
+    validatePlan,
+    analysePlan,
+    simulation,
+    storage: browserStorage(),
+    examples: EXAMPLE_PLANS,
+    parsePlanText,
+    serializePlan,
+    encodePlanForLink,
+    decodePlanFromLink,
+  };
+}

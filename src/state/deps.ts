@@ -1,0 +1,46 @@
+import type { AnalyticResults } from '../core/analyticResults';
+import type { Plan } from '../core/plan';
+import type { SimulationResult } from '../sim/types';
+import type { PlanCheck } from '../core/validatePlan';
+
+/** Outcome of checking a candidate plan (src/core/validatePlan). */
+export type { PlanCheck };
+
+/** Runs the Monte Carlo simulation off the main thread (src/sim/simulationClient). */
+export interface SimulationRunner {
+  /** Resolves with the result; rejects when cancelled or on failure. progress is in [0, 1]. */
+  run(plan: Plan, onProgress: (progress: number) => void): Promise<SimulationResult>;
+  cancel(): void;
+}
+
+/** One built-in example plan (src/io/examplePlans). */
+export interface ExamplePlan {
+  id: string;
+  name: string;
+  description: string;
+  plan: Plan;
+}
+
+/** Storage the store autosaves into (window.localStorage in the browser). */
+export type DraftStorage = Pick<Storage, 'getItem' | 'setItem' | 'removeItem'>;
+
+/**
+ * Everything the store needs from the rest of the program, injected so the
+ * store can be tested as plain logic. Parsers never throw: they return a
+ * PlanCheck whose problems explain to a researcher what is wrong.
+ */
+export interface MeanwardDeps {
+  validatePlan(input: unknown): PlanCheck;
+  analysePlan(plan: Plan): AnalyticResults;
+  simulation: SimulationRunner | null;
+  storage: DraftStorage | null;
+  examples: readonly ExamplePlan[];
+  /** Parse and check the text of a plan file. */
+  parsePlanText(text: string): PlanCheck;
+  /** Write a plan file's text. */
+  serializePlan(plan: Plan): string;
+  /** The URL fragment that carries a plan ("#plan=…"). */
+  encodePlanForLink(plan: Plan): string;
+  /** Read a plan back from a fragment or whole address, and check it. */
+  decodePlanFromLink(hashOrUrl: string): PlanCheck;
+}

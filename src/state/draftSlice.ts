@@ -1,0 +1,102 @@
+import type { StateCreator } from 'zustand';
+import type { AnalyticResults } from '../core/analyticResults';
+import type { Plan } from '../core/plan';
+import { draftToCandidate, planToDraft, setDraftField, type FieldProblem, type PlanDraft, type PretestMode } from './planDraft';
+import type { MeanwardDeps } from './deps';
+import type { MeanwardState } from './store';
+
+/**
+ * The plan being edited: the raw draft, the last valid plan, the problems
+ * per field, and the closed-form results. Results are recomputed on every
+ * change while the draft is valid; when it is not, the last valid results
+ * stay on screen, marked stale.
+ */
+export interface DraftSlice {
+  draft: PlanDraft;
+  /** The last draft that passed validation, as a Plan. */
+  validPlan: Plan;
+  /** Problems in the current draft, all at once; empty when valid. */
+  problems: FieldProblem[];
+  analytic: AnalyticResults | null;
+  /** True when the shown analytic results belong to an earlier plan than the draft. */
+  analyticStale: boolean;
+  /** Set one field by dotted path (raw text for numbers, booleans and option strings as they are). */
+  setField(path: string, value: string | boolean): void;
+  /** Switch between entering a reliability and entering an SEM; both texts are kept. */
+  setPretestMode(mode: PretestMode): void;
+  /** Replace the whole plan (example, file, link, reset). */
+  replacePlan(plan: Plan): void;
+  /** Replace the whole draft (restoring an autosave). */
+  replaceDraft(draft: PlanDraft): void;
+}
+
+/** Check a draft and, when valid, analyse it. Pure apart from the injected functions. */
+export function evaluateDraft(
+  draft: PlanDraft,
+  deps: Pick<MeanwardDeps, 'validatePlan' | 'analysePlan'>,
+): { plan: Plan; analytic: AnalyticResults } | { problems: FieldProblem[] } {
+  const { candidate, problems: readProblems } = draftToCandidate(draft);
+  const check = deps.validatePlan(candidate);
+  if (!check.ok || readProblems.length > 0) {
+    // Keep one message per field: "not a number" first, then the validator's.
+    const seen = new Set<string>();
+    const problems: FieldProblem[] = [];
+    for (const p of [...readProblems, ...(check.ok ? [] : check.problems)]) {
+      if (seen.has(p.field)) continue;
+      seen.add(p.field);
+      problems.push(p);
+    }
+    return { problems };
+  }
+  try {
+    return { plan: check.plan, analytic: deps.analysePlan(check.plan) };
+  } catch (e) {
+    // Inputs can be valid one by one and still contradict each other
+    // (e.g. a pre–post correlation above the square root of the reliability).
+    const message = e instanceof Error ? e.message : String(e);
+    return { problems: [{ field: fieldForMessage(message), message }] };
+  }
+}
+
+/** Attach a cross-field message to the field a researcher would change. */
+function fieldForMessage(message: string): string {
+  if (/pre.post correlation/i.test(message)) return 'outcome.prePostCorrelation';
+  if (/\bSEM\b/.test(message)) return 'pretest.reliability';
+  return '';
+}
+
+export const createDraftSlice =
+  (deps: MeanwardDeps, initial: PlanDraft, fallback: Plan): StateCreator<MeanwardState, [], [], DraftSlice> =>
+  (set, get) => {
+    const apply = (draft: PlanDraft): Partial<MeanwardState> => {
+      const r = evaluateDraft(draft, deps);
+      if ('problems' in r) {
+        return { draft, problems: r.problems, analyticStale: get()?.analytic != null };
+      }
+      return { draft, problems: [], validPlan: r.plan, analytic: r.analytic, analyticStale: false };
+    };
+    // First evaluation: the initial draft, else the fallback plan's results underneath.
+    const first = evaluateDraft(initial, deps);
+    const base = evaluateDraft(planToDraft(fallback), deps);
+    const baseOk = 'plan' in base ? base : null;
+    const initialState: Pick<DraftSlice, 'draft' | 'validPlan' | 'problems' | 'analytic' | 'analyticStale'> =
+      'plan' in first
+        ? { draft: initial, validPlan: first.plan, problems: [], analytic: first.analytic, analyticStale: false }
+        : {
+            draft: initial,
+            validPlan: baseOk ? baseOk.plan : fallback,
+            problems: first.problems,
+            analytic: baseOk ? baseOk.analytic : null,
+            analyticStale: baseOk !== null,
+          };
+    return {
+      ...initialState,
+      setField: (path, value) => set(apply(setDraftField(get().draft, path, value))),
+      setPretestMode: (mode) => {
+        const d = get().draft;
+        set(apply({ ...d, pretest: { ...d.pretest, mode } }));
+      },
+      replacePlan: (plan) => set(apply(planToDraft(plan))),
+      replaceDraft: (draft) => set(apply(draft)),
+    };
+  };

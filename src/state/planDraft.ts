@@ -1,0 +1,249 @@
+import type { EffectScale, MatchingMethod, MatchingOrder, Plan } from '../core/plan';
+
+/**
+ * The plan as the researcher typed it. Every numeric field is kept as the raw
+ * text from its input box, so an invalid or half-typed value ("0.", "1.4",
+ * "abc") is never replaced or erased; only a valid draft becomes a Plan.
+ * Field paths are the Plan's dotted paths ("pretest.reliability").
+ */
+export interface GroupDraft {
+  label: string;
+  poolSize: string;
+  pretestMean: string;
+  pretestSD: string;
+}
+
+/** Whether the pretest's precision is given as a reliability or as an SEM. */
+export type PretestMode = 'reliability' | 'sem';
+
+export interface PlanDraft {
+  title: string;
+  groups: { programme: GroupDraft; comparison: GroupDraft };
+  pretest: { mode: PretestMode; reliability: string; referenceSD: string; sem: string };
+  outcome: {
+    posttestSD: string;
+    prePostCorrelation: string;
+    growthGap: string;
+    hypothesisedEffect: string;
+    effectScale: EffectScale;
+  };
+  matching: { method: MatchingMethod; caliper: string; ratio: string; replacement: boolean; order: MatchingOrder };
+  analysis: { alpha: string; assumedReliability: string; tolerableBiasShare: string; targetPower: string };
+  simulation: { replications: string; seed: string };
+}
+
+/** A problem with one field (dotted path, or '' for the plan as a whole). */
+export interface FieldProblem {
+  field: string;
+  message: string;
+}
+
+const str = (v: number | undefined): string => (v === undefined || !Number.isFinite(v) ? '' : String(v));
+
+/** The draft that shows a plan exactly (numbers printed in full, no rounding). */
+export function planToDraft(plan: Plan): PlanDraft {
+  const g = (x: Plan['groups']['programme']): GroupDraft => ({
+    label: x.label,
+    poolSize: str(x.poolSize),
+    pretestMean: str(x.pretestMean),
+    pretestSD: str(x.pretestSD),
+  });
+  const semMode = plan.pretest.sem !== undefined && plan.pretest.reliability === undefined;
+  return {
+    title: plan.title,
+    groups: { programme: g(plan.groups.programme), comparison: g(plan.groups.comparison) },
+    pretest: {
+      mode: semMode ? 'sem' : 'reliability',
+      reliability: str(plan.pretest.reliability),
+      referenceSD: str(plan.pretest.referenceSD),
+      sem: str(plan.pretest.sem),
+    },
+    outcome: {
+      posttestSD: str(plan.outcome.posttestSD),
+      prePostCorrelation: str(plan.outcome.prePostCorrelation),
+      growthGap: str(plan.outcome.growthGap),
+      hypothesisedEffect: str(plan.outcome.hypothesisedEffect),
+      effectScale: plan.outcome.effectScale,
+    },
+    matching: {
+      method: plan.matching.method,
+      caliper: str(plan.matching.caliper),
+      ratio: str(plan.matching.ratio),
+      replacement: plan.matching.replacement,
+      order: plan.matching.order ?? 'random',
+    },
+    analysis: {
+      alpha: str(plan.analysis.alpha),
+      assumedReliability: str(plan.analysis.assumedReliability),
+      tolerableBiasShare: str(plan.analysis.tolerableBiasShare),
+      targetPower: str(plan.analysis.targetPower),
+    },
+    simulation: { replications: str(plan.simulation.replications), seed: str(plan.simulation.seed) },
+  };
+}
+
+/** Plain names of the numeric fields, used in "must be a number" messages. */
+export const FIELD_NAMES: Record<string, string> = {
+  'groups.programme.poolSize': 'Programme pool size',
+  'groups.programme.pretestMean': 'Programme pretest mean',
+  'groups.programme.pretestSD': 'Programme pretest SD',
+  'groups.comparison.poolSize': 'Comparison pool size',
+  'groups.comparison.pretestMean': 'Comparison pretest mean',
+  'groups.comparison.pretestSD': 'Comparison pretest SD',
+  'pretest.reliability': 'Reliability',
+  'pretest.referenceSD': 'Reference SD',
+  'pretest.sem': 'SEM',
+  'outcome.posttestSD': 'Posttest SD',
+  'outcome.prePostCorrelation': 'Pre–post correlation',
+  'outcome.growthGap': 'Growth gap',
+  'outcome.hypothesisedEffect': 'Hypothesised effect',
+  'matching.caliper': 'Caliper',
+  'matching.ratio': 'Ratio',
+  'analysis.alpha': 'Significance level (alpha)',
+  'analysis.assumedReliability': 'Assumed reliability',
+  'analysis.tolerableBiasShare': 'Tolerable share',
+  'analysis.targetPower': 'Target power',
+  'simulation.replications': 'Replications',
+  'simulation.seed': 'Seed',
+};
+
+/** Fields that may be left empty (the plan then omits them). */
+const OPTIONAL = new Set(['pretest.referenceSD', 'analysis.targetPower']);
+
+/**
+ * Read one numeric text box. Accepts ordinary decimal notation with an
+ * optional sign and exponent, and a decimal comma ("0,8") since many
+ * researchers type one. Returns a problem message instead of a number when
+ * the text is not a number; range checks are left to validatePlan.
+ */
+export function readNumber(field: string, raw: string): { value: number | undefined; problem?: string } {
+  const name = FIELD_NAMES[field] ?? field;
+  const text = raw.trim();
+  if (text === '') {
+    return OPTIONAL.has(field) ? { value: undefined } : { value: undefined, problem: `${name} is required.` };
+  }
+  const normalised = /^[+-]?\d+,\d+$/.test(text) ? text.replace(',', '.') : text;
+  if (!/^[+-]?(\d+\.?\d*|\.\d+)(e[+-]?\d+)?$/i.test(normalised)) {
+    return { value: undefined, problem: `${name} must be a number; got "${raw}".` };
+  }
+  const value = Number(normalised);
+  if (!Number.isFinite(value)) return { value: undefined, problem: `${name} is too large; got "${raw}".` };
+  return { value };
+}
+
+/**
+ * Turn a draft into a candidate plan object for validatePlan, collecting
+ * "not a number" problems on the way. Fields that could not be read are left
+ * out of the candidate (validatePlan may then report them as well; the
+ * caller keeps the first message per field).
+ */
+export function draftToCandidate(draft: PlanDraft): { candidate: unknown; problems: FieldProblem[] } {
+  const problems: FieldProblem[] = [];
+  const num = (field: string, raw: string): number | undefined => {
+    const r = readNumber(field, raw);
+    if (r.problem) problems.push({ field, message: r.problem });
+    return r.value;
+  };
+  const group = (key: 'programme' | 'comparison') => {
+    const d = draft.groups[key];
+    return {
+      label: d.label,
+      poolSize: num(`groups.${key}.poolSize`, d.poolSize),
+      pretestMean: num(`groups.${key}.pretestMean`, d.pretestMean),
+      pretestSD: num(`groups.${key}.pretestSD`, d.pretestSD),
+    };
+  };
+  const pretest =
+    draft.pretest.mode === 'reliability'
+      ? {
+          reliability: num('pretest.reliability', draft.pretest.reliability),
+          referenceSD: num('pretest.referenceSD', draft.pretest.referenceSD),
+        }
+      : { sem: num('pretest.sem', draft.pretest.sem) };
+  const candidate = {
+    format: 'meanward-plan',
+    version: 1,
+    title: draft.title,
+    groups: { programme: group('programme'), comparison: group('comparison') },
+    pretest: dropUndefined(pretest),
+    outcome: {
+      posttestSD: num('outcome.posttestSD', draft.outcome.posttestSD),
+      prePostCorrelation: num('outcome.prePostCorrelation', draft.outcome.prePostCorrelation),
+      growthGap: num('outcome.growthGap', draft.outcome.growthGap),
+      hypothesisedEffect: num('outcome.hypothesisedEffect', draft.outcome.hypothesisedEffect),
+      effectScale: draft.outcome.effectScale,
+    },
+    matching: {
+      method: draft.matching.method,
+      caliper: num('matching.caliper', draft.matching.caliper),
+      ratio: num('matching.ratio', draft.matching.ratio),
+      replacement: draft.matching.replacement,
+      order: draft.matching.order,
+    },
+    analysis: dropUndefined({
+      alpha: num('analysis.alpha', draft.analysis.alpha),
+      assumedReliability: num('analysis.assumedReliability', draft.analysis.assumedReliability),
+      tolerableBiasShare: num('analysis.tolerableBiasShare', draft.analysis.tolerableBiasShare),
+      targetPower: num('analysis.targetPower', draft.analysis.targetPower),
+    }),
+    simulation: {
+      replications: num('simulation.replications', draft.simulation.replications),
+      seed: num('simulation.seed', draft.simulation.seed),
+    },
+  };
+  return { candidate, problems };
+}
+
+function dropUndefined<T extends Record<string, unknown>>(o: T): Partial<T> {
+  const out: Partial<T> = {};
+  for (const [k, v] of Object.entries(o)) if (v !== undefined) (out as Record<string, unknown>)[k] = v;
+  return out;
+}
+
+/** Set one field of a draft by dotted path, returning a new draft (the input is not mutated). */
+export function setDraftField(draft: PlanDraft, path: string, value: string | boolean): PlanDraft {
+  const next = structuredClone(draft) as unknown as Record<string, unknown>;
+  const keys = path.split('.');
+  let node: Record<string, unknown> = next;
+  for (const k of keys.slice(0, -1)) {
+    const child = node[k];
+    if (typeof child !== 'object' || child === null) throw new Error(`Unknown plan field "${path}".`);
+    node = child as Record<string, unknown>;
+  }
+  const last = keys[keys.length - 1]!;
+  if (!(last in node)) throw new Error(`Unknown plan field "${path}".`);
+  const current = node[last];
+  if (typeof current !== typeof value) throw new Error(`Plan field "${path}" expects a ${typeof current}.`);
+  node[last] = value;
+  return next as unknown as PlanDraft;
+}
+
+/** Whether a stored object looks like a PlanDraft (used when restoring an autosave). */
+export function isPlanDraft(x: unknown): x is PlanDraft {
+  if (typeof x !== 'object' || x === null) return false;
+  const d = x as Record<string, unknown>;
+  const obj = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null;
+  if (typeof d.title !== 'string' || !obj(d.groups) || !obj(d.pretest) || !obj(d.outcome) || !obj(d.matching)) return false;
+  if (!obj(d.analysis) || !obj(d.simulation)) return false;
+  const g = d.groups;
+  for (const k of ['programme', 'comparison']) {
+    const grp = g[k];
+    if (!obj(grp)) return false;
+    for (const f of ['label', 'poolSize', 'pretestMean', 'pretestSD']) if (typeof grp[f] !== 'string') return false;
+  }
+  const strings: [Record<string, unknown>, string[]][] = [
+    [d.pretest, ['reliability', 'referenceSD', 'sem']],
+    [d.outcome, ['posttestSD', 'prePostCorrelation', 'growthGap', 'hypothesisedEffect']],
+    [d.matching, ['caliper', 'ratio']],
+    [d.analysis, ['alpha', 'assumedReliability', 'tolerableBiasShare', 'targetPower']],
+    [d.simulation, ['replications', 'seed']],
+  ];
+  for (const [o, fs] of strings) for (const f of fs) if (typeof o[f] !== 'string') return false;
+  return (
+    (d.pretest.mode === 'reliability' || d.pretest.mode === 'sem') &&
+    (d.outcome.effectScale === 'points' || d.outcome.effectScale === 'sd') &&
+    typeof d.matching.replacement === 'boolean' &&
+    typeof d.matching.method === 'string' &&
+    typeof d.matching.order === 'string'
+  );
+}

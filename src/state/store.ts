@@ -1,0 +1,74 @@
+import { createContext, useContext } from 'react';
+import { useStore } from 'zustand';
+import { createStore, type StoreApi } from 'zustand/vanilla';
+import type { Plan } from '../core/plan';
+import type { MeanwardDeps } from './deps';
+import { createDraftSlice, type DraftSlice } from './draftSlice';
+import { createHighlightSlice, type HighlightSlice } from './highlightSlice';
+import { createPersistenceSlice, readAutosave, type PersistenceSlice } from './persistenceSlice';
+import { planToDraft } from './planDraft';
+import { createSimulationSlice, type SimulationSlice } from './simulationSlice';
+
+/** The whole planner state: one slice per file, combined here. */
+export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice;
+export type MeanwardStore = StoreApi<MeanwardState>;
+
+export interface CreateStoreOptions {
+  deps: MeanwardDeps;
+  /** The plan used when nothing was autosaved, and by "reset". */
+  demo: () => Plan;
+  /** Restore the autosaved draft when there is one (default true). */
+  restore?: boolean;
+}
+
+/**
+ * A fresh planner store. Restores the autosaved draft when there is one,
+ * otherwise starts from the demo plan; autosaves the draft after every change
+ * and keeps the simulation's "stale" mark in step with the plan.
+ */
+export function createMeanwardStore({ deps, demo, restore = true }: CreateStoreOptions): MeanwardStore {
+  const saved = restore ? readAutosave(deps.storage) : null;
+  const initial = saved ?? planToDraft(demo());
+  const store = createStore<MeanwardState>()((...a) => ({
+    ...createDraftSlice(deps, initial, demo())(...a),
+    ...createSimulationSlice(deps)(...a),
+    ...createHighlightSlice(...a),
+    ...createPersistenceSlice(deps, demo)(...a),
+  }));
+  store.subscribe((state, prev) => {
+    if (state.draft !== prev.draft) state.autosave();
+    if (state.validPlan !== prev.validPlan || state.problems !== prev.problems) state.refreshSimulationStale();
+  });
+  return store;
+}
+
+/** The store the components read; the app provides its own, tests a fresh one. */
+export const MeanwardStoreContext = createContext<MeanwardStore | null>(null);
+
+let appStore: MeanwardStore | null = null;
+let appStoreFactory: (() => MeanwardStore) | null = null;
+
+/** Tell the app how to build its store (main.tsx does this once, before rendering). */
+export function setAppStoreFactory(factory: () => MeanwardStore): void {
+  appStoreFactory = factory;
+}
+
+/** The app-wide store, built on first use. */
+export function getAppStore(): MeanwardStore {
+  if (!appStore) {
+    if (!appStoreFactory) throw new Error('The planner store was used before it was set up (call setAppStoreFactory first).');
+    appStore = appStoreFactory();
+  }
+  return appStore;
+}
+
+/** React hook: read a slice of the planner state (from the nearest provider, else the app store). */
+export function useMeanwardStore<T>(selector: (s: MeanwardState) => T): T {
+  const fromContext = useContext(MeanwardStoreContext);
+  return useStore(fromContext ?? getAppStore(), selector);
+}
+
+/** React hook: the store object itself (for imperative reads in event handlers). */
+export function useMeanwardStoreApi(): MeanwardStore {
+  return useContext(MeanwardStoreContext) ?? getAppStore();
+}

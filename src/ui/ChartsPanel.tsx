@@ -1,0 +1,4 @@
+/** The four linked charts (filled in once src/charts lands). */
+export function ChartsPanel() {
+  return null;
+}

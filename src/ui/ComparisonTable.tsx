@@ -1,0 +1,136 @@
+import { ANALYSIS_STYLES } from '../charts/palette';
+import type { AnalysisId } from '../core/plan';
+import type { SimAnalysisSummary } from '../sim/types';
+import { selectAnalysesInOrder, selectAnalyticStale, selectHighlight, selectSetHighlight, selectSimulation } from '../state/selectors';
+import { useMeanwardStore } from '../state/store';
+import { fmt, fmtPct, fmtSigned } from './format';
+import { verdictWords } from './VerdictPanel';
+
+function SimFigure({ value, mcse, pct, signed }: { value: number; mcse: number; pct?: boolean; signed?: boolean }) {
+  const v = pct ? fmtPct(value) : signed ? fmtSigned(value) : fmt(value);
+  const e = pct ? fmtPct(mcse) : fmt(mcse);
+  return (
+    <span className="sim-figure">
+      {v} <span className="mcse">± {e}</span>
+    </span>
+  );
+}
+
+/**
+ * The four analyses side by side: closed-form expectations and, after a
+ * simulation, the simulated figures with their Monte Carlo SEs. Hovering or
+ * focusing a row highlights that analysis in every chart.
+ */
+export function ComparisonTable() {
+  const rows = useMeanwardStore(selectAnalysesInOrder);
+  const stale = useMeanwardStore(selectAnalyticStale);
+  const highlight = useMeanwardStore(selectHighlight);
+  const setHighlight = useMeanwardStore(selectSetHighlight);
+  const sim = useMeanwardStore(selectSimulation);
+  const simResult = sim.result;
+  const tauZero = simResult ? simResult.tau === 0 : false;
+  if (rows.length === 0) return null;
+  const simFor = (id: AnalysisId): SimAnalysisSummary | null => simResult?.analyses[id] ?? null;
+  return (
+    <section className="comparison" aria-labelledby="comparison-heading">
+      <h2 id="comparison-heading">The four analyses compared</h2>
+      <p className="section-intro">
+        Expected figures come from the closed-form model (infinite pools, exact matching).
+        {simResult ? (
+          <>
+            {' '}
+            Simulated figures (smaller, after ±: Monte Carlo SE) are from {simResult.replications.toLocaleString('en-GB')} replications with seed{' '}
+            {simResult.seed}
+            {sim.stale ? <strong className="stale-inline"> — from an earlier plan, re-run to update</strong> : null}.
+          </>
+        ) : (
+          ' Run the simulation to add simulated bias, RMSE and coverage.'
+        )}
+      </p>
+      <div className="table-scroll">
+        <table className={`comparison-table${stale ? ' is-stale' : ''}${sim.stale ? ' sim-stale' : ''}`} data-testid="comparison-table">
+          <caption className="visually-hidden">
+            Expected and simulated performance of the matched difference, ANCOVA, gain score and corrected ANCOVA. Hover or focus a row to highlight it in the charts.
+          </caption>
+          <thead>
+            <tr>
+              <th scope="col">Analysis</th>
+              <th scope="col">Expected bias (points / SD)</th>
+              <th scope="col">Simulated bias</th>
+              <th scope="col">RMSE (sim.)</th>
+              <th scope="col">95% CI coverage (sim.)</th>
+              <th scope="col">False-positive rate</th>
+              <th scope="col">Power</th>
+              <th scope="col">Wrong-sign rate</th>
+              <th scope="col">Unbiased only if…</th>
+            </tr>
+          </thead>
+          <tbody>
+            {rows.map((a) => {
+              const s = simFor(a.id);
+              const style = ANALYSIS_STYLES[a.id];
+              const on = highlight === a.id;
+              return (
+                <tr
+                  key={a.id}
+                  data-analysis={a.id}
+                  tabIndex={0}
+                  className={on ? 'is-highlighted' : highlight ? 'is-dimmed' : undefined}
+                  aria-current={on ? 'true' : undefined}
+                  onMouseEnter={() => setHighlight(a.id)}
+                  onMouseLeave={() => setHighlight(null)}
+                  onFocus={() => setHighlight(a.id)}
+                  onBlur={() => setHighlight(null)}
+                >
+                  <th scope="row">
+                    <span className="swatch" style={{ background: style.colour }} aria-hidden="true" />
+                    {a.name}
+                    <span className="row-verdict">{verdictWords(a.verdict).short}</span>
+                  </th>
+                  <td>
+                    {fmtSigned(a.bias)} / {fmtSigned(a.biasSD)}
+                  </td>
+                  <td>{s ? <SimFigure value={s.bias} mcse={s.biasMCSE} signed /> : '—'}</td>
+                  <td>{s ? <SimFigure value={s.rmse} mcse={s.rmseMCSE} /> : '—'}</td>
+                  <td>{s ? <SimFigure value={s.coverage} mcse={s.coverageMCSE} pct /> : '—'}</td>
+                  <td>
+                    {fmtPct(a.falsePositiveRate)}
+                    {s && tauZero && (
+                      <>
+                        <br />
+                        <SimFigure value={s.rejectionRate} mcse={s.rejectionRateMCSE} pct />
+                      </>
+                    )}
+                  </td>
+                  <td>
+                    {a.wrongSignRate === null ? 'n/a (no effect)' : fmtPct(a.power, 0)}
+                    {s && !tauZero && (
+                      <>
+                        <br />
+                        <SimFigure value={s.rejectionRate} mcse={s.rejectionRateMCSE} pct />
+                      </>
+                    )}
+                  </td>
+                  <td>
+                    {a.wrongSignRate === null ? 'n/a' : fmtPct(a.wrongSignRate)}
+                    {s && !tauZero && (
+                      <>
+                        <br />
+                        <SimFigure value={s.wrongSignRate} mcse={s.wrongSignRateMCSE} pct />
+                      </>
+                    )}
+                  </td>
+                  <td className="assumption">{a.assumption}</td>
+                </tr>
+              );
+            })}
+          </tbody>
+        </table>
+      </div>
+      <p className="table-note">
+        False-positive rate: how often the analysis declares an effect when the programme does nothing. Wrong-sign rate: how often a helpful
+        programme comes out significantly harmful. Where two figures are stacked, the upper is expected and the lower simulated.
+      </p>
+    </section>
+  );
+}

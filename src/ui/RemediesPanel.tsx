@@ -1,0 +1,50 @@
+import { selectAnalytic, selectAnalyticStale } from '../state/selectors';
+import { useMeanwardStore } from '../state/store';
+import { fmt, fmtPct, fmtR, fmtSigned } from './format';
+
+/** Design changes that remove the artefact, best first (from analysePlan), and the break-even reliability. */
+export function RemediesPanel() {
+  const analytic = useMeanwardStore(selectAnalytic);
+  const stale = useMeanwardStore(selectAnalyticStale);
+  if (!analytic) return null;
+  const be = analytic.breakEven;
+  return (
+    <section className={`remedies${stale ? ' is-stale' : ''}`} aria-labelledby="remedies-heading">
+      <h2 id="remedies-heading">What would fix it</h2>
+      <div className="break-even" data-testid="break-even">
+        <h3>Break-even reliability</h3>
+        {be.reliability !== null ? (
+          <p>
+            The matched comparison stays within your tolerable share if the pretest&rsquo;s within-group reliability is at least{' '}
+            <strong>{fmtR(be.reliability, 3)}</strong>
+            {be.alreadyMet ? ' — the planned pretest already meets this.' : ` (now ${fmtR(analytic.reliability.comparison, 3)}).`}
+            {be.parallelForms !== null && !be.alreadyMet && (
+              <>
+                {' '}
+                Averaging <strong>{be.parallelForms}</strong> parallel forms of the pretest would get there (Spearman–Brown).
+              </>
+            )}
+          </p>
+        ) : null}
+        {be.note && <p className="note">{be.note}</p>}
+      </div>
+      {analytic.remedies.length > 0 && (
+        <ol className="remedy-list">
+          {analytic.remedies.map((r) => (
+            <li key={r.id} data-remedy={r.id}>
+              <h3>{r.title}</h3>
+              <p>{r.summary}</p>
+              <p className="remedy-figures">
+                Remaining artefact: <strong>{fmtSigned(r.remainingBias)} points</strong>
+                {r.remainingBiasShare !== null && <> ({fmtPct(Math.abs(r.remainingBiasShare), 0)} of the effect)</>}
+                {r.discardedShare !== null && <>; programme members left unmatched: about {fmtPct(r.discardedShare, 0)}</>}.
+              </p>
+              <p className="assumption">Assumes: {r.assumption}</p>
+            </li>
+          ))}
+        </ol>
+      )}
+      <p className="table-note">Each remedy is judged under the same model; a combination may do better than any one. Bias figures: {fmt(analytic.tau)}-point effect.</p>
+    </section>
+  );
+}

@@ -1,0 +1,99 @@
+import type { ArtefactVerdict } from '../core/analyticResults';
+import { selectAnalytic, selectAnalyticStale, selectValidPlan } from '../state/selectors';
+import { useMeanwardStore } from '../state/store';
+import { fmt, fmtPct, fmtSigned } from './format';
+
+/** What an artefact does to the conclusion, in plain words. */
+const VERDICT_WORDS: Record<ArtefactVerdict, { short: string; sentence: string }> = {
+  negligible: { short: 'small enough to tolerate', sentence: 'is within the share of the effect you said you could tolerate.' },
+  hides: { short: 'hides the effect', sentence: 'works against the programme: it shrinks the estimate and could hide a real effect.' },
+  reverses: { short: 'reverses the effect', sentence: 'is larger than the effect and opposite to it: a helpful programme would look harmful.' },
+  inflates: { short: 'inflates the effect', sentence: 'works in the programme’s favour: the programme would look better than it is.' },
+  invents: { short: 'invents an effect', sentence: 'would produce a difference even though the hoped-for effect is zero.' },
+};
+
+export function verdictWords(v: ArtefactVerdict) {
+  return VERDICT_WORDS[v];
+}
+
+/**
+ * The headline: the artefact expected from the planned matching beside the
+ * hoped-for effect, what it does to the conclusion, the false-positive rate
+ * if the programme does nothing and the power with the artefact. Every
+ * number comes from analysePlan.
+ */
+export function VerdictPanel() {
+  const analytic = useMeanwardStore(selectAnalytic);
+  const stale = useMeanwardStore(selectAnalyticStale);
+  const plan = useMeanwardStore(selectValidPlan);
+  if (!analytic) {
+    return (
+      <section className="verdict" aria-labelledby="verdict-heading">
+        <h2 id="verdict-heading">Verdict</h2>
+        <p>Complete the plan on the left to see what matching on this pretest would do.</p>
+      </section>
+    );
+  }
+  const m = analytic.analyses.matchedDifference;
+  const words = VERDICT_WORDS[m.verdict];
+  const alphaPct = fmtPct(plan.analysis.alpha, 0);
+  const tauZero = analytic.tau === 0;
+  return (
+    <section
+      className={`verdict verdict-${m.verdict}${stale ? ' is-stale' : ''}`}
+      aria-labelledby="verdict-heading"
+      data-testid="verdict"
+      data-verdict={m.verdict}
+    >
+      <h2 id="verdict-heading">
+        Verdict: the planned matching <span className="verdict-word">{words.short}</span>
+      </h2>
+      {stale && (
+        <p className="stale-banner" role="status">
+          Out of date: these results are for the last complete plan. Fix the marked fields to update them.
+        </p>
+      )}
+      <p className="verdict-lead" data-testid="verdict-lead">
+        Matching on the observed pretest is expected to shift the estimated effect by{' '}
+        <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
+        {tauZero ? (
+          <> when the hoped-for effect is zero.</>
+        ) : (
+          <>
+            , which is <strong>{fmtPct(m.biasShare === null ? null : Math.abs(m.biasShare), 0)}</strong> of the hoped-for effect of{' '}
+            {fmtSigned(analytic.tau)} points.
+          </>
+        )}{' '}
+        This regression-toward-the-mean artefact {words.sentence}
+      </p>
+      <ul className="verdict-facts">
+        <li>
+          Expected estimate from the matched comparison: <strong>{fmtSigned(m.expectedEstimate)} points</strong> (true effect{' '}
+          {fmtSigned(analytic.tau)}).
+        </li>
+        <li>
+          If the programme did nothing, a matched comparison would be significant in <strong data-testid="verdict-fpr">{fmtPct(m.falsePositiveRate)}</strong>{' '}
+          of studies (the nominal rate is {alphaPct}).
+        </li>
+        {!tauZero && (
+          <li>
+            Power to detect the hoped-for effect: <strong data-testid="verdict-power">{fmtPct(m.power, 0)}</strong> with the artefact,{' '}
+            {fmtPct(m.powerWithoutBias, 0)} without it
+            {m.wrongSignRate !== null && m.wrongSignRate >= 0.001 && (
+              <>; chance of a significant result in the wrong direction {fmtPct(m.wrongSignRate)}</>
+            )}
+            .
+          </li>
+        )}
+        <li>
+          Why: matched people share an observed score, but each person&rsquo;s true score is pulled back toward their own group&rsquo;s mean (Kelley),
+          so a pretest gap of {fmt(analytic.model.pretestGap, 1)} points survives matching in part.
+        </li>
+      </ul>
+      <p className="caution" role="note">
+        <strong>A planning aid, not a verdict on your study.</strong> These figures hold under the stated assumptions (normal scores, linear
+        relations, the reliability and correlations you entered). They do not replace advice from a statistician or review by an ethics board.
+      </p>
+    </section>
+  );
+}

@@ -1,0 +1,214 @@
+import { useId, type KeyboardEvent, type ReactNode } from 'react';
+import { selectProblemFor } from '../state/selectors';
+import { useMeanwardStore } from '../state/store';
+
+/** Read a dotted path from the draft. */
+function readPath(obj: unknown, path: string): unknown {
+  return path.split('.').reduce<unknown>((o, k) => (o && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
+}
+
+function decimals(step: number): number {
+  const s = String(step);
+  const i = s.indexOf('.');
+  return i < 0 ? 0 : s.length - i - 1;
+}
+
+interface NumberFieldProps {
+  /** Dotted plan path, e.g. "pretest.reliability". */
+  path: string;
+  label: ReactNode;
+  /** Unit shown after the box ("points", "SD of the pooled pretest"…). */
+  unit?: string;
+  /** Short plain-language hint under the label. */
+  hint: ReactNode;
+  /** Amount the arrow keys add or take away. */
+  step: number;
+  /** Smallest value the arrow keys go down to. */
+  min?: number;
+  max?: number;
+  /** Optional extra text after the message (e.g. derived values). */
+  after?: ReactNode;
+  inputMode?: 'decimal' | 'numeric';
+  width?: 'narrow' | 'normal';
+}
+
+/**
+ * A labelled text box for a number. It is a text input, not type=number, so
+ * whatever the user types stays exactly as typed even when it is not (yet) a
+ * valid number; the store validates it and the message appears beside it.
+ * Up and down arrow keys step the value.
+ */
+export function NumberField({ path, label, unit, hint, step, min, max, after, inputMode = 'decimal', width = 'normal' }: NumberFieldProps) {
+  const id = useId();
+  const value = useMeanwardStore((s) => readPath(s.draft, path)) as string;
+  const problem = useMeanwardStore(selectProblemFor(path));
+  const setField = useMeanwardStore((s) => s.setField);
+  const hintId = `${id}-hint`;
+  const errId = `${id}-err`;
+  const onKeyDown = (e: KeyboardEvent<HTMLInputElement>) => {
+    if (e.key !== 'ArrowUp' && e.key !== 'ArrowDown') return;
+    const current = Number(value.trim().replace(',', '.'));
+    if (value.trim() === '' || !Number.isFinite(current)) return;
+    e.preventDefault();
+    let next = current + (e.key === 'ArrowUp' ? step : -step);
+    if (min !== undefined) next = Math.max(min, next);
+    if (max !== undefined) next = Math.min(max, next);
+    setField(path, next.toFixed(Math.max(decimals(step), 0)).replace(/\.?0+$/, (m) => (m.startsWith('.') ? '' : m)));
+  };
+  return (
+    <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
+      <label htmlFor={id} className="field-label">
+        {label}
+      </label>
+      <div className="field-input-row">
+        <input
+          id={id}
+          name={path}
+          type="text"
+          inputMode={inputMode}
+          autoComplete="off"
+          spellCheck={false}
+          className={width === 'narrow' ? 'input-narrow' : undefined}
+          value={value}
+          aria-invalid={problem ? true : undefined}
+          aria-describedby={problem ? `${errId} ${hintId}` : hintId}
+          onChange={(e) => setField(path, e.target.value)}
+          onKeyDown={onKeyDown}
+        />
+        {unit && <span className="field-unit">{unit}</span>}
+      </div>
+      <p id={hintId} className="field-hint">
+        {hint}
+      </p>
+      {problem && (
+        <p id={errId} className="field-error" role="alert">
+          {problem}
+        </p>
+      )}
+      {after}
+    </div>
+  );
+}
+
+interface TextFieldProps {
+  path: string;
+  label: ReactNode;
+  hint: ReactNode;
+}
+
+/** A labelled free-text box (names and titles). */
+export function TextField({ path, label, hint }: TextFieldProps) {
+  const id = useId();
+  const value = useMeanwardStore((s) => readPath(s.draft, path)) as string;
+  const problem = useMeanwardStore(selectProblemFor(path));
+  const setField = useMeanwardStore((s) => s.setField);
+  return (
+    <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
+      <label htmlFor={id} className="field-label">
+        {label}
+      </label>
+      <input
+        id={id}
+        name={path}
+        type="text"
+        autoComplete="off"
+        value={value}
+        aria-invalid={problem ? true : undefined}
+        aria-describedby={problem ? `${id}-err ${id}-hint` : `${id}-hint`}
+        onChange={(e) => setField(path, e.target.value)}
+      />
+      <p id={`${id}-hint`} className="field-hint">
+        {hint}
+      </p>
+      {problem && (
+        <p id={`${id}-err`} className="field-error" role="alert">
+          {problem}
+        </p>
+      )}
+    </div>
+  );
+}
+
+interface ChoiceFieldProps<T extends string> {
+  path: string;
+  label: ReactNode;
+  hint: ReactNode;
+  options: { value: T; label: string }[];
+}
+
+/** A labelled drop-down for a string-union option. */
+export function ChoiceField<T extends string>({ path, label, hint, options }: ChoiceFieldProps<T>) {
+  const id = useId();
+  const value = useMeanwardStore((s) => readPath(s.draft, path)) as string;
+  const problem = useMeanwardStore(selectProblemFor(path));
+  const setField = useMeanwardStore((s) => s.setField);
+  return (
+    <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
+      <label htmlFor={id} className="field-label">
+        {label}
+      </label>
+      <select
+        id={id}
+        name={path}
+        value={value}
+        aria-invalid={problem ? true : undefined}
+        aria-describedby={problem ? `${id}-err ${id}-hint` : `${id}-hint`}
+        onChange={(e) => setField(path, e.target.value)}
+      >
+        {options.map((o) => (
+          <option key={o.value} value={o.value}>
+            {o.label}
+          </option>
+        ))}
+      </select>
+      <p id={`${id}-hint`} className="field-hint">
+        {hint}
+      </p>
+      {problem && (
+        <p id={`${id}-err`} className="field-error" role="alert">
+          {problem}
+        </p>
+      )}
+    </div>
+  );
+}
+
+interface CheckFieldProps {
+  path: string;
+  label: ReactNode;
+  hint: ReactNode;
+}
+
+/** A labelled checkbox for a yes/no option. */
+export function CheckField({ path, label, hint }: CheckFieldProps) {
+  const id = useId();
+  const value = useMeanwardStore((s) => readPath(s.draft, path)) as boolean;
+  const problem = useMeanwardStore(selectProblemFor(path));
+  const setField = useMeanwardStore((s) => s.setField);
+  return (
+    <div className={`field field-check${problem ? ' field-invalid' : ''}`} data-field={path}>
+      <div className="field-input-row">
+        <input
+          id={id}
+          name={path}
+          type="checkbox"
+          checked={value}
+          aria-invalid={problem ? true : undefined}
+          aria-describedby={problem ? `${id}-err ${id}-hint` : `${id}-hint`}
+          onChange={(e) => setField(path, e.target.checked)}
+        />
+        <label htmlFor={id} className="field-label">
+          {label}
+        </label>
+      </div>
+      <p id={`${id}-hint`} className="field-hint">
+        {hint}
+      </p>
+      {problem && (
+        <p id={`${id}-err`} className="field-error" role="alert">
+          {problem}
+        </p>
+      )}
+    </div>
+  );
+}

@@ -1,0 +1,36 @@
+/**
+ * Display formatting only (no statistics): turn numbers from src/core and
+ * src/sim into text. Anything that is not a finite number shows as an em dash,
+ * so NaN or Infinity never reach the screen.
+ */
+export function fmt(x: number | null | undefined, digits = 2): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
+  const s = x.toFixed(digits);
+  // Avoid "-0.00".
+  return /^-0(\.0+)?$/.test(s) ? s.slice(1) : s.replace('-', '−');
+}
+
+/** Signed: "+1.25" / "−1.25" / "0.00". */
+export function fmtSigned(x: number | null | undefined, digits = 2): string {
+  const s = fmt(x, digits);
+  if (s === '—' || s.startsWith('−') || Number(s) === 0) return s;
+  return `+${s}`;
+}
+
+/** A proportion as a percentage: 0.0512 → "5.1%". */
+export function fmtPct(x: number | null | undefined, digits = 1): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
+  return `${fmt(x * 100, digits)}%`;
+}
+
+/** A reliability or correlation without the leading zero: 0.75 → ".75". */
+export function fmtR(x: number | null | undefined, digits = 2): string {
+  const s = fmt(x, digits);
+  return s.replace(/^(−?)0\./, '$1.');
+}
+
+/** A whole number with thousands separators. */
+export function fmtInt(x: number | null | undefined): string {
+  if (x === null || x === undefined || !Number.isFinite(x)) return '—';
+  return Math.round(x).toLocaleString('en-GB');
+}

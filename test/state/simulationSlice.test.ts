@@ -1,0 +1,107 @@
+import { describe, expect, it } from 'vitest';
+import type { Plan } from '../../src/core/plan';
+import type { SimulationResult } from '../../src/sim/types';
+import { controlledRunner, makeStore } from './helpers';
+
+/** Only the fields the store reads; the figures themselves are not under test here. */
+function resultFor(plan: Plan): SimulationResult {
+  return { plan, seed: plan.simulation.seed, replications: plan.simulation.replications, tau: 2.5 } as unknown as SimulationResult;
+}
+
+const flush = () => new Promise((r) => setTimeout(r, 0));
+
+describe('simulation slice: run, progress, cancel, stale', () => {
+  it('goes running → done, reporting progress, and keeps the result', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    const done = store.getState().runSimulation();
+    expect(store.getState().simulation.status).toBe('running');
+    c.runs[0]!.progress(0.4);
+    expect(store.getState().simulation.progress).toBeCloseTo(0.4, 12);
+    c.runs[0]!.resolve(resultFor(c.runs[0]!.plan));
+    await done;
+    const sim = store.getState().simulation;
+    expect(sim.status).toBe('done');
+    expect(sim.progress).toBe(1);
+    expect(sim.result?.plan).toEqual(store.getState().validPlan);
+    expect(sim.stale).toBe(false);
+  });
+
+  it('ignores a non-finite progress value rather than showing it', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    void store.getState().runSimulation();
+    c.runs[0]!.progress(Number.NaN);
+    expect(store.getState().simulation.progress).toBe(0);
+  });
+
+  it('marks the result stale when the plan changes, and fresh again when changed back', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    const done = store.getState().runSimulation();
+    c.runs[0]!.resolve(resultFor(c.runs[0]!.plan));
+    await done;
+    store.getState().setField('matching.caliper', '0.1');
+    expect(store.getState().simulation.stale).toBe(true);
+    store.getState().setField('matching.caliper', '0.2');
+    expect(store.getState().simulation.stale).toBe(false);
+    // An invalid draft also makes the result stale (it no longer describes what is on screen).
+    store.getState().setField('pretest.reliability', '1.4');
+    expect(store.getState().simulation.stale).toBe(true);
+  });
+
+  it('cancel stops the run, keeps the previous result and ignores a late answer', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    const first = store.getState().runSimulation();
+    c.runs[0]!.resolve(resultFor(c.runs[0]!.plan));
+    await first;
+    const previous = store.getState().simulation.result;
+    const second = store.getState().runSimulation();
+    store.getState().cancelSimulation();
+    await second;
+    await flush();
+    const sim = store.getState().simulation;
+    expect(c.cancels()).toBe(1);
+    expect(sim.status).toBe('cancelled');
+    expect(sim.result).toBe(previous);
+  });
+
+  it('reports an engine failure as a readable error', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    const done = store.getState().runSimulation();
+    c.runs[0]!.reject(new Error('Replications must be a whole number between 100 and 100000; got 5.'));
+    await done;
+    const sim = store.getState().simulation;
+    expect(sim.status).toBe('error');
+    expect(sim.error).toBe('The simulation stopped with an error: Replications must be a whole number between 100 and 100000; got 5.');
+  });
+
+  it('refuses to run an invalid plan and says why', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    store.getState().setField('pretest.reliability', '1.4');
+    await store.getState().runSimulation();
+    expect(c.runs).toHaveLength(0);
+    expect(store.getState().simulation.status).toBe('error');
+    expect(store.getState().simulation.error).toMatch(/a problem to fix/);
+  });
+
+  it('without a simulation engine says so instead of failing silently', async () => {
+    const store = makeStore({ simulation: null });
+    await store.getState().runSimulation();
+    expect(store.getState().simulation.error).toMatch(/not available/);
+  });
+});
+
+describe('highlight slice', () => {
+  it('is shared: one analysis at a time, or none', () => {
+    const store = makeStore();
+    expect(store.getState().highlight).toBeNull();
+    store.getState().setHighlight('gainScore');
+    expect(store.getState().highlight).toBe('gainScore');
+    store.getState().setHighlight(null);
+    expect(store.getState().highlight).toBeNull();
+  });
+});
