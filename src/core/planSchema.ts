@@ -238,6 +238,14 @@ export const planSchema = z
  * @example planJsonSchema().properties.format // { const: "meanward-plan", ... }
  */
 export function planJsonSchema(): Record<string, unknown> {
-  const schema = z.toJSONSchema(planSchema, { io: 'input' }) as Record<string, unknown>;
+  const schema = z.toJSONSchema(planSchema, { io: 'input' }) as unknown as {
+    properties: { pretest: Record<string, unknown> };
+  } & Record<string, unknown>;
+  // Either reliability or SEM, not both: validatePlan checks this across fields;
+  // the JSON Schema says it too, for editors that read it.
+  schema.properties.pretest.oneOf = [
+    { required: ['reliability'], not: { required: ['sem'] } },
+    { required: ['sem'], not: { required: ['reliability'] } },
+  ];
   return { ...schema, title: 'Meanward plan file, version 1' };
 }

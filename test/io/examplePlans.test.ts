@@ -53,5 +53,7 @@ describe('the committed JSON Schema', () => {
     expect(s.properties.simulation.properties.seed).toMatchObject({ minimum: 0, maximum: 4294967295 });
     expect(s.properties.analysis.properties.tolerableBiasShare.default).toBe(0.25);
     expect(s.properties.analysis.required).toEqual(['alpha', 'assumedReliability']);
+    expect(s.properties.pretest.oneOf).toHaveLength(2);
+    expect(s.additionalProperties).toBeUndefined(); // unknown fields are allowed (forward compatibility)
   });
 });

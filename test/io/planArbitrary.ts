@@ -6,7 +6,7 @@ import type { Plan } from '../../src/core/plan';
 const noNegZero = (x: number) => (x === 0 ? 0 : x);
 const dbl = (min: number, max: number) =>
   fc.double({ min, max, noNaN: true, noDefaultInfinity: true, minExcluded: true, maxExcluded: true }).map(noNegZero);
-const label = fc.string({ unit: 'grapheme', minLength: 1, maxLength: 20 });
+const label = fc.string({ unit: 'grapheme', minLength: 1, maxLength: 15 });
 
 /** Any plan that satisfies every field rule and cross-field rule of validatePlan. */
 export const validPlanArb: fc.Arbitrary<Plan> = fc
