@@ -1,0 +1,21 @@
+// Public API of the charts: pure transforms, thin renders, text alternatives, palette.
+export * from './chartTypes';
+export * from './palette';
+export { pretestChartData } from './pretestChartData';
+export type { PretestChartData, PretestGroupCurve, GroupKey } from './pretestChartData';
+export { renderPretestChart } from './renderPretestChart';
+export { pretestChartText } from './pretestChartText';
+export { estimatesChartData } from './estimatesChartData';
+export type { EstimatesChartData, EstimatesRow, EstimateBin } from './estimatesChartData';
+export { renderEstimatesChart } from './renderEstimatesChart';
+export { estimatesChartText } from './estimatesChartText';
+export { sensitivityChartData } from './sensitivityChartData';
+export type { SensitivityChartData, SensitivitySeries } from './sensitivityChartData';
+export { renderSensitivityChart } from './renderSensitivityChart';
+export { sensitivityChartText } from './sensitivityChartText';
+export { balanceChartData } from './balanceChartData';
+export type { BalanceChartData, BalanceRow } from './balanceChartData';
+export { renderBalanceChart } from './renderBalanceChart';
+export { balanceChartText } from './balanceChartText';
+export { renderChart, renderChartToSvgString } from './renderChartToSvgString';
+export type { ChartData, ChartDataById } from './renderChartToSvgString';

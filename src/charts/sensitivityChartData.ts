@@ -1,0 +1,79 @@
+import * as d3 from 'd3';
+import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
+import { sensitivityCurve, type SensitivityVariable } from '../core/sensitivityCurve';
+import type { ChartInput } from './chartTypes';
+
+/** One analysis' expected-bias curve. */
+export interface SensitivitySeries {
+  id: AnalysisId;
+  name: string;
+  points: { x: number; bias: number }[];
+  /** Expected bias under the plan as it stands (closed form), posttest points. */
+  currentBias: number;
+}
+
+/** Plain data for the "Sensitivity" chart (either mode). */
+export interface SensitivityChartData {
+  chart: 'sensitivity';
+  mode: SensitivityVariable;
+  title: string;
+  xLabel: string;
+  yLabel: string;
+  series: SensitivitySeries[];
+  /** Hoped-for effect, posttest points. */
+  tau: number;
+  /** Tolerated bias: ± tolerable share × |tau|. */
+  band: { lower: number; upper: number };
+  tolerableShare: number;
+  /** x where the matched-difference artefact reaches the band's edge. */
+  breakEvenX: number[];
+  /** The plan's current x. */
+  current: number;
+  xDomain: [number, number];
+  yDomain: [number, number];
+  /** Pairs of analyses whose curves are identical on this axis (drawn on top of each other). */
+  coincident: [AnalysisId, AnalysisId][];
+}
+
+/**
+ * Transform plan + results into the sensitivity chart's data: expected bias of
+ * each analysis against pretest reliability or against the pretest group gap
+ * (core's sensitivityCurve), the tolerated band, break-even and current x.
+ * Works from closed forms only (the simulation adds nothing here). Pure and deterministic.
+ */
+export function sensitivityChartData({ plan, analytic }: ChartInput, mode: SensitivityVariable = 'reliability'): SensitivityChartData {
+  const curve = sensitivityCurve(plan, mode);
+  const series = ANALYSIS_IDS.map((id) => ({
+    id,
+    name: analytic.analyses[id].name,
+    points: curve.points.map((p) => ({ x: p.x, bias: p.bias[id] })),
+    currentBias: analytic.analyses[id].bias,
+  }));
+  const ys = [curve.tolerableBand.lower, curve.tolerableBand.upper, curve.effect, -curve.effect, 0];
+  for (const s of series) for (const p of s.points) ys.push(p.bias);
+  const [y0, y1] = d3.extent(ys) as [number, number];
+  const pad = (y1 - y0 || 1) * 0.06;
+  const xs = curve.points.map((p) => p.x);
+  const coincident: [AnalysisId, AnalysisId][] = [];
+  series.forEach((a, i) =>
+    series.slice(i + 1).forEach((b) => {
+      if (a.points.every((p, k) => Math.abs(p.bias - b.points[k]!.bias) <= 1e-9 * (1 + Math.abs(p.bias)))) coincident.push([a.id, b.id]);
+    }),
+  );
+  return {
+    chart: 'sensitivity',
+    mode,
+    title: mode === 'reliability' ? 'Sensitivity: expected bias against pretest reliability' : 'Sensitivity: expected bias against the pretest group gap',
+    xLabel: mode === 'reliability' ? 'Pretest reliability in its reference population (0 to 1)' : curve.xLabel,
+    yLabel: 'Expected bias (posttest points)',
+    series,
+    tau: curve.effect,
+    band: curve.tolerableBand,
+    tolerableShare: plan.analysis.tolerableBiasShare,
+    breakEvenX: curve.breakEvenX,
+    current: curve.current,
+    xDomain: [Math.min(...xs), Math.max(...xs)],
+    yDomain: [y0 - pad, y1 + pad],
+    coincident,
+  };
+}
