@@ -102,9 +102,11 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   const best = analytic.remedies[0];
   const summary = [
     `This plan compares “${P.label}” (${formatCount(P.poolSize)} people available) with “${C.label}” (${formatCount(C.poolSize)} available).`,
-    `On the pretest the programme group’s mean is ${formatPoints(Math.abs(gap))} points ${gap < 0 ? 'below' : gap > 0 ? 'above' : 'equal to'}${gap === 0 ? ' ' : ' '}the comparison group’s; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`,
+    gap === 0
+      ? `The two groups have the same pretest mean; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`
+      : `On the pretest the programme group’s mean is ${formatPoints(Math.abs(gap))} points ${gap < 0 ? 'below' : 'above'} the comparison group’s; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`,
     `Each programme member is to be matched to ${plan.matching.ratio} comparison ${plan.matching.ratio === 1 ? 'person' : 'people'} within a caliper of ${plan.matching.caliper} SD of the pretest, and the study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points.`,
-    `Under the model, the matched post-test difference is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a bias of ${formatSignedPoints(md.bias)} points${md.biasShare === null ? '' : ` (${formatShare(md.biasShare)} of the hoped-for effect)`}, so ${VERDICT_TEXT[md.verdict]}.`,
+    `Under the model, the matched post-test difference is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a bias of ${formatSignedPoints(md.bias)} points${md.biasShare === null ? '' : ` (${formatShare(Math.abs(md.biasShare))} of the hoped-for effect${md.biasShare < 0 ? ', in the opposite direction' : ''})`}, so ${VERDICT_TEXT[md.verdict]}.`,
     best
       ? `The first-ranked remedy is “${best.title}”, which leaves an expected artefact of ${formatSignedPoints(best.remainingBias)} points (assumption: ${lowerFirst(best.assumption)}).`
       : '',
@@ -188,7 +190,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     );
   } else {
     w.paragraph(
-      `${formatCount(sim.replications)} simulated studies (seed ${sim.seed}). Each figure is followed by its Monte Carlo standard error. The matched difference and “ANCOVA in the matched sample” use the matched people only; the other analyses use everyone available.`,
+      `${formatCount(sim.replications)} simulated studies (seed ${sim.seed}). “± x” gives each figure’s Monte Carlo standard error. The matched difference and “ANCOVA in the matched sample” use the matched people only; the other analyses use everyone available.`,
       { size: 9, muted: true },
     );
     const simCols: (SimAnalysisSummary & { label: string })[] = [

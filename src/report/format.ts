@@ -1,96 +1,72 @@
 /**
- * Number formatting shared by the planner's screens, the PDF summary and the
- * exports, so every place shows the same figure the same way. Formatting only:
- * no statistic is computed here. A value that is not a finite number is shown
- * as "not available" (never "NaN" or "Infinity").
+ * Number formatting for the PDF summary and the exports. It delegates to the
+ * planner's own display formatters (src/ui/format.ts), so the PDF shows every
+ * figure exactly as the screen does: fixed decimals, a true minus sign (−),
+ * never "-0.00", and "—" for a figure that is missing or not finite (never
+ * "NaN" or "Infinity"). Formatting only: no statistic is computed here.
  */
+import { fmt, fmtInt, fmtPct, fmtR, fmtSigned } from '../ui/format';
 
 /** What is shown in place of a missing or non-finite figure. */
-export const NOT_AVAILABLE = 'not available';
+export const NOT_AVAILABLE = '—';
 
-function finite(x: number | null | undefined): x is number {
-  return typeof x === 'number' && Number.isFinite(x);
-}
-
-/** Fixed decimals with a plain hyphen-minus; "-0.00" is shown as "0.00". */
-function fixed(x: number, digits: number): string {
-  const s = x.toFixed(digits);
-  return /^-0(\.0+)?$/.test(s) ? s.slice(1) : s;
-}
-
-/**
- * A quantity in test or posttest points, 2 decimals by default.
- * @example formatPoints(1.2345) === '1.23'; formatPoints(-2.5) === '-2.50'
- */
+/** A quantity in test or posttest points, 2 decimals: 1.2345 → "1.23", -2.5 → "−2.50". */
 export function formatPoints(x: number | null | undefined, digits = 2): string {
-  return finite(x) ? fixed(x, digits) : NOT_AVAILABLE;
+  return fmt(x, digits);
 }
 
-/** A signed quantity in points ("+1.25", "-0.40", "0.00"): used for biases and estimates. */
+/** A signed quantity in points ("+1.25", "−0.40", "0.00"): biases and estimates. */
 export function formatSignedPoints(x: number | null | undefined, digits = 2): string {
-  if (!finite(x)) return NOT_AVAILABLE;
-  const s = fixed(x, digits);
-  return s.startsWith('-') || Number(s) === 0 ? s : `+${s}`;
+  return fmtSigned(x, digits);
 }
 
-/** A standardised quantity (SD units, SMD), signed, 2 decimals: "+0.15 SD" without the unit. */
+/** A standardised quantity (post-test SDs, SMD), signed, 2 decimals. */
 export function formatSD(x: number | null | undefined, digits = 2): string {
-  return formatSignedPoints(x, digits);
+  return fmtSigned(x, digits);
 }
 
-/** A reliability or correlation, 3 decimals: "0.750". */
+/** A reliability or correlation, 3 decimals without the leading zero: 0.75 → ".750". */
 export function formatReliability(x: number | null | undefined): string {
-  return finite(x) ? fixed(x, 3) : NOT_AVAILABLE;
+  return fmtR(x, 3);
 }
 
-/**
- * A probability or rate as a percentage with one decimal ("80.3%"); tiny
- * non-zero values as "<0.1%" and values just short of 1 as ">99.9%", so a
- * rate that is not exactly 0 or 1 never reads as if it were.
- */
+/** A probability or rate as a percentage with one decimal: 0.0512 → "5.1%". */
 export function formatProbability(p: number | null | undefined): string {
-  if (!finite(p)) return NOT_AVAILABLE;
-  if (p > 0 && p < 0.0005) return '<0.1%';
-  if (p < 1 && p > 0.9995) return '>99.9%';
-  return `${fixed(p * 100, 1)}%`;
+  return fmtPct(p, 1);
 }
 
-/** A share (e.g. bias as a share of the effect, share discarded) as a whole percentage: "38%". */
+/** A share (bias as a share of the effect, share discarded) as a whole percentage: "38%". */
 export function formatShare(s: number | null | undefined): string {
-  if (!finite(s)) return NOT_AVAILABLE;
-  return `${fixed(s * 100, 0)}%`;
+  return fmtPct(s, 0);
 }
 
-/** A count with thousands separators: 1200 → "1,200"; non-integers rounded to 1 decimal. */
+/** A count with thousands separators: 1200 → "1,200" (non-integers are rounded). */
 export function formatCount(n: number | null | undefined): string {
-  if (!finite(n)) return NOT_AVAILABLE;
-  const s = Number.isInteger(n) ? String(Math.abs(n)) : fixed(Math.abs(n), 1);
-  const [int = '', frac] = s.split('.');
-  const grouped = int.replace(/\B(?=(\d{3})+(?!\d))/g, ',');
-  return `${n < 0 ? '-' : ''}${grouped}${frac ? `.${frac}` : ''}`;
+  return fmtInt(n);
 }
 
-/** A figure with its Monte Carlo standard error: "+1.23 (MC SE 0.02)". */
+/** A figure with its Monte Carlo standard error: "+1.23 ± 0.02" (± one MC SE). */
 export function withMcse(value: string, mcse: number | null | undefined, format: (x: number) => string): string {
-  if (!finite(mcse)) return value;
-  return `${value} (MC SE ${format(mcse)})`;
+  if (typeof mcse !== 'number' || !Number.isFinite(mcse)) return value;
+  return `${value} ± ${format(mcse)}`;
 }
 
-/** A plain (non-statistical) input value as typed: numbers keep their own digits. */
+/** An input value as the researcher gave it: numbers keep their own digits, booleans read yes/no. */
 export function formatInput(x: number | string | boolean | null | undefined): string {
   if (x === null || x === undefined) return NOT_AVAILABLE;
   if (typeof x === 'boolean') return x ? 'yes' : 'no';
-  if (typeof x === 'number') return finite(x) ? String(x) : NOT_AVAILABLE;
+  if (typeof x === 'number') return Number.isFinite(x) ? String(x).replace('-', '−') : NOT_AVAILABLE;
   return x;
 }
 
+const MONTHS = [
+  'January', 'February', 'March', 'April', 'May', 'June',
+  'July', 'August', 'September', 'October', 'November', 'December',
+];
+
 /** A calendar date and UTC time, e.g. "1 December 2026, 21:40 UTC". */
 export function formatDateTime(d: Date): string {
-  const months = [
-    'January', 'February', 'March', 'April', 'May', 'June',
-    'July', 'August', 'September', 'October', 'November', 'December',
-  ];
   const hh = String(d.getUTCHours()).padStart(2, '0');
   const mm = String(d.getUTCMinutes()).padStart(2, '0');
-  return `${d.getUTCDate()} ${months[d.getUTCMonth()]} ${d.getUTCFullYear()}, ${hh}:${mm} UTC`;
+  return `${d.getUTCDate()} ${MONTHS[d.getUTCMonth()]} ${d.getUTCFullYear()}, ${hh}:${mm} UTC`;
 }
