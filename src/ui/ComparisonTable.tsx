@@ -62,7 +62,6 @@ export function ComparisonTable() {
               <th scope="col">False-positive rate</th>
               <th scope="col">Power</th>
               <th scope="col">Wrong-sign rate</th>
-              <th scope="col">Unbiased only if…</th>
             </tr>
           </thead>
           <tbody>
@@ -86,6 +85,7 @@ export function ComparisonTable() {
                     <span className="swatch" style={{ background: style.colour }} aria-hidden="true" />
                     {a.name}
                     <span className="row-verdict">{verdictWords(a.verdict).short}</span>
+                    <span className="assumption">{a.assumption}</span>
                   </th>
                   <td>
                     {fmtSigned(a.bias)} / {fmtSigned(a.biasSD)}
@@ -120,7 +120,6 @@ export function ComparisonTable() {
                       </>
                     )}
                   </td>
-                  <td className="assumption">{a.assumption}</td>
                 </tr>
               );
             })}
@@ -129,7 +128,7 @@ export function ComparisonTable() {
       </div>
       <p className="table-note">
         False-positive rate: how often the analysis declares an effect when the programme does nothing. Wrong-sign rate: how often a helpful
-        programme comes out significantly harmful. Where two figures are stacked, the upper is expected and the lower simulated.
+        programme comes out significantly harmful. Where two figures are stacked, the upper is expected and the lower simulated. Under each name: the condition under which that analysis is unbiased.
       </p>
     </section>
   );
