@@ -254,7 +254,10 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   // ---- Charts --------------------------------------------------------------
   if (charts.length > 0) {
     w.heading('Charts');
+    let figure = 0;
     for (const chart of charts) {
+      figure += 1;
+      const label = `Figure ${figure}. ${chart.title}`;
       let svg: SVGSVGElement | null = null;
       let problem = '';
       try {
@@ -263,8 +266,8 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
         problem = e instanceof Error ? e.message : String(e);
       }
       if (!svg) {
-        w.heading(chart.title, 3);
-        w.paragraph(`This chart could not be drawn in the PDF (${problem}). ${chart.caption}`);
+        w.paragraph(label, { bold: true, size: 9.5, after: 1 });
+        w.paragraph(`This chart could not be drawn in the PDF (${problem}). ${chart.caption}`, { size: 9, muted: true, after: 10 });
         continue;
       }
       const size = svgSize(svg);
@@ -275,9 +278,8 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
         cw *= maxH / ch;
         ch = maxH;
       }
-      // Title, chart and the first caption lines stay together on one page.
-      w.ensure(30 + ch + 40);
-      w.heading(chart.title, 3);
+      // The chart, its label and the first caption lines stay together on one page.
+      w.ensure(ch + 60);
       const x = w.left + (w.width - cw) / 2;
       try {
         await drawSvgChart(doc, svg, { x, y: w.y, width: cw, height: ch });
@@ -286,7 +288,8 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
         w.paragraph(`This chart could not be drawn in the PDF (${e instanceof Error ? e.message : String(e)}).`);
       }
       doc.setFont(FONT_SANS, 'normal');
-      w.paragraph(`How to read it: ${chart.caption}`, { size: 9, muted: true, after: 10 });
+      w.paragraph(label, { bold: true, size: 9.5, after: 1 });
+      w.paragraph(`How to read it: ${chart.caption}`, { size: 9, muted: true, after: 14 });
     }
   }
 

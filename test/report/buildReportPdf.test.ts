@@ -17,6 +17,7 @@ import {
   withMcse,
 } from '../../src/report/format';
 import { planTextFromReportText } from '../../src/report/planJsonBlock';
+import { reportCharts } from '../../src/report/reportCharts';
 import { CAUTION_LINE } from '../../src/report/reportText';
 import { simulatePlan } from '../../src/sim/simulatePlan';
 import type { SimulationResult } from '../../src/sim/types';
@@ -45,17 +46,19 @@ describe('PDF summary of the invented demo plan, with a simulation', () => {
   let sim: SimulationResult;
   let text: PdfText;
   let bytes: Uint8Array;
+  let planner: ReportChart[];
 
   beforeAll(async () => {
     plan = demoPlan();
     // 300 replications keep the test quick; the figures only need to match the result object.
     plan.simulation.replications = 300;
     sim = simulatePlan(plan, { replications: plan.simulation.replications, seed: plan.simulation.seed });
+    planner = reportCharts(plan, analysePlan(plan), sim);
     bytes = await buildReportPdf({
       plan,
       analytic: analysePlan(plan),
       simulation: sim,
-      charts: CHARTS,
+      charts: [...CHARTS, ...planner],
       appVersion: '0.1.0',
       generatedAt: GENERATED,
       fonts: TEST_FONTS,
@@ -121,7 +124,17 @@ describe('PDF summary of the invented demo plan, with a simulation', () => {
     expect(all).toContain('Pretest in both groups');
     // Chart words are PDF text (svg2pdf), with the Greek letter from the embedded font.
     expect(all).toContain('Observed pretest, ρ = 0.75 <b>');
+    expect(all).toContain('Figure 1. Pretest in both groups');
     expect(all).toContain('How to read it: Each bar is one group’s pretest mean.');
+  });
+
+  it('includes the planner’s four charts with their titles and reading guides', () => {
+    const all = flat(text);
+    expect(planner.map((c) => c.id)).toEqual(['pretest', 'estimates', 'sensitivity', 'balance']);
+    planner.forEach((c, i) => {
+      expect(c.svg).not.toBe('');
+      expect(all).toContain(`Figure ${i + 2}. ${c.title}`.replace(/\s+/g, ' '));
+    });
   });
 
   it('gives the model, the references and the cautions', () => {

@@ -1,0 +1,76 @@
+import type { AnalyticResults } from '../core/analyticResults';
+import type { Plan } from '../core/plan';
+import type { SimulationResult } from '../sim/types';
+import {
+  balanceChartData,
+  balanceChartText,
+  estimatesChartData,
+  estimatesChartText,
+  pretestChartData,
+  pretestChartText,
+  renderChartToSvgString,
+  sensitivityChartData,
+  sensitivityChartText,
+  type ChartId,
+  type ChartText,
+} from '../charts';
+import type { ReportChart } from './buildReportPdf';
+
+/** How to read each chart: one or two plain sentences printed under it in the PDF. */
+export const HOW_TO_READ: Record<ChartId, string> = {
+  pretest:
+    'The curves are the two groups’ observed pretest distributions; the shaded band is where matched pairs can be found. Matched people come from the groups’ facing tails, so their true scores fall back toward their own group’s mean.',
+  estimates:
+    'Each row is one analysis. The reference line is the hoped-for effect; the marker shows where the analysis is expected to land, and the spread shows the estimates across simulated studies. Distance from the line is the artefact.',
+  sensitivity:
+    'The horizontal axis varies one input while the others stay as planned; each line is one analysis’ expected artefact. Where a line crosses the tolerance band the artefact becomes acceptable.',
+  balance:
+    'Standardised mean differences before and after matching, on the observed pretest and on the true score. Balance on the observed pretest can look fine while the true scores still differ.',
+};
+
+/** Chart size in the PDF (CSS px, which svg2pdf scales to the page width). */
+const SIZE = { width: 720, height: 400 };
+
+/**
+ * The planner's charts for the PDF summary: each chart's SVG drawn by the
+ * charts module from the same results, with its title and a caption saying
+ * how to read it followed by its text alternative. Needs a DOM (browser, or
+ * jsdom in Node). A chart that cannot be drawn is left out with a caption
+ * saying so rather than failing the whole report.
+ */
+export function reportCharts(plan: Plan, analytic: AnalyticResults, simulation: SimulationResult | null): ReportChart[] {
+  const input = { plan, analytic, simulation };
+  const charts: ReportChart[] = [];
+  const add = (id: ChartId, draw: () => { svg: string; text: ChartText }) => {
+    try {
+      const { svg, text } = draw();
+      charts.push({ id, title: text.title, svg, caption: `${HOW_TO_READ[id]} ${text.sentences.join(' ')}` });
+    } catch (e) {
+      charts.push({
+        id,
+        title: `Chart “${id}”`,
+        svg: '',
+        caption: `This chart could not be drawn: ${e instanceof Error ? e.message : String(e)}`,
+      });
+    }
+  };
+  add('pretest', () => {
+    const d = pretestChartData(input);
+    return { svg: renderChartToSvgString('pretest', d, SIZE), text: pretestChartText(d) };
+  });
+  add('estimates', () => {
+    const d = estimatesChartData(input);
+    return { svg: renderChartToSvgString('estimates', d, SIZE), text: estimatesChartText(d) };
+  });
+  add('sensitivity', () => {
+    const d = sensitivityChartData(input);
+    return { svg: renderChartToSvgString('sensitivity', d, SIZE), text: sensitivityChartText(d) };
+  });
+  if (simulation) {
+    add('balance', () => {
+      const d = balanceChartData(input);
+      return { svg: renderChartToSvgString('balance', d, SIZE), text: balanceChartText(d) };
+    });
+  }
+  return charts;
+}
