@@ -48,8 +48,8 @@ export function renderEstimatesChart(svg: SVGSVGElement, data: EstimatesChartDat
     g.attr('data-series', r.id);
     add(g, 'line', { x1: left, x2: width - right, y1: base, y2: base, stroke: '#bbbbbb' });
     const label = add(g, 'g');
-    add(label, 'path', { d: markerPath(st.marker, 14, y0 + rowH / 2, 4.5), fill: st.colour });
-    text(label, 26, y0 + rowH / 2 + 4, st.shortLabel, { 'font-size': FONT.label, 'font-weight': opts.highlight === r.id ? 'bold' : 'normal' });
+    add(label, 'path', { d: markerPath(st.marker, 14, y0 + rowH / 2 + (r.bins ? -8 : 0), 4.5), fill: st.colour });
+    text(label, 26, y0 + rowH / 2 + (r.bins ? -4 : 4), st.shortLabel, { 'font-size': FONT.label, 'font-weight': opts.highlight === r.id ? 'bold' : 'normal' });
     linkSeries(label, r.id, opts, true);
     const series = add(g, 'g');
     linkSeries(series, r.id, opts, false);
@@ -80,10 +80,13 @@ export function renderEstimatesChart(svg: SVGSVGElement, data: EstimatesChartDat
     }
     const yDiamond = r.bins ? base : y0 + rowH / 2;
     add(series, 'path', { d: markerPath('diamond', x(r.expected), yDiamond, 5.5), fill: '#ffffff', stroke: '#111111', 'stroke-width': 1.5 });
-    text(series, x(r.expected), r.bins ? y0 + 14 : yDiamond - 10, `expected ${fmt(r.expected, 2)}`, {
-      'text-anchor': 'middle',
-      fill: '#111111',
-    });
+    if (r.bins) {
+      // With histograms, numbers go under the row label so they never sit on the bars.
+      text(label, 26, y0 + rowH / 2 + 19, `expected ${fmt(r.expected, 2)}`, { fill: '#333333' });
+      if (r.simulatedMean !== null) text(label, 26, y0 + rowH / 2 + 33, `simulated ${fmt(r.simulatedMean, 2)}`, { fill: '#333333' });
+    } else {
+      text(series, x(r.expected), yDiamond - 10, `expected ${fmt(r.expected, 2)}`, { 'text-anchor': 'middle', fill: '#111111' });
+    }
   });
   axisBottom(root, x, height - bottom + 4, data.xLabel, 8);
 }

@@ -132,9 +132,11 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
     const xt = x(k.trueScore[g]);
     add(panel, 'line', { x1: xo, y1: rowY(iObs) + 7, x2: xt, y2: rowY(iTrue) - 8, stroke: GROUP_COLOURS[g], 'stroke-width': 1.8 });
     add(panel, 'path', { d: `M${xt - 4},${rowY(iTrue) - 14}L${xt},${rowY(iTrue) - 7}L${xt + 4},${rowY(iTrue) - 14}`, fill: 'none', stroke: GROUP_COLOURS[g], 'stroke-width': 1.8 });
-    for (const [xv, yy, v] of [[xo, rowY(iObs), k.observed[g]], [xt, rowY(iTrue), k.trueScore[g]]] as [number, number, number][]) {
+    const pulled = Math.abs(k.trueScore[g] - k.observed[g]) >= 0.05;
+    for (const [xv, yy, v, isTrue] of [[xo, rowY(iObs), k.observed[g], false], [xt, rowY(iTrue), k.trueScore[g], true]] as [number, number, number, boolean][]) {
       add(panel, 'path', { d: `M${xv},${yy - 6}L${xv + 6},${yy}L${xv},${yy + 6}L${xv - 6},${yy}Z`, fill: GROUP_COLOURS[g], stroke: '#ffffff', 'stroke-width': 1 });
-      text(panel, xv + 9, yy - 5, fmt(v, 1), { fill: GROUP_COLOURS[g], 'font-weight': 'bold' });
+      const label = isTrue && pulled ? `${fmt(v, 1)}, pulled toward the group mean ${fmt(data.groups[g].mean, 1)}` : fmt(v, 1);
+      text(panel, xv + 9, yy - 5, label, { fill: GROUP_COLOURS[g], 'font-weight': 'bold' });
     }
   }
   const note =

@@ -40,8 +40,8 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
   add(root, 'line', { x1: left, x2: width - right, y1: y(0), y2: y(0), stroke: '#999999' });
   if (data.tau !== 0) {
     for (const [v, label] of [
-      [data.tau, 'Bias = hoped-for effect'],
-      [-data.tau, 'Bias cancels the effect'],
+      [data.tau, 'Bias = effect'],
+      [-data.tau, 'Cancels effect'],
     ] as [number, string][]) {
       add(root, 'line', { x1: left, x2: width - right, y1: y(v), y2: y(v), stroke: GROUP_COLOURS.reference, 'stroke-dasharray': '5 3' });
       text(root, width - right + 6, y(v) + 4, `${label} (${fmt(v, 2)})`, { 'font-size': FONT.note });
