@@ -1,0 +1,97 @@
+// @vitest-environment jsdom
+import { act, fireEvent, screen, within } from '@testing-library/react';
+import userEvent from '@testing-library/user-event';
+import { describe, expect, it } from 'vitest';
+import { controlledRunner } from '../state/helpers';
+import { renderApp } from './renderApp';
+
+describe('results panel', () => {
+  it('carries the planning-aid caution beside the verdict', () => {
+    renderApp();
+    expect(screen.getByRole('note')).toHaveTextContent(/not replace advice from a statistician or review by an ethics board/);
+  });
+
+  it('links table rows to the shared highlight and the charts', async () => {
+    const user = userEvent.setup();
+    const { store, container } = renderApp();
+    const row = container.querySelector('tr[data-analysis="gainScore"]') as HTMLElement;
+    await user.hover(row);
+    expect(store.getState().highlight).toBe('gainScore');
+    expect(row).toHaveClass('is-highlighted');
+    // Every other analysis' marks are dimmed in the charts.
+    expect(container.querySelectorAll('[data-chart] svg [opacity="0.22"]').length).toBeGreaterThan(0);
+    await user.unhover(row);
+    expect(store.getState().highlight).toBeNull();
+  });
+
+  it('offers each chart as text and a table', () => {
+    const { container } = renderApp();
+    const charts = container.querySelectorAll('figure[data-chart]');
+    expect(charts).toHaveLength(4);
+    for (const fig of charts) {
+      const details = fig.querySelector('details');
+      expect(details).not.toBeNull();
+      expect(details!.querySelectorAll('tbody tr').length).toBeGreaterThan(0);
+    }
+  });
+
+  it('shows progress, cancels, and marks a finished result stale when the plan changes', async () => {
+    const user = userEvent.setup();
+    const c = controlledRunner();
+    const { store } = renderApp({ simulation: c.runner });
+    await user.click(screen.getByRole('button', { name: /Run the simulation/ }));
+    act(() => c.runs[0]!.progress(0.4));
+    const bar = screen.getByRole('progressbar');
+    expect(bar).toHaveAttribute('aria-valuenow', '40');
+    await user.click(screen.getByRole('button', { name: 'Cancel' }));
+    expect(screen.getByTestId('sim-status')).toHaveAttribute('data-status', 'cancelled');
+    expect(screen.queryByRole('progressbar')).toBeNull();
+
+    await user.click(screen.getByRole('button', { name: /Run the simulation/ }));
+    const plan = store.getState().validPlan;
+    await act(async () => {
+      c.runs[1]!.resolve({ ...fakeResult(plan) });
+    });
+    expect(screen.getByTestId('sim-status')).toHaveAttribute('data-stale', 'false');
+    const caliper = screen.getByRole('textbox', { name: /^Caliper/ });
+    fireEvent.change(caliper, { target: { value: '0.1' } });
+    expect(screen.getByTestId('sim-status')).toHaveAttribute('data-stale', 'true');
+    expect(screen.getByTestId('sim-status')).toHaveTextContent(/out of date/);
+  });
+
+  it('explains a bad plan file and keeps the current plan', async () => {
+    const user = userEvent.setup();
+    const { store } = renderApp();
+    const before = store.getState().draft;
+    const file = new File(['not json at all'], 'notes.json', { type: 'application/json' });
+    await user.upload(screen.getByTestId('open-file-input'), file);
+    const notice = await screen.findByTestId('notice');
+    expect(notice).toHaveAttribute('data-kind', 'error');
+    expect(within(notice).getByText(/The file "notes.json" could not be opened; your current plan is unchanged/)).toBeInTheDocument();
+    expect(store.getState().draft).toBe(before);
+  });
+});
+
+/** A simulation result carrying only what the panels read before drawing figures (no numbers are asserted from it). */
+function fakeResult(plan: import('../../src/core/plan').Plan) {
+  const zero = {
+    meanEstimate: 0, meanEstimateMCSE: 0, bias: 0, biasMCSE: 0, empiricalSE: 0, empiricalSEMCSE: 0, meanModelSE: 0, meanModelSEMCSE: 0,
+    rmse: 0, rmseMCSE: 0, coverage: 0, coverageMCSE: 0, rejectionRate: 0, rejectionRateMCSE: 0, wrongSignRate: 0, wrongSignRateMCSE: 0, replications: 0,
+  };
+  const a = (id: 'matchedDifference' | 'ancova' | 'gainScore' | 'correctedAncova') => ({ ...zero, id });
+  return {
+    plan,
+    seed: plan.simulation.seed,
+    replications: plan.simulation.replications,
+    tau: 2.5,
+    analyses: { matchedDifference: a('matchedDifference'), ancova: a('ancova'), gainScore: a('gainScore'), correctedAncova: a('correctedAncova') },
+    ancovaMatchedSample: a('ancova'),
+    matching: {
+      meanMatchedProgramme: 0, meanMatchedProgrammeMCSE: 0, discardedProgrammeShare: 0, discardedProgrammeShareMCSE: 0,
+      observedDifferenceBefore: 0, observedDifferenceAfter: 0, observedDifferenceAfterMCSE: 0, observedSMDBefore: 0, observedSMDAfter: 0,
+      trueDifferenceBefore: 0, trueDifferenceAfter: 0, trueDifferenceAfterMCSE: 0, trueSMDBefore: 0, trueSMDAfter: 0, varianceRatioAfter: 1,
+    },
+    estimates: { matchedDifference: [0], ancova: [0], gainScore: [0], correctedAncova: [0] },
+    example: { pairs: [], discarded: [] },
+  };
+}
