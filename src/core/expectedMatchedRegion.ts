@@ -1,6 +1,7 @@
 import type { ModelParameters } from './modelParameters';
 import { requireFinite, requirePositive } from './inputChecks';
 import { normalCdf } from './distributions';
+import { caliperWidth } from './caliperWidth';
 
 /** An interval of observed pretest scores, test points. */
 export interface PretestRange {
@@ -32,9 +33,8 @@ export interface PretestRange {
  *   // about 18.0 to 69.9 points.
  */
 export function expectedMatchedRegion(model: ModelParameters, caliper: number, ratio: number): PretestRange | null {
-  requirePositive(caliper, 'The caliper');
   requirePositive(ratio, 'The matching ratio');
-  const c = caliper * Math.sqrt((model.observedSD.programme ** 2 + model.observedSD.comparison ** 2) / 2);
+  const c = caliperWidth(model, caliper);
   const count = (n: number, mu: number, sd: number) => (x: number) =>
     n * (normalCdf((x + c - mu) / sd) - normalCdf((x - c - mu) / sd));
   const p = interval(count(model.n.programme, model.mean.programme, model.observedSD.programme), 1, model.mean.programme, model.observedSD.programme);
