@@ -30,7 +30,7 @@ export interface PretestRange {
  * @throws Error when caliper or ratio is not positive.
  * @example
  *   // means 44 vs 54, SDs 10, pools 180 and 1200, caliper 0.2, ratio 1:
- *   // about 18.0 to 69.9 points.
+ *   // about 21.4 to 70.1 points.
  */
 export function expectedMatchedRegion(model: ModelParameters, caliper: number, ratio: number): PretestRange | null {
   requirePositive(ratio, 'The matching ratio');
