@@ -7,6 +7,7 @@ import { classifyArtefact } from './classifyArtefact';
 import { expectedEstimate } from './expectedEstimate';
 import { falsePositiveRate, twoSidedPower, wrongSignRate } from './power';
 import { requiredNPerGroup } from './requiredNPerGroup';
+import { shareOfEffect } from './shareOfEffect';
 
 /** The plan settings one analysis' results depend on. */
 export interface AnalysisSettings {
@@ -57,7 +58,7 @@ export function analyseAnalysis(id: AnalysisId, m: ModelParameters, s: AnalysisS
     expectedEstimate: estimate,
     bias,
     biasSD: bias / m.posttestSD.comparison,
-    biasShare: tau === 0 ? null : bias / tau,
+    biasShare: shareOfEffect(bias, tau),
     verdict: classifyArtefact(tau, bias, s.tolerableBiasShare),
     se,
     df,

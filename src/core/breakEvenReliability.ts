@@ -34,7 +34,8 @@ export function breakEvenReliability(m: ModelParameters, tolerableShare: number)
       note: 'No effect is hoped for (0), so any artefact is large relative to it: see the false-positive rate instead.',
     };
   }
-  if (m.pretestGap === 0 || m.beta === 0) {
+  const artefactPerUnit = Math.abs(m.beta * m.pretestGap);
+  if (!(artefactPerUnit > 0)) {
     return {
       reliability: null,
       alreadyMet: true,
@@ -45,8 +46,8 @@ export function breakEvenReliability(m: ModelParameters, tolerableShare: number)
           : 'The outcome does not depend on the pretest (slope 0), so matching creates no regression artefact.',
     };
   }
-  const target = 1 - (tolerableShare * Math.abs(tau)) / Math.abs(m.beta * m.pretestGap);
-  if (target <= 0) {
+  const target = 1 - (tolerableShare * Math.abs(tau)) / artefactPerUnit;
+  if (!(target > 0)) {
     return {
       reliability: null,
       alreadyMet: true,
@@ -60,6 +61,16 @@ export function breakEvenReliability(m: ModelParameters, tolerableShare: number)
       alreadyMet: true,
       parallelForms: 1,
       note: `The comparison group's within-group reliability (${formatNumber(rho)}) already reaches the break-even ${formatNumber(target)}.`,
+    };
+  }
+  if (!(target < 1 - 1e-12)) {
+    return {
+      reliability: 1,
+      alreadyMet: false,
+      parallelForms: null,
+      note:
+        'The hoped-for effect is so small beside the pretest gap that only a perfectly reliable pretest would keep the ' +
+        'artefact tolerable: no number of parallel pretests reaches it.',
     };
   }
   const { forms } = parallelFormsNeeded(rho, target);

@@ -6,6 +6,7 @@ import { breakEvenReliability } from './breakEvenReliability';
 import { deriveModelParameters } from './deriveModelParameters';
 import { correctedAncovaEstimate, gainScoreEstimate, matchedDifferenceEstimate } from './expectedEstimate';
 import { expectedMatchedShare } from './expectedMatchedShare';
+import { shareOfEffect } from './shareOfEffect';
 
 const pts = (x: number): string => `${x >= 0 ? '' : '−'}${Math.abs(x).toFixed(2)}`;
 const pct = (x: number): string => `${Math.round(x * 100)}%`;
@@ -35,7 +36,7 @@ const rel = (x: number): string => x.toFixed(2);
 export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   const m = model ?? deriveModelParameters(plan);
   const tau = m.effect;
-  const shareOf = (b: number): number | null => (tau === 0 ? null : b / tau);
+  const shareOf = (b: number): number | null => shareOfEffect(b, tau);
   const matching = plan.matching;
   const currentShare = expectedMatchedShare(m, matching);
   const matchedBias = matchedDifferenceEstimate(m) - tau;

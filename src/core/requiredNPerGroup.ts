@@ -1,3 +1,4 @@
+import { normalQuantile } from './distributions';
 import { twoSidedPower } from './power';
 import { formatNumber, requireFinite, requireOpenInterval } from './inputChecks';
 
@@ -41,9 +42,23 @@ export function requiredNPerGroup(
     return twoSidedPower(mean, se, df, alpha);
   };
   const limit = 1e7;
-  let lo = 2;
-  if (powerAt(lo) >= targetPower) return lo;
-  let hi = 4;
+  // Start from the normal-approximation n (Cohen 1988, eq. 2.4.1 form): with SE ∝ 1/sqrt(n),
+  // n ≈ 100·((z_{1−α/2} + z_power)·SE(100)/|mean|)². Then bracket and bisect on the exact power.
+  const z = normalQuantile(1 - alpha / 2) + normalQuantile(targetPower);
+  const guess = 100 * ((z * design(100).se) / Math.abs(mean)) ** 2;
+  if (!(guess < limit * 4)) return null;
+  let lo = Math.max(2, Math.floor(guess * 0.8));
+  let hi = Math.max(lo + 1, Math.ceil(guess * 1.25) + 2);
+  if (powerAt(lo) >= targetPower) {
+    // Move down until power falls below the target (or n = 2 suffices).
+    hi = lo;
+    while (hi > 2) {
+      lo = Math.max(2, Math.floor(hi / 2));
+      if (powerAt(lo) < targetPower) break;
+      hi = lo;
+    }
+    if (hi === 2 && powerAt(2) >= targetPower) return 2;
+  }
   while (powerAt(hi) < targetPower) {
     lo = hi;
     hi *= 2;
