@@ -26,18 +26,18 @@ export function renderEstimatesChart(svg: SVGSVGElement, data: EstimatesChartDat
   const sub =
     data.mode === 'simulation'
       ? `Histograms of ${data.replications} simulated studies; diamond = closed-form expected estimate`
-      : 'Bars: range holding 95% of study estimates (expected estimate +/- 1.96 SE); diamond = expected estimate';
+      : 'Bars: where 95% of study estimates should fall; diamond = expected estimate';
   text(root, 12, 36, sub, { fill: GROUP_COLOURS.muted });
 
-  // Reference lines: no effect, and the hoped-for effect.
-  for (const [v, label, dash] of [
-    [0, 'No effect', '3 3'],
-    [data.tau, `Hoped-for effect ${fmt(data.tau, 2)}`, 'none'],
-  ] as [number, string, string][]) {
+  // Reference lines: no effect, and the hoped-for effect (one line when the hoped-for effect is 0).
+  const refs: [number, string, string][] =
+    data.tau === 0 ? [[0, 'No effect (the hoped-for effect is 0)', 'none']] : [[0, 'No effect', '3 3'], [data.tau, `Hoped-for effect ${fmt(data.tau, 2)}`, 'none']];
+  for (const [v, label, dash] of refs) {
     const xv = x(v);
     add(root, 'line', { x1: xv, x2: xv, y1: top - 6, y2: height - bottom, stroke: GROUP_COLOURS.reference, 'stroke-width': 1.2, 'stroke-dasharray': dash });
-    const anchor = v === data.tau && data.tau > 0 ? 'start' : v === data.tau && data.tau < 0 ? 'end' : data.tau >= 0 ? 'end' : 'start';
-    text(root, xv + (anchor === 'start' ? 4 : -4), top - 8, label, { 'text-anchor': anchor });
+    // Each label runs away from the other line (zero's label on the side away from the effect).
+    const towardRight = v === 0 ? data.tau < 0 || (data.tau === 0 && xv < (left + width - right) / 2) : data.tau > 0;
+    text(root, xv + (towardRight ? 4 : -4), top - 8, label, { 'text-anchor': towardRight ? 'start' : 'end' });
   }
 
   data.rows.forEach((r, i) => {

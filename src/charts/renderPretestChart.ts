@@ -135,13 +135,13 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
     const pulled = Math.abs(k.trueScore[g] - k.observed[g]) >= 0.05;
     for (const [xv, yy, v, isTrue] of [[xo, rowY(iObs), k.observed[g], false], [xt, rowY(iTrue), k.trueScore[g], true]] as [number, number, number, boolean][]) {
       add(panel, 'path', { d: `M${xv},${yy - 6}L${xv + 6},${yy}L${xv},${yy + 6}L${xv - 6},${yy}Z`, fill: GROUP_COLOURS[g], stroke: '#ffffff', 'stroke-width': 1 });
-      const label = isTrue && pulled ? `${fmt(v, 1)}, pulled toward the group mean ${fmt(data.groups[g].mean, 1)}` : fmt(v, 1);
-      text(panel, xv + 9, yy - 5, label, { fill: GROUP_COLOURS[g], 'font-weight': 'bold' });
+      const label = isTrue && pulled ? `${fmt(v, 1)}, pulled toward ${fmt(data.groups[g].mean, 1)}` : fmt(v, 1);
+      // Labels run rightwards unless they would leave the chart.
+      const fits = xv + 9 + label.length * FONT.tick * 0.6 < width - 4;
+      text(panel, fits ? xv + 9 : xv - 9, yy - 5, label, { fill: GROUP_COLOURS[g], 'font-weight': 'bold', 'text-anchor': fits ? 'start' : 'end' });
     }
   }
-  const note =
-    `Hidden true-score gap after matching: ${fmt(k.hiddenGap, 2)} points` +
-    (k.source === 'example' ? ' (Kelley expectation at the example study\'s means)' : ' (Kelley expectation, exact matching)');
+  const note = `Hidden true-score gap after matching: ${fmt(k.hiddenGap, 2)} points`;
   text(panel, width - right, rowsTop - 6, note, { 'text-anchor': 'end', 'font-weight': 'bold' });
   axisBottom(root, x, height - bottom + 4, data.xLabel, 8, (v) => fmt(v, 0));
 }

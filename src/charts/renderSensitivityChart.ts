@@ -31,12 +31,14 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
   const y = d3.scaleLinear().domain(data.yDomain).range([height - bottom, top]);
   const digits = data.mode === 'reliability' ? 2 : 1;
 
-  // Tolerated band and reference lines.
-  add(root, 'rect', {
-    x: left, y: y(data.band.upper), width: width - right - left, height: Math.max(0, y(data.band.lower) - y(data.band.upper)),
-    fill: GROUP_COLOURS.band,
-  });
-  text(root, width - right + 6, (y(data.band.upper) + y(data.band.lower)) / 2 + 4, `Tolerated: +/- ${fmt(data.band.upper, 2)}`, { fill: '#2f6b3a' });
+  // Tolerated band and reference lines (none when no effect is hoped for: then any bias is a false finding).
+  if (data.band.upper > data.band.lower) {
+    add(root, 'rect', {
+      x: left, y: y(data.band.upper), width: width - right - left, height: Math.max(0, y(data.band.lower) - y(data.band.upper)),
+      fill: GROUP_COLOURS.band,
+    });
+    text(root, width - right + 6, (y(data.band.upper) + y(data.band.lower)) / 2 + 4, `Tolerated: +/- ${fmt(data.band.upper, 2)}`, { fill: '#2f6b3a' });
+  }
   add(root, 'line', { x1: left, x2: width - right, y1: y(0), y2: y(0), stroke: '#999999' });
   if (data.tau !== 0) {
     for (const [v, label] of [
@@ -46,6 +48,8 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
       add(root, 'line', { x1: left, x2: width - right, y1: y(v), y2: y(v), stroke: GROUP_COLOURS.reference, 'stroke-dasharray': '5 3' });
       text(root, width - right + 6, y(v) + 4, `${label} (${fmt(v, 2)})`, { 'font-size': FONT.note });
     }
+  } else {
+    text(root, width - right + 6, y(0) + 4, 'No effect hoped for', { 'font-size': FONT.note });
   }
   axisLeft(root, y, left, data.yLabel, 6);
   axisBottom(root, x, height - bottom + 4, data.xLabel, 8);
@@ -53,10 +57,12 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
   // Break-even and current x.
   for (const be of data.breakEvenX) {
     add(root, 'line', { x1: x(be), x2: x(be), y1: top, y2: height - bottom, stroke: '#2f6b3a', 'stroke-width': 1.5, 'stroke-dasharray': '6 2' });
-    text(root, x(be) - 4, top + 12, `Break-even ${fmt(be, digits)}`, { 'text-anchor': 'end', fill: '#2f6b3a', 'font-weight': 'bold' });
+    const leftRoom = x(be) - left > 100;
+    text(root, x(be) + (leftRoom ? -4 : 4), top + 12, `Break-even ${fmt(be, digits)}`, { 'text-anchor': leftRoom ? 'end' : 'start', fill: '#2f6b3a', 'font-weight': 'bold' });
   }
   add(root, 'line', { x1: x(data.current), x2: x(data.current), y1: top, y2: height - bottom, stroke: '#111111', 'stroke-width': 1.5 });
-  text(root, x(data.current) + 4, height - bottom - 8, `This plan ${fmt(data.current, digits)}`, { 'font-weight': 'bold' });
+  const rightRoom = width - right - x(data.current) > 90;
+  text(root, x(data.current) + (rightRoom ? 4 : -4), height - bottom - 8, `This plan ${fmt(data.current, digits)}`, { 'font-weight': 'bold', 'text-anchor': rightRoom ? 'start' : 'end' });
 
   const line = d3
     .line<{ x: number; bias: number }>()
