@@ -1,0 +1,79 @@
+// The PDF summary from the real page: click the button, save the download,
+// read it back with pdfjs-dist (an independent PDF reader), and render its
+// pages to PNG with poppler's pdftoppm into artifacts/ for a person to look at.
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdirSync, readFileSync, readdirSync, rmSync } from 'node:fs';
+import path from 'node:path';
+import { expect, test } from '@playwright/test';
+import { parsePlanText } from '../../src/io/planFile';
+import { planTextFromReportText } from '../../src/report/planJsonBlock';
+import { readPdfText } from '../report/readPdfText';
+
+const ARTIFACTS = path.resolve('artifacts');
+
+test('the PDF summary downloaded from the page carries the plan, the figures on screen, the cautions and the plan file', async ({ page }) => {
+  test.setTimeout(120_000);
+  await page.goto('/');
+  await expect(page.getByTestId('verdict-bias')).toBeVisible();
+  const onScreenBias = (await page.getByTestId('verdict-bias').innerText()).replace(/\s*points$/, '').trim();
+  // User text with markup must reach the PDF as text.
+  const title = 'Invented <script>alert(1)</script> & "balance" pilot';
+  await page.getByRole('textbox', { name: /^Plan title/ }).fill(title);
+
+  // Simulate first, so the PDF has the simulated figures too.
+  await page.getByRole('button', { name: /^Run the simulation/ }).click();
+  await expect(page.getByTestId('sim-status')).toHaveAttribute('data-status', 'done', { timeout: 90_000 });
+
+  await page.getByRole('button', { name: /^Exports/ }).click();
+  await expect(page.getByTestId('export-caution')).toContainText('not a substitute for a statistician');
+  const pdfButton = page.getByRole('button', { name: 'Download PDF summary' });
+  await expect(pdfButton).toBeEnabled();
+  const [download] = await Promise.all([page.waitForEvent('download'), pdfButton.click()]);
+  expect(download.suggestedFilename()).toMatch(/-summary\.pdf$/);
+  mkdirSync(ARTIFACTS, { recursive: true });
+  const file = path.join(ARTIFACTS, 'e2e-summary.pdf');
+  await download.saveAs(file);
+  await expect(page.getByTestId('export-status')).toContainText('PDF summary downloaded.');
+
+  const bytes = new Uint8Array(readFileSync(file));
+  const text = await readPdfText(bytes);
+  const all = text.body.join(' ').replace(/\s+/g, ' ');
+  expect(text.body[0]).toBe('Meanward planning summary');
+  expect(all).toContain('Caution: A planning aid under stated assumptions');
+  // The bias the page shows is the bias the PDF states (same core result, same formatter).
+  expect(all).toContain(`a bias of ${onScreenBias} points`);
+  expect(all).toContain('Simulated bias');
+  expect(all).not.toContain('No simulation has been run');
+  for (const ref of ['Thorndike, R. L. (1942)', 'Campbell, D. T., & Erlebacher, A. (1970)', 'Lord, F. M. (1960)', 'Porter, A. C. (1967)']) {
+    expect(all).toContain(ref);
+  }
+  text.footers.forEach((f, i) => expect(f.join(' ')).toContain(`Page ${i + 1} of ${text.pages}`));
+  // The plan file printed in the PDF is the plan on the page.
+  const check = parsePlanText(planTextFromReportText(text.body.join('\n')) ?? '');
+  expect(check.ok).toBe(true);
+  if (check.ok) expect(check.plan.title).toBe(title);
+  expect(all).toContain(title);
+
+  // Pages as PNG for a person to look at (poppler-utils); skipped where pdftoppm is missing.
+  for (const f of readdirSync(ARTIFACTS)) if (/^e2e-summary-\d+\.png$/.test(f)) rmSync(path.join(ARTIFACTS, f));
+  if (existsSync('/usr/bin/pdftoppm')) {
+    const r = spawnSync('/usr/bin/pdftoppm', ['-png', '-r', '70', file, path.join(ARTIFACTS, 'e2e-summary')]);
+    expect(r.status).toBe(0);
+    expect(readdirSync(ARTIFACTS).filter((f) => /^e2e-summary-\d+\.png$/.test(f))).toHaveLength(text.pages);
+  }
+});
+
+test('exports say why they are unavailable while the plan has a problem', async ({ page }) => {
+  await page.goto('/');
+  await expect(page.getByTestId('verdict-bias')).toBeVisible();
+  await page.getByRole('button', { name: /^Exports/ }).click();
+  const pdfButton = page.getByRole('button', { name: 'Download PDF summary' });
+  await expect(pdfButton).toBeEnabled();
+  // Type an impossible reliability into the form.
+  const reliability = page.getByRole('spinbutton', { name: /^Reliability/ }).or(page.getByRole('textbox', { name: /^Reliability/ })).first();
+  await reliability.fill('1.4');
+  await expect(pdfButton).toBeDisabled();
+  await expect(page.getByText(/Exports are unavailable while the plan has/)).toBeVisible();
+  // What the user typed is kept.
+  await expect(reliability).toHaveValue('1.4');
+});
