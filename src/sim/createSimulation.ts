@@ -3,6 +3,7 @@ import { deriveModelParameters } from '../core/deriveModelParameters';
 import { ancovaEstimate } from './ancovaEstimate';
 import { createMatchingWorkspace, matchOnPretest } from './matchOnPretest';
 import { NormalSampler } from './normalSampler';
+import { sortNormalSample } from './sortNormalSample';
 import {
   FLAG_COMPUTED,
   FLAG_COVERED,
@@ -140,6 +141,10 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
   const xc = new Float64Array(nC);
   const tc = new Float64Array(nC);
   const yc = new Float64Array(nC);
+  const nMax = Math.max(nP, nC);
+  const sortScratch = new Float64Array(nMax);
+  const sortCounts = new Int32Array(nMax + 1);
+  const sortBuckets = new Int32Array(nMax);
   const rng = new Xoshiro128StarStar();
   const normal = new NormalSampler(rng);
   const ws = createMatchingWorkspace(nP, nC, k);
@@ -181,7 +186,7 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
 
     // Comparison pool, generated sorted on the observed pretest.
     for (let j = 0; j < nC; j++) xc[j] = muC + sdXC * normal.next();
-    xc.sort();
+    sortNormalSample(xc, nC, muC, sdXC, sortScratch, sortCounts, sortBuckets);
     let cSx = 0, cSxx = 0, cSy = 0, cSyy = 0, cSxy = 0, cSt = 0, cStt = 0;
     for (let j = 0; j < nC; j++) {
       const dx = (xc[j] as number) - muC;
@@ -195,7 +200,7 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
     // Programme pool, in matching order.
     for (let j = 0; j < nP; j++) xp[j] = muP + sdXP * normal.next();
     if (sortProgramme) {
-      xp.sort();
+      sortNormalSample(xp, nP, muP, sdXP, sortScratch, sortCounts, sortBuckets);
       if (order === 'highest-first') xp.reverse();
     }
     let pSx = 0, pSxx = 0, pSy = 0, pSyy = 0, pSxy = 0, pSt = 0, pStt = 0;

@@ -121,8 +121,8 @@ export function matchOnPretest(
     const picked = ws.picked;
     for (let i = 0; i < nP; i++) {
       const x = programmeX[i] as number;
-      const lo = lowerBound(comparisonX, nC, x - caliper);
-      const hi = upperBound(comparisonX, nC, x + caliper);
+      const xLow = x - caliper;
+      const xHigh = x + caliper;
       const base = i * k;
       let got = 0;
       if (method === 'nearest') {
@@ -131,8 +131,8 @@ export function matchOnPretest(
         let l = pos - 1;
         let r = pos;
         while (got < k) {
-          const okL = l >= lo;
-          const okR = r < hi;
+          const okL = l >= 0 && (comparisonX[l] as number) >= xLow;
+          const okR = r < nC && (comparisonX[r] as number) <= xHigh;
           if (!okL && !okR) break;
           let take: number;
           if (okL && okR) take = x - (comparisonX[l] as number) <= (comparisonX[r] as number) - x ? l-- : r++;
@@ -140,7 +140,8 @@ export function matchOnPretest(
           partners[base + got++] = take;
         }
       } else {
-        const range = hi - lo;
+        const lo = lowerBound(comparisonX, nC, xLow);
+        const range = upperBound(comparisonX, nC, xHigh) - lo;
         while (got < k && got < range) {
           // j-th (0-based) index in [lo, hi) not already picked by this member.
           let cand = lo + Math.floor(rng.nextFloat() * (range - got));
@@ -171,8 +172,8 @@ export function matchOnPretest(
     }
     for (let i = 0; i < nP; i++) {
       const x = programmeX[i] as number;
-      const lo = lowerBound(comparisonX, nC, x - caliper);
-      const hi = upperBound(comparisonX, nC, x + caliper);
+      const xLow = x - caliper;
+      const xHigh = x + caliper;
       const pos = lowerBound(comparisonX, nC, x);
       const base = i * k;
       let got = 0;
@@ -194,8 +195,9 @@ export function matchOnPretest(
           a = nx;
         }
         const l = lS - 1;
-        const okL = l >= lo;
-        const okR = r < hi;
+        // Within the caliper: x - c <= x_c <= x + c (the same predicate as the binary searches use).
+        const okL = l >= 0 && (comparisonX[l] as number) >= xLow;
+        const okR = r < nC && (comparisonX[r] as number) <= xHigh;
         if (!okL && !okR) break;
         let take: number;
         if (okL && okR) take = x - (comparisonX[l] as number) <= (comparisonX[r] as number) - x ? l : r;
