@@ -43,3 +43,4 @@ export { analyseAnalysis, type AnalysisSettings } from './analyseAnalysis';
 export { analysePlan, DEFAULT_TARGET_POWER } from './analysePlan';
 export { assertFiniteOutput } from './assertFiniteOutput';
 export { formatNumber } from './inputChecks';
+export { PLANNING_CAUTION } from './planningCaution';
