@@ -75,7 +75,7 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
     const x1 = Math.min(x(data.region.upper), width - right);
     add(plot, 'rect', { x: x0, y: top, width: Math.max(0, x1 - x0), height: height - bottom - top, fill: GROUP_COLOURS.region });
   }
-  axisLeft(plot, y, left, 'Density (share per point)', 4, (v) => fmt(v, 3));
+  axisLeft(plot, y, left, 'Density (share per point)', 4, (v) => fmt(v, 3), 52);
   add(plot, 'line', { x1: left, x2: width - right, y1: top + densityH, y2: top + densityH, stroke: '#444444' });
 
   const line = d3

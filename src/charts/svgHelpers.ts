@@ -75,7 +75,7 @@ export function axisBottom(
   text(g, (r0 + r1) / 2, y + 34, label, { 'text-anchor': 'middle', 'font-size': FONT.label });
 }
 
-/** Draw a left axis with inline styling and a rotated label (with units). */
+/** Draw a left axis with inline styling and a rotated label (with units), labelOffset px left of the axis. */
 export function axisLeft(
   g: Sel,
   scale: d3.ScaleLinear<number, number>,
@@ -83,6 +83,7 @@ export function axisLeft(
   label: string,
   count = 5,
   format?: (v: number) => string,
+  labelOffset = 44,
 ): void {
   const [r0, r1] = scale.range() as [number, number];
   add(g, 'line', { x1: x, x2: x, y1: r0, y2: r1, stroke: '#444444', 'stroke-width': 1 });
@@ -96,7 +97,7 @@ export function axisLeft(
   text(g, 0, 0, label, {
     'text-anchor': 'middle',
     'font-size': FONT.label,
-    transform: `translate(${round(x - 44)},${round(cy)}) rotate(-90)`,
+    transform: `translate(${round(x - labelOffset)},${round(cy)}) rotate(-90)`,
   });
 }
 
