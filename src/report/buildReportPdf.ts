@@ -170,7 +170,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       row('Power if there were no bias', (id) => formatProbability(A[id].powerWithoutBias)),
       row('False-positive rate if the programme does nothing', (id) => formatProbability(A[id].falsePositiveRate)),
       row('Wrong-sign rate (significant, opposite sign)', (id) => (A[id].wrongSignRate === null ? 'no effect hoped for' : formatProbability(A[id].wrongSignRate))),
-      row(`Per-group n for ${formatProbability(plan.analysis.targetPower ?? 0.8)} power`, (id) =>
+      row(`Per-group n for ${formatShare(plan.analysis.targetPower ?? 0.8)} power`, (id) =>
         A[id].requiredNPerGroup === null ? 'not reachable' : formatCount(A[id].requiredNPerGroup),
       ),
     ],
@@ -232,7 +232,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
           formatCount(P.poolSize),
           withMcse(formatCount(mt.meanMatchedProgramme), mt.meanMatchedProgrammeMCSE, (x) => formatPoints(x, 1)),
         ],
-        ['Share of the programme pool discarded', '—', withMcse(formatShare(mt.discardedProgrammeShare), mt.discardedProgrammeShareMCSE, formatProbability)],
+        ['Share of the programme pool discarded', '—', withMcse(formatProbability(mt.discardedProgrammeShare), mt.discardedProgrammeShareMCSE, formatProbability)],
         [
           'Observed pretest difference (points)',
           formatSignedPoints(mt.observedDifferenceBefore),
@@ -303,14 +303,14 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
         : `For the matched artefact to stay within ${formatShare(plan.analysis.tolerableBiasShare)} of the hoped-for effect, the within-group reliability would need to reach ${formatReliability(be.reliability)}${be.parallelForms === null ? '' : `, for example by averaging ${be.parallelForms} parallel forms of the pretest (Spearman–Brown)`}.`,
     );
   }
-  if (be.note) w.paragraph(be.note, { size: 9, muted: true });
+  if (be.note && be.reliability === null) w.paragraph(be.note);
   if (analytic.remedies.length === 0) {
     w.paragraph('No remedy is needed under this model: the planned design already keeps the expected artefact within the tolerable share.');
   }
   analytic.remedies.forEach((r, i) => {
     const parts = [
       `${r.title}${i === 0 ? ' (recommended)' : ''}. ${r.summary}`,
-      `Expected artefact with this remedy: ${formatSignedPoints(r.remainingBias)} points${r.remainingBiasShare === null ? '' : ` (${formatShare(r.remainingBiasShare)} of the effect)`}${r.discardedShare === null ? '' : `; about ${formatShare(r.discardedShare)} of the programme pool discarded`}.`,
+      `Expected artefact with this remedy: ${formatSignedPoints(r.remainingBias)} points${r.remainingBiasShare === null ? '' : ` (${formatShare(r.remainingBiasShare)} of the effect)`}${r.discardedShare === null ? '' : r.discardedShare === 0 ? '; no programme members discarded' : `; about ${formatShare(r.discardedShare)} of the programme pool discarded`}.`,
       `Assumes: ${r.assumption}`,
     ];
     w.item(`${i + 1}.`, parts.join(' '));

@@ -70,10 +70,41 @@ export class PdfWriter {
     this.y += h;
   }
 
+  /**
+   * Wrap text to `width` pt: at spaces, and after hyphens inside long words
+   * ("Reliability-" / "corrected"); a word with no break point wider than the
+   * line is cut by jsPDF's splitTextToSize.
+   */
   private lines(text: string, width: number, size: number, font = FONT_SANS, style = 'normal'): string[] {
     this.doc.setFont(font, style);
     this.doc.setFontSize(size);
-    return this.doc.splitTextToSize(text, width) as string[];
+    const fits = (s: string) => this.doc.getTextWidth(s) <= width;
+    const out: string[] = [];
+    for (const para of text.split('\n')) {
+      let line = '';
+      for (const word of para.split(' ')) {
+        // Break points inside the word: after a hyphen or dash that is followed by a letter
+        // (never inside a negative number such as "-2.50").
+        const pieces = word.split(/(?<=[-–—])(?=\p{L})/u);
+        pieces.forEach((piece, k) => {
+          const joiner = k === 0 && line !== '' ? ' ' : '';
+          if (fits(line + joiner + piece)) {
+            line += joiner + piece;
+            return;
+          }
+          if (line !== '') out.push(line);
+          if (fits(piece)) {
+            line = piece;
+          } else {
+            const cut = this.doc.splitTextToSize(piece, width) as string[];
+            out.push(...cut.slice(0, -1));
+            line = cut[cut.length - 1] ?? '';
+          }
+        });
+      }
+      out.push(line);
+    }
+    return out;
   }
 
   heading(text: string, level: 1 | 2 | 3 = 2): void {
