@@ -7,11 +7,16 @@ import { demoPlan } from '../io/demoPlan';
 import { parsePlanText, serializePlan } from '../io/planFile';
 import { formatResultsTable, PLANNING_CAUTION } from './formatResultsTable';
 import { parseCommandLine } from './parseCommandLine';
+import { simulatePlan } from '../sim/simulatePlan';
+import type { SimulationResult } from '../sim/types';
+import { formatSimulationTable } from './formatSimulationTable';
+import { createProgressBar, type ProgressStream } from './progressBar';
+import { simulationJson, type SimulationJson } from './simulationJson';
 
 /** Where the command line writes (process.stdout / process.stderr, or a test double). */
 export interface CliIO {
   stdout: { write(s: string): unknown };
-  stderr: { write(s: string): unknown };
+  stderr: ProgressStream;
 }
 
 /** Exit codes: 0 done; 1 an internal fault; 2 bad command line, unreadable file or invalid plan. */
@@ -24,7 +29,7 @@ pretest measured with error, and see the regression-toward-the-mean artefact
 before any data are collected.
 
 Usage:
-  meanward run <plan.json> [--json] [--reps N] [--seed S] [--no-sim]
+  meanward run <plan.json> [--json] [--reps N] [--seed S] [--no-sim] [--estimates]
   meanward demo            print the built-in demo plan (an invented example)
   meanward --help          this text
 
@@ -33,6 +38,8 @@ run options:
   --reps N    simulated replications (1 to 100000), instead of the plan's
   --seed S    simulation seed (0 to 4294967295), instead of the plan's
   --no-sim    closed-form results only
+  --estimates with --json, also print every replication's estimates and the
+              first replication's matched sets (large)
 
 Exit status: 0 done, 2 bad command line, unreadable file or invalid plan
 (every problem is printed on stderr, one per line), 1 internal fault.
@@ -81,21 +88,33 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
     return failWith(io, [`Internal fault: ${bad} is not a finite number. Please report this with your plan file.`], EXIT_INTERNAL);
   }
 
-  // ── SIMULATION HOOK ────────────────────────────────────────────────────
-  // The Monte Carlo engine (src/sim) is connected here once it exists:
-  //   const simulation = cmd.simulate ? simulatePlan(plan, { replications, seed, rng }) : null;
-  // Until then no simulated figure is printed or invented: `simulation` is null
-  // and the table says the simulation was not run.
-  const simulation = null;
-  const simulationNote = cmd.simulate
-    ? `Monte Carlo simulation (${plan.simulation.replications} replications, seed ${plan.simulation.seed}): not run; the command line's simulation runner is not connected yet.`
-    : 'Monte Carlo simulation: skipped (--no-sim).';
+  // ── SIMULATION ─────────────────────────────────────────────────────────
+  // The Monte Carlo engine (src/sim) simulates the planned procedure; every simulated figure printed comes from it.
+  let simulation: SimulationJson | null = null;
+  let simulationText = 'Monte Carlo simulation: skipped (--no-sim).\n';
+  if (cmd.simulate) {
+    const bar = createProgressBar(io.stderr, 'Simulating');
+    let result: SimulationResult;
+    try {
+      result = simulatePlan(plan, { onProgress: bar ? (done, total) => bar.update(done, total) : undefined });
+    } catch (err) {
+      bar?.done();
+      return failWith(io, [`${cmd.file}: ${err instanceof Error ? err.message : String(err)}`]);
+    }
+    bar?.done();
+    simulation = simulationJson(result, cmd.estimates === true);
+    const badSim = firstNonFinite(simulation, 'simulation');
+    if (badSim !== null) {
+      return failWith(io, [`Internal fault: ${badSim} is not a finite number. Please report this with your plan file.`], EXIT_INTERNAL);
+    }
+    simulationText = formatSimulationTable(result, analytic);
+  }
   // ───────────────────────────────────────────────────────────────────────
 
   if (cmd.json) {
     io.stdout.write(`${JSON.stringify({ plan, analytic, simulation, caution: PLANNING_CAUTION }, null, 2)}\n`);
   } else {
-    io.stdout.write(`${formatResultsTable(plan, analytic)}\n${simulationNote}\n\n${PLANNING_CAUTION}\n`);
+    io.stdout.write(`${formatResultsTable(plan, analytic)}\n${simulationText}\n${PLANNING_CAUTION}\n`);
   }
   return EXIT_OK;
 }

@@ -14,6 +14,8 @@ export type CommandLine =
       replications?: number;
       /** --seed S overrides the plan's simulation.seed. */
       seed?: number;
+      /** --estimates: include per-replication estimates and the example replication in --json. */
+      estimates?: boolean;
     };
 
 export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; problems: string[] };
@@ -38,6 +40,7 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   const files: string[] = [];
   let json = false;
   let simulate = true;
+  let estimates = false;
   let replications: number | undefined;
   let seed: number | undefined;
   for (let i = 0; i < rest.length; i++) {
@@ -59,6 +62,9 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
       case '--no-sim':
         simulate = false;
         break;
+      case '--estimates':
+        estimates = true;
+        break;
       case '--reps': {
         const v = takeValue();
         const n = wholeNumber(v, 1, PLAN_LIMITS.replicationsMax);
@@ -76,14 +82,14 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
         break;
       }
       default:
-        if (a.startsWith('-') && a !== '-') problems.push(`Unknown option ${quote(a)}. "meanward run" takes --json, --reps N, --seed S and --no-sim.`);
+        if (a.startsWith('-') && a !== '-') problems.push(`Unknown option ${quote(a)}. "meanward run" takes --json, --reps N, --seed S, --no-sim and --estimates.`);
         else files.push(a);
     }
   }
   if (files.length === 0) problems.push('"meanward run" needs a plan file, e.g. "meanward run plan.json".');
   if (files.length > 1) problems.push(`"meanward run" takes one plan file; got ${files.length}: ${files.map(quote).join(', ')}.`);
   if (problems.length > 0) return { ok: false, problems };
-  return { ok: true, value: { command: 'run', file: files[0]!, json, simulate, replications, seed } };
+  return { ok: true, value: { command: 'run', file: files[0]!, json, simulate, replications, seed, estimates } };
 }
 
 function wholeNumber(v: string | undefined, min: number, max: number): number | undefined {

@@ -76,16 +76,16 @@ describe('meanward run (table)', () => {
     const row = r.stdout.split('\n').find((l) => l.startsWith(analysePlan(DEMO_PLAN).analyses.matchedDifference.name))!;
     expect(row.trim().split(/\s{2,}/).slice(1, 3)).toEqual(['0.50', '-2.00']);
   });
-  it('without --no-sim it says the simulation was not run, and prints no simulated figure', async () => {
-    const r = await run(['run', demoFile, '--reps', '500', '--seed', '9']);
+  it('without --no-sim it adds the simulated results (details in test/cli/simulation.test.ts)', async () => {
+    const r = await run(['run', demoFile, '--reps', '50', '--seed', '9']);
     expect(r.code).toBe(0);
-    expect(r.stdout).toContain('Monte Carlo simulation (500 replications, seed 9): not run;');
+    expect(r.stdout).toContain('Simulated results (50 replications, seed 9;');
   });
 });
 
 describe('meanward run --json', () => {
   it('prints one JSON object equal to { plan, analytic: analysePlan(plan) }', async () => {
-    const r = await run(['run', demoFile, '--json']);
+    const r = await run(['run', demoFile, '--json', '--no-sim']);
     expect(r.code).toBe(0);
     expect(r.stderr).toBe('');
     const out = JSON.parse(r.stdout);
@@ -113,8 +113,8 @@ describe('meanward run --json', () => {
     expect(Math.abs(out.analytic.reliability.sem - 5)).toBeLessThan(1e-9); // 10 * sqrt(1 - .75)
   });
   it('--reps and --seed replace the plan file values', async () => {
-    const out = JSON.parse((await run(['run', demoFile, '--json', '--reps=300', '--seed', '4294967295'])).stdout);
-    expect(out.plan.simulation).toEqual({ replications: 300, seed: 4294967295 });
+    const out = JSON.parse((await run(['run', demoFile, '--json', '--reps=30', '--seed', '4294967295'])).stdout);
+    expect(out.plan.simulation).toEqual({ replications: 30, seed: 4294967295 });
   });
 });
 
@@ -157,7 +157,7 @@ describe('failures: exit code 2, every problem on stderr, nothing on stdout', ()
     expect(r.stderr.trimEnd().split('\n')).toEqual([
       'meanward: --reps (number of simulated replications) must be a whole number from 1 to 100000; got "0".',
       'meanward: --seed (simulation seed) must be a whole number from 0 to 4294967295; got "-3".',
-      'meanward: Unknown option "--fast". "meanward run" takes --json, --reps N, --seed S and --no-sim.',
+      'meanward: Unknown option "--fast". "meanward run" takes --json, --reps N, --seed S, --no-sim and --estimates.',
     ]);
   });
   it('an unknown command, no command, run without a file', async () => {
