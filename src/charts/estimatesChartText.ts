@@ -2,6 +2,7 @@ import type { ChartText } from './chartTypes';
 import type { EstimatesChartData } from './estimatesChartData';
 import { ANALYSIS_STYLES } from './palette';
 import { fmt } from './svgHelpers';
+import { PLANNING_CAUTION } from '../core/planningCaution';
 
 /** Text alternative to the estimates chart: sentences and a table (screen readers, PDF). */
 export function estimatesChartText(data: EstimatesChartData): ChartText {
@@ -16,7 +17,7 @@ export function estimatesChartText(data: EstimatesChartData): ChartText {
     data.mode === 'closed-form'
       ? 'These ranges are closed-form approximations; run the simulation to see the planned matching procedure itself.'
       : `Histograms show the estimates from ${data.replications} simulated studies of this plan.`,
-    'These are planning figures under the model\'s assumptions (normal scores, linear relations, the reliabilities entered); they inform the design and do not replace review by a statistician or an ethics board.',
+    PLANNING_CAUTION,
   ];
   const columns = ['Analysis', 'Expected estimate (points)', '95% range low', '95% range high'];
   if (data.mode === 'simulation') columns.push('Simulated mean', 'Monte Carlo SE', 'Studies drawn');

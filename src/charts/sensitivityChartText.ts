@@ -2,6 +2,7 @@ import type { ChartText } from './chartTypes';
 import type { SensitivityChartData } from './sensitivityChartData';
 import { ANALYSIS_STYLES } from './palette';
 import { fmt } from './svgHelpers';
+import { PLANNING_CAUTION } from '../core/planningCaution';
 
 /** Text alternative to the sensitivity chart: sentences and a table of the curves at a few x values. */
 export function sensitivityChartText(data: SensitivityChartData): ChartText {
@@ -13,7 +14,7 @@ export function sensitivityChartText(data: SensitivityChartData): ChartText {
     data.breakEvenX.length > 0
       ? `The matched-difference artefact reaches the edge of the tolerated band at ${what} ${data.breakEvenX.map((v) => fmt(v, d)).join(' and ')}.`
       : 'No break-even value lies on this axis.',
-    'Curves are closed-form expectations under the model\'s assumptions; check the planned procedure with the simulation and a statistician.',
+    PLANNING_CAUTION,
     ...data.coincident.map(([a, b]) => `${ANALYSIS_STYLES[a].shortLabel} and ${ANALYSIS_STYLES[b].shortLabel} have the same expected bias all along this axis.`),
   ];
   // Table: every few grid points, so a reader can follow the curves.
