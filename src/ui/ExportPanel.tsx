@@ -123,14 +123,14 @@ export function ExportPanel() {
           {planReason}
         </p>
       )}
-      <div className="export-buttons" role="group" aria-label="Download">
+      <div className="export-buttons" role="group" aria-label="Download" style={{ display: 'flex', flexWrap: 'wrap', gap: '0.5rem', margin: '0.4rem 0' }}>
         <button type="button" className="primary" onClick={() => void onPdf()} disabled={planReason !== null || busy} aria-describedby={planReason ? reasonId : undefined}>
           Download PDF summary
         </button>
         <button type="button" onClick={() => void onPlan()} disabled={planReason !== null || busy} aria-describedby={planReason ? reasonId : undefined}>
           Plan file (JSON)
         </button>
-        <button type="button" onClick={() => void onCsv()} disabled={simReason !== null || busy} aria-describedby={simReason ? simReasonId : undefined}>
+        <button type="button" onClick={() => void onCsv()} disabled={simReason !== null || busy} aria-describedby={planReason ? reasonId : simReason ? simReasonId : undefined}>
           Estimates CSV
         </button>
       </div>
@@ -143,7 +143,7 @@ export function ExportPanel() {
         <p className="export-reason">The PDF summary will say that no simulation has been run and show the closed-form figures only.</p>
       )}
       <h3>Charts</h3>
-      <ul className="export-charts">
+      <ul className="export-charts" style={{ display: 'flex', flexWrap: 'wrap', gap: '0.4rem 1.5rem', listStyle: 'none', padding: 0 }}>
         {chartIds.map((c) => (
           <li key={c.id}>
             <span>{c.name}</span>{' '}
