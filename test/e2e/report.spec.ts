@@ -63,6 +63,38 @@ test('the PDF summary downloaded from the page carries the plan, the figures on 
   }
 });
 
+test('the estimates CSV and chart images download from the page', async ({ page }) => {
+  test.setTimeout(120_000);
+  await page.goto('/');
+  await page.getByRole('button', { name: /^Run the simulation/ }).click();
+  await expect(page.getByTestId('sim-status')).toHaveAttribute('data-status', 'done', { timeout: 90_000 });
+  await page.getByRole('button', { name: /^Exports/ }).click();
+  mkdirSync(ARTIFACTS, { recursive: true });
+
+  const [csv] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Estimates CSV' }).click()]);
+  const csvText = readFileSync(await csv.path(), 'utf8');
+  const lines = csvText.trim().split('\r\n');
+  expect(lines[0]).toBe('replication,seed,matched_difference,ancova_observed_pretest,gain_score,reliability_corrected_ancova,plan_title');
+  const replications = Number((await page.getByTestId('sim-status').innerText()).match(/([\d,]+) replications/)?.[1]?.replace(/,/g, ''));
+  expect(lines).toHaveLength(replications + 1);
+
+  const [svg] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Balance after matching chart as SVG' }).click()]);
+  const svgText = readFileSync(await svg.path(), 'utf8');
+  expect(svgText.startsWith('<?xml version="1.0" encoding="UTF-8"?>\n<svg')).toBe(true);
+
+  const [png] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Estimates by analysis chart as PNG' }).click()]);
+  const file = path.join(ARTIFACTS, 'e2e-chart-estimates.png');
+  await png.saveAs(file);
+  const bytes = readFileSync(file);
+  // PNG signature and IHDR (W3C PNG specification, sections 5.2 and 11.2.2): 89 50 4E 47 0D 0A 1A 0A,
+  // then width and height as 4-byte big-endian integers at offsets 16 and 20.
+  expect([...bytes.subarray(0, 8)]).toEqual([0x89, 0x50, 0x4e, 0x47, 0x0d, 0x0a, 0x1a, 0x0a]);
+  const svgWidth = Number(svgText.match(/<svg[^>]*\swidth="([\d.]+)"/)?.[1]);
+  expect(svgWidth).toBeGreaterThan(0);
+  // Drawn at twice the chart's size.
+  expect(bytes.readUInt32BE(16)).toBe(2 * 720);
+});
+
 test('exports say why they are unavailable while the plan has a problem', async ({ page }) => {
   await page.goto('/');
   await expect(page.getByTestId('verdict-bias')).toBeVisible();
