@@ -43,7 +43,8 @@ export async function runSimulationInSteps(
   let from = 0;
   while (from < total) {
     if (host.cancelled()) return null;
-    const to = Math.min(total, from + chunk);
+    // Never run past the next 5% mark without reporting.
+    const to = Math.min(total, from + chunk, lastReportedDone + fivePercent);
     const t0 = host.now();
     run.runChunk(from, to);
     const t1 = host.now();
