@@ -1,5 +1,6 @@
 import type { Plan } from '../core/plan';
 import { DEMO_PLAN } from '../io/demoPlan';
+import { EXAMPLE_PLANS } from '../io/examplePlans';
 import { formatInput } from './format';
 
 /** Where an input value came from. */
@@ -32,12 +33,12 @@ const MATCHING_ORDER: Record<NonNullable<Plan['matching']['order']>, string> = {
 /**
  * Every input of the plan, with its unit and source, in the order of the
  * planner's form. Values are shown as entered (no statistic is computed).
- * Source: the `provenance` map when given; otherwise "example" for values that
- * equal the built-in invented demo plan's when the plan is that demo, else
- * "entered".
+ * Source: the `provenance` map when given; otherwise, when the plan carries
+ * the title of the built-in demo or one of the invented example plans,
+ * "example" for each value still equal to that example's, else "entered".
  */
 export function planInputRows(plan: Plan, provenance?: Partial<Record<string, InputSource>>): PlanInputRow[] {
-  const isDemo = plan.title === DEMO_PLAN.title;
+  const example: Plan | undefined = [DEMO_PLAN, ...EXAMPLE_PLANS.map((e) => e.plan)].find((p) => p.title === plan.title);
   const rows: Omit<PlanInputRow, 'source'>[] = [];
   const add = (path: string, label: string, unit: string, display?: (v: unknown) => string) => {
     const v = at(plan, path);
@@ -58,6 +59,7 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
   add('outcome.prePostCorrelation', 'Pre–post correlation (within group)', 'correlation');
   add('outcome.growthGap', 'Growth gap not due to the programme (δ)', 'post-test points');
   add('outcome.hypothesisedEffect', 'Hoped-for programme effect (τ)', plan.outcome.effectScale === 'sd' ? 'post-test SDs' : 'post-test points');
+  add('outcome.effectScale', 'Effect expressed in', '', (v) => (v === 'sd' ? 'post-test SDs (standardised)' : 'post-test points'));
   add('matching.method', 'Matching method', '', (v) => MATCHING_METHOD[v as Plan['matching']['method']] ?? String(v));
   add('matching.caliper', 'Caliper', 'SDs of the pooled pretest');
   add('matching.ratio', 'Comparison partners per programme member', 'people');
@@ -72,7 +74,7 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
   return rows.map((r) => {
     const given = provenance?.[r.path];
     const source: InputSource =
-      given ?? (isDemo && JSON.stringify(at(plan, r.path)) === JSON.stringify(at(DEMO_PLAN, r.path)) ? 'example' : 'entered');
+      given ?? (example && JSON.stringify(at(plan, r.path)) === JSON.stringify(at(example, r.path)) ? 'example' : 'entered');
     return { ...r, source };
   });
 }
