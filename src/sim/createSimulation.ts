@@ -145,6 +145,9 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
   const sortScratch = new Float64Array(nMax);
   const sortCounts = new Int32Array(nMax + 1);
   const sortBuckets = new Int32Array(nMax);
+  // A replication's standard normal variates, drawn in one go: 3 per person
+  // (observed pretest, true score given it, outcome residual).
+  const zBuffer = new Float64Array(3 * (nP + nC));
   const rng = new Xoshiro128StarStar();
   const normal = new NormalSampler(rng);
   const ws = createMatchingWorkspace(nP, nC, k);
@@ -184,21 +187,31 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
     rng.reseed(seed, i);
     normal.reset();
 
+    // Draw every standard normal variate this replication needs, in a fixed layout:
+    // [comparison X | comparison T|X | comparison e | programme X | programme T|X | programme e].
+    const z = zBuffer;
+    normal.fillStandard(z, z.length);
+    const zTC = nC;
+    const zEC = 2 * nC;
+    const zXP = 3 * nC;
+    const zTP = zXP + nP;
+    const zEP = zXP + 2 * nP;
+
     // Comparison pool, generated sorted on the observed pretest.
-    for (let j = 0; j < nC; j++) xc[j] = muC + sdXC * normal.next();
+    for (let j = 0; j < nC; j++) xc[j] = muC + sdXC * (z[j] as number);
     sortNormalSample(xc, nC, muC, sdXC, sortScratch, sortCounts, sortBuckets);
     let cSx = 0, cSxx = 0, cSy = 0, cSyy = 0, cSxy = 0, cSt = 0, cStt = 0;
     for (let j = 0; j < nC; j++) {
       const dx = (xc[j] as number) - muC;
-      const dt = rhoC * dx + condC * normal.next();
-      const dy = beta * dt + resSD * normal.next();
+      const dt = rhoC * dx + condC * (z[zTC + j] as number);
+      const dy = beta * dt + resSD * (z[zEC + j] as number);
       tc[j] = muC + dt;
       yc[j] = yCentreC + dy;
       cSx += dx; cSxx += dx * dx; cSy += dy; cSyy += dy * dy; cSxy += dx * dy; cSt += dt; cStt += dt * dt;
     }
 
     // Programme pool, in matching order.
-    for (let j = 0; j < nP; j++) xp[j] = muP + sdXP * normal.next();
+    for (let j = 0; j < nP; j++) xp[j] = muP + sdXP * (z[zXP + j] as number);
     if (sortProgramme) {
       sortNormalSample(xp, nP, muP, sdXP, sortScratch, sortCounts, sortBuckets);
       if (order === 'highest-first') xp.reverse();
@@ -206,8 +219,8 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
     let pSx = 0, pSxx = 0, pSy = 0, pSyy = 0, pSxy = 0, pSt = 0, pStt = 0;
     for (let j = 0; j < nP; j++) {
       const dx = (xp[j] as number) - muP;
-      const dt = rhoP * dx + condP * normal.next();
-      const dy = beta * dt + resSD * normal.next();
+      const dt = rhoP * dx + condP * (z[zTP + j] as number);
+      const dy = beta * dt + resSD * (z[zEP + j] as number);
       tp[j] = muP + dt;
       yp[j] = yCentreP + dy;
       pSx += dx; pSxx += dx * dx; pSy += dy; pSyy += dy * dy; pSxy += dx * dy; pSt += dt; pStt += dt * dt;

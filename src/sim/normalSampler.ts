@@ -51,6 +51,39 @@ export class NormalSampler {
   }
 
   /**
+   * Fill out[0..n) with N(0, 1) variates, two per accepted polar pair: the
+   * same sequence as n calls of next(), in a tight loop (the engine draws a
+   * replication's variates in one go).
+   * @param out destination (length at least n).
+   * @param n count, integer >= 0.
+   */
+  fillStandard(out: Float64Array, n: number): void {
+    let i = 0;
+    if (n > 0 && this.hasSpare) {
+      out[i++] = this.spare;
+      this.hasSpare = false;
+    }
+    const rng = this.rng;
+    while (i < n) {
+      let u: number;
+      let v: number;
+      let s: number;
+      do {
+        u = (rng.nextUint32() | 0) * TWO_POW_MINUS_31;
+        v = (rng.nextUint32() | 0) * TWO_POW_MINUS_31;
+        s = u * u + v * v;
+      } while (s >= 1 || s === 0);
+      const m = Math.sqrt((-2 * Math.log(s)) / s);
+      out[i++] = u * m;
+      if (i < n) out[i++] = v * m;
+      else {
+        this.spare = v * m;
+        this.hasSpare = true;
+      }
+    }
+  }
+
+  /**
    * Fill out[0..n) with N(mean, sd^2) variates.
    * @param out destination (length at least n).
    * @param n count, integer >= 0.
