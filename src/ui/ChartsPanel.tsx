@@ -10,7 +10,7 @@ import { renderChart, type ChartDataById } from '../charts/renderChartToSvgStrin
 import { sensitivityChartData } from '../charts/sensitivityChartData';
 import { sensitivityChartText } from '../charts/sensitivityChartText';
 import type { SensitivityVariable } from '../core/sensitivityCurve';
-import { selectAnalytic, selectAnalyticStale, selectHighlight, selectSetHighlight, selectSimulation, selectValidPlan } from '../state/selectors';
+import { selectAnalytic, selectAnalyticStale, selectHighlight, selectSetHighlight, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 
 /** Chart size for a container width: drawn at the size shown, so text stays at its designed size. */
@@ -50,6 +50,9 @@ function ChartCard<K extends ChartId>({ chartId, data, text, error, controls }: 
     if (!ref.current || !data) return;
     try {
       renderChart(chartId, ref.current, data, { ...sizeFor(width), highlight, onHighlight: setHighlight });
+      // On screen, legend entries are focusable buttons; an image may not contain
+      // controls, so the live chart is a labelled group (exports stay role=img).
+      if (ref.current.querySelector('[tabindex]')) ref.current.setAttribute('role', 'group');
       setDrawError(null);
     } catch (e) {
       setDrawError(e instanceof Error ? e.message : String(e));
@@ -125,9 +128,11 @@ export function ChartsPanel() {
   const plan = useMeanwardStore(selectValidPlan);
   const analytic = useMeanwardStore(selectAnalytic);
   const stale = useMeanwardStore(selectAnalyticStale);
-  const sim = useMeanwardStore(selectSimulation);
+  // Narrow reads: progress ticks during a run must not re-render the charts.
+  const simResult = useMeanwardStore((s) => s.simulation.result);
+  const simStale = useMeanwardStore((s) => s.simulation.stale);
   const [mode, setMode] = useState<SensitivityVariable>('reliability');
-  const simulation = sim.result && !sim.stale ? sim.result : null;
+  const simulation = simResult && !simStale ? simResult : null;
   const input: ChartInput | null = useMemo(() => (analytic ? { plan, analytic, simulation } : null), [plan, analytic, simulation]);
   const pretest = useMemo(() => (input ? build(() => pretestChartData(input), pretestChartText) : null), [input]);
   const estimates = useMemo(() => (input ? build(() => estimatesChartData(input), estimatesChartText) : null), [input]);
@@ -141,7 +146,7 @@ export function ChartsPanel() {
       <p className="section-intro">
         Point at a row of the table, a line or a legend entry to pick out one analysis in every chart.
         {stale && <strong className="stale-inline"> These charts are for the last complete plan.</strong>}
-        {sim.result && sim.stale && ' The simulation is out of date, so the charts show expected figures only.'}
+        {simResult && simStale && ' The simulation is out of date, so the charts show expected figures only.'}
       </p>
       <div className="charts-grid">
         <ChartCard chartId="pretest" {...pretest} />

@@ -1,7 +1,7 @@
 import { ANALYSIS_STYLES } from '../charts/palette';
 import type { AnalysisId } from '../core/plan';
 import type { SimAnalysisSummary } from '../sim/types';
-import { selectAnalysesInOrder, selectAnalyticStale, selectHighlight, selectSetHighlight, selectSimulation } from '../state/selectors';
+import { selectAnalysesInOrder, selectAnalyticStale, selectHighlight, selectSetHighlight } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { fmt, fmtPct, fmtSigned } from './format';
 import { verdictWords } from './VerdictPanel';
@@ -26,8 +26,10 @@ export function ComparisonTable() {
   const stale = useMeanwardStore(selectAnalyticStale);
   const highlight = useMeanwardStore(selectHighlight);
   const setHighlight = useMeanwardStore(selectSetHighlight);
-  const sim = useMeanwardStore(selectSimulation);
-  const simResult = sim.result;
+  // Narrow reads: progress ticks during a run must not re-render the table.
+  const simResult = useMeanwardStore((s) => s.simulation.result);
+  const simStale = useMeanwardStore((s) => s.simulation.stale);
+  const sim = { stale: simStale };
   const tauZero = simResult ? simResult.tau === 0 : false;
   if (rows.length === 0) return null;
   const simFor = (id: AnalysisId): SimAnalysisSummary | null => simResult?.analyses[id] ?? null;

@@ -50,13 +50,15 @@ function Section({ title, intro, children }: { title: string; intro?: string; ch
 
 function GroupColumn({ group, heading }: { group: 'programme' | 'comparison'; heading: string }) {
   const p = `groups.${group}`;
+  // The column heading names the group on screen; screen readers hear it in each label.
+  const who = <span className="visually-hidden">, {group} group</span>;
   return (
     <div className="group-column">
       <h3>{heading}</h3>
-      <TextField path={`${p}.label`} label="Name" hint="Shown in results and reports." />
-      <NumberField path={`${p}.poolSize`} label="Pool size" unit="people" step={10} min={2} inputMode="numeric" hint="How many people are available to match from." />
-      <NumberField path={`${p}.pretestMean`} label="Pretest mean" unit="points" step={1} hint="Average observed pretest score." />
-      <NumberField path={`${p}.pretestSD`} label="Pretest SD" unit="points" step={0.5} min={0} hint="Spread of observed scores within this group." />
+      <TextField path={`${p}.label`} label={<>Name{who}</>} hint="Shown in results and reports." />
+      <NumberField path={`${p}.poolSize`} label={<>Pool size{who}</>} unit="people" step={10} min={2} inputMode="numeric" hint="How many people are available to match from." />
+      <NumberField path={`${p}.pretestMean`} label={<>Pretest mean{who}</>} unit="points" step={1} hint="Average observed pretest score." />
+      <NumberField path={`${p}.pretestSD`} label={<>Pretest SD{who}</>} unit="points" step={0.5} min={0} hint="Spread of observed scores within this group." />
     </div>
   );
 }

@@ -1,0 +1,41 @@
+import { defineConfig } from '@playwright/test';
+
+// Browser suite: Debian's Chromium (never a downloaded browser), against the
+// production build served by `vite preview`. See shared toolchain notes.
+export default defineConfig({
+  testDir: 'test/e2e',
+  testMatch: '**/*.spec.ts',
+  outputDir: 'test-results',
+  workers: 1,
+  fullyParallel: false,
+  timeout: 120_000,
+  expect: { timeout: 15_000 },
+  reporter: [['list']],
+  use: {
+    baseURL: 'http://127.0.0.1:4173/',
+    viewport: { width: 1366, height: 768 },
+    screenshot: 'only-on-failure',
+    trace: 'off',
+    acceptDownloads: true,
+    launchOptions: {
+      executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+      args: [
+        '--headless',
+        '--no-sandbox',
+        '--disable-gpu',
+        '--disable-quic',
+        '--no-first-run',
+        '--disable-background-networking',
+        '--disable-component-update',
+        '--disable-sync',
+      ],
+    },
+  },
+  webServer: {
+    command: 'npm run build && npx vite preview --host 127.0.0.1 --port 4173 --strictPort',
+    url: 'http://127.0.0.1:4173/',
+    // Always build and serve afresh: reusing a server could test a stale build.
+    reuseExistingServer: false,
+    timeout: 120_000,
+  },
+});
