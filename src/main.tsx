@@ -21,6 +21,13 @@ if (isShareFragment(location.hash)) store.getState().openShareFragment(location.
 window.addEventListener('hashchange', () => {
   if (isShareFragment(location.hash)) store.getState().openShareFragment(location.hash);
 });
+// Once the plan is edited, a "#plan=…" address no longer describes it: drop the
+// fragment so a reload restores the autosave rather than the older linked plan.
+store.subscribe((state, prev) => {
+  if (state.draft !== prev.draft && isShareFragment(location.hash) && state.shareFragment() !== location.hash) {
+    history.replaceState(null, '', `${location.pathname}${location.search}`);
+  }
+});
 
 const root = document.getElementById('root');
 if (!root) throw new Error('The page has no #root element.');

@@ -84,6 +84,13 @@ export function planToDraft(plan: Plan): PlanDraft {
 
 /** Plain names of the numeric fields, used in "must be a number" messages. */
 export const FIELD_NAMES: Record<string, string> = {
+  title: 'Plan title',
+  'groups.programme.label': 'Programme group name',
+  'groups.comparison.label': 'Comparison pool name',
+  'outcome.effectScale': 'Effect expressed in',
+  'matching.method': 'Matching method',
+  'matching.replacement': 'Reuse of comparison people',
+  'matching.order': 'Matching order',
   'groups.programme.poolSize': 'Programme pool size',
   'groups.programme.pretestMean': 'Programme pretest mean',
   'groups.programme.pretestSD': 'Programme pretest SD',

@@ -1,13 +1,20 @@
 import { useId } from 'react';
-import { selectAnalytic, selectAnalyticStale, selectGeneralProblems, selectProblems } from '../state/selectors';
+import { FIELD_NAMES } from '../state/planDraft';
+import { selectAnalytic, selectAnalyticStale, selectProblems } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { CheckField, ChoiceField, NumberField, TextField } from './fields';
 import { fmt, fmtR } from './format';
 
+/** Move keyboard focus to a field by its plan path (from the problem list). */
+function focusField(path: string) {
+  const el = document.querySelector<HTMLElement>(`[name="${CSS.escape(path)}"]`);
+  el?.focus();
+  el?.scrollIntoView({ block: 'center' });
+}
+
 /** The plan form: every input of the plan, in six sections. */
 export function PlanForm() {
   const problems = useMeanwardStore(selectProblems);
-  const general = useMeanwardStore(selectGeneralProblems);
   return (
     <form className="plan-form" aria-label="Study plan" onSubmit={(e) => e.preventDefault()} noValidate>
       <h2 className="visually-hidden">Study plan</h2>
@@ -18,13 +25,19 @@ export function PlanForm() {
             {problems.length === 1 ? 'One field needs attention' : `${problems.length} fields need attention`}
           </strong>
           ; the results on the right belong to the last complete plan until it is fixed.
-          {general.length > 0 && (
-            <ul>
-              {general.map((p) => (
-                <li key={p.message}>{p.message}</li>
-              ))}
-            </ul>
-          )}
+          <ul>
+            {problems.map((p) =>
+              FIELD_NAMES[p.field] === undefined ? (
+                <li key={p.field + p.message}>{p.message}</li>
+              ) : (
+                <li key={p.field}>
+                  <button type="button" className="link-button" onClick={() => focusField(p.field)}>
+                    {FIELD_NAMES[p.field] ?? p.field}
+                  </button>
+                </li>
+              ),
+            )}
+          </ul>
         </div>
       )}
       <GroupsSection />

@@ -26,7 +26,7 @@ export function RemediesPanel() {
             )}
           </p>
         ) : null}
-        {be.note && <p className="note">{be.note}</p>}
+        {be.note && be.reliability === null && <p className="note">{be.note}</p>}
       </div>
       {analytic.remedies.length > 0 && (
         <ol className="remedy-list">

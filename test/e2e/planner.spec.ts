@@ -122,6 +122,11 @@ test('a share link reopens the plan in a fresh browser; a bad link explains itse
   await other.goto(url);
   await expect(other.getByRole('textbox', { name: /^Pretest mean\b.*programme/ })).toHaveValue('47');
   await expect(other.getByTestId('notice')).toContainText('shared link');
+  // Editing after opening a link, then reloading, keeps the edit (the old link no longer wins).
+  await retype(other, /^Caliper/, '0.3');
+  await other.reload();
+  await expect(other.getByRole('textbox', { name: /^Caliper/ })).toHaveValue('0.3');
+  await expect(other.getByRole('textbox', { name: /^Pretest mean\b.*programme/ })).toHaveValue('47');
 
   // A truncated link: explained, and the plan on screen is untouched.
   await other.goto(`${url.split('#')[0]}#plan=eyJmb3JtYXQi`);
