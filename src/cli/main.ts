@@ -35,7 +35,7 @@ Usage:
 
 run options:
   --json      print one JSON object: { plan, analytic, simulation }
-  --reps N    simulated replications (1 to 100000), instead of the plan's
+  --reps N    simulated replications (2 to 100000), instead of the plan's
   --seed S    simulation seed (0 to 4294967295), instead of the plan's
   --no-sim    closed-form results only
   --estimates with --json, also print every replication's estimates and the

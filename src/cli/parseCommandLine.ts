@@ -67,9 +67,9 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
         break;
       case '--reps': {
         const v = takeValue();
-        const n = wholeNumber(v, 1, PLAN_LIMITS.replicationsMax);
+        const n = wholeNumber(v, PLAN_LIMITS.replicationsMin, PLAN_LIMITS.replicationsMax);
         if (n === undefined) {
-          problems.push(`--reps (number of simulated replications) must be a whole number from 1 to ${PLAN_LIMITS.replicationsMax}; got ${v === undefined ? 'nothing' : quote(v)}.`);
+          problems.push(`--reps (number of simulated replications) must be a whole number from ${PLAN_LIMITS.replicationsMin} to ${PLAN_LIMITS.replicationsMax}; got ${v === undefined ? 'nothing' : quote(v)}.`);
         } else replications = n;
         break;
       }

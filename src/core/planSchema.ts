@@ -34,6 +34,8 @@ export const PLAN_LIMITS = {
   poolSizeMax: 100_000,
   caliperMax: 5,
   ratioMax: 5,
+  /** The engine needs at least two replications to estimate its own Monte Carlo error. */
+  replicationsMin: 2,
   replicationsMax: 100_000,
   seedMax: 4_294_967_295,
   effectSDMax: 3,
@@ -219,7 +221,7 @@ export const planSchema = z
     simulation: section('simulation', 'The simulation section', 'Monte Carlo settings.', {
       replications: num('simulation.replications', 'Number of simulated replications', 'Monte Carlo replications.', {
         integer: true,
-        gte: 1,
+        gte: PLAN_LIMITS.replicationsMin,
         lte: PLAN_LIMITS.replicationsMax,
       }),
       seed: num('simulation.seed', 'Simulation seed', 'Random seed (unsigned 32-bit integer); same plan and seed, same numbers.', {

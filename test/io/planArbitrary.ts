@@ -37,7 +37,7 @@ export const validPlanArb: fc.Arbitrary<Plan> = fc
     assumed: dbl(0, 1),
     share: dbl(0, 1),
     power: fc.option(dbl(0.5, 0.99), { nil: undefined }),
-    reps: fc.integer({ min: 1, max: 100_000 }),
+    reps: fc.integer({ min: 2, max: 100_000 }),
     seed: fc.integer({ min: 0, max: 4_294_967_295 }),
   })
   .map((v): Plan => {
