@@ -47,16 +47,22 @@ function ChartCard<K extends ChartId>({ chartId, data, text, error, controls }: 
     return () => ro.disconnect();
   }, [width]);
   useEffect(() => {
-    if (!ref.current || !data) return;
-    try {
-      renderChart(chartId, ref.current, data, { ...sizeFor(width), highlight, onHighlight: setHighlight });
-      // On screen, legend entries are focusable buttons; an image may not contain
-      // controls, so the live chart is a labelled group (exports stay role=img).
-      if (ref.current.querySelector('[tabindex]')) ref.current.setAttribute('role', 'group');
-      setDrawError(null);
-    } catch (e) {
-      setDrawError(e instanceof Error ? e.message : String(e));
-    }
+    const svg = ref.current;
+    if (!svg || !data) return;
+    // Each chart draws in its own task, so a new result (four charts at once)
+    // never blocks the main thread for long in one piece.
+    const timer = setTimeout(() => {
+      try {
+        renderChart(chartId, svg, data, { ...sizeFor(width), highlight, onHighlight: setHighlight });
+        // On screen, legend entries are focusable buttons; an image may not contain
+        // controls, so the live chart is a labelled group (exports stay role=img).
+        if (svg.querySelector('[tabindex]')) svg.setAttribute('role', 'group');
+        setDrawError(null);
+      } catch (e) {
+        setDrawError(e instanceof Error ? e.message : String(e));
+      }
+    }, 0);
+    return () => clearTimeout(timer);
   }, [chartId, data, highlight, setHighlight, width]);
   const problem = error ?? drawError;
   return (

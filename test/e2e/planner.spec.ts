@@ -31,8 +31,9 @@ test('the demo loads, and changing the reliability updates the verdict and the c
   // rho .9: beta = .6·10/(10·.9) = 2/3; bias = (2/3)(.1)(−10) = −0.67 (same closed form, computed).
   await expect(page.getByTestId('verdict-bias')).toHaveText('−0.67 points');
   await expect(page.getByTestId('derived-reliability-comparison')).toHaveText('.900');
-  expect(await page.locator('figure[data-chart="sensitivity"] svg').innerHTML()).not.toBe(sensitivityBefore);
-  expect(await page.locator('figure[data-chart="pretest"] svg').innerHTML()).not.toBe(pretestBefore);
+  // Charts redraw in their own tasks just after the verdict: poll.
+  await expect.poll(() => page.locator('figure[data-chart="sensitivity"] svg').innerHTML()).not.toBe(sensitivityBefore);
+  await expect.poll(() => page.locator('figure[data-chart="pretest"] svg').innerHTML()).not.toBe(pretestBefore);
 
   // Invalid input: kept as typed, explained beside the field, results marked stale.
   await retype(page, /^Reliability/, '1.4');

@@ -1,5 +1,5 @@
 // @vitest-environment jsdom
-import { act, fireEvent, screen, within } from '@testing-library/react';
+import { act, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it } from 'vitest';
 import { controlledRunner } from '../state/helpers';
@@ -19,15 +19,17 @@ describe('results panel', () => {
     expect(store.getState().highlight).toBe('gainScore');
     expect(row).toHaveClass('is-highlighted');
     // Every other analysis' marks are dimmed in the charts.
-    expect(container.querySelectorAll('[data-chart] svg [opacity="0.22"]').length).toBeGreaterThan(0);
+    // (charts redraw in their own task, hence waitFor).
+    await waitFor(() => expect(container.querySelectorAll('[data-chart] svg [opacity="0.22"]').length).toBeGreaterThan(0));
     await user.unhover(row);
     expect(store.getState().highlight).toBeNull();
   });
 
-  it('offers each chart as text and a table', () => {
+  it('offers each chart as text and a table', async () => {
     const { container } = renderApp();
     const charts = container.querySelectorAll('figure[data-chart]');
     expect(charts).toHaveLength(4);
+    await waitFor(() => expect(container.querySelectorAll('figure[data-chart] svg > *').length).toBeGreaterThan(0));
     for (const fig of charts) {
       const details = fig.querySelector('details');
       expect(details).not.toBeNull();
