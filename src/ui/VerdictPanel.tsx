@@ -4,12 +4,12 @@ import { useMeanwardStore } from '../state/store';
 import { fmt, fmtPct, fmtSigned } from './format';
 
 /** What an artefact does to the conclusion, in plain words. */
-const VERDICT_WORDS: Record<ArtefactVerdict, { short: string; sentence: string }> = {
-  negligible: { short: 'small enough to tolerate', sentence: 'is within the share of the effect you said you could tolerate.' },
-  hides: { short: 'hides the effect', sentence: 'works against the programme: it shrinks the estimate and could hide a real effect.' },
-  reverses: { short: 'reverses the effect', sentence: 'is larger than the effect and opposite to it: a helpful programme would look harmful.' },
-  inflates: { short: 'inflates the effect', sentence: 'works in the programme’s favour: the programme would look better than it is.' },
-  invents: { short: 'invents an effect', sentence: 'would produce a difference even though the hoped-for effect is zero.' },
+const VERDICT_WORDS: Record<ArtefactVerdict, { short: string; heading: string; sentence: string }> = {
+  negligible: { short: 'artefact small enough to tolerate', heading: 'leaves only a tolerable artefact', sentence: 'is within the share of the effect you said you could tolerate.' },
+  hides: { short: 'hides the effect', heading: 'hides the effect', sentence: 'works against the programme: it shrinks the estimate and could hide a real effect.' },
+  reverses: { short: 'reverses the effect', heading: 'reverses the effect', sentence: 'is larger than the effect and opposite to it: a helpful programme would look harmful.' },
+  inflates: { short: 'inflates the effect', heading: 'inflates the effect', sentence: 'works in the programme’s favour: the programme would look better than it is.' },
+  invents: { short: 'invents an effect', heading: 'invents an effect', sentence: 'would produce a difference even though the hoped-for effect is zero.' },
 };
 
 export function verdictWords(v: ArtefactVerdict) {
@@ -46,7 +46,7 @@ export function VerdictPanel() {
       data-verdict={m.verdict}
     >
       <h2 id="verdict-heading">
-        Verdict: the planned matching <span className="verdict-word">{words.short}</span>
+        Verdict: the planned matching <span className="verdict-word">{words.heading}</span>
       </h2>
       {stale && (
         <p className="stale-banner" role="status">
@@ -86,8 +86,17 @@ export function VerdictPanel() {
           </li>
         )}
         <li>
-          Why: matched people share an observed score, but each person&rsquo;s true score is pulled back toward their own group&rsquo;s mean (Kelley),
-          so a pretest gap of {fmt(analytic.model.pretestGap, 1)} points survives matching in part.
+          {analytic.model.pretestGap === 0 ? (
+            <>
+              Why so small: the groups start level on the pretest, so regression toward the mean pulls both groups&rsquo; matched members the same way
+              (Kelley). Any artefact left comes from other differences between the groups.
+            </>
+          ) : (
+            <>
+              Why: matched people share an observed score, but each person&rsquo;s true score is pulled back toward their own group&rsquo;s mean
+              (Kelley), so part of the {fmt(Math.abs(analytic.model.pretestGap), 1)}-point pretest gap between the groups survives matching.
+            </>
+          )}
         </li>
       </ul>
       <p className="caution" role="note">
