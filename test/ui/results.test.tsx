@@ -1,7 +1,7 @@
 // @vitest-environment jsdom
 import { act, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
-import { describe, expect, it } from 'vitest';
+import { describe, expect, it, vi } from 'vitest';
 import { controlledRunner } from '../state/helpers';
 import { renderApp } from './renderApp';
 
@@ -97,3 +97,28 @@ function fakeResult(plan: import('../../src/core/plan').Plan) {
     example: { pairs: [], discarded: [] },
   };
 }
+
+describe('auto-run', () => {
+  it('starts a run two seconds after the plan stops changing, only when switched on', async () => {
+    vi.useFakeTimers();
+    try {
+      const c = controlledRunner();
+      renderApp({ simulation: c.runner });
+      const caliper = screen.getByRole('textbox', { name: /^Caliper/ });
+      fireEvent.change(caliper, { target: { value: '0.15' } });
+      act(() => vi.advanceTimersByTime(3000));
+      expect(c.runs).toHaveLength(0);
+      fireEvent.click(screen.getByRole('checkbox', { name: /Re-run automatically/ }));
+      fireEvent.change(caliper, { target: { value: '0.1' } });
+      act(() => vi.advanceTimersByTime(1500));
+      fireEvent.change(caliper, { target: { value: '0.12' } });
+      act(() => vi.advanceTimersByTime(1500));
+      expect(c.runs).toHaveLength(0); // still typing: the pause restarted
+      act(() => vi.advanceTimersByTime(600));
+      expect(c.runs).toHaveLength(1);
+      expect(c.runs[0]!.plan.matching.caliper).toBe(0.12);
+    } finally {
+      vi.useRealTimers();
+    }
+  });
+});
