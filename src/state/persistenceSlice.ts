@@ -78,7 +78,7 @@ export const createPersistenceSlice =
           set({ notice: { kind: 'error', text: `There is no example called "${id}".` } });
           return;
         }
-        load(structuredClone(ex.plan), `Loaded the example "${ex.name}".`);
+        load(structuredClone(ex.plan), `Loaded the invented example "${ex.name}": ${ex.description}`);
       },
       resetToDemo: () => load(demo(), 'The form was reset to the demo plan (an invented example).'),
       openPlanText: (text, fileName) => {

@@ -53,7 +53,8 @@ export function NumberField({ path, label, unit, hint, step, min, max, after, in
     let next = current + (e.key === 'ArrowUp' ? step : -step);
     if (min !== undefined) next = Math.max(min, next);
     if (max !== undefined) next = Math.min(max, next);
-    setField(path, next.toFixed(Math.max(decimals(step), 0)).replace(/\.?0+$/, (m) => (m.startsWith('.') ? '' : m)));
+    // Round to the step's decimals so repeated steps never show 0.30000000000000004.
+    setField(path, String(Number(next.toFixed(decimals(step)))));
   };
   return (
     <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
