@@ -44,7 +44,10 @@ export function RemediesPanel() {
           ))}
         </ol>
       )}
-      <p className="table-note">Each remedy is judged under the same model; a combination may do better than any one. Bias figures: {fmt(analytic.tau)}-point effect.</p>
+      <p className="table-note">
+        Best first. Each remedy is judged under the same model, one at a time; a combination may do better than any one.
+        Shares are of the hoped-for effect ({fmt(analytic.tau)} points).
+      </p>
     </section>
   );
 }
