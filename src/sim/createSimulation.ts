@@ -1,9 +1,10 @@
 import { ANALYSIS_IDS, type AnalysisId, type Plan } from '../core/plan';
 import { deriveModelParameters } from '../core/deriveModelParameters';
+import type { ModelParameters } from '../core/modelParameters';
 import { ancovaEstimate } from './ancovaEstimate';
-import { createMatchingWorkspace, matchOnPretest } from './matchOnPretest';
+import { createMatchingWorkspace, matchOnPretest, type MatchingWorkspace } from './matchOnPretest';
 import { NormalSampler } from './normalSampler';
-import { sortNormalSample } from './sortNormalSample';
+import { NormalSampleIndex } from './normalSampleIndex';
 import {
   FLAG_COMPUTED,
   FLAG_COVERED,
@@ -108,256 +109,17 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
   const seed = options.seed ?? plan.simulation.seed;
   validateSimulationSettings(plan, total, seed);
   const model = deriveModelParameters(plan);
-
-  const nP = model.n.programme;
-  const nC = model.n.comparison;
-  const k = plan.matching.ratio;
-  const method = plan.matching.method;
-  const replacement = plan.matching.replacement;
-  const order = plan.matching.order ?? 'random';
-  const sortProgramme = !replacement && order !== 'random';
-  const caliperSD = plan.matching.caliper;
-  const rhoAssumed = plan.analysis.assumedReliability;
-  const tau = model.effect;
-  const direction = tau < 0 ? -1 : 1; // tau = 0: a positive effect is the hoped-for direction
-  const beta = model.beta;
-  const resSD = model.residualSD;
-  const gap = model.growthGap;
-  const muP = model.mean.programme;
-  const muC = model.mean.comparison;
-  const sdXP = model.observedSD.programme;
-  const sdXC = model.observedSD.comparison;
-  const rhoP = model.reliability.programme;
-  const rhoC = model.reliability.comparison;
-  // SD of T given X: sd_T * sem / sd_X (= sqrt(rho (1 - rho)) sd_X).
-  const condP = (model.trueSD.programme * model.sem) / sdXP;
-  const condC = (model.trueSD.comparison * model.sem) / sdXC;
-  const yCentreP = gap + tau + beta * muP;
-  const yCentreC = beta * muC;
-
-  const xp = new Float64Array(nP);
-  const tp = new Float64Array(nP);
-  const yp = new Float64Array(nP);
-  const xc = new Float64Array(nC);
-  const tc = new Float64Array(nC);
-  const yc = new Float64Array(nC);
-  const nMax = Math.max(nP, nC);
-  const sortScratch = new Float64Array(nMax);
-  const sortCounts = new Int32Array(nMax + 1);
-  const sortBuckets = new Int32Array(nMax);
-  // A replication's standard normal variates, drawn in one go: 3 per person
-  // (observed pretest, true score given it, outcome residual).
-  const zBuffer = new Float64Array(3 * (nP + nC));
-  const rng = new Xoshiro128StarStar();
-  const normal = new NormalSampler(rng);
-  const ws = createMatchingWorkspace(nP, nC, k);
-  const moments = new Float64Array(12);
-  const out = new Float64Array(3);
-  const critAlpha = new TCriticalValues(plan.analysis.alpha);
-  const crit95 = new TCriticalValues(0.05);
-
-  const est: Float64Array[] = [];
-  const se: Float64Array[] = [];
-  const flags: Uint8Array[] = [];
-  for (let a = 0; a < 5; a++) {
-    est.push(new Float64Array(total));
-    se.push(new Float64Array(total));
-    flags.push(new Uint8Array(total));
-  }
-  const rec: Float64Array[] = [];
-  for (let r = 0; r < M_COUNT; r++) rec.push(new Float64Array(total));
-  const recOk = new Uint8Array(total);
+  const runner = new ReplicationRunner(plan, model, total, seed);
+  const { nP, tau, est, se, flags, rec, recOk } = runner;
   const done = new Uint8Array(total);
   let completed = 0;
-  let example: SimulationResult['example'] | null = null;
-
-  const record = (a: number, i: number, e: number, s: number, df: number): void => {
-    let f = FLAG_COMPUTED;
-    if (Math.abs(e - tau) <= crit95.get(df) * s) f |= FLAG_COVERED;
-    if (Math.abs(e) > critAlpha.get(df) * s) {
-      f |= FLAG_REJECTED;
-      if (e * direction < 0) f |= FLAG_WRONG_SIGN;
-    }
-    (est[a] as Float64Array)[i] = e;
-    (se[a] as Float64Array)[i] = s;
-    (flags[a] as Uint8Array)[i] = f;
-  };
-
-  const runOne = (i: number): void => {
-    rng.reseed(seed, i);
-    normal.reset();
-
-    // Draw every standard normal variate this replication needs, in a fixed layout:
-    // [comparison X | comparison T|X | comparison e | programme X | programme T|X | programme e].
-    const z = zBuffer;
-    normal.fillStandard(z, z.length);
-    const zTC = nC;
-    const zEC = 2 * nC;
-    const zXP = 3 * nC;
-    const zTP = zXP + nP;
-    const zEP = zXP + 2 * nP;
-
-    // Comparison pool, generated sorted on the observed pretest.
-    for (let j = 0; j < nC; j++) xc[j] = muC + sdXC * (z[j] as number);
-    sortNormalSample(xc, nC, muC, sdXC, sortScratch, sortCounts, sortBuckets);
-    let cSx = 0, cSxx = 0, cSy = 0, cSyy = 0, cSxy = 0, cSt = 0, cStt = 0;
-    for (let j = 0; j < nC; j++) {
-      const dx = (xc[j] as number) - muC;
-      const dt = rhoC * dx + condC * (z[zTC + j] as number);
-      const dy = beta * dt + resSD * (z[zEC + j] as number);
-      tc[j] = muC + dt;
-      yc[j] = yCentreC + dy;
-      cSx += dx; cSxx += dx * dx; cSy += dy; cSyy += dy * dy; cSxy += dx * dy; cSt += dt; cStt += dt * dt;
-    }
-
-    // Programme pool, in matching order.
-    for (let j = 0; j < nP; j++) xp[j] = muP + sdXP * (z[zXP + j] as number);
-    if (sortProgramme) {
-      sortNormalSample(xp, nP, muP, sdXP, sortScratch, sortCounts, sortBuckets);
-      if (order === 'highest-first') xp.reverse();
-    }
-    let pSx = 0, pSxx = 0, pSy = 0, pSyy = 0, pSxy = 0, pSt = 0, pStt = 0;
-    for (let j = 0; j < nP; j++) {
-      const dx = (xp[j] as number) - muP;
-      const dt = rhoP * dx + condP * (z[zTP + j] as number);
-      const dy = beta * dt + resSD * (z[zEP + j] as number);
-      tp[j] = muP + dt;
-      yp[j] = yCentreP + dy;
-      pSx += dx; pSxx += dx * dx; pSy += dy; pSyy += dy * dy; pSxy += dx * dy; pSt += dt; pStt += dt * dt;
-    }
-
-    // Full-sample within-group moments.
-    const mxP = muP + pSx / nP;
-    const mxC = muC + cSx / nC;
-    const myP = yCentreP + pSy / nP;
-    const myC = yCentreC + cSy / nC;
-    const sxxP = pSxx - (pSx * pSx) / nP;
-    const sxxC = cSxx - (cSx * cSx) / nC;
-    const sxyP = pSxy - (pSx * pSy) / nP;
-    const sxyC = cSxy - (cSx * cSy) / nC;
-    const syyP = pSyy - (pSy * pSy) / nP;
-    const syyC = cSyy - (cSy * cSy) / nC;
-    const sttP = pStt - (pSt * pSt) / nP;
-    const sttC = cStt - (cSt * cSt) / nC;
-    moments[0] = nP; moments[1] = mxP; moments[2] = myP; moments[3] = sxxP; moments[4] = sxyP; moments[5] = syyP;
-    moments[6] = nC; moments[7] = mxC; moments[8] = myC; moments[9] = sxxC; moments[10] = sxyC; moments[11] = syyC;
-
-    if (ancovaEstimate(moments, 1, out)) record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
-    if (ancovaEstimate(moments, rhoAssumed, out)) {
-      record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
-    }
-    {
-      // Gain score Y - X: pooled-variance two-sample t (Student 1908), df n - 2.
-      const dfG = nP + nC - 2;
-      const ss = syyP - 2 * sxyP + sxxP + (syyC - 2 * sxyC + sxxC);
-      const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
-      const e = myP - mxP - (myC - mxC);
-      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) record(A_GAIN, i, e, s, dfG);
-    }
-
-    const obsPooledSD = Math.sqrt((sxxP / (nP - 1) + sxxC / (nC - 1)) / 2);
-    const truePooledSD = Math.sqrt((sttP / (nP - 1) + sttC / (nC - 1)) / 2);
-    const caliper = caliperSD * obsPooledSD;
-    const m = matchOnPretest(xc, xp, caliper, method, replacement, rng, ws);
-
-    // Matched sets: D_i = Y_i - mean of its partners' Y; stacked matched sample.
-    const partners = ws.partners;
-    const counts = ws.partnerCount;
-    let dS = 0, dSS = 0;
-    let qSx = 0, qSxx = 0, qSy = 0, qSyy = 0, qSxy = 0, qSt = 0; // matched programme (centred at muP)
-    let rN = 0, rSx = 0, rSxx = 0, rSy = 0, rSyy = 0, rSxy = 0, rSt = 0; // stacked partner rows (centred at muC)
-    for (let j = 0; j < nP; j++) {
-      const cnt = counts[j] as number;
-      if (cnt === 0) continue;
-      const dx = (xp[j] as number) - muP;
-      const dy = (yp[j] as number) - yCentreP;
-      qSx += dx; qSxx += dx * dx; qSy += dy; qSyy += dy * dy; qSxy += dx * dy; qSt += (tp[j] as number) - muP;
-      let ySum = 0;
-      const base = j * k;
-      for (let q = 0; q < cnt; q++) {
-        const c = partners[base + q] as number;
-        const y = yc[c] as number;
-        ySum += y;
-        const cx = (xc[c] as number) - muC;
-        const cy = y - yCentreC;
-        rSx += cx; rSxx += cx * cx; rSy += cy; rSyy += cy * cy; rSxy += cx * cy; rSt += (tc[c] as number) - muC;
-      }
-      rN += cnt;
-      const d = (yp[j] as number) - ySum / cnt;
-      dS += d;
-      dSS += d * d;
-    }
-    if (m >= 2) {
-      const mean = dS / m;
-      const v = (dSS - dS * mean) / (m - 1);
-      const s = Math.sqrt(v / m);
-      if (s > 0 && Number.isFinite(s)) record(A_MATCHED, i, mean, s, m - 1);
-      moments[0] = m; moments[1] = muP + qSx / m; moments[2] = yCentreP + qSy / m;
-      moments[3] = qSxx - (qSx * qSx) / m; moments[4] = qSxy - (qSx * qSy) / m; moments[5] = qSyy - (qSy * qSy) / m;
-      moments[6] = rN; moments[7] = muC + rSx / rN; moments[8] = yCentreC + rSy / rN;
-      moments[9] = rSxx - (rSx * rSx) / rN; moments[10] = rSxy - (rSx * rSy) / rN; moments[11] = rSyy - (rSy * rSy) / rN;
-      if (ancovaEstimate(moments, 1, out)) {
-        record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
-      }
-    }
-
-    // Balance before and after matching, observed and true scores.
-    (rec[M_MATCHED] as Float64Array)[i] = m;
-    const obsBefore = mxP - mxC;
-    const trueBefore = pSt / nP - cSt / nC + muP - muC;
-    (rec[M_OBS_BEFORE] as Float64Array)[i] = obsBefore;
-    (rec[M_TRUE_BEFORE] as Float64Array)[i] = trueBefore;
-    (rec[M_OBS_SMD_BEFORE] as Float64Array)[i] = obsBefore / obsPooledSD;
-    (rec[M_TRUE_SMD_BEFORE] as Float64Array)[i] = truePooledSD > 0 ? trueBefore / truePooledSD : 0;
-    let ok = 0;
-    if (m >= 1) {
-      ok |= AFTER_OK;
-      const obsAfter = qSx / m - rSx / rN + muP - muC;
-      const trueAfter = qSt / m - rSt / rN + muP - muC;
-      (rec[M_OBS_AFTER] as Float64Array)[i] = obsAfter;
-      (rec[M_TRUE_AFTER] as Float64Array)[i] = trueAfter;
-      // SMDs after matching use the before-matching pooled SD (Stuart 2010), so the change shows mean shift only.
-      (rec[M_OBS_SMD_AFTER] as Float64Array)[i] = obsAfter / obsPooledSD;
-      (rec[M_TRUE_SMD_AFTER] as Float64Array)[i] = truePooledSD > 0 ? trueAfter / truePooledSD : 0;
-      if (m >= 2 && rN >= 2) {
-        const vP = (qSxx - (qSx * qSx) / m) / (m - 1);
-        const vC = (rSxx - (rSx * rSx) / rN) / (rN - 1);
-        if (vC > 0 && Number.isFinite(vP / vC)) {
-          (rec[M_VAR_RATIO] as Float64Array)[i] = vP / vC;
-          ok |= VAR_RATIO_OK;
-        }
-      }
-    }
-    recOk[i] = ok;
-
-    if (i === 0) example = captureExample();
-  };
-
-  const captureExample = (): SimulationResult['example'] => {
-    const pairs: ExamplePair[] = [];
-    const discarded: { observed: number; trueScore: number }[] = [];
-    for (let j = 0; j < nP; j++) {
-      const cnt = ws.partnerCount[j] as number;
-      if (cnt === 0) {
-        discarded.push({ observed: xp[j] as number, trueScore: tp[j] as number });
-        continue;
-      }
-      const comparison: ExamplePair['comparison'] = [];
-      for (let q = 0; q < cnt; q++) {
-        const c = ws.partners[j * k + q] as number;
-        comparison.push({ observed: xc[c] as number, trueScore: tc[c] as number, outcome: yc[c] as number });
-      }
-      pairs.push({ programme: { observed: xp[j] as number, trueScore: tp[j] as number, outcome: yp[j] as number }, comparison });
-    }
-    return { pairs, discarded };
-  };
 
   const runChunk = (from: number, to: number): void => {
     if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to > total || from > to) {
       throw new Error(`Replication range ${from}..${to} is outside 0..${total}.`);
     }
     for (let i = from; i < to; i++) {
-      runOne(i);
+      runner.run(i);
       if (!done[i]) {
         done[i] = 1;
         completed++;
@@ -391,7 +153,7 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
       ancovaMatchedSample: summary('ancova', A_ANCOVA_MATCHED, 'matched'),
       matching: summariseMatching(),
       estimates,
-      example: example ?? { pairs: [], discarded: [] },
+      example: runner.example ?? { pairs: [], discarded: [] },
     };
   };
 
@@ -457,4 +219,302 @@ function countBits(ok: Uint8Array, n: number, bit: number): number {
   let c = 0;
   for (let i = 0; i < n; i++) if ((ok[i] as number) & bit) c++;
   return c;
+}
+
+/**
+ * One simulation's settings and reusable buffers, and the per-replication
+ * work (see createSimulation). A class rather than closures so the hot loops
+ * compile once for every simulation created (closures re-created per run
+ * lose V8's optimisations after the first), with fields read into locals.
+ */
+class ReplicationRunner {
+  readonly seed: number;
+  readonly nP: number;
+  readonly nC: number;
+  readonly k: number;
+  readonly method: Plan['matching']['method'];
+  readonly replacement: boolean;
+  readonly highestFirst: boolean;
+  readonly caliperSD: number;
+  readonly rhoAssumed: number;
+  readonly tau: number;
+  readonly direction: number;
+  readonly beta: number;
+  readonly resSD: number;
+  readonly muP: number;
+  readonly muC: number;
+  readonly sdXP: number;
+  readonly sdXC: number;
+  readonly rhoP: number;
+  readonly rhoC: number;
+  readonly condP: number;
+  readonly condC: number;
+  readonly yCentreP: number;
+  readonly yCentreC: number;
+  readonly xp: Float64Array;
+  readonly tp: Float64Array;
+  readonly yp: Float64Array;
+  readonly xc: Float64Array;
+  readonly tc: Float64Array;
+  readonly yc: Float64Array;
+  readonly sorterC: NormalSampleIndex;
+  readonly sorterP: NormalSampleIndex | null;
+  readonly zBuffer: Float64Array;
+  readonly rng: Xoshiro128StarStar;
+  readonly normal: NormalSampler;
+  readonly ws: MatchingWorkspace;
+  readonly moments = new Float64Array(12);
+  readonly out = new Float64Array(3);
+  readonly critAlpha: TCriticalValues;
+  readonly crit95: TCriticalValues;
+  readonly est: Float64Array[] = [];
+  readonly se: Float64Array[] = [];
+  readonly flags: Uint8Array[] = [];
+  readonly rec: Float64Array[] = [];
+  readonly recOk: Uint8Array;
+  example: SimulationResult['example'] | null = null;
+
+  constructor(plan: Plan, model: ModelParameters, total: number, seed: number) {
+    this.seed = seed;
+    const nP = model.n.programme;
+    const nC = model.n.comparison;
+    this.nP = nP;
+    this.nC = nC;
+    this.k = plan.matching.ratio;
+    this.method = plan.matching.method;
+    this.replacement = plan.matching.replacement;
+    const order = plan.matching.order ?? 'random';
+    const sortProgramme = !this.replacement && order !== 'random';
+    this.highestFirst = order === 'highest-first';
+    this.caliperSD = plan.matching.caliper;
+    this.rhoAssumed = plan.analysis.assumedReliability;
+    this.tau = model.effect;
+    this.direction = this.tau < 0 ? -1 : 1; // tau = 0: a positive effect is the hoped-for direction
+    this.beta = model.beta;
+    this.resSD = model.residualSD;
+    this.muP = model.mean.programme;
+    this.muC = model.mean.comparison;
+    this.sdXP = model.observedSD.programme;
+    this.sdXC = model.observedSD.comparison;
+    this.rhoP = model.reliability.programme;
+    this.rhoC = model.reliability.comparison;
+    // SD of T given X: sd_T * sem / sd_X (= sqrt(rho (1 - rho)) sd_X).
+    this.condP = (model.trueSD.programme * model.sem) / this.sdXP;
+    this.condC = (model.trueSD.comparison * model.sem) / this.sdXC;
+    this.yCentreP = model.growthGap + this.tau + this.beta * this.muP;
+    this.yCentreC = this.beta * this.muC;
+
+    this.xp = new Float64Array(nP);
+    this.tp = new Float64Array(nP);
+    this.yp = new Float64Array(nP);
+    this.xc = new Float64Array(nC);
+    this.tc = new Float64Array(nC);
+    this.yc = new Float64Array(nC);
+    // Each pool is generated sorted on X by a linear-time sort that also indexes it for the matching.
+    this.sorterC = new NormalSampleIndex(nC);
+    this.sorterP = sortProgramme ? new NormalSampleIndex(nP) : null;
+    // A replication's standard normal variates, drawn in one go: 3 per person
+    // (observed pretest, true score given it, outcome residual).
+    this.zBuffer = new Float64Array(3 * (nP + nC));
+    this.rng = new Xoshiro128StarStar();
+    this.normal = new NormalSampler(this.rng);
+    this.ws = createMatchingWorkspace(nP, nC, this.k);
+    this.critAlpha = new TCriticalValues(plan.analysis.alpha);
+    this.crit95 = new TCriticalValues(0.05);
+    for (let a = 0; a < 5; a++) {
+      this.est.push(new Float64Array(total));
+      this.se.push(new Float64Array(total));
+      this.flags.push(new Uint8Array(total));
+    }
+    for (let r = 0; r < M_COUNT; r++) this.rec.push(new Float64Array(total));
+    this.recOk = new Uint8Array(total);
+  }
+
+  private record(a: number, i: number, e: number, s: number, df: number): void {
+    let f = FLAG_COMPUTED;
+    if (Math.abs(e - this.tau) <= this.crit95.get(df) * s) f |= FLAG_COVERED;
+    if (Math.abs(e) > this.critAlpha.get(df) * s) {
+      f |= FLAG_REJECTED;
+      if (e * this.direction < 0) f |= FLAG_WRONG_SIGN;
+    }
+    (this.est[a] as Float64Array)[i] = e;
+    (this.se[a] as Float64Array)[i] = s;
+    (this.flags[a] as Uint8Array)[i] = f;
+  }
+
+  /** Replication i, from its own random stream; results stored at index i. */
+  run(i: number): void {
+    const { nP, nC, k, muP, muC, sdXP, sdXC, rhoP, rhoC, condP, condC, beta, resSD, yCentreP, yCentreC } = this;
+    const { xp, tp, yp, xc, tc, yc, moments, out, rng, ws } = this;
+    const rec = this.rec;
+    this.rng.reseed(this.seed, i);
+    this.normal.reset();
+
+    // Draw every standard normal variate this replication needs, in a fixed layout:
+    // [comparison X | comparison T|X | comparison e | programme X | programme T|X | programme e].
+    const z = this.zBuffer;
+    this.normal.fillStandard(z, z.length);
+    const zTC = nC;
+    const zEC = 2 * nC;
+    const zXP = 3 * nC;
+    const zTP = zXP + nP;
+    const zEP = zXP + 2 * nP;
+
+    // Comparison pool, generated sorted on the observed pretest.
+    this.sorterC.sort(xc, z, 0, muC, sdXC);
+    let cSx = 0, cSxx = 0, cSy = 0, cSyy = 0, cSxy = 0, cSt = 0, cStt = 0;
+    for (let j = 0; j < nC; j++) {
+      const dx = (xc[j] as number) - muC;
+      const dt = rhoC * dx + condC * (z[zTC + j] as number);
+      const dy = beta * dt + resSD * (z[zEC + j] as number);
+      tc[j] = muC + dt;
+      yc[j] = yCentreC + dy;
+      cSx += dx; cSxx += dx * dx; cSy += dy; cSyy += dy * dy; cSxy += dx * dy; cSt += dt; cStt += dt * dt;
+    }
+
+    // Programme pool, in matching order.
+    const sorterP = this.sorterP;
+    if (sorterP) {
+      sorterP.sort(xp, z, zXP, muP, sdXP);
+      if (this.highestFirst) xp.reverse();
+    } else {
+      for (let j = 0; j < nP; j++) xp[j] = muP + sdXP * (z[zXP + j] as number);
+    }
+    let pSx = 0, pSxx = 0, pSy = 0, pSyy = 0, pSxy = 0, pSt = 0, pStt = 0;
+    for (let j = 0; j < nP; j++) {
+      const dx = (xp[j] as number) - muP;
+      const dt = rhoP * dx + condP * (z[zTP + j] as number);
+      const dy = beta * dt + resSD * (z[zEP + j] as number);
+      tp[j] = muP + dt;
+      yp[j] = yCentreP + dy;
+      pSx += dx; pSxx += dx * dx; pSy += dy; pSyy += dy * dy; pSxy += dx * dy; pSt += dt; pStt += dt * dt;
+    }
+
+    // Full-sample within-group moments.
+    const mxP = muP + pSx / nP;
+    const mxC = muC + cSx / nC;
+    const myP = yCentreP + pSy / nP;
+    const myC = yCentreC + cSy / nC;
+    const sxxP = pSxx - (pSx * pSx) / nP;
+    const sxxC = cSxx - (cSx * cSx) / nC;
+    const sxyP = pSxy - (pSx * pSy) / nP;
+    const sxyC = cSxy - (cSx * cSy) / nC;
+    const syyP = pSyy - (pSy * pSy) / nP;
+    const syyC = cSyy - (cSy * cSy) / nC;
+    const sttP = pStt - (pSt * pSt) / nP;
+    const sttC = cStt - (cSt * cSt) / nC;
+    moments[0] = nP; moments[1] = mxP; moments[2] = myP; moments[3] = sxxP; moments[4] = sxyP; moments[5] = syyP;
+    moments[6] = nC; moments[7] = mxC; moments[8] = myC; moments[9] = sxxC; moments[10] = sxyC; moments[11] = syyC;
+
+    if (ancovaEstimate(moments, 1, out)) this.record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
+    if (ancovaEstimate(moments, this.rhoAssumed, out)) {
+      this.record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
+    }
+    {
+      // Gain score Y - X: pooled-variance two-sample t (Student 1908), df n - 2.
+      const dfG = nP + nC - 2;
+      const ss = syyP - 2 * sxyP + sxxP + (syyC - 2 * sxyC + sxxC);
+      const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
+      const e = myP - mxP - (myC - mxC);
+      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.record(A_GAIN, i, e, s, dfG);
+    }
+
+    const obsPooledSD = Math.sqrt((sxxP / (nP - 1) + sxxC / (nC - 1)) / 2);
+    const truePooledSD = Math.sqrt((sttP / (nP - 1) + sttC / (nC - 1)) / 2);
+    const caliper = this.caliperSD * obsPooledSD;
+    const m = matchOnPretest(xc, xp, caliper, this.method, this.replacement, rng, ws, this.sorterC);
+
+    // Matched sets: D_i = Y_i - mean of its partners' Y; stacked matched sample.
+    const partners = ws.partners;
+    const counts = ws.partnerCount;
+    let dS = 0, dSS = 0;
+    let qSx = 0, qSxx = 0, qSy = 0, qSyy = 0, qSxy = 0, qSt = 0; // matched programme (centred at muP)
+    let rN = 0, rSx = 0, rSxx = 0, rSy = 0, rSyy = 0, rSxy = 0, rSt = 0; // stacked partner rows (centred at muC)
+    for (let j = 0; j < nP; j++) {
+      const cnt = counts[j] as number;
+      if (cnt === 0) continue;
+      const dx = (xp[j] as number) - muP;
+      const dy = (yp[j] as number) - yCentreP;
+      qSx += dx; qSxx += dx * dx; qSy += dy; qSyy += dy * dy; qSxy += dx * dy; qSt += (tp[j] as number) - muP;
+      let ySum = 0;
+      const base = j * k;
+      for (let q = 0; q < cnt; q++) {
+        const c = partners[base + q] as number;
+        const y = yc[c] as number;
+        ySum += y;
+        const cx = (xc[c] as number) - muC;
+        const cy = y - yCentreC;
+        rSx += cx; rSxx += cx * cx; rSy += cy; rSyy += cy * cy; rSxy += cx * cy; rSt += (tc[c] as number) - muC;
+      }
+      rN += cnt;
+      const d = (yp[j] as number) - ySum / cnt;
+      dS += d;
+      dSS += d * d;
+    }
+    if (m >= 2) {
+      const mean = dS / m;
+      const v = (dSS - dS * mean) / (m - 1);
+      const s = Math.sqrt(v / m);
+      if (s > 0 && Number.isFinite(s)) this.record(A_MATCHED, i, mean, s, m - 1);
+      moments[0] = m; moments[1] = muP + qSx / m; moments[2] = yCentreP + qSy / m;
+      moments[3] = qSxx - (qSx * qSx) / m; moments[4] = qSxy - (qSx * qSy) / m; moments[5] = qSyy - (qSy * qSy) / m;
+      moments[6] = rN; moments[7] = muC + rSx / rN; moments[8] = yCentreC + rSy / rN;
+      moments[9] = rSxx - (rSx * rSx) / rN; moments[10] = rSxy - (rSx * rSy) / rN; moments[11] = rSyy - (rSy * rSy) / rN;
+      if (ancovaEstimate(moments, 1, out)) {
+        this.record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+      }
+    }
+
+    // Balance before and after matching, observed and true scores.
+    (rec[M_MATCHED] as Float64Array)[i] = m;
+    const obsBefore = mxP - mxC;
+    const trueBefore = pSt / nP - cSt / nC + muP - muC;
+    (rec[M_OBS_BEFORE] as Float64Array)[i] = obsBefore;
+    (rec[M_TRUE_BEFORE] as Float64Array)[i] = trueBefore;
+    (rec[M_OBS_SMD_BEFORE] as Float64Array)[i] = obsBefore / obsPooledSD;
+    (rec[M_TRUE_SMD_BEFORE] as Float64Array)[i] = truePooledSD > 0 ? trueBefore / truePooledSD : 0;
+    let ok = 0;
+    if (m >= 1) {
+      ok |= AFTER_OK;
+      const obsAfter = qSx / m - rSx / rN + muP - muC;
+      const trueAfter = qSt / m - rSt / rN + muP - muC;
+      (rec[M_OBS_AFTER] as Float64Array)[i] = obsAfter;
+      (rec[M_TRUE_AFTER] as Float64Array)[i] = trueAfter;
+      // SMDs after matching use the before-matching pooled SD (Stuart 2010), so the change shows mean shift only.
+      (rec[M_OBS_SMD_AFTER] as Float64Array)[i] = obsAfter / obsPooledSD;
+      (rec[M_TRUE_SMD_AFTER] as Float64Array)[i] = truePooledSD > 0 ? trueAfter / truePooledSD : 0;
+      if (m >= 2 && rN >= 2) {
+        const vP = (qSxx - (qSx * qSx) / m) / (m - 1);
+        const vC = (rSxx - (rSx * rSx) / rN) / (rN - 1);
+        if (vC > 0 && Number.isFinite(vP / vC)) {
+          (rec[M_VAR_RATIO] as Float64Array)[i] = vP / vC;
+          ok |= VAR_RATIO_OK;
+        }
+      }
+    }
+    this.recOk[i] = ok;
+
+
+    if (i === 0) this.example = this.captureExample();
+  }
+
+  private captureExample(): SimulationResult['example'] {
+    const { nP, k, xp, tp, yp, xc, tc, yc, ws } = this;
+    const pairs: ExamplePair[] = [];
+    const discarded: { observed: number; trueScore: number }[] = [];
+    for (let j = 0; j < nP; j++) {
+      const cnt = ws.partnerCount[j] as number;
+      if (cnt === 0) {
+        discarded.push({ observed: xp[j] as number, trueScore: tp[j] as number });
+        continue;
+      }
+      const comparison: ExamplePair['comparison'] = [];
+      for (let q = 0; q < cnt; q++) {
+        const c = ws.partners[j * k + q] as number;
+        comparison.push({ observed: xc[c] as number, trueScore: tc[c] as number, outcome: yc[c] as number });
+      }
+      pairs.push({ programme: { observed: xp[j] as number, trueScore: tp[j] as number, outcome: yp[j] as number }, comparison });
+    }
+    return { pairs, discarded };
+  }
 }

@@ -23,6 +23,18 @@ export interface MatchingWorkspace {
   readonly picked: Int32Array;
 }
 
+/**
+ * Positions in the sorted comparison pretests, when the caller already has a
+ * faster way to find them than binary search (the engine's NormalSampleIndex,
+ * built by the same sort). Must describe exactly the array passed as comparisonX.
+ */
+export interface SortedPositions {
+  /** First index i with comparisonX[i] >= x (nComparison when none). */
+  lowerBound(x: number): number;
+  /** First index i with comparisonX[i] > x (nComparison when none). */
+  upperBound(x: number): number;
+}
+
 /** Allocate a matching workspace for pools of the given sizes and ratio 1..5. */
 export function createMatchingWorkspace(nProgramme: number, nComparison: number, ratio: number): MatchingWorkspace {
   return {
@@ -91,6 +103,8 @@ function upperBound(xs: Float64Array, n: number, v: number): number {
  * @param replacement whether a comparison member may serve several programme members.
  * @param rng random source (consumed only by 'random-within-caliper').
  * @param ws workspace from createMatchingWorkspace (its ratio = k, 1..5); filled in place.
+ * @param positions optional look-up of positions in comparisonX (same results as
+ *   binary search, found faster); binary search when omitted.
  * @returns the number of programme members with at least one partner.
  * @throws Error when the caliper is negative or not finite.
  * @example
@@ -106,6 +120,7 @@ export function matchOnPretest(
   replacement: boolean,
   rng: RandomSource,
   ws: MatchingWorkspace,
+  positions?: SortedPositions,
 ): number {
   if (!(caliper >= 0) || !Number.isFinite(caliper)) {
     throw new Error(`The caliper must be a non-negative number of pretest points; got ${String(caliper)}.`);
@@ -127,7 +142,7 @@ export function matchOnPretest(
       let got = 0;
       if (method === 'nearest') {
         // Walk outward from x: left pointer below, right pointer at or above.
-        const pos = lowerBound(comparisonX, nC, x);
+        const pos = positions ? positions.lowerBound(x) : lowerBound(comparisonX, nC, x);
         let l = pos - 1;
         let r = pos;
         while (got < k) {
@@ -140,8 +155,8 @@ export function matchOnPretest(
           partners[base + got++] = take;
         }
       } else {
-        const lo = lowerBound(comparisonX, nC, xLow);
-        const range = upperBound(comparisonX, nC, xHigh) - lo;
+        const lo = positions ? positions.lowerBound(xLow) : lowerBound(comparisonX, nC, xLow);
+        const range = (positions ? positions.upperBound(xHigh) : upperBound(comparisonX, nC, xHigh)) - lo;
         while (got < k && got < range) {
           // j-th (0-based) index in [lo, hi) not already picked by this member.
           let cand = lo + Math.floor(rng.nextFloat() * (range - got));
@@ -174,7 +189,7 @@ export function matchOnPretest(
       const x = programmeX[i] as number;
       const xLow = x - caliper;
       const xHigh = x + caliper;
-      const pos = lowerBound(comparisonX, nC, x);
+      const pos = positions ? positions.lowerBound(x) : lowerBound(comparisonX, nC, x);
       const base = i * k;
       let got = 0;
       while (got < k) {
@@ -222,8 +237,8 @@ export function matchOnPretest(
   while (topBit * 2 <= nC) topBit *= 2;
   for (let i = 0; i < nP; i++) {
     const x = programmeX[i] as number;
-    const lo = lowerBound(comparisonX, nC, x - caliper);
-    const hi = upperBound(comparisonX, nC, x + caliper);
+    const lo = positions ? positions.lowerBound(x - caliper) : lowerBound(comparisonX, nC, x - caliper);
+    const hi = positions ? positions.upperBound(x + caliper) : upperBound(comparisonX, nC, x + caliper);
     const base = i * k;
     let got = 0;
     while (got < k) {
