@@ -1,0 +1,78 @@
+import { describe, expect, it } from 'vitest';
+import fc from 'fast-check';
+import { NormalSampleIndex } from '../../src/sim/normalSampleIndex';
+import { createMatchingWorkspace, matchOnPretest } from '../../src/sim/matchOnPretest';
+import { Xoshiro128StarStar } from '../../src/sim/xoshiro128StarStar';
+import type { MatchingMethod } from '../../src/core/plan';
+
+/** Reference lower/upper bound by linear scan (definition; common practice). */
+function firstIndex(sorted: number[], pred: (v: number) => boolean): number {
+  const i = sorted.findIndex(pred);
+  return i < 0 ? sorted.length : i;
+}
+
+describe('NormalSampleIndex', () => {
+  it('sorts mean + sd·z exactly like the built-in numeric sort and finds bounds like a linear scan (fast-check, 300 cases)', () => {
+    // Reference: Float64Array.prototype.sort (ECMAScript numeric order) and a linear scan. Exact equality:
+    // the bucket map only affects speed, never the order or the positions.
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: -50, max: 50, noNaN: true }), { minLength: 1, maxLength: 300 }),
+        fc.double({ min: -100, max: 100, noNaN: true }),
+        fc.double({ min: 0.01, max: 100, noNaN: true }),
+        fc.array(fc.double({ min: -1e4, max: 1e4, noNaN: true }), { minLength: 1, maxLength: 20 }),
+        (zs, mean, sd, queries) => {
+          const n = zs.length;
+          const z = Float64Array.from([0.5, ...zs]); // offset 1
+          const out = new Float64Array(n);
+          const index = new NormalSampleIndex(n);
+          index.sort(out, z, 1, mean, sd);
+          const expected = Float64Array.from(zs.map((v) => mean + sd * v)).sort();
+          expect(Array.from(out)).toEqual(Array.from(expected));
+          const sorted = Array.from(expected);
+          // Query the sample's own values too: ties and exact hits are where bounds differ.
+          for (const q of [...queries, ...sorted.slice(0, 5), mean]) {
+            expect(index.lowerBound(q)).toBe(firstIndex(sorted, (v) => v >= q));
+            expect(index.upperBound(q)).toBe(firstIndex(sorted, (v) => v > q));
+          }
+        },
+      ),
+      { numRuns: 300, seed: 11 },
+    );
+  });
+
+  it('gives matchOnPretest exactly the partners binary search gives (fast-check, 200 cases)', () => {
+    // Reference: matchOnPretest without the index (binary search), itself checked against the naive
+    // definition in matchOnPretest.test.ts. Exact equality of partners and matched count.
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: -4, max: 4, noNaN: true }), { minLength: 1, maxLength: 120 }),
+        fc.array(fc.double({ min: -4, max: 4, noNaN: true }), { minLength: 1, maxLength: 40 }),
+        fc.double({ min: 0, max: 2, noNaN: true }),
+        fc.constantFrom<MatchingMethod>('nearest', 'random-within-caliper'),
+        fc.boolean(),
+        fc.integer({ min: 1, max: 3 }),
+        (cz, px, caliper, method, replacement, ratio) => {
+          const nC = cz.length;
+          const xc = new Float64Array(nC);
+          const index = new NormalSampleIndex(nC);
+          index.sort(xc, Float64Array.from(cz), 0, 50, 10);
+          const xp = Float64Array.from(px.map((v) => 50 + 10 * v));
+          const cal = caliper * 10;
+          const wsA = createMatchingWorkspace(xp.length, nC, ratio);
+          const wsB = createMatchingWorkspace(xp.length, nC, ratio);
+          const a = matchOnPretest(xc, xp, cal, method, replacement, Xoshiro128StarStar.forReplication(3, 0), wsA);
+          const b = matchOnPretest(xc, xp, cal, method, replacement, Xoshiro128StarStar.forReplication(3, 0), wsB, index);
+          expect(b).toBe(a);
+          expect(Array.from(wsB.partners)).toEqual(Array.from(wsA.partners));
+          expect(Array.from(wsB.partnerCount)).toEqual(Array.from(wsA.partnerCount));
+        },
+      ),
+      { numRuns: 200, seed: 5 },
+    );
+  });
+
+  it('rejects a sample size that is not a positive whole number, with a readable message', () => {
+    expect(() => new NormalSampleIndex(0)).toThrow('The sample size to sort must be a whole number of at least 1; got 0.');
+  });
+});
