@@ -7,7 +7,8 @@
  *                 arrays of objects, linear-scan matching, t quantiles and p-values per estimate)
  *                 ÷ engine time per replication (target ≥ 20)
  *   doublingRatio engine time with both pools doubled ÷ engine time (target ≤ 2.3; O(n log n))
- * Each timing is the median of several interleaved runs after a warm-up. Times are this
+ * Each ratio is the median over several interleaved rounds (after a warm-up) of that
+ * round's ratio. Times are this
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
  * may be shared, and time spent descheduled while other programs run belongs to neither
  * side of a ratio. Wall-clock ratios are printed alongside for comparison.
@@ -159,53 +160,59 @@ doubled.groups.comparison.poolSize *= 2;
 const NAIVE_REPS = 200;
 
 // Interleaved rounds: the machine may be shared, so each round times the engine, the
-// normals alone and the doubled pools back to back and the medians compare like with
-// like. The naive baseline runs afterwards, on its own: its garbage (objects) would
-// otherwise trigger collections inside the engine's timings.
-function medianTimes(tasks: Record<string, () => void>, rounds: number): Record<string, { cpu: number; wall: number }> {
-  const cpu: Record<string, number[]> = {};
-  const wall: Record<string, number[]> = {};
-  for (const [name, f] of Object.entries(tasks)) {
-    f(); // warm-up (JIT)
-    cpu[name] = [];
-    wall[name] = [];
-  }
-  for (let round = 0; round < rounds; round++) {
-    for (const [name, f] of Object.entries(tasks)) {
-      const c0 = process.cpuUsage();
-      const t0 = performance.now();
-      f();
-      const t1 = performance.now();
-      const c1 = process.cpuUsage(c0);
-      cpu[name]?.push((c1.user + c1.system) / 1000);
-      wall[name]?.push(t1 - t0);
-    }
-  }
-  return Object.fromEntries(
-    Object.keys(tasks).map((k) => [k, { cpu: median(cpu[k] as number[]), wall: median(wall[k] as number[]) }]),
-  );
+// normals alone, the doubled pools and the naive baseline back to back, and each ratio
+// is the median over rounds of that round's ratio (like compared with like, under the
+// same load). Times are CPU time; wall-clock ratios are computed the same way.
+type Timing = { cpu: number; wall: number };
+function timeOnce(f: () => void): Timing {
+  const c0 = process.cpuUsage();
+  const t0 = performance.now();
+  f();
+  const t1 = performance.now();
+  const c1 = process.cpuUsage(c0);
+  return { cpu: (c1.user + c1.system) / 1000, wall: t1 - t0 };
 }
-const main = medianTimes(
-  {
-    engine: () => engine(plan, REPS),
-    normals: () => normalsOnly(plan, REPS),
-    doubled: () => engine(doubled, REPS),
-  },
-  RUNS,
-);
-const naiveTimes = medianTimes({ naive: () => naive(plan, NAIVE_REPS) }, 3).naive as { cpu: number; wall: number };
-const tEngine = (main.engine as { cpu: number }).cpu;
-const tNormals = (main.normals as { cpu: number }).cpu;
-const tDoubled = (main.doubled as { cpu: number }).cpu;
-const tNaive = naiveTimes.cpu;
-const wall = {
-  floorRatio: round((main.engine as { wall: number }).wall / (main.normals as { wall: number }).wall, 3),
-  naiveSpeedup: round(naiveTimes.wall / NAIVE_REPS / ((main.engine as { wall: number }).wall / REPS), 2),
-  doublingRatio: round((main.doubled as { wall: number }).wall / (main.engine as { wall: number }).wall, 3),
+const tasks = {
+  engine: () => engine(plan, REPS),
+  normals: () => normalsOnly(plan, REPS),
+  doubled: () => engine(doubled, REPS),
+  naive: () => naive(plan, NAIVE_REPS),
 };
-const floorRatio = tEngine / tNormals;
-const naiveSpeedup = tNaive / NAIVE_REPS / (tEngine / REPS);
-const doublingRatio = tDoubled / tEngine;
+// Warm-up: three runs of each task, so every timing is of steady-state code (the naive
+// baseline in particular runs several times slower on its first two runs, before the
+// JIT and the heap settle, which would flatter the engine).
+for (let w = 0; w < 3; w++) for (const f of Object.values(tasks)) f();
+const rounds: Record<keyof typeof tasks, Timing>[] = [];
+for (let r = 0; r < RUNS; r++) {
+  rounds.push({
+    engine: timeOnce(tasks.engine),
+    normals: timeOnce(tasks.normals),
+    doubled: timeOnce(tasks.doubled),
+    naive: timeOnce(tasks.naive),
+  });
+}
+const ratios = (clock: keyof Timing) => {
+  const floor = rounds.map((t) => t.engine[clock] / t.normals[clock]);
+  const naiveR = rounds.map((t) => t.naive[clock] / NAIVE_REPS / (t.engine[clock] / REPS));
+  const doubling = rounds.map((t) => t.doubled[clock] / t.engine[clock]);
+  return { floor, naive: naiveR, doubling };
+};
+const cpuRatios = ratios('cpu');
+const wallRatios = ratios('wall');
+const medianOf = (name: keyof typeof tasks) => median(rounds.map((t) => t[name].cpu));
+const tEngine = medianOf('engine');
+const tNormals = medianOf('normals');
+const tDoubled = medianOf('doubled');
+const tNaive = medianOf('naive');
+const wall = {
+  floorRatio: round(median(wallRatios.floor), 3),
+  naiveSpeedup: round(median(wallRatios.naive), 2),
+  doublingRatio: round(median(wallRatios.doubling), 3),
+};
+const range = (xs: number[], d: number) => [round(Math.min(...xs), d), round(Math.max(...xs), d)];
+const floorRatio = median(cpuRatios.floor);
+const naiveSpeedup = median(cpuRatios.naive);
+const doublingRatio = median(cpuRatios.doubling);
 const out = {
   plan: 'demo plan (180 programme, 1,200 comparison; nearest 1:1, caliper 0.2, no replacement)',
   replications: REPS,
@@ -218,6 +225,11 @@ const out = {
   naiveSpeedup: round(naiveSpeedup, 2),
   doublingRatio: round(doublingRatio, 3),
   targets: { floorRatio: '<= 2', naiveSpeedup: '>= 20', doublingRatio: '<= 2.3' },
+  roundRanges: {
+    floorRatio: range(cpuRatios.floor, 3),
+    naiveSpeedup: range(cpuRatios.naive, 2),
+    doublingRatio: range(cpuRatios.doubling, 3),
+  },
   wallClockRatios: wall,
   met: { floorRatio: floorRatio <= 2, naiveSpeedup: naiveSpeedup >= 20, doublingRatio: doublingRatio <= 2.3 },
 };
@@ -232,7 +244,7 @@ if (json) {
 } else {
   const line = (name: string, value: number, target: string, ok: boolean, meaning: string) =>
     console.log(`${name.padEnd(14)} ${value.toFixed(2).padStart(7)}  target ${target.padEnd(6)} ${ok ? 'met' : 'NOT met'}\n  ${meaning}`);
-  console.log(`Monte Carlo engine benchmark: ${out.plan}, ${REPS} replications, median CPU time of ${RUNS} interleaved runs after a warm-up`);
+  console.log(`Monte Carlo engine benchmark: ${out.plan}, ${REPS} replications, median over ${RUNS} interleaved rounds (CPU time) after a warm-up`);
   console.log(`engine ${out.engineMs} ms (${out.engineMsPerReplication} ms per replication); normals alone ${out.normalsOnlyMs} ms; doubled pools ${out.doubledPoolsMs} ms; naive ${out.naiveMsPerReplication} ms per replication`);
   line('floorRatio', floorRatio, '<= 2', out.met.floorRatio, 'engine time ÷ time just to draw the normal variates it needs (1 = nothing but sampling)');
   line('naiveSpeedup', naiveSpeedup, '>= 20', out.met.naiveSpeedup, 'straightforward baseline (Math.random, objects, linear-scan matching) ÷ engine, per replication');

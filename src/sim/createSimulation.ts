@@ -255,6 +255,7 @@ class ReplicationRunner {
   readonly tp: Float64Array;
   readonly yp: Float64Array;
   readonly xc: Float64Array;
+  /** True scores and outcomes of the sorted comparison pool: only matched partners' entries are filled. */
   readonly tc: Float64Array;
   readonly yc: Float64Array;
   readonly sorterC: NormalSampleIndex;
@@ -367,8 +368,6 @@ class ReplicationRunner {
       const dx = (xc[j] as number) - muC;
       const dt = rhoC * dx + condC * (z[zTC + j] as number);
       const dy = beta * dt + resSD * (z[zEC + j] as number);
-      tc[j] = muC + dt;
-      yc[j] = yCentreC + dy;
       cSx += dx; cSxx += dx * dx; cSy += dy; cSyy += dy * dy; cSxy += dx * dy; cSt += dt; cStt += dt * dt;
     }
 
@@ -440,11 +439,16 @@ class ReplicationRunner {
       const base = j * k;
       for (let q = 0; q < cnt; q++) {
         const c = partners[base + q] as number;
-        const y = yc[c] as number;
-        ySum += y;
+        // The partner's true score and outcome, exactly as the pool loop drew them (only partners are kept).
         const cx = (xc[c] as number) - muC;
+        const dt = rhoC * cx + condC * (z[zTC + c] as number);
+        const t = muC + dt;
+        const y = yCentreC + (beta * dt + resSD * (z[zEC + c] as number));
+        tc[c] = t;
+        yc[c] = y;
+        ySum += y;
         const cy = y - yCentreC;
-        rSx += cx; rSxx += cx * cx; rSy += cy; rSyy += cy * cy; rSxy += cx * cy; rSt += (tc[c] as number) - muC;
+        rSx += cx; rSxx += cx * cx; rSy += cy; rSyy += cy * cy; rSxy += cx * cy; rSt += t - muC;
       }
       rN += cnt;
       const d = (yp[j] as number) - ySum / cnt;
