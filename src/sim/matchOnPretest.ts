@@ -21,6 +21,8 @@ export interface MatchingWorkspace {
   readonly fenwick: Int32Array;
   /** Scratch for with-replacement random picks (ratio slots). */
   readonly picked: Int32Array;
+  /** 0, 1, ..., nComparison: copied into nextUp/nextDown to reset them (a block copy, not a loop). */
+  readonly identity: Int32Array;
 }
 
 /**
@@ -47,6 +49,7 @@ export function createMatchingWorkspace(nProgramme: number, nComparison: number,
     nextDown: new Int32Array(nComparison + 1),
     fenwick: new Int32Array(nComparison + 1),
     picked: new Int32Array(ratio),
+    identity: Int32Array.from({ length: nComparison + 1 }, (_, j) => j),
   };
 }
 
@@ -181,10 +184,10 @@ export function matchOnPretest(
   if (method === 'nearest') {
     const up = ws.nextUp;
     const down = ws.nextDown;
-    for (let j = 0; j <= nC; j++) {
-      up[j] = j; // up[nC] = nC: "none above"
-      down[j] = j; // down[j+1] represents index j; down[0] = 0: "none below"
-    }
+    // Every member available: up[j] = j (up[nC] = nC: "none above"); down[j+1] represents
+    // index j, down[0] = 0: "none below".
+    up.set(ws.identity);
+    down.set(ws.identity);
     for (let i = 0; i < nP; i++) {
       const x = programmeX[i] as number;
       const xLow = x - caliper;

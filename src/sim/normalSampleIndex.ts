@@ -4,17 +4,19 @@ import jStat from 'jstat';
 const SPAN = 6;
 /** Table cells per item: enough that a bucket (about 1/n of probability) spans one or two cells. */
 const CELLS_PER_ITEM = 4;
+/** At most this many buckets, so bucket numbers fit 16 bits (a small table stays in cache). */
+const MAX_BUCKETS = 65536;
 
 /**
  * Sorting and searching for a sample of n values drawn from N(mean, sd^2),
  * both in expected linear time, with buffers reused across samples.
  *
  * `sort` is a distribution (bucket) sort (Knuth 1998, TAOCP vol. 3, 5.2.1 and
- * 5.2.5): each value goes to bucket floor(n Φ(z)), z = (x - mean) / sd, so a
- * normal sample fills the n buckets about one per bucket; an insertion sort
+ * 5.2.5): each value goes to bucket floor(m Φ(z)), z = (x - mean) / sd,
+ * m = min(n, 65536) buckets, so a normal sample fills them about evenly; an insertion sort
  * then fixes order within buckets. Φ (the standard normal CDF, jStat's
  * normal.cdf; Abramowitz & Stegun 1972, 26.2) is tabulated once per n on a
- * grid of 4n cells over z in [-6, 6], so placing a value costs one multiply
+ * grid of 4m cells over z in [-6, 6], so placing a value costs one multiply
  * and one table look-up. The bucket map x → bucket is monotone (every
  * floating-point step is), so the result is exactly sorted whatever the data;
  * the normal shape only makes it fast.
@@ -34,10 +36,12 @@ export class NormalSampleIndex {
   /** Sample size sorted by this index, integer >= 1. */
   readonly n: number;
   private readonly cells: number;
+  /** Number of buckets, min(n, 65536). */
+  private readonly buckets: number;
   /** cellBucket[c] = bucket of table cell c (non-decreasing in c). */
-  private readonly cellBucket: Int32Array;
+  private readonly cellBucket: Uint16Array;
   private readonly scratch: Float64Array;
-  private readonly bucketOf: Int32Array;
+  private readonly bucketOf: Uint16Array;
   /** After a sort: ends[b] = one past the last position of bucket b. */
   private readonly ends: Int32Array;
   private sorted: Float64Array;
@@ -48,22 +52,24 @@ export class NormalSampleIndex {
   constructor(n: number) {
     if (!Number.isInteger(n) || n < 1) throw new Error(`The sample size to sort must be a whole number of at least 1; got ${String(n)}.`);
     this.n = n;
-    const cells = CELLS_PER_ITEM * n;
+    const nb = Math.min(n, MAX_BUCKETS);
+    this.buckets = nb;
+    const cells = CELLS_PER_ITEM * nb;
     this.cells = cells;
-    this.cellBucket = new Int32Array(cells);
+    this.cellBucket = new Uint16Array(cells);
     const width = (2 * SPAN) / cells;
     let prev = 0;
     for (let c = 0; c < cells; c++) {
       const p = jStat.normal.cdf(-SPAN + (c + 0.5) * width, 0, 1) as number;
-      let b = Math.floor(n * p);
+      let b = Math.floor(nb * p);
       if (!(b >= prev)) b = prev; // keep the map monotone (and NaN-proof)
-      if (b > n - 1) b = n - 1;
+      if (b > nb - 1) b = nb - 1;
       this.cellBucket[c] = b;
       prev = b;
     }
     this.scratch = new Float64Array(n);
-    this.bucketOf = new Int32Array(n);
-    this.ends = new Int32Array(n);
+    this.bucketOf = new Uint16Array(n);
+    this.ends = new Int32Array(nb);
     this.sorted = new Float64Array(0);
   }
 
@@ -106,7 +112,8 @@ export class NormalSampleIndex {
     }
     // Exclusive prefix sums: start of each bucket (the scatter turns them into ends).
     let acc = 0;
-    for (let b = 0; b < n; b++) {
+    const nb = this.buckets;
+    for (let b = 0; b < nb; b++) {
       const size = ends[b] as number;
       ends[b] = acc;
       acc += size;

@@ -72,6 +72,23 @@ describe('NormalSampleIndex', () => {
     );
   });
 
+  it('sorts and searches exactly beyond 65,536 values, where buckets hold more than one value each', () => {
+    // Reference: Float64Array.prototype.sort and a linear scan (exact equality), as above.
+    const n = 70_000;
+    const rng = Xoshiro128StarStar.forReplication(9, 0);
+    const z = Float64Array.from({ length: n }, () => 6 * (rng.nextFloat() - 0.5));
+    const out = new Float64Array(n);
+    const index = new NormalSampleIndex(n);
+    index.sort(out, z, 0, 100, 15);
+    const expected = Float64Array.from(z, (v) => 100 + 15 * v).sort();
+    expect(Array.from(out)).toEqual(Array.from(expected));
+    const sorted = Array.from(expected);
+    for (const q of [55, 99.5, 100, sorted[1234] as number, 160]) {
+      expect(index.lowerBound(q)).toBe(firstIndex(sorted, (v) => v >= q));
+      expect(index.upperBound(q)).toBe(firstIndex(sorted, (v) => v > q));
+    }
+  });
+
   it('rejects a sample size that is not a positive whole number, with a readable message', () => {
     expect(() => new NormalSampleIndex(0)).toThrow('The sample size to sort must be a whole number of at least 1; got 0.');
   });
