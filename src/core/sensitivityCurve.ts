@@ -50,7 +50,8 @@ export interface SensitivityCurve {
  * @returns the curve, band and break-even x values (all finite).
  * @throws Error when points is out of range or the plan's inputs contradict each other.
  * @example demo plan, 'reliability': at x = 1 the matched-difference bias is 0,
- *   at x = 0.75 it is −2 points; break-even x ≈ 0.936
+ *   at x = 0.75 it is −2 points; break-even x = 0.921875 (the
+ *   reference population has the groups' SD, so it equals the within-group break-even)
  */
 export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, points = 41): SensitivityCurve {
   if (!Number.isInteger(points) || points < 3 || points > 1001) {
@@ -69,19 +70,24 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
   const band = { lower: -share * Math.abs(tau), upper: share * Math.abs(tau) };
   if (variable === 'reliability') {
     const refSD = plan.pretest.referenceSD ?? plan.groups.comparison.pretestSD;
-    const semAt = (x: number): number => refSD * Math.sqrt(Math.max(0, 1 - x));
+    // A better or worse instrument changes the SEM, not the people: the true-score
+    // variance of the reference population (and of each group) stays fixed, so the
+    // reference reliability x means SEM² = trueVarRef (1 − x)/x (Lord & Novick 1968,
+    // reliability as true over observed variance).
+    const trueVarRef = Math.max(refSD * refSD - m.sem * m.sem, Number.MIN_VALUE);
+    const semAt = (x: number): number => Math.sqrt((trueVarRef * Math.max(0, 1 - x)) / x);
     const be = breakEvenReliability(m, share);
     const breakEvenX: number[] = [];
     if (be.reliability !== null) {
-      // Within-group rho* ↔ SEM² = trueVar_C (1 − rho*)/rho* ↔ reference reliability 1 − SEM²/refSD².
+      // Within-group rho* ↔ SEM² = trueVar_C (1 − rho*)/rho* ↔ reference reliability trueVarRef/(trueVarRef + SEM²).
       const sem2 = (m.trueSD.comparison ** 2 * (1 - be.reliability)) / be.reliability;
-      const x = 1 - sem2 / (refSD * refSD);
+      const x = trueVarRef / (trueVarRef + sem2);
       if (x > 0 && x <= 1) breakEvenX.push(x);
     }
     result = {
       variable,
       xLabel: 'Pretest reliability in its reference population',
-      current: 1 - (m.sem * m.sem) / (refSD * refSD),
+      current: trueVarRef / (trueVarRef + m.sem * m.sem),
       points: grid(0.3, 1).map((x) => ({ x, bias: biasOf(modelWithSem(m, semAt(x))) })),
       effect: tau,
       tolerableBand: band,

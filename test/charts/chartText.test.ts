@@ -41,10 +41,10 @@ describe('text alternatives', () => {
   });
 
   it('sensitivity: names the break-even reliability and tabulates the curves', () => {
-    // Break-even on the reference-reliability axis 0.936 (computed in sensitivityChartData.test.ts).
+    // Break-even on the reference-reliability axis 0.922 (computed in sensitivityChartData.test.ts).
     const t = sensitivityChartText(sensitivityChartData(closedFormInput(), 'reliability'));
     wellFormed(t);
-    expect(t.sentences.join(' ')).toContain('pretest reliability 0.94');
+    expect(t.sentences.join(' ')).toContain('pretest reliability 0.92');
     expect(t.table.rows[0]![0]).toBe('0.30');
     expect(t.table.rows.at(-1)![0]).toBe('1.00');
     wellFormed(sensitivityChartText(sensitivityChartData(closedFormInput(), 'pretestGap')));

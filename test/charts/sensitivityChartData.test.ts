@@ -27,13 +27,15 @@ describe('sensitivityChartData', () => {
     expect(Math.abs(xCross - be)).toBeLessThan(0.005);
     // Core's break-even is a within-group reliability: 1 - 0.625 / (0.8 × 10) = 0.921875
     // (breakEvenReliability example). On this axis (reliability in the reference population, SD 10,
-    // true-score variance fixed at 75) it maps to 1 - SEM^2 / 10^2 with SEM^2 = 75 (1 - rho*) / rho*
-    // (classical test theory, Lord & Novick 1968; computed: 0.93644). Tolerance 1e-9.
+    // true-score variance held at 75 as the instrument changes) it maps to 75 / (75 + SEM^2) with
+    // SEM^2 = 75 (1 - rho*) / rho* (classical test theory, Lord & Novick 1968: reliability = true
+    // over observed variance). The demo's reference population has the comparison group's SD, so the
+    // two scales coincide (computed: 0.921875). Tolerance 1e-9.
     const rhoStar = input.analytic.breakEven.reliability!;
     expect(rhoStar).toBeCloseTo(0.921875, 9);
     const sem2 = (75 * (1 - rhoStar)) / rhoStar;
-    expect(be).toBeCloseTo(1 - sem2 / 100, 9);
-    expect(be).toBeCloseTo(0.93644, 5);
+    expect(be).toBeCloseTo(75 / (75 + sem2), 9);
+    expect(be).toBeCloseTo(0.921875, 9);
   });
 
   it('marks the current reliability with the closed-form biases (demo: matched difference -2.0)', () => {

@@ -141,9 +141,12 @@ describe('remedies and sensitivity curves on the demo plan', () => {
     expect(c.points[14]!.bias.matchedDifference).toBeCloseTo(0, 12);
     expect(c.current).toBeCloseTo(0.75, 12);
     expect(c.tolerableBand).toEqual({ lower: -0.625, upper: 0.625 });
-    // break-even x: within-group rho* = .921875 ↔ SEM² = 75·(1 − rho*)/rho* ↔ x = 1 − SEM²/100
+    // break-even x: within-group rho* = .921875 ↔ SEM² = 75·(1 − rho*)/rho* ↔ x = 75/(75 + SEM²),
+    // the true-score variance (75) staying fixed as the instrument changes (Lord & Novick 1968:
+    // reliability = true / observed variance). The demo's reference SD is the groups' SD, so x = rho*.
     const sem2 = (75 * (1 - 0.921875)) / 0.921875;
-    expect(c.breakEvenX[0]!).toBeCloseTo(1 - sem2 / 100, 9);
+    expect(c.breakEvenX[0]!).toBeCloseTo(75 / (75 + sem2), 9);
+    expect(c.breakEvenX[0]!).toBeCloseTo(0.921875, 9);
   });
   it('gap curve is centred on the current gap, passes through the current bias, and is 0 at no gap', () => {
     const c = sensitivityCurve(plan, 'pretestGap', 21);
