@@ -35,7 +35,7 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
   for (const g of ['programme', 'comparison'] as GroupKey[]) {
     const label = `${g === 'programme' ? 'Programme' : 'Comparison'}: ${short(data.groups[g].label)}`;
     items.push({
-      w: 44 + label.length * FONT.tick * 0.56,
+      w: 44 + label.length * FONT.tick * 0.64,
       draw: (lx, ly) => {
         add(legend, 'line', { x1: lx, x2: lx + 26, y1: ly, y2: ly, stroke: GROUP_COLOURS[g], 'stroke-width': 2.5, 'stroke-dasharray': GROUP_DASH[g] });
         text(legend, lx + 32, ly + 4, label);
@@ -45,7 +45,7 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
   if (data.region) {
     const label = data.region.source === 'example' ? 'Scores matched in the example study' : 'Scores where partners are expected';
     items.push({
-      w: 30 + label.length * FONT.tick * 0.56,
+      w: 30 + label.length * FONT.tick * 0.64,
       draw: (lx, ly) => {
         add(legend, 'rect', { x: lx, y: ly - 6, width: 18, height: 12, fill: GROUP_COLOURS.region, stroke: '#bbbbbb' });
         text(legend, lx + 24, ly + 4, label);
@@ -75,7 +75,7 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
     const x1 = Math.min(x(data.region.upper), width - right);
     add(plot, 'rect', { x: x0, y: top, width: Math.max(0, x1 - x0), height: height - bottom - top, fill: GROUP_COLOURS.region });
   }
-  axisLeft(plot, y, left, 'Density (share per point)', 4, (v) => fmt(v, 3), 52);
+  axisLeft(plot, y, left, 'Density', 4, (v) => fmt(v, 3), 52);
   add(plot, 'line', { x1: left, x2: width - right, y1: top + densityH, y2: top + densityH, stroke: '#444444' });
 
   const line = d3

@@ -173,7 +173,7 @@ export function analysisLegend(
   for (const id of ids) {
     const st = ANALYSIS_STYLES[id];
     const label = labels?.[id] ?? st.shortLabel;
-    const w = 40 + label.length * FONT.tick * 0.58 + 16;
+    const w = 40 + label.length * FONT.tick * 0.64 + 16;
     if (cx + w > x + maxWidth && cx > x) {
       cx = x;
       cy += rowH;

@@ -48,5 +48,11 @@ export async function drawSvgChart(
   svg: SVGSVGElement,
   box: { x: number; y: number; width: number; height: number },
 ): Promise<void> {
+  // svg2pdf only changes the font style where an element's weight differs from its
+  // parent's, so it inherits whatever style the page text last used: start from the
+  // chart's own family in its normal weight, or every label after a bold heading comes out bold.
+  const family = svg.getAttribute('font-family');
+  if (family && doc.getFontList()[family]?.includes('normal')) doc.setFont(family, 'normal');
+  else doc.setFont(doc.getFont().fontName, 'normal');
   await svg2pdf(svg, doc, box);
 }
