@@ -8,6 +8,29 @@ const CELLS_PER_ITEM = 4;
 const MAX_BUCKETS = 65536;
 
 /**
+ * Byte offsets for arrays of the given byte sizes packed into one buffer, each
+ * start on a 64-byte line and the starts spread over different positions
+ * within a 4 KiB page (offset mod 4096 = 1024·i + 64·i), so a load from one
+ * array never waits on a store to another that merely shares the low 12
+ * address bits ("4K aliasing"); separately allocated buffers can land on such
+ * positions by chance, which made the sort up to twice as slow. The last entry
+ * is the total size.
+ */
+function layoutOffsets(sizes: number[]): number[] {
+  const at: number[] = [];
+  let end = 0;
+  sizes.forEach((size, i) => {
+    const want = (1024 * i + 64 * i) % 4096;
+    let start = Math.ceil(end / 64) * 64;
+    start += (want - (start % 4096) + 4096) % 4096;
+    at.push(start);
+    end = start + size;
+  });
+  at.push(end);
+  return at;
+}
+
+/**
  * Sorting and searching for a sample of n values drawn from N(mean, sd^2),
  * both in expected linear time, with buffers reused across samples.
  *
@@ -56,7 +79,10 @@ export class NormalSampleIndex {
     this.buckets = nb;
     const cells = CELLS_PER_ITEM * nb;
     this.cells = cells;
-    this.cellBucket = new Uint16Array(cells);
+    // All four work arrays live in one buffer at staggered offsets (see layoutOffsets).
+    const at = layoutOffsets([2 * cells, 8 * n, 2 * n, 4 * nb]);
+    const buffer = new ArrayBuffer(at[4] as number);
+    this.cellBucket = new Uint16Array(buffer, at[0], cells);
     const width = (2 * SPAN) / cells;
     let prev = 0;
     for (let c = 0; c < cells; c++) {
@@ -67,9 +93,9 @@ export class NormalSampleIndex {
       this.cellBucket[c] = b;
       prev = b;
     }
-    this.scratch = new Float64Array(n);
-    this.bucketOf = new Uint16Array(n);
-    this.ends = new Int32Array(nb);
+    this.scratch = new Float64Array(buffer, at[1], n);
+    this.bucketOf = new Uint16Array(buffer, at[2], n);
+    this.ends = new Int32Array(buffer, at[3], nb);
     this.sorted = new Float64Array(0);
   }
 
