@@ -1,4 +1,5 @@
 import jStat from 'jstat';
+import { layoutOffsets } from './layoutOffsets';
 
 /** Half-width of the tabulated range, in SDs; values beyond it share the end buckets (still exact). */
 const SPAN = 6;
@@ -6,29 +7,6 @@ const SPAN = 6;
 const CELLS_PER_ITEM = 4;
 /** At most this many buckets, so bucket numbers fit 16 bits (a small table stays in cache). */
 const MAX_BUCKETS = 65536;
-
-/**
- * Byte offsets for arrays of the given byte sizes packed into one buffer, each
- * start on a 64-byte line and the starts spread over different positions
- * within a 4 KiB page (offset mod 4096 = 1024·i + 64·i), so a load from one
- * array never waits on a store to another that merely shares the low 12
- * address bits ("4K aliasing"); separately allocated buffers can land on such
- * positions by chance, which made the sort up to twice as slow. The last entry
- * is the total size.
- */
-function layoutOffsets(sizes: number[]): number[] {
-  const at: number[] = [];
-  let end = 0;
-  sizes.forEach((size, i) => {
-    const want = (1024 * i + 64 * i) % 4096;
-    let start = Math.ceil(end / 64) * 64;
-    start += (want - (start % 4096) + 4096) % 4096;
-    at.push(start);
-    end = start + size;
-  });
-  at.push(end);
-  return at;
-}
 
 /**
  * Sorting and searching for a sample of n values drawn from N(mean, sd^2),
