@@ -1,7 +1,9 @@
 import { defineConfig } from '@playwright/test';
+import { E2E_ORIGIN as ORIGIN, E2E_PORT as PORT } from './test/e2e/origin';
 
 // Browser suite: Debian's Chromium (never a downloaded browser), against the
 // production build served by `vite preview`. See shared toolchain notes.
+
 export default defineConfig({
   testDir: 'test/e2e',
   testMatch: '**/*.spec.ts',
@@ -12,7 +14,7 @@ export default defineConfig({
   expect: { timeout: 15_000 },
   reporter: [['list']],
   use: {
-    baseURL: 'http://127.0.0.1:4173/',
+    baseURL: `${ORIGIN}/`,
     viewport: { width: 1366, height: 768 },
     screenshot: 'only-on-failure',
     trace: 'off',
@@ -32,8 +34,8 @@ export default defineConfig({
     },
   },
   webServer: {
-    command: 'npm run build && npx vite preview --host 127.0.0.1 --port 4173 --strictPort',
-    url: 'http://127.0.0.1:4173/',
+    command: `npm run build && npx vite preview --host 127.0.0.1 --port ${PORT} --strictPort`,
+    url: `${ORIGIN}/`,
     // Always build and serve afresh: reusing a server could test a stale build.
     reuseExistingServer: false,
     timeout: 120_000,

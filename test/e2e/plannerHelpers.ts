@@ -1,11 +1,12 @@
 import { expect, type Page } from '@playwright/test';
+import { E2E_ORIGIN } from './origin';
 
 /**
  * Record every request the page makes to anywhere but its own origin.
  * Meanward promises that nothing leaves the browser (no fonts, no CDNs, no
  * analytics); data: and blob: URLs stay on the machine and are allowed.
  */
-export function trackForeignRequests(page: Page, origin = 'http://127.0.0.1:4173'): string[] {
+export function trackForeignRequests(page: Page, origin = E2E_ORIGIN): string[] {
   const foreign: string[] = [];
   page.on('request', (req) => {
     const url = req.url();
