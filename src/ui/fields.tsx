@@ -13,6 +13,37 @@ function decimals(step: number): number {
   return i < 0 ? 0 : s.length - i - 1;
 }
 
+/** What every field needs: its ids, the typed value, its problem and the setter. */
+function useFieldBinding<V>(path: string) {
+  const id = useId();
+  const value = useMeanwardStore((s) => readPath(s.draft, path)) as V;
+  const problem = useMeanwardStore(selectProblemFor(path));
+  const setField = useMeanwardStore((s) => s.setField);
+  const hintId = `${id}-hint`;
+  const errId = `${id}-err`;
+  const inputAria = {
+    'aria-invalid': problem ? true : undefined,
+    'aria-describedby': problem ? `${errId} ${hintId}` : hintId,
+  } as const;
+  return { id, value, problem, setField, hintId, errId, inputAria };
+}
+
+/** The hint under a field and, when there is one, its problem (announced). */
+function FieldNotes({ hintId, errId, hint, problem }: { hintId: string; errId: string; hint: ReactNode; problem: string | undefined | null }) {
+  return (
+    <>
+      <p id={hintId} className="field-hint">
+        {hint}
+      </p>
+      {problem && (
+        <p id={errId} className="field-error" role="alert">
+          {problem}
+        </p>
+      )}
+    </>
+  );
+}
+
 interface NumberFieldProps {
   /** Dotted plan path, e.g. "pretest.reliability". */
   path: string;
@@ -39,12 +70,7 @@ interface NumberFieldProps {
  * Up and down arrow keys step the value.
  */
 export function NumberField({ path, label, unit, hint, step, min, max, after, inputMode = 'decimal', width = 'normal' }: NumberFieldProps) {
-  const id = useId();
-  const value = useMeanwardStore((s) => readPath(s.draft, path)) as string;
-  const problem = useMeanwardStore(selectProblemFor(path));
-  const setField = useMeanwardStore((s) => s.setField);
-  const hintId = `${id}-hint`;
-  const errId = `${id}-err`;
+  const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<string>(path);
   const onKeyDown = (e: KeyboardEvent<HTMLInputElement>) => {
     if (e.key !== 'ArrowUp' && e.key !== 'ArrowDown') return;
     const current = Number(value.trim().replace(',', '.'));
@@ -71,21 +97,13 @@ export function NumberField({ path, label, unit, hint, step, min, max, after, in
           spellCheck={false}
           className={width === 'narrow' ? 'input-narrow' : undefined}
           value={value}
-          aria-invalid={problem ? true : undefined}
-          aria-describedby={problem ? `${errId} ${hintId}` : hintId}
+          {...inputAria}
           onChange={(e) => setField(path, e.target.value)}
           onKeyDown={onKeyDown}
         />
         {unit && <span className="field-unit">{unit}</span>}
       </div>
-      <p id={hintId} className="field-hint">
-        {hint}
-      </p>
-      {problem && (
-        <p id={errId} className="field-error" role="alert">
-          {problem}
-        </p>
-      )}
+      <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
       {after}
     </div>
   );
@@ -99,10 +117,7 @@ interface TextFieldProps {
 
 /** A labelled free-text box (names and titles). */
 export function TextField({ path, label, hint }: TextFieldProps) {
-  const id = useId();
-  const value = useMeanwardStore((s) => readPath(s.draft, path)) as string;
-  const problem = useMeanwardStore(selectProblemFor(path));
-  const setField = useMeanwardStore((s) => s.setField);
+  const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<string>(path);
   return (
     <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
       <label htmlFor={id} className="field-label">
@@ -114,18 +129,10 @@ export function TextField({ path, label, hint }: TextFieldProps) {
         type="text"
         autoComplete="off"
         value={value}
-        aria-invalid={problem ? true : undefined}
-        aria-describedby={problem ? `${id}-err ${id}-hint` : `${id}-hint`}
+        {...inputAria}
         onChange={(e) => setField(path, e.target.value)}
       />
-      <p id={`${id}-hint`} className="field-hint">
-        {hint}
-      </p>
-      {problem && (
-        <p id={`${id}-err`} className="field-error" role="alert">
-          {problem}
-        </p>
-      )}
+      <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
     </div>
   );
 }
@@ -139,10 +146,7 @@ interface ChoiceFieldProps<T extends string> {
 
 /** A labelled drop-down for a string-union option. */
 export function ChoiceField<T extends string>({ path, label, hint, options }: ChoiceFieldProps<T>) {
-  const id = useId();
-  const value = useMeanwardStore((s) => readPath(s.draft, path)) as string;
-  const problem = useMeanwardStore(selectProblemFor(path));
-  const setField = useMeanwardStore((s) => s.setField);
+  const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<string>(path);
   return (
     <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
       <label htmlFor={id} className="field-label">
@@ -152,8 +156,7 @@ export function ChoiceField<T extends string>({ path, label, hint, options }: Ch
         id={id}
         name={path}
         value={value}
-        aria-invalid={problem ? true : undefined}
-        aria-describedby={problem ? `${id}-err ${id}-hint` : `${id}-hint`}
+        {...inputAria}
         onChange={(e) => setField(path, e.target.value)}
       >
         {options.map((o) => (
@@ -162,14 +165,7 @@ export function ChoiceField<T extends string>({ path, label, hint, options }: Ch
           </option>
         ))}
       </select>
-      <p id={`${id}-hint`} className="field-hint">
-        {hint}
-      </p>
-      {problem && (
-        <p id={`${id}-err`} className="field-error" role="alert">
-          {problem}
-        </p>
-      )}
+      <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
     </div>
   );
 }
@@ -182,10 +178,7 @@ interface CheckFieldProps {
 
 /** A labelled checkbox for a yes/no option. */
 export function CheckField({ path, label, hint }: CheckFieldProps) {
-  const id = useId();
-  const value = useMeanwardStore((s) => readPath(s.draft, path)) as boolean;
-  const problem = useMeanwardStore(selectProblemFor(path));
-  const setField = useMeanwardStore((s) => s.setField);
+  const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<boolean>(path);
   return (
     <div className={`field field-check${problem ? ' field-invalid' : ''}`} data-field={path}>
       <div className="field-input-row">
@@ -194,22 +187,14 @@ export function CheckField({ path, label, hint }: CheckFieldProps) {
           name={path}
           type="checkbox"
           checked={value}
-          aria-invalid={problem ? true : undefined}
-          aria-describedby={problem ? `${id}-err ${id}-hint` : `${id}-hint`}
+          {...inputAria}
           onChange={(e) => setField(path, e.target.checked)}
         />
         <label htmlFor={id} className="field-label">
           {label}
         </label>
       </div>
-      <p id={`${id}-hint`} className="field-hint">
-        {hint}
-      </p>
-      {problem && (
-        <p id={`${id}-err`} className="field-error" role="alert">
-          {problem}
-        </p>
-      )}
+      <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
     </div>
   );
 }
