@@ -28,26 +28,12 @@ export class NormalSampler {
     this.hasSpare = false;
   }
 
-  /** One N(0, 1) variate. */
+  private readonly one = new Float64Array(1);
+
+  /** One N(0, 1) variate: the same polar step as fillStandard, one value at a time. */
   next(): number {
-    if (this.hasSpare) {
-      this.hasSpare = false;
-      return this.spare;
-    }
-    const rng = this.rng;
-    let u: number;
-    let v: number;
-    let s: number;
-    do {
-      // A signed 32-bit word times 2^-31 is uniform on [-1, 1).
-      u = (rng.nextUint32() | 0) * TWO_POW_MINUS_31;
-      v = (rng.nextUint32() | 0) * TWO_POW_MINUS_31;
-      s = u * u + v * v;
-    } while (s >= 1 || s === 0);
-    const m = Math.sqrt((-2 * Math.log(s)) / s);
-    this.spare = v * m;
-    this.hasSpare = true;
-    return u * m;
+    this.fillStandard(this.one, 1);
+    return this.one[0] as number;
   }
 
   /**
@@ -69,6 +55,7 @@ export class NormalSampler {
       let v: number;
       let s: number;
       do {
+        // A signed 32-bit word times 2^-31 is uniform on [-1, 1).
         u = (rng.nextUint32() | 0) * TWO_POW_MINUS_31;
         v = (rng.nextUint32() | 0) * TWO_POW_MINUS_31;
         s = u * u + v * v;
