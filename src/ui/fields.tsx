@@ -109,14 +109,15 @@ export function NumberField({ path, label, unit, hint, step, min, max, after, in
   );
 }
 
-interface TextFieldProps {
+/** A field's plan path, its label and its plain-language hint. */
+interface BasicFieldProps {
   path: string;
   label: ReactNode;
   hint: ReactNode;
 }
 
 /** A labelled free-text box (names and titles). */
-export function TextField({ path, label, hint }: TextFieldProps) {
+export function TextField({ path, label, hint }: BasicFieldProps) {
   const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<string>(path);
   return (
     <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
@@ -137,10 +138,7 @@ export function TextField({ path, label, hint }: TextFieldProps) {
   );
 }
 
-interface ChoiceFieldProps<T extends string> {
-  path: string;
-  label: ReactNode;
-  hint: ReactNode;
+interface ChoiceFieldProps<T extends string> extends BasicFieldProps {
   options: { value: T; label: string }[];
 }
 
@@ -170,14 +168,8 @@ export function ChoiceField<T extends string>({ path, label, hint, options }: Ch
   );
 }
 
-interface CheckFieldProps {
-  path: string;
-  label: ReactNode;
-  hint: ReactNode;
-}
-
 /** A labelled checkbox for a yes/no option. */
-export function CheckField({ path, label, hint }: CheckFieldProps) {
+export function CheckField({ path, label, hint }: BasicFieldProps) {
   const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<boolean>(path);
   return (
     <div className={`field field-check${problem ? ' field-invalid' : ''}`} data-field={path}>
