@@ -55,6 +55,13 @@ export interface OutcomeSpec {
   effectScale: EffectScale;
 }
 
+/**
+ * What matching measures closeness on: the observed pretest alone (the
+ * default), the linear propensity score (logit) fitted on all measured
+ * covariates, or the Mahalanobis distance on all measured covariates.
+ */
+export type MatchingDistance = 'pretest' | 'propensity' | 'mahalanobis';
+
 export interface MatchingSpec {
   method: MatchingMethod;
   /** Caliper width in SDs of the pooled observed pretest (> 0). */
@@ -65,6 +72,50 @@ export interface MatchingSpec {
   replacement: boolean;
   /** Greedy matching order (without replacement). Default 'random'. */
   order?: MatchingOrder;
+  /**
+   * What closeness is measured on. Default 'pretest'. With 'propensity' the
+   * caliper is in SDs of the logit of the propensity score; with
+   * 'mahalanobis' it is in Mahalanobis-distance units.
+   */
+  distance?: MatchingDistance;
+}
+
+/**
+ * A covariate beyond the pretest (the pretest is always covariate 0). Its
+ * means and SD are of the observed values; reliability 1 means measured
+ * without error (age, a recorded category).
+ */
+export interface CovariateSpec {
+  /** Plain-language name, e.g. "Attendance" (user text). */
+  name: string;
+  /** Mean of the observed covariate in the programme group. */
+  programmeMean: number;
+  /** Mean of the observed covariate in the comparison group. */
+  comparisonMean: number;
+  /** Within-group SD of the observed covariate (> 0), common to both groups. */
+  sd: number;
+  /** Within-group reliability, in (0, 1]; 1 for an error-free variable. */
+  reliability: number;
+  /** Within-group correlation of the observed covariate with the outcome, in (-1, 1). */
+  outcomeCorrelation: number;
+  /** false: a known confounder that is never observed, so never matched or adjusted on. */
+  measured: boolean;
+  /** true: a binary or categorical variable that must match exactly (reliability 1). */
+  exact: boolean;
+}
+
+/**
+ * Where a value in the plan came from, keyed in `Plan.provenance` by the
+ * field's dotted path (e.g. "pretest.reliability").
+ */
+export type ProvenanceSource = 'entered' | 'example' | 'pilot';
+
+export interface FieldProvenance {
+  source: ProvenanceSource;
+  /** Plain words shown beside the value, e.g. "from pilot file wave1.csv, alpha = .81, n = 212". */
+  note: string;
+  /** Confidence interval of the estimate when the source gives one (e.g. Feldt's CI of alpha). */
+  interval?: { lower: number; upper: number; level: number };
 }
 
 export interface AnalysisSpec {
@@ -93,6 +144,16 @@ export interface Plan {
   matching: MatchingSpec;
   analysis: AnalysisSpec;
   simulation: SimulationSpec;
+  /** Covariates beyond the pretest (optional; none = the one-covariate model). */
+  covariates?: CovariateSpec[];
+  /**
+   * Observed within-group correlations among the pretest and the covariates,
+   * pretest first: a symmetric (1 + k) × (1 + k) matrix with ones on the
+   * diagonal. Required when `covariates` is non-empty.
+   */
+  covariateCorrelations?: number[][];
+  /** Where values came from, by dotted field path (optional). */
+  provenance?: Record<string, FieldProvenance>;
 }
 
 /** The four analyses Meanward compares, in display order. */

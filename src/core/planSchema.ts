@@ -41,6 +41,10 @@ export const PLAN_LIMITS = {
   effectSDMax: 3,
   /** With random choice within the caliper, wider than this is barely matching at all. */
   randomCaliperMax: 2,
+  /** Covariates beyond the pretest. */
+  covariatesMax: 8,
+  covariateNameMaxLength: 60,
+  provenanceNoteMaxLength: 300,
 } as const;
 
 /** Defaults filled in when a plan file leaves optional fields out. */
@@ -198,6 +202,12 @@ export const planSchema = z
         'lowest-first',
         'highest-first',
       ] as const).default(PLAN_DEFAULTS.order),
+      distance: oneOf(
+        'matching.distance',
+        'Matching distance',
+        'What closeness is measured on: the observed pretest, the linear propensity score on all measured covariates, or the Mahalanobis distance on them (default "pretest").',
+        ['pretest', 'propensity', 'mahalanobis'] as const,
+      ).optional(),
     }),
     analysis: section('analysis', 'The analysis section', 'Significance level, assumed reliability, tolerance and target power.', {
       alpha: num('analysis.alpha', 'Significance level (alpha)', 'Two-sided significance level.', { gt: 0, lt: 0.5 }),
@@ -230,6 +240,85 @@ export const planSchema = z
         lte: PLAN_LIMITS.seedMax,
       }),
     }),
+    covariates: (() => {
+      FIELD_RULES.covariates = { label: 'The covariates list', rule: `a list of at most ${PLAN_LIMITS.covariatesMax} covariates` };
+      const c = 'covariates.*';
+      FIELD_RULES[c] = { label: 'Covariate {n}', rule: 'a section of named fields' };
+      return z
+        .array(
+          z
+            .object({
+              name: text(`${c}.name`, 'Covariate {n} name', 'Plain-language name of the covariate.', 1, PLAN_LIMITS.covariateNameMaxLength),
+              programmeMean: num(`${c}.programmeMean`, 'Covariate {n} programme mean', 'Mean of the observed covariate in the programme group.'),
+              comparisonMean: num(`${c}.comparisonMean`, 'Covariate {n} comparison mean', 'Mean of the observed covariate in the comparison group.'),
+              sd: num(`${c}.sd`, 'Covariate {n} SD', 'Within-group SD of the observed covariate (both groups).', { gt: 0 }),
+              reliability: num(`${c}.reliability`, 'Covariate {n} reliability', 'Within-group reliability; 1 for an error-free variable.', {
+                gt: 0,
+                lte: 1,
+              }),
+              outcomeCorrelation: num(
+                `${c}.outcomeCorrelation`,
+                'Covariate {n} correlation with the outcome',
+                'Within-group correlation of the observed covariate with the outcome.',
+                { gt: -1, lt: 1 },
+              ),
+              measured: (() => {
+                FIELD_RULES[`${c}.measured`] = { label: 'Covariate {n} "measured"', rule: 'true or false' };
+                return z.boolean().describe('false: a known confounder that is never observed (never matched or adjusted on).');
+              })(),
+              exact: (() => {
+                FIELD_RULES[`${c}.exact`] = { label: 'Covariate {n} "exact"', rule: 'true or false' };
+                return z.boolean().describe('true: a binary or categorical variable matched exactly (needs reliability 1).');
+              })(),
+            })
+            .describe('A covariate beyond the pretest.'),
+        )
+        .max(PLAN_LIMITS.covariatesMax)
+        .optional()
+        .describe('Covariates beyond the pretest (the pretest is covariate 0).');
+    })(),
+    covariateCorrelations: (() => {
+      FIELD_RULES.covariateCorrelations = {
+        label: 'The covariate correlation matrix',
+        rule: 'a square list of rows, pretest first, one row and column per covariate',
+      };
+      FIELD_RULES['covariateCorrelations.*'] = { label: 'Row {n} of the covariate correlation matrix', rule: 'a list of numbers' };
+      FIELD_RULES['covariateCorrelations.*.*'] = {
+        label: 'A covariate correlation',
+        rule: 'a number from -1 to 1',
+      };
+      return z
+        .array(z.array(z.number().gte(-1).lte(1)))
+        .optional()
+        .describe('Observed within-group correlations among the pretest and the covariates, pretest first (symmetric, ones on the diagonal).');
+    })(),
+    provenance: (() => {
+      FIELD_RULES.provenance = { label: 'The provenance section', rule: 'a set of entries keyed by field path' };
+      FIELD_RULES['provenance.*'] = { label: 'A provenance entry', rule: 'a section of named fields' };
+      FIELD_RULES['provenance.*.source'] = { label: 'A provenance source', rule: '"entered", "example" or "pilot"' };
+      FIELD_RULES['provenance.*.note'] = {
+        label: 'A provenance note',
+        rule: `text of at most ${PLAN_LIMITS.provenanceNoteMaxLength} characters`,
+      };
+      return z
+        .record(
+          z.string(),
+          z.object({
+            source: z.enum(['entered', 'example', 'pilot']).describe('Where the value came from.'),
+            note: z.string().max(PLAN_LIMITS.provenanceNoteMaxLength).describe('Plain words shown beside the value.'),
+            interval: z
+              .object({
+                lower: z.number(),
+                upper: z.number(),
+                level: z.number().gt(0).lt(1),
+              })
+              .optional()
+              .describe('Confidence interval of the estimate, when the source gives one.'),
+          }),
+        )
+        .optional()
+        .describe('Where values came from, keyed by dotted field path (e.g. "pretest.reliability"). Holds estimates only, never data rows.');
+    })(),
   })
   .describe('A Meanward study plan (version 1).');
 

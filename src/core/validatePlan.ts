@@ -1,5 +1,5 @@
 import type { Plan } from './plan';
-import { FIELD_RULES, PLAN_FORMAT, PLAN_LIMITS, PLAN_VERSION, planSchema } from './planSchema';
+import { FIELD_RULES, type FieldRule, PLAN_FORMAT, PLAN_LIMITS, PLAN_VERSION, planSchema } from './planSchema';
 
 /** One thing wrong with a plan: the field (dotted path) and a message a researcher understands. */
 export interface PlanProblem {
@@ -58,7 +58,7 @@ export function validatePlan(input: unknown): PlanCheck {
       const field = issue.path.map(String).join('.');
       if (bad.has(field)) continue; // one message per field
       bad.add(field);
-      problems.push({ field, message: fieldMessage(field, valueAt(input, field)) });
+      problems.push({ field, message: fieldMessage(field, valueAtPath(input, issue.path)) });
     }
   }
   problems.push(...crossFieldProblems(input, bad));
@@ -66,9 +66,39 @@ export function validatePlan(input: unknown): PlanCheck {
   return { ok: true, plan: parsed.data as Plan };
 }
 
+/**
+ * The rule for a dotted path. List items ("covariates.1.sd") use the rule
+ * registered with "*" for the index ("covariates.*.sd"), and "{n}" in its
+ * label becomes the item's 1-based number ("Covariate 2 SD").
+ */
+export function fieldRule(field: string): FieldRule | undefined {
+  const direct = FIELD_RULES[field];
+  if (direct) return direct;
+  const indices: number[] = [];
+  const generic = field
+    .split('.')
+    .map((part, i) => {
+      if (/^\d+$/.test(part)) {
+        indices.push(Number(part));
+        return '*';
+      }
+      // provenance keys are dotted paths themselves: one star stands for the key
+      return i === 1 && field.startsWith('provenance.') ? '*' : part;
+    })
+    .join('.');
+  const rule = FIELD_RULES[generic] ?? (field.startsWith('provenance.') ? provenanceRule(field) : undefined);
+  if (!rule) return undefined;
+  return { ...rule, label: rule.label.replace('{n}', String((indices[0] ?? 0) + 1)) };
+}
+
+function provenanceRule(field: string): FieldRule | undefined {
+  const last = field.split('.').pop() ?? '';
+  return FIELD_RULES[`provenance.*.${last}`] ?? FIELD_RULES['provenance.*'];
+}
+
 /** The message for a field that failed its own rule. */
 function fieldMessage(field: string, value: unknown): string {
-  const rule = FIELD_RULES[field];
+  const rule = fieldRule(field);
   const label = rule?.label ?? `The field "${field}"`;
   const what = rule?.rule ?? 'valid';
   if (value === undefined) return `${label} is missing; it must be ${what}.`;
@@ -189,6 +219,17 @@ function fail(field: string, message: string): PlanCheck {
 
 function isRecord(x: unknown): x is Record<string, unknown> {
   return typeof x === 'object' && x !== null && !Array.isArray(x);
+}
+
+/** The value at a path of keys (list items by index; provenance keys contain dots). */
+function valueAtPath(root: unknown, path: readonly PropertyKey[]): unknown {
+  let cur: unknown = root;
+  for (const key of path) {
+    if (Array.isArray(cur) && typeof key === 'number') cur = cur[key];
+    else if (isRecord(cur)) cur = cur[String(key)];
+    else return undefined;
+  }
+  return cur;
 }
 
 function valueAt(root: unknown, field: string): unknown {

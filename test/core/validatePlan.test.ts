@@ -255,3 +255,36 @@ describe('every problem at once', () => {
     expect(JSON.stringify(p)).toBe(before);
   });
 });
+
+describe('optional covariate and provenance fields (messages name the item)', () => {
+  const covariate = {
+    name: 'Attendance',
+    programmeMean: 80,
+    comparisonMean: 85,
+    sd: 10,
+    reliability: 0.7,
+    outcomeCorrelation: 0.3,
+    measured: true,
+    exact: false,
+  };
+  it('a list item that breaks its rule is named by its number', () => {
+    const r = validatePlan({ ...demo(), covariates: [covariate, { ...covariate, sd: -2 }] });
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.problems).toContainEqual({ field: 'covariates.1.sd', message: 'Covariate 2 SD must be a number greater than 0; got -2.' });
+  });
+  it('a bad provenance source is reported with the rule', () => {
+    const r = validatePlan({ ...demo(), provenance: { 'pretest.reliability': { source: 'guess', note: 'x' } } });
+    expect(r.ok).toBe(false);
+    if (r.ok) return;
+    expect(r.problems[0]).toEqual({
+      field: 'provenance.pretest.reliability.source',
+      message: 'A provenance source must be "entered", "example" or "pilot"; got "guess".',
+    });
+  });
+  it('a plan without the optional fields is unchanged by validation', () => {
+    const r = validatePlan(demo());
+    expect(r).toEqual({ ok: true, plan: DEMO_PLAN });
+    if (r.ok) expect('covariates' in r.plan || 'provenance' in r.plan || 'distance' in r.plan.matching).toBe(false);
+  });
+});
