@@ -59,6 +59,36 @@ export interface ExamplePair {
   comparison: { observed: number; trueScore: number; outcome: number }[];
 }
 
+/**
+ * Balance on one covariate before and after matching, averaged over
+ * replications, each with its Monte Carlo SE (sd over replications / sqrt(n)).
+ * SMDs are programme minus comparison over the pooled within-group SD of the
+ * full pools before matching, sqrt((s_P^2 + s_C^2) / 2) (Stuart 2010), for the
+ * before and after figures alike; the true-score SMD uses the true scores'
+ * pooled SD. "After" figures average over replications with at least one
+ * matched set (the variance ratio over those with at least two in each group).
+ */
+export interface CovariateBalance {
+  /** The covariate's name from the plan; the pretest (always first) is "Pretest". */
+  name: string;
+  /** Whether the covariate is measured (false: never matched or adjusted on; its imbalance flows through). */
+  measured: boolean;
+  /** Whether the covariate is matched exactly (binary or categorical). */
+  exact: boolean;
+  observedSMDBefore: number;
+  observedSMDBeforeMCSE: number;
+  observedSMDAfter: number;
+  observedSMDAfterMCSE: number;
+  trueSMDBefore: number;
+  trueSMDBeforeMCSE: number;
+  /** The hidden imbalance: true-score SMD in the matched sample. */
+  trueSMDAfter: number;
+  trueSMDAfterMCSE: number;
+  /** Variance ratio (programme / comparison) of the observed covariate in the matched sample (Rubin 2001: 0.5–2). */
+  varianceRatioAfter: number;
+  varianceRatioAfterMCSE: number;
+}
+
 export interface SimulationResult {
   plan: Plan;
   seed: number;
@@ -76,4 +106,10 @@ export interface SimulationResult {
   /** Per-replication estimates per analysis (histogram-ready), in replication order. */
   estimates: Record<AnalysisId, number[]>;
   example: { pairs: ExamplePair[]; discarded: { observed: number; trueScore: number }[] };
+  /**
+   * Per-covariate balance, pretest first then the plan's covariates in order
+   * (measured and unmeasured). Present only when the several-covariate engine
+   * ran (plan.covariates non-empty or matching.distance not 'pretest').
+   */
+  balance?: CovariateBalance[];
 }
