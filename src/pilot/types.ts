@@ -1,0 +1,171 @@
+/**
+ * Types of the pilot-data module: reading a pilot (or earlier-wave) file,
+ * estimating the plan's inputs from it, and writing them into a plan.
+ *
+ * Everything here is plain data (strings, numbers, arrays, objects) so it
+ * passes through `postMessage` (structured clone) unchanged; the one class,
+ * `PilotDataError`, should be sent as `{ name, message, code, column, row }`.
+ * Field names are part of the interface the browser and the command line use:
+ * later versions may add fields, never rename these.
+ */
+import type { Plan } from '../core/plan';
+
+/** A field delimiter the reader understands. */
+export type Delimiter = ',' | '\t' | ';';
+
+/** How to read the text; each option is detected when left out or 'auto'. */
+export interface ParseOptions {
+  delimiter?: Delimiter | 'auto';
+  header?: boolean | 'auto';
+}
+
+/** A rectangular table of cells as text (no conversion to numbers yet). */
+export interface ParsedTable {
+  /** Column names: the header row, or "column 1", "column 2", … when there is none. */
+  columns: string[];
+  /** Data rows; every row has `columns.length` cells (short rows padded with ""). */
+  rows: string[][];
+  delimiter: Delimiter;
+  hasHeader: boolean;
+  /**
+   * Line number (1-based, as a spreadsheet shows it) of each data row in the
+   * file, for messages that name a row. Optional for callers that build tables
+   * by hand; then row i is line i + 1 (+1 more with a header).
+   */
+  lineNumbers?: number[];
+  /** Lines starting with '#' that were skipped (e.g. a label "# Invented data …"). */
+  commentLines?: number;
+}
+
+/** Where the pretest comes from: one total-score column, or item columns combined. */
+export type PretestSource =
+  | { kind: 'total'; column: string }
+  | { kind: 'items'; columns: string[]; combine: 'sum' | 'mean' };
+
+/** Which columns mean what. Column names as in `ParsedTable.columns`. */
+export interface PilotMapping {
+  /** Column holding the group label of each row. */
+  group: string;
+  /** The value of `group` that marks the programme group; every other non-empty value is the comparison group. */
+  programmeValue: string;
+  pretest: PretestSource;
+  /** Optional column with the same test taken again (test–retest reliability). */
+  retest?: string;
+  /** Optional column with the posttest / outcome. */
+  posttest?: string;
+}
+
+/** An estimate with a two-sided confidence interval at `level` (e.g. 0.95). */
+export interface Interval {
+  value: number;
+  lower: number;
+  upper: number;
+  level: number;
+}
+
+/** One group's descriptive estimates. */
+export interface GroupEstimates {
+  /** Rows used (after the missing-data rule). */
+  n: number;
+  pretestMean: number;
+  /** Sample SD (n − 1 denominator). */
+  pretestSD: number;
+  /** Sample SD of the posttest over rows with pretest and posttest present. */
+  posttestSD?: number;
+  /** Pearson correlation of pretest and posttest within this group. */
+  prePostCorrelation?: number;
+  /** Rows with pretest and posttest both present. */
+  nPrePost?: number;
+}
+
+/** A plain-words warning; `code` is stable for the UI, `message` is shown. */
+export interface PilotWarning {
+  code: string;
+  message: string;
+}
+
+export interface PilotEstimates {
+  fileName?: string;
+  /** The mapping the estimates were made with. */
+  mapping?: PilotMapping;
+  rowsRead: number;
+  rowsUsed: number;
+  rowsDropped: number;
+  /** Plain words: which rows were dropped and why, and which rule each statistic uses. */
+  droppedReason: string;
+  groups: { programme: GroupEstimates; comparison: GroupEstimates; comparisonValue: string };
+  /** Programme minus comparison: in points, and as an SMD on the pooled within-group SD. */
+  gap: { points: number; smd: number };
+  pooledWithinSD: number;
+  reliability: {
+    /** Pooled within-group alpha (item scores centred on their group's item means), Feldt (1965) CI. */
+    alpha?: Interval & { n: number; items: number };
+    alphaByGroup?: { programme: Interval & { n: number }; comparison: Interval & { n: number } };
+    /** Odd–even split (items 1, 3, 5, … vs 2, 4, 6, …), pooled within group, stepped up by Spearman–Brown. */
+    splitHalf?: { halfCorrelation: number; spearmanBrown: number; n: number };
+    /** Pooled within-group pretest–retest correlation with a Fisher z CI. */
+    testRetest?: { value: number; n: number; lower: number; upper: number; level: number };
+  };
+  /** Pooled within-group pretest–posttest correlation. */
+  prePostCorrelation?: { value: number; n: number };
+  /** Corrected item–total correlation per item (pooled within group). */
+  itemTotal?: { column: string; correctedCorrelation: number }[];
+  warnings: PilotWarning[];
+}
+
+/** One plan field written from the pilot estimates. */
+export interface AppliedPilotField {
+  /** Dotted plan path, e.g. "pretest.reliability" (the key used in `Plan.provenance`). */
+  path: string;
+  value: number;
+  /** The provenance note written for it. */
+  note: string;
+}
+
+/** One plan field NOT written, because the value would break a plan rule. */
+export interface SkippedPilotField {
+  /** Dotted plan path, e.g. "outcome.prePostCorrelation". */
+  path: string;
+  /** The pilot value that was not written. */
+  value: number;
+  /** Plain words naming the rule and the values, e.g. "0.93 is above √(reliability 0.81) = 0.90 …". */
+  reason: string;
+}
+
+/** What `pilotPlanUpdate` returns: the new plan (always valid) and what was and was not written. */
+export interface PilotPlanUpdate {
+  plan: Plan;
+  applied: AppliedPilotField[];
+  skipped: SkippedPilotField[];
+}
+
+/** Kind of bad input, stable for the UI. */
+export type PilotDataErrorCode =
+  | 'empty-file'
+  | 'binary-file'
+  | 'single-column'
+  | 'duplicate-header'
+  | 'missing-column'
+  | 'non-numeric'
+  | 'one-group'
+  | 'programme-value-absent'
+  | 'too-few-items'
+  | 'constant-item'
+  | 'too-few-rows'
+  | 'bad-mapping';
+
+/** Bad pilot file or mapping. The message names the column or row, the rule and the value. */
+export class PilotDataError extends Error {
+  readonly code: PilotDataErrorCode;
+  readonly column?: string;
+  /** Row as the user sees it in a spreadsheet (the file's line number, 1-based). */
+  readonly row?: number;
+
+  constructor(code: PilotDataErrorCode, message: string, where: { column?: string; row?: number } = {}) {
+    super(message);
+    this.name = 'PilotDataError';
+    this.code = code;
+    if (where.column !== undefined) this.column = where.column;
+    if (where.row !== undefined) this.row = where.row;
+  }
+}
