@@ -2,6 +2,7 @@ import type { StateCreator } from 'zustand';
 import type { AnalyticResults } from '../core/analyticResults';
 import type { Plan } from '../core/plan';
 import { draftToCandidate, planToDraft, setDraftField, type FieldProblem, type PlanDraft, type PretestMode } from './planDraft';
+import { canonicalField } from './covariateDraft';
 import type { MeanwardDeps } from './deps';
 import type { MeanwardState } from './store';
 
@@ -42,8 +43,10 @@ export function evaluateDraft(
     const seen = new Set<string>();
     const problems: FieldProblem[] = [];
     for (const p of [...readProblems, ...(check.ok ? [] : check.problems)]) {
-      if (seen.has(p.field)) continue;
-      seen.add(p.field);
+      // A correlation and its mirror cell are one field.
+      const key = canonicalField(p.field);
+      if (seen.has(key)) continue;
+      seen.add(key);
       problems.push(p);
     }
     return { problems };

@@ -1,7 +1,7 @@
 import type { StateCreator } from 'zustand';
 import type { Plan } from '../core/plan';
 import type { MeanwardDeps, PlanCheck } from './deps';
-import { isPlanDraft, type PlanDraft } from './planDraft';
+import { isPlanDraft, withDraftDefaults, type PlanDraft } from './planDraft';
 import type { MeanwardState } from './store';
 
 /** localStorage key of the autosaved draft. */
@@ -51,7 +51,7 @@ export function readAutosave(storage: MeanwardDeps['storage']): PlanDraft | null
     const raw = storage.getItem(AUTOSAVE_KEY);
     if (!raw) return null;
     const parsed = JSON.parse(raw) as { version?: unknown; draft?: unknown };
-    return parsed.version === 1 && isPlanDraft(parsed.draft) ? parsed.draft : null;
+    return parsed.version === 1 && isPlanDraft(parsed.draft) ? withDraftDefaults(parsed.draft) : null;
   } catch {
     return null;
   }

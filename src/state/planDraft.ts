@@ -1,4 +1,5 @@
-import type { EffectScale, MatchingMethod, MatchingOrder, Plan } from '../core/plan';
+import type { EffectScale, MatchingDistance, MatchingMethod, MatchingOrder, Plan } from '../core/plan';
+import { covariatesToCandidate, covariatesToDraft, isCovariatesPart, type CovariateDraft } from './covariateDraft';
 
 /**
  * The plan as the researcher typed it. Every numeric field is kept as the raw
@@ -27,9 +28,21 @@ export interface PlanDraft {
     hypothesisedEffect: string;
     effectScale: EffectScale;
   };
-  matching: { method: MatchingMethod; caliper: string; ratio: string; replacement: boolean; order: MatchingOrder };
+  matching: {
+    method: MatchingMethod;
+    caliper: string;
+    ratio: string;
+    replacement: boolean;
+    order: MatchingOrder;
+    /** What matching measures closeness on; 'pretest' is left out of the plan (the default). */
+    distance: MatchingDistance;
+  };
   analysis: { alpha: string; assumedReliability: string; tolerableBiasShare: string; targetPower: string };
   simulation: { replications: string; seed: string };
+  /** Covariates beyond the pretest, as typed (see covariateDraft.ts); empty = none. */
+  covariates: CovariateDraft[];
+  /** Their observed correlation matrix as typed, pretest first: (1 + k) × (1 + k) texts. */
+  covariateCorrelations: string[][];
 }
 
 /** A problem with one field (dotted path, or '' for the plan as a whole). */
@@ -71,6 +84,7 @@ export function planToDraft(plan: Plan): PlanDraft {
       ratio: str(plan.matching.ratio),
       replacement: plan.matching.replacement,
       order: plan.matching.order ?? 'random',
+      distance: plan.matching.distance ?? 'pretest',
     },
     analysis: {
       alpha: str(plan.analysis.alpha),
@@ -79,6 +93,7 @@ export function planToDraft(plan: Plan): PlanDraft {
       targetPower: str(plan.analysis.targetPower),
     },
     simulation: { replications: str(plan.simulation.replications), seed: str(plan.simulation.seed) },
+    ...covariatesToDraft(plan),
   };
 }
 
@@ -123,8 +138,8 @@ const OPTIONAL = new Set(['pretest.referenceSD', 'analysis.targetPower']);
  * researchers type one. Returns a problem message instead of a number when
  * the text is not a number; range checks are left to validatePlan.
  */
-export function readNumber(field: string, raw: string): { value: number | undefined; problem?: string } {
-  const name = FIELD_NAMES[field] ?? field;
+export function readNumber(field: string, raw: string, label?: string): { value: number | undefined; problem?: string } {
+  const name = label ?? FIELD_NAMES[field] ?? field;
   const text = raw.trim();
   if (text === '') {
     return OPTIONAL.has(field) ? { value: undefined } : { value: undefined, problem: `${name} is required.` };
@@ -186,6 +201,8 @@ export function draftToCandidate(draft: PlanDraft): { candidate: unknown; proble
       ratio: num('matching.ratio', draft.matching.ratio),
       replacement: draft.matching.replacement,
       order: draft.matching.order,
+      // The default distance is left out, so a plan without covariates is exactly as before.
+      ...(draft.matching.distance !== undefined && draft.matching.distance !== 'pretest' ? { distance: draft.matching.distance } : {}),
     },
     analysis: dropUndefined({
       alpha: num('analysis.alpha', draft.analysis.alpha),
@@ -197,6 +214,11 @@ export function draftToCandidate(draft: PlanDraft): { candidate: unknown; proble
       replications: num('simulation.replications', draft.simulation.replications),
       seed: num('simulation.seed', draft.simulation.seed),
     },
+    ...covariatesToCandidate(draft, (field, raw, label) => {
+      const r = readNumber(field, raw, label);
+      if (r.problem) problems.push({ field, message: r.problem });
+      return r.value;
+    }),
   };
   return { candidate, problems };
 }
@@ -246,6 +268,9 @@ export function isPlanDraft(x: unknown): x is PlanDraft {
     [d.simulation, ['replications', 'seed']],
   ];
   for (const [o, fs] of strings) for (const f of fs) if (typeof o[f] !== 'string') return false;
+  // Drafts saved before covariates existed have no covariate part (withDraftDefaults adds it).
+  if ((d.covariates !== undefined || d.covariateCorrelations !== undefined) && !isCovariatesPart(d)) return false;
+  if (d.matching.distance !== undefined && typeof d.matching.distance !== 'string') return false;
   return (
     (d.pretest.mode === 'reliability' || d.pretest.mode === 'sem') &&
     (d.outcome.effectScale === 'points' || d.outcome.effectScale === 'sd') &&
@@ -253,4 +278,19 @@ export function isPlanDraft(x: unknown): x is PlanDraft {
     typeof d.matching.method === 'string' &&
     typeof d.matching.order === 'string'
   );
+}
+
+/**
+ * Fill in the parts a draft saved by an earlier version lacks (no covariates,
+ * distance "pretest"); a complete draft is returned unchanged.
+ */
+export function withDraftDefaults(draft: PlanDraft): PlanDraft {
+  const d = draft as Partial<PlanDraft> & Omit<PlanDraft, 'covariates' | 'covariateCorrelations'>;
+  if (d.covariates !== undefined && d.covariateCorrelations !== undefined && d.matching.distance !== undefined) return draft;
+  return {
+    ...d,
+    matching: { ...d.matching, distance: d.matching.distance ?? 'pretest' },
+    covariates: d.covariates ?? [],
+    covariateCorrelations: d.covariateCorrelations ?? [['1']],
+  };
 }

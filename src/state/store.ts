@@ -3,6 +3,7 @@ import { useStore } from 'zustand';
 import { createStore, type StoreApi } from 'zustand/vanilla';
 import type { Plan } from '../core/plan';
 import type { MeanwardDeps } from './deps';
+import { createCovariateSlice, type CovariateSlice } from './covariateSlice';
 import { createDraftSlice, type DraftSlice } from './draftSlice';
 import { createHighlightSlice, type HighlightSlice } from './highlightSlice';
 import { createPersistenceSlice, readAutosave, type PersistenceSlice } from './persistenceSlice';
@@ -10,7 +11,7 @@ import { planToDraft } from './planDraft';
 import { createSimulationSlice, type SimulationSlice } from './simulationSlice';
 
 /** The whole planner state: one slice per file, combined here. */
-export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice;
+export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice & CovariateSlice;
 export type MeanwardStore = StoreApi<MeanwardState>;
 
 export interface CreateStoreOptions {
@@ -34,6 +35,7 @@ export function createMeanwardStore({ deps, demo, restore = true }: CreateStoreO
     ...createSimulationSlice(deps)(...a),
     ...createHighlightSlice(...a),
     ...createPersistenceSlice(deps, demo)(...a),
+    ...createCovariateSlice(...a),
   }));
   store.subscribe((state, prev) => {
     if (state.draft !== prev.draft) state.autosave();
