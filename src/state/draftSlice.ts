@@ -1,6 +1,6 @@
 import type { StateCreator } from 'zustand';
 import type { AnalyticResults } from '../core/analyticResults';
-import type { Plan } from '../core/plan';
+import type { FieldProvenance, Plan } from '../core/plan';
 import { draftToCandidate, planToDraft, setDraftField, type FieldProblem, type PlanDraft, type PretestMode } from './planDraft';
 import { canonicalField } from './covariateDraft';
 import type { MeanwardDeps } from './deps';
@@ -36,7 +36,8 @@ export function evaluateDraft(
   draft: PlanDraft,
   deps: Pick<MeanwardDeps, 'validatePlan' | 'analysePlan'>,
 ): { plan: Plan; analytic: AnalyticResults } | { problems: FieldProblem[] } {
-  const { candidate, problems: readProblems } = draftToCandidate(draft);
+  const { candidate: read, problems: readProblems } = draftToCandidate(draft);
+  const candidate = withCandidateProvenance(read, draftProvenance(draft));
   const check = deps.validatePlan(candidate);
   if (!check.ok || readProblems.length > 0) {
     // Keep one message per field: "not a number" first, then the validator's.
@@ -59,6 +60,33 @@ export function evaluateDraft(
     const message = e instanceof Error ? e.message : String(e);
     return { problems: [{ field: fieldForMessage(message), message }] };
   }
+}
+
+/**
+ * Where the draft's values came from (e.g. a pilot file), by dotted plan path.
+ * It rides on the draft object, so autosave keeps it; typing into a field
+ * drops that field's entry, so a typed value is never credited to a pilot.
+ */
+export type DraftProvenance = Record<string, FieldProvenance>;
+
+/** The provenance carried by a draft, if any. */
+export function draftProvenance(draft: PlanDraft): DraftProvenance | undefined {
+  return (draft as PlanDraft & { provenance?: DraftProvenance }).provenance;
+}
+
+/** The draft with this provenance (none when empty); the input is not mutated. */
+export function withDraftProvenance(draft: PlanDraft, provenance: DraftProvenance | undefined): PlanDraft {
+  const { provenance: _dropped, ...rest } = draft as PlanDraft & { provenance?: DraftProvenance };
+  return (provenance && Object.keys(provenance).length > 0 ? { ...rest, provenance } : rest) as PlanDraft;
+}
+
+/** The candidate plan with the provenance entries of the fields it holds (an SEM-mode plan has no reliability to credit). */
+function withCandidateProvenance(candidate: unknown, provenance: DraftProvenance | undefined): unknown {
+  if (!provenance) return candidate;
+  const at = (path: string) =>
+    path.split('.').reduce<unknown>((o, k) => (o && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), candidate);
+  const kept = Object.fromEntries(Object.entries(provenance).filter(([path]) => at(path) !== undefined));
+  return Object.keys(kept).length > 0 ? { ...(candidate as object), provenance: kept } : candidate;
 }
 
 /** Attach a cross-field message to the field a researcher would change. */
@@ -94,12 +122,18 @@ export const createDraftSlice =
           };
     return {
       ...initialState,
-      setField: (path, value) => set(apply(setDraftField(get().draft, path, value))),
+      setField: (path, value) => {
+        const next = setDraftField(get().draft, path, value);
+        const provenance = draftProvenance(next);
+        if (!provenance?.[path]) return set(apply(next));
+        const { [path]: _typed, ...rest } = provenance;
+        set(apply(withDraftProvenance(next, rest)));
+      },
       setPretestMode: (mode) => {
         const d = get().draft;
         set(apply({ ...d, pretest: { ...d.pretest, mode } }));
       },
-      replacePlan: (plan) => set(apply(planToDraft(plan))),
+      replacePlan: (plan) => set(apply(withDraftProvenance(planToDraft(plan), plan.provenance))),
       replaceDraft: (draft) => set(apply(draft)),
     };
   };
