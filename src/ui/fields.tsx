@@ -1,4 +1,5 @@
 import { useId, type KeyboardEvent, type ReactNode } from 'react';
+import { draftProvenance } from '../state/draftSlice';
 import { selectProblemFor } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 
@@ -19,13 +20,28 @@ function useFieldBinding<V>(path: string) {
   const value = useMeanwardStore((s) => readPath(s.draft, path)) as V;
   const problem = useMeanwardStore(selectProblemFor(path));
   const setField = useMeanwardStore((s) => s.setField);
+  // Where the value came from (e.g. a pilot file), when the plan records it.
+  const recorded = useMeanwardStore((s) => draftProvenance(s.draft)?.[path]);
+  const source = recorded?.source === 'pilot' ? recorded : undefined;
   const hintId = `${id}-hint`;
   const errId = `${id}-err`;
+  const srcId = `${id}-src`;
+  const described = [problem ? errId : '', hintId, source ? srcId : ''].filter(Boolean).join(' ');
   const inputAria = {
     'aria-invalid': problem ? true : undefined,
-    'aria-describedby': problem ? `${errId} ${hintId}` : hintId,
+    'aria-describedby': described,
   } as const;
-  return { id, value, problem, setField, hintId, errId, inputAria };
+  return { id, value, problem, setField, hintId, errId, inputAria, source, srcId };
+}
+
+/** Where a value came from, under its field (recorded for values from a pilot file). */
+function SourceNote({ srcId, source }: { srcId: string; source: { note: string } | undefined }) {
+  if (!source) return null;
+  return (
+    <p id={srcId} className="field-source" data-testid="field-source">
+      {source.note}
+    </p>
+  );
 }
 
 /** The hint under a field and, when there is one, its problem (announced). */
@@ -70,7 +86,7 @@ interface NumberFieldProps {
  * Up and down arrow keys step the value.
  */
 export function NumberField({ path, label, unit, hint, step, min, max, after, inputMode = 'decimal', width = 'normal' }: NumberFieldProps) {
-  const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<string>(path);
+  const { id, value, problem, setField, hintId, errId, inputAria, source, srcId } = useFieldBinding<string>(path);
   const onKeyDown = (e: KeyboardEvent<HTMLInputElement>) => {
     if (e.key !== 'ArrowUp' && e.key !== 'ArrowDown') return;
     const current = Number(value.trim().replace(',', '.'));
@@ -104,6 +120,7 @@ export function NumberField({ path, label, unit, hint, step, min, max, after, in
         {unit && <span className="field-unit">{unit}</span>}
       </div>
       <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
+      <SourceNote srcId={srcId} source={source} />
       {after}
     </div>
   );
