@@ -1,4 +1,4 @@
-import type { Plan } from '../core/plan';
+import type { Plan, ProvenanceSource } from '../core/plan';
 import { DEMO_PLAN } from '../io/demoPlan';
 import { EXAMPLE_PLANS } from '../io/examplePlans';
 import { formatInput } from './format';
@@ -14,7 +14,15 @@ export interface PlanInputRow {
   value: string;
   unit: string;
   source: InputSource;
+  /** Where the value came from in plain words, when the plan records it (e.g. the pilot file's estimate and n). */
+  note?: string;
 }
+
+const FROM_PLAN: Record<ProvenanceSource, InputSource> = {
+  entered: 'entered',
+  example: 'example',
+  pilot: 'pilot data',
+};
 
 function at(obj: unknown, path: string): unknown {
   return path.split('.').reduce<unknown>((o, k) => (o && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
@@ -33,9 +41,12 @@ const MATCHING_ORDER: Record<NonNullable<Plan['matching']['order']>, string> = {
 /**
  * Every input of the plan, with its unit and source, in the order of the
  * planner's form. Values are shown as entered (no statistic is computed).
- * Source: the `provenance` map when given; otherwise, when the plan carries
- * the title of the built-in demo or one of the invented example plans,
- * "example" for each value still equal to that example's, else "entered".
+ * Source: the `provenance` map when given; else the plan's own provenance
+ * record (`plan.provenance`, e.g. "pilot data" with its note, which is added
+ * to the row's label on a line of its own so the PDF shows it); otherwise,
+ * when the plan carries the title of the built-in demo or one of the invented
+ * example plans, "example" for each value still equal to that example's,
+ * else "entered".
  */
 export function planInputRows(plan: Plan, provenance?: Partial<Record<string, InputSource>>): PlanInputRow[] {
   const example: Plan | undefined = [DEMO_PLAN, ...EXAMPLE_PLANS.map((e) => e.plan)].find((p) => p.title === plan.title);
@@ -72,9 +83,13 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
   add('simulation.replications', 'Simulated studies (replications)', 'count');
   add('simulation.seed', 'Random seed', '');
   return rows.map((r) => {
-    const given = provenance?.[r.path];
+    const recorded = plan.provenance?.[r.path];
+    const given = provenance?.[r.path] ?? (recorded ? FROM_PLAN[recorded.source] : undefined);
     const source: InputSource =
       given ?? (example && JSON.stringify(at(plan, r.path)) === JSON.stringify(at(example, r.path)) ? 'example' : 'entered');
-    return { ...r, source };
+    if (!recorded || recorded.note.trim() === '') return { ...r, source };
+    // A reliability estimated from pilot data is not "as published".
+    const label = recorded.source === 'pilot' ? r.label.replace(' (as published)', '') : r.label;
+    return { ...r, label: `${label}\n${recorded.note}`, source, note: recorded.note };
   });
 }

@@ -249,3 +249,24 @@ describe('PDF summary with a simulation run for another plan', () => {
     expect(flat(text)).not.toContain('Simulated bias');
   });
 });
+
+describe('PDF summary of a plan with values from a pilot file', () => {
+  it('shows "pilot data" and the pilot note in the assumptions table', async () => {
+    const plan = demoPlan();
+    plan.pretest.reliability = 0.81;
+    plan.provenance = {
+      'pretest.reliability': {
+        source: 'pilot',
+        note: 'from pilot file wave1.csv (invented), alpha = .81 (95% CI .76–.85), n = 212',
+        interval: { lower: 0.76, upper: 0.85, level: 0.95 },
+      },
+    };
+    const text = await readPdfText(
+      await buildReportPdf({ plan, analytic: analysePlan(plan), simulation: null, charts: [], appVersion: '0.1.0', generatedAt: GENERATED, fonts: TEST_FONTS }),
+    );
+    const all = flat(text);
+    expect(all).toMatch(/Pretest reliability 0\.81 coefficient, 0–1 pilot data/);
+    expect(all).toContain('from pilot file wave1.csv (invented), alpha = .81 (95% CI .76–.85), n = 212');
+    expect(all).not.toContain('Pretest reliability (as published)');
+  });
+});

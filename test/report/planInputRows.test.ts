@@ -41,6 +41,27 @@ describe('planInputRows', () => {
     expect(planInputRows(own).every((r) => r.source === 'entered')).toBe(true);
   });
 
+  it('reads the plan’s own provenance: pilot values say "pilot data" and carry their note on a line of the label', () => {
+    const plan = demoPlan();
+    plan.pretest.reliability = 0.81;
+    const note = 'from pilot file wave1.csv (invented), alpha = .81 (95% CI .76–.85), n = 212';
+    plan.provenance = {
+      'pretest.reliability': { source: 'pilot', note, interval: { lower: 0.76, upper: 0.85, level: 0.95 } },
+      'outcome.posttestSD': { source: 'entered', note: '' },
+    };
+    const rows = planInputRows(plan);
+    const rel = rows.find((r) => r.path === 'pretest.reliability')!;
+    expect(rel).toMatchObject({ source: 'pilot data', note, value: '0.81' });
+    // A pilot estimate is not "as published"; the note is the label's second line (the PDF wraps on it).
+    expect(rel.label).toBe(`Pretest reliability\n${note}`);
+    expect(rows.find((r) => r.path === 'outcome.posttestSD')).toMatchObject({ source: 'entered', label: 'Post-test SD (within group)' });
+    expect(rows.find((r) => r.path === 'outcome.posttestSD')?.note).toBeUndefined();
+    // Values without a record keep the example/entered rule.
+    expect(rows.find((r) => r.path === 'groups.comparison.poolSize')?.source).toBe('example');
+    // An explicit provenance argument still wins over the plan's record.
+    expect(planInputRows(plan, { 'pretest.reliability': 'entered' }).find((r) => r.path === 'pretest.reliability')?.source).toBe('entered');
+  });
+
   it('gives each numeric input a unit', () => {
     for (const r of planInputRows(demoPlan())) {
       if (/^\d/.test(r.value) && !['simulation.seed'].includes(r.path)) expect(r.unit, r.path).not.toBe('');
