@@ -44,3 +44,30 @@ export { analysePlan, DEFAULT_TARGET_POWER } from './analysePlan';
 export { assertFiniteOutput } from './assertFiniteOutput';
 export { formatNumber } from './inputChecks';
 export { PLANNING_CAUTION } from './planningCaution';
+// Several covariates (pretest first), each with its own reliability; matching distances; the unmeasured part.
+export {
+  deriveCovariateModel,
+  usesCovariateModel,
+  matchingDistance,
+  type CovariateModel,
+  type GroupMatrices,
+} from './multivariate/covariateModel';
+export {
+  covariateModelProblems,
+  covariateCheckInput,
+  type CovariateCheckInput,
+} from './multivariate/covariateModelProblems';
+export {
+  matchingScoreWeights,
+  expectedTrueGapAfterMatching,
+  expectedObservedGapAfterMatching,
+  covariateMatchedEstimate,
+} from './multivariate/covariateMatchedEstimate';
+export { covariateAncovaEstimate, adjustedTrueGap } from './multivariate/covariateAncovaEstimate';
+export { covariateGainScoreEstimate } from './multivariate/covariateGainScoreEstimate';
+export {
+  covariateCorrectedAncovaEstimate,
+  assumedTrueScoreCovariance,
+} from './multivariate/covariateCorrectedAncovaEstimate';
+export { unmeasuredBias } from './multivariate/unmeasuredBias';
+export { covariateExpectedEstimate } from './multivariate/covariateExpectedEstimate';
