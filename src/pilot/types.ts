@@ -145,12 +145,15 @@ export type PilotDataErrorCode =
   | 'binary-file'
   | 'single-column'
   | 'duplicate-header'
+  | 'ragged-row'
+  | 'bad-quotes'
   | 'missing-column'
   | 'non-numeric'
   | 'one-group'
   | 'programme-value-absent'
   | 'too-few-items'
   | 'constant-item'
+  | 'constant-column'
   | 'too-few-rows'
   | 'bad-mapping';
 
