@@ -1,7 +1,9 @@
 import { useId } from 'react';
+import { covariateFieldLabel } from '../state/covariateDraft';
 import { FIELD_NAMES } from '../state/planDraft';
 import { selectAnalytic, selectAnalyticStale, selectProblems } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
+import { CovariateEditor } from './CovariateEditor';
 import { CheckField, ChoiceField, NumberField, TextField } from './fields';
 import { fmt, fmtR } from './format';
 
@@ -12,9 +14,13 @@ function focusField(path: string) {
   el?.scrollIntoView({ block: 'center' });
 }
 
-/** The plan form: every input of the plan, in six sections. */
+/** The plan form: every input of the plan, in seven sections. */
 export function PlanForm() {
   const problems = useMeanwardStore(selectProblems);
+  const covariates = useMeanwardStore((s) => s.draft.covariates);
+  // Covariate fields and matrix cells are named by number ("Covariate 2 SD"); whole-list problems stay as messages.
+  const fieldName = (field: string) =>
+    FIELD_NAMES[field] ?? (/^covariate(s\.\d+\.\w+|Correlations\.\d+\.\d+)$/.test(field) ? covariateFieldLabel(field, covariates) : undefined);
   return (
     <form className="plan-form" aria-label="Study plan" onSubmit={(e) => e.preventDefault()} noValidate>
       <h2 className="visually-hidden">Study plan</h2>
@@ -27,12 +33,12 @@ export function PlanForm() {
           ; the results on the right belong to the last complete plan until it is fixed.
           <ul>
             {problems.map((p) =>
-              FIELD_NAMES[p.field] === undefined ? (
+              fieldName(p.field) === undefined ? (
                 <li key={p.field + p.message}>{p.message}</li>
               ) : (
                 <li key={p.field}>
                   <button type="button" className="link-button" onClick={() => focusField(p.field)}>
-                    {FIELD_NAMES[p.field] ?? p.field}
+                    {fieldName(p.field) ?? p.field}
                   </button>
                 </li>
               ),
@@ -43,6 +49,7 @@ export function PlanForm() {
       <GroupsSection />
       <PretestSection />
       <OutcomeSection />
+      <CovariatesSection />
       <MatchingSection />
       <AnalysisSection />
       <SimulationSection />
@@ -155,19 +162,70 @@ function OutcomeSection() {
   );
 }
 
-function MatchingSection() {
+function CovariatesSection() {
   return (
-    <Section title="4. The matching plan" intro="Matching on the observed pretest: each programme member gets comparison partners with a similar score.">
+    <Section
+      title="4. Other covariates (optional)"
+      intro="Variables besides the pretest that you will match or adjust on, each measured with its own error, and confounders you know of but will not measure."
+    >
+      <CovariateEditor />
+    </Section>
+  );
+}
+
+const CALIPER_UNIT = {
+  pretest: 'SDs of the pooled pretest',
+  propensity: 'SDs of the logit of the propensity score',
+  mahalanobis: 'Mahalanobis-distance units',
+} as const;
+
+function MatchingSection() {
+  const distance = useMeanwardStore((s) => s.draft.matching.distance);
+  const hasCovariates = useMeanwardStore((s) => s.draft.covariates.length > 0);
+  return (
+    <Section
+      title="5. The matching plan"
+      intro={
+        distance === 'pretest'
+          ? 'Matching on the observed pretest: each programme member gets comparison partners with a similar score.'
+          : 'Matching on all measured variables at once: each programme member gets comparison partners who are close on the chosen distance.'
+      }
+    >
+      {(hasCovariates || distance !== 'pretest') && (
+        <ChoiceField
+          path="matching.distance"
+          label="Match on"
+          hint="Covariates marked “match exactly” must agree whatever the distance; unmeasured covariates are never used."
+          options={[
+            { value: 'pretest', label: 'The observed pretest alone' },
+            { value: 'propensity', label: 'Propensity score (logit) on all measured variables' },
+            { value: 'mahalanobis', label: 'Mahalanobis distance on all measured variables' },
+          ]}
+        />
+      )}
       <ChoiceField
         path="matching.method"
         label="Method"
         hint="Nearest score first, or a random partner among those within the caliper."
         options={[
-          { value: 'nearest', label: 'Nearest pretest score' },
+          { value: 'nearest', label: distance === 'pretest' ? 'Nearest pretest score' : 'Nearest partner on the chosen distance' },
           { value: 'random-within-caliper', label: 'Random partner within the caliper' },
         ]}
       />
-      <NumberField path="matching.caliper" label="Caliper" unit="SDs of the pooled pretest" step={0.05} min={0.01} hint="Largest allowed pretest difference between partners; programme members with no partner this close are dropped." />
+      <NumberField
+        path="matching.caliper"
+        label="Caliper"
+        unit={CALIPER_UNIT[distance] ?? CALIPER_UNIT.pretest}
+        step={0.05}
+        min={0.01}
+        hint={
+          distance === 'propensity'
+            ? 'Largest allowed difference in the logit of the propensity score; 0.2 SD is a common choice (Austin 2011). Programme members with no partner this close are dropped.'
+            : distance === 'mahalanobis'
+              ? 'Largest allowed Mahalanobis distance between partners on the measured variables; programme members with no partner this close are dropped.'
+              : 'Largest allowed pretest difference between partners; programme members with no partner this close are dropped.'
+        }
+      />
       <NumberField path="matching.ratio" label="Ratio (partners per programme member)" unit="1 to 5" step={1} min={1} max={5} inputMode="numeric" hint="Comparison partners for each programme member." />
       <CheckField path="matching.replacement" label="Allow a comparison person to be reused (with replacement)" hint="Reuse keeps more programme members but repeats some comparison people." />
       <ChoiceField
@@ -186,7 +244,7 @@ function MatchingSection() {
 
 function AnalysisSection() {
   return (
-    <Section title="5. The analysis">
+    <Section title="6. The analysis">
       <NumberField path="analysis.alpha" label="Significance level (alpha, two-sided)" unit="0 to 0.5" step={0.01} min={0.001} max={0.5} hint="Usually 0.05." />
       <NumberField path="analysis.assumedReliability" label="Assumed reliability for the corrected ANCOVA" unit="0 to 1" step={0.01} min={0.01} max={0.99} hint="The reliability the analyst will plug into the correction; a wrong guess leaves some bias." />
       <NumberField path="analysis.tolerableBiasShare" label="Tolerable share of the effect" unit="0 to 1" step={0.05} min={0.01} max={1} hint="How large an artefact you could live with, as a share of the hoped-for effect (0.25 = a quarter)." />
@@ -200,7 +258,7 @@ function SimulationSection() {
   const setAutoRun = useMeanwardStore((s) => s.setAutoRun);
   const id = useId();
   return (
-    <Section title="6. The simulation" intro="A Monte Carlo check of the formulas with finite pools, the caliper and the matching order. Run it from the results panel.">
+    <Section title="7. The simulation" intro="A Monte Carlo check of the formulas with finite pools, the caliper and the matching order. Run it from the results panel.">
       <NumberField path="simulation.replications" label="Replications" unit="studies" step={500} min={100} inputMode="numeric" hint="Simulated studies; 2,000 gives figures precise to about ±1 percentage point." />
       <NumberField path="simulation.seed" label="Seed" step={1} min={0} inputMode="numeric" hint="The same plan and seed give the same simulated figures, bit for bit." />
       <div className="field field-check">
