@@ -1,0 +1,72 @@
+/**
+ * Strata for exact matching: people with identical values on every exactly
+ * matched covariate share a stratum (Rosenbaum 2002, "Observational Studies",
+ * 2nd ed., ch. 3 on exact matching / stratification; common practice).
+ * Stratum numbers are 0, 1, … in order of first appearance, so they depend only
+ * on the data.
+ *
+ * @param columns the exactly matched covariates' values (whole numbers in the
+ *   engine), each a Float64Array of at least `size` values. No columns: everyone in stratum 0.
+ * @param size number of people.
+ * @param out receives each person's stratum number (length ≥ size).
+ * @returns the number of strata.
+ * @throws Error when a value is not finite.
+ * @example exactStrata([Float64Array.of(0, 1, 0, 2)], 4, out) // 3; out = [0, 1, 0, 2]
+ */
+export function exactStrata(columns: readonly Float64Array[], size: number, out: Int32Array): number {
+  out.fill(0, 0, size);
+  let count = size > 0 ? 1 : 0;
+  for (const col of columns) {
+    // Refine the strata column by column: key (previous stratum, value) → new stratum.
+    const ids = new Map<string | number, number>();
+    let lo = Infinity;
+    let hi = -Infinity;
+    for (let i = 0; i < size; i++) {
+      const v = col[i] as number;
+      if (!Number.isFinite(v)) throw new Error(`An exactly matched covariate has a value that is not a finite number (${v}).`);
+      if (v < lo) lo = v;
+      if (v > hi) hi = v;
+    }
+    const integral = Number.isInteger(lo) && Number.isInteger(hi);
+    const span = hi - lo + 1;
+    const numericKeys = integral && count * span < 2 ** 52;
+    for (let i = 0; i < size; i++) {
+      const v = col[i] as number;
+      const key = numericKeys && Number.isInteger(v) ? (out[i] as number) * span + (v - lo) : `${out[i]}|${v}`;
+      let id = ids.get(key);
+      if (id === undefined) {
+        id = ids.size;
+        ids.set(key, id);
+      }
+      out[i] = id;
+    }
+    count = ids.size;
+  }
+  return count;
+}
+
+/**
+ * Group people by stratum (a stable counting sort): `order[start[s] .. start[s + 1])`
+ * lists the members of stratum s in their original order.
+ *
+ * @param stratum stratum number per person (0 ≤ s < count), read at indices from..to.
+ * @param from first person (inclusive); `order` receives person indices in [from, to).
+ * @param to last person (exclusive).
+ * @param count number of strata.
+ * @param order receives to − from person indices.
+ * @param start receives count + 1 offsets into `order`.
+ * @returns nothing.
+ * @throws never.
+ * @example groupByStratum(Int32Array.of(1, 0, 1), 0, 3, 2, order, start) // order [1, 0, 2], start [0, 1, 3]
+ */
+export function groupByStratum(stratum: Int32Array, from: number, to: number, count: number, order: Int32Array, start: Int32Array): void {
+  start.fill(0, 0, count + 1);
+  for (let i = from; i < to; i++) start[(stratum[i] as number) + 1] = (start[(stratum[i] as number) + 1] as number) + 1;
+  for (let s = 0; s < count; s++) start[s + 1] = (start[s + 1] as number) + (start[s] as number);
+  const fill = start.slice(0, count);
+  for (let i = from; i < to; i++) {
+    const s = stratum[i] as number;
+    order[fill[s] as number] = i;
+    fill[s] = (fill[s] as number) + 1;
+  }
+}
