@@ -9,9 +9,11 @@ import { pretestChartText } from '../charts/pretestChartText';
 import { renderChart, type ChartDataById } from '../charts/renderChartToSvgString';
 import { sensitivityChartData } from '../charts/sensitivityChartData';
 import { sensitivityChartText } from '../charts/sensitivityChartText';
+import { usesCovariateModel } from '../core/multivariate/covariateModel';
 import type { SensitivityVariable } from '../core/sensitivityCurve';
 import { selectAnalytic, selectAnalyticStale, selectHighlight, selectSetHighlight, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
+import { CovariateBalanceCard } from './CovariateBalanceCard';
 
 /** Chart size for a container width: drawn at the size shown, so text stays at its designed size. */
 function sizeFor(width: number): { width: number; height: number } {
@@ -156,7 +158,12 @@ export function ChartsPanel() {
       </p>
       <div className="charts-grid">
         <ChartCard chartId="pretest" {...pretest} />
-        <ChartCard chartId="balance" {...balance} />
+        {/* With covariates (or a multivariate distance) balance is shown per variable, pretest included. */}
+        {usesCovariateModel(plan) ? (
+          <CovariateBalanceCard input={input!} simulationOutOfDate={Boolean(simResult && simStale)} />
+        ) : (
+          <ChartCard chartId="balance" {...balance} />
+        )}
         <ChartCard chartId="estimates" {...estimates} />
         <ChartCard
           chartId="sensitivity"
