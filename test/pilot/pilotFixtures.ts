@@ -17,6 +17,8 @@ export interface PilotFixture {
   retest?: boolean;
   /** Add a posttest: factor + N(0, 1) noise. */
   posttest?: boolean;
+  /** Round cells to this many decimals (default: full precision). */
+  decimals?: number;
 }
 
 /**
@@ -24,7 +26,7 @@ export interface PilotFixture {
  * normal within each group, so the within-group item covariance matrix is
  * compound symmetric with correlation r, and alpha's population value is
  * k r / (1 + (k − 1) r) (Cronbach 1951; Spearman–Brown). Cells are written
- * with String(x), which reads back to the same double.
+ * with String(x), which reads back to the same double (or rounded to `decimals`).
  */
 export function pilotFixtureTable(f: PilotFixture): ParsedTable {
   const z = new NormalSampler(Xoshiro128StarStar.forReplication(f.seed, 0));
@@ -34,18 +36,19 @@ export function pilotFixtureTable(f: PilotFixture): ParsedTable {
   const rows: string[][] = [];
   const a = Math.sqrt(f.interItem);
   const b = Math.sqrt(1 - f.interItem);
+  const cell = f.decimals === undefined ? String : (x: number) => x.toFixed(f.decimals);
   for (let i = 0; i < f.nProgramme + f.nComparison; i++) {
     const programme = i < f.nProgramme;
     const shift = programme ? (f.gap ?? 0) : 0;
     const factor = z.next();
     const row = [programme ? 'programme' : 'comparison'];
-    for (let j = 0; j < Math.max(k, 1); j++) row.push(String(shift + a * factor + b * z.next()));
+    for (let j = 0; j < Math.max(k, 1); j++) row.push(cell(shift + a * factor + b * z.next()));
     if (f.retest) {
       let s = 0;
       for (let j = 0; j < Math.max(k, 1); j++) s += shift + a * factor + b * z.next();
-      row.push(String(s));
+      row.push(cell(s));
     }
-    if (f.posttest) row.push(String(10 + 2 * shift + 3 * factor + 2 * z.next()));
+    if (f.posttest) row.push(cell(10 + 2 * shift + 3 * factor + 2 * z.next()));
     rows.push(row);
   }
   return { columns, rows, delimiter: ',', hasHeader: true };
