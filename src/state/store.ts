@@ -7,11 +7,12 @@ import { createCovariateSlice, type CovariateSlice } from './covariateSlice';
 import { createDraftSlice, type DraftSlice } from './draftSlice';
 import { createHighlightSlice, type HighlightSlice } from './highlightSlice';
 import { createPersistenceSlice, readAutosave, type PersistenceSlice } from './persistenceSlice';
+import { createPilotSlice, defaultPilotDeps, type PilotDeps, type PilotSlice } from './pilotSlice';
 import { planToDraft } from './planDraft';
 import { createSimulationSlice, type SimulationSlice } from './simulationSlice';
 
 /** The whole planner state: one slice per file, combined here. */
-export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice & CovariateSlice;
+export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice & CovariateSlice & PilotSlice;
 export type MeanwardStore = StoreApi<MeanwardState>;
 
 export interface CreateStoreOptions {
@@ -20,6 +21,8 @@ export interface CreateStoreOptions {
   demo: () => Plan;
   /** Restore the autosaved draft when there is one (default true). */
   restore?: boolean;
+  /** Pilot-data reader and functions (default: the worker reader, src/pilot, the tab's sessionStorage). */
+  pilot?: Partial<PilotDeps>;
 }
 
 /**
@@ -27,7 +30,7 @@ export interface CreateStoreOptions {
  * otherwise starts from the demo plan; autosaves the draft after every change
  * and keeps the simulation's "stale" mark in step with the plan.
  */
-export function createMeanwardStore({ deps, demo, restore = true }: CreateStoreOptions): MeanwardStore {
+export function createMeanwardStore({ deps, demo, restore = true, pilot }: CreateStoreOptions): MeanwardStore {
   const saved = restore ? readAutosave(deps.storage) : null;
   const initial = saved ?? planToDraft(demo());
   const store = createStore<MeanwardState>()((...a) => ({
@@ -36,6 +39,7 @@ export function createMeanwardStore({ deps, demo, restore = true }: CreateStoreO
     ...createHighlightSlice(...a),
     ...createPersistenceSlice(deps, demo)(...a),
     ...createCovariateSlice(...a),
+    ...createPilotSlice({ ...defaultPilotDeps(), ...pilot })(...a),
   }));
   store.subscribe((state, prev) => {
     if (state.draft !== prev.draft) state.autosave();

@@ -3,6 +3,7 @@ import { ChartsPanel } from './ChartsPanel';
 import { ComparisonTable } from './ComparisonTable';
 import { Header } from './Header';
 import { NoticeBar } from './NoticeBar';
+import { PilotPanel } from './PilotPanel';
 import { PlanForm } from './PlanForm';
 import { RemediesPanel } from './RemediesPanel';
 import { SimulationPanel } from './SimulationPanel';
@@ -30,6 +31,7 @@ export function App() {
           </Suspense>
         </section>
       )}
+      <PilotPanel />
       <main className="layout">
         <div className="form-column">
           <PlanForm />

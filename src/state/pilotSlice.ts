@@ -1,0 +1,410 @@
+import type { StateCreator } from 'zustand';
+import type { Plan } from '../core/plan';
+import { createPilotReader, type PilotReader } from '../pilot/pilotClient';
+import { pessimisticPlanResult, type PessimisticPlanResult } from '../pilot/pessimisticPlan';
+import { pilotPlanUpdate } from '../pilot/pilotPlanUpdate';
+import type { ColumnFacts, PilotTableSummary } from '../pilot/pilotWorkerProtocol';
+import type {
+  AppliedPilotField,
+  Delimiter,
+  PilotEstimates,
+  PilotMapping,
+  PilotPlanUpdate,
+  SkippedPilotField,
+} from '../pilot/types';
+import type { DraftStorage } from './deps';
+import { draftProvenance, withDraftProvenance } from './draftSlice';
+import { FIELD_NAMES, setDraftField, type PlanDraft } from './planDraft';
+import type { MeanwardState } from './store';
+
+/** The pilot slice's real dependencies: the worker reader, src/pilot's plan writers, the tab's sessionStorage. */
+export function defaultPilotDeps(): PilotDeps {
+  let session: DraftStorage | null = null;
+  try {
+    session = globalThis.sessionStorage ?? null;
+  } catch {
+    session = null; // blocked (some private modes): mappings are kept in the store only
+  }
+  return { reader: createPilotReader(), planUpdate: pilotPlanUpdate, pessimisticPlan: pessimisticPlanResult, session };
+}
+
+/** sessionStorage key of the remembered column mappings (by the file's column names; never any rows). */
+export const PILOT_MAPPING_KEY = 'meanward.pilotMapping.v1';
+
+/** Where the pilot panel is: no file, reading, choosing columns, estimating, estimates shown. */
+export type PilotStatus = 'empty' | 'reading' | 'mapping' | 'estimating' | 'estimated';
+
+/** How the file is read; 'auto' = detected. */
+export interface PilotReadOptions {
+  delimiter: Delimiter | 'auto';
+  header: boolean | 'auto';
+}
+
+/** The column mapping as chosen on screen ('' = not chosen / none). */
+export interface PilotMappingDraft {
+  group: string;
+  programmeValue: string;
+  pretestKind: 'total' | 'items';
+  pretestColumn: string;
+  itemColumns: string[];
+  combine: 'sum' | 'mean';
+  retest: string;
+  posttest: string;
+}
+
+/** A bad file or mapping, as shown: the message names the column or row. */
+export interface PilotProblem {
+  stage: 'read' | 'map' | 'estimate' | 'apply';
+  message: string;
+  column?: string;
+  row?: number;
+}
+
+/** What the last "Use these values" wrote into the plan and what it left out. */
+export interface PilotApplyReport {
+  applied: AppliedPilotField[];
+  skipped: SkippedPilotField[];
+  /** True when the reliability was set to the lower end of its interval. */
+  pessimistic: boolean;
+}
+
+export interface PilotState {
+  status: PilotStatus;
+  fileName: string | null;
+  summary: PilotTableSummary | null;
+  readOptions: PilotReadOptions;
+  mapping: PilotMappingDraft;
+  /** True when the mapping was restored from earlier in this session. */
+  mappingRemembered: boolean;
+  estimates: PilotEstimates | null;
+  problem: PilotProblem | null;
+  lastApply: PilotApplyReport | null;
+  /** The latest status in plain words, for the panel's live region. */
+  announcement: string;
+}
+
+export interface PilotSlice {
+  pilot: PilotState;
+  /** Read a pilot file (CSV or TSV; a Blob or its text). The plan is not touched. */
+  readPilotFile(file: Blob | string, fileName: string): Promise<void>;
+  /** Change how the file is read (delimiter, header) and read it again. */
+  setPilotReadOptions(options: Partial<PilotReadOptions>): Promise<void>;
+  /** Change the column mapping (the shown estimates are dropped: they belonged to the old mapping). */
+  setPilotMapping(patch: Partial<PilotMappingDraft>): void;
+  /** Estimate from the file with the current mapping. */
+  estimateFromPilot(): Promise<void>;
+  /** Write the estimates into the plan (through the draft, so validation, autosave and results follow). */
+  applyPilotEstimates(): void;
+  /** As applyPilotEstimates, with the reliability at the lower end of its confidence interval. */
+  applyPessimisticPilotEstimates(): void;
+  /** Forget the file and its estimates. */
+  clearPilot(): void;
+}
+
+/** The pure functions the slice needs from src/pilot, and where it keeps the session's mappings. */
+export interface PilotDeps {
+  reader: PilotReader;
+  planUpdate(plan: Plan, estimates: PilotEstimates): PilotPlanUpdate;
+  pessimisticPlan(plan: Plan): PessimisticPlanResult;
+  /** window.sessionStorage in the browser (null: mappings are kept in the store only). */
+  session: DraftStorage | null;
+}
+
+const EMPTY_MAPPING: PilotMappingDraft = {
+  group: '',
+  programmeValue: '',
+  pretestKind: 'total',
+  pretestColumn: '',
+  itemColumns: [],
+  combine: 'sum',
+  retest: '',
+  posttest: '',
+};
+
+const initialPilot = (): PilotState => ({
+  status: 'empty',
+  fileName: null,
+  summary: null,
+  readOptions: { delimiter: 'auto', header: 'auto' },
+  mapping: EMPTY_MAPPING,
+  mappingRemembered: false,
+  estimates: null,
+  problem: null,
+  lastApply: null,
+  announcement: '',
+});
+
+/** A name that identifies a file's layout: its column names in order. */
+function layoutKey(summary: PilotTableSummary): string {
+  return JSON.stringify(summary.columns.map((c) => c.name));
+}
+
+function readRemembered(session: DraftStorage | null): Record<string, PilotMappingDraft> {
+  if (!session) return {};
+  try {
+    const raw = session.getItem(PILOT_MAPPING_KEY);
+    const parsed: unknown = raw ? JSON.parse(raw) : {};
+    return parsed && typeof parsed === 'object' ? (parsed as Record<string, PilotMappingDraft>) : {};
+  } catch {
+    return {};
+  }
+}
+
+/** A remembered mapping still fits when every column it names is in the file. */
+function fits(m: PilotMappingDraft, summary: PilotTableSummary): boolean {
+  const names = new Set(summary.columns.map((c) => c.name));
+  const used = [m.group, m.pretestColumn, m.retest, m.posttest, ...m.itemColumns].filter((c) => c !== '');
+  return used.every((c) => names.has(c)) && m.group !== '';
+}
+
+/**
+ * A first guess at the mapping from the column names (group, pretest, items,
+ * retest, posttest), for the researcher to check. Names only: no data are
+ * summarised here.
+ */
+export function guessPilotMapping(summary: PilotTableSummary): PilotMappingDraft {
+  const cols = summary.columns;
+  const smallSet = (c: ColumnFacts) => !c.moreDistinct && c.distinct.length >= 2;
+  const group =
+    cols.find((c) => /group|arm|cohort|condition|programme|program|treat/i.test(c.name) && smallSet(c)) ??
+    cols.find((c) => !c.looksNumeric && smallSet(c)) ??
+    cols.find((c) => smallSet(c) && c.distinct.length <= 5);
+  // Score columns are picked by name even when a cell holds text: estimating then names the bad cell,
+  // rather than the column being left out without a word.
+  const scores = cols.filter((c) => c !== group);
+  const programmeValue = group ? (group.distinct.find((v) => /prog|treat|interv|pilot|yes/i.test(v)) ?? group.distinct[0] ?? '') : '';
+  const isItem = (c: ColumnFacts) => /item|^q\d|^i\d|_q\d|_i\d/i.test(c.name);
+  // "pretest" contains "retest": a retest name must not follow a p.
+  const retest = scores.find((c) => /(^|[^p])re-?test|repeat|second/i.test(c.name));
+  const posttest = scores.find((c) => /post|outcome|follow/i.test(c.name) && c !== retest);
+  const total = scores.find(
+    (c) => c !== retest && c !== posttest && !isItem(c) && /pre|baseline|total|score/i.test(c.name),
+  );
+  const items = scores.filter(isItem);
+  const pretestKind: PilotMappingDraft['pretestKind'] = !total && items.length >= 2 ? 'items' : 'total';
+  return {
+    ...EMPTY_MAPPING,
+    group: group?.name ?? '',
+    programmeValue,
+    pretestKind,
+    pretestColumn: total?.name ?? '',
+    itemColumns: items.map((c) => c.name),
+    retest: retest?.name ?? '',
+    posttest: posttest?.name ?? '',
+  };
+}
+
+/** The mapping for src/pilot, or a message saying what is still to choose. */
+export function mappingFromDraft(m: PilotMappingDraft): { mapping: PilotMapping } | { message: string } {
+  if (m.group === '') return { message: 'Choose the column that holds each row’s group.' };
+  if (m.programmeValue === '') return { message: `Choose which value of “${m.group}” marks the programme group.` };
+  if (m.pretestKind === 'total' && m.pretestColumn === '') return { message: 'Choose the pretest column (the total score).' };
+  if (m.pretestKind === 'items' && m.itemColumns.length === 0) return { message: 'Tick the pretest’s item columns.' };
+  const mapping: PilotMapping = {
+    group: m.group,
+    programmeValue: m.programmeValue,
+    pretest: m.pretestKind === 'total' ? { kind: 'total', column: m.pretestColumn } : { kind: 'items', columns: m.itemColumns, combine: m.combine },
+  };
+  if (m.retest !== '') mapping.retest = m.retest;
+  if (m.posttest !== '') mapping.posttest = m.posttest;
+  return { mapping };
+}
+
+function problemFrom(stage: PilotProblem['stage'], err: unknown): PilotProblem {
+  const e = err as { message?: unknown; column?: unknown; row?: unknown };
+  const p: PilotProblem = { stage, message: typeof e?.message === 'string' ? e.message : String(err) };
+  if (typeof e?.column === 'string') p.column = e.column;
+  if (typeof e?.row === 'number') p.row = e.row;
+  return p;
+}
+
+function at(obj: unknown, path: string): unknown {
+  return path.split('.').reduce<unknown>((o, k) => (o && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
+}
+
+/**
+ * The draft with the plan fields that changed from `before` to `after` (and
+ * the `written` paths) typed in, and `after`'s provenance for them. Fields
+ * not written keep exactly what the researcher typed, even if unfinished.
+ */
+export function writePlanChangesIntoDraft(draft: PlanDraft, before: Plan, after: Plan, written: readonly string[]): PlanDraft {
+  const paths = new Set(written);
+  for (const path of Object.keys(FIELD_NAMES)) {
+    const a = at(after, path);
+    if (typeof a === 'number' && a !== at(before, path)) paths.add(path);
+  }
+  let next = draft;
+  for (const path of paths) {
+    const value = at(after, path);
+    if (typeof value !== 'number' || !Number.isFinite(value)) continue;
+    next = setDraftField(next, path, String(value));
+  }
+  if ([...paths].some((p) => p.startsWith('pretest.reliability')) && next.pretest.mode !== 'reliability') {
+    next = { ...next, pretest: { ...next.pretest, mode: 'reliability' } };
+  }
+  const provenance = { ...(draftProvenance(draft) ?? {}) };
+  for (const path of paths) {
+    const entry = after.provenance?.[path];
+    if (entry) provenance[path] = entry;
+    else delete provenance[path];
+  }
+  return withDraftProvenance(next, provenance);
+}
+
+export const createPilotSlice =
+  (deps: PilotDeps): StateCreator<MeanwardState, [], [], PilotSlice> =>
+  (set, get) => {
+    // The file stays in memory only while the panel uses it (to read it again with other options).
+    let file: Blob | string | null = null;
+    let readSeq = 0;
+    let estimateSeq = 0;
+    const remembered: Record<string, PilotMappingDraft> = readRemembered(deps.session);
+    const patch = (p: Partial<PilotState>) => set((s) => ({ pilot: { ...s.pilot, ...p } }));
+
+    const remember = (summary: PilotTableSummary, mapping: PilotMappingDraft) => {
+      remembered[layoutKey(summary)] = mapping;
+      try {
+        deps.session?.setItem(PILOT_MAPPING_KEY, JSON.stringify(remembered));
+      } catch {
+        // Session storage blocked or full: the mapping is still kept in this store.
+      }
+    };
+
+    const read = async (source: Blob | string, fileName: string, options: PilotReadOptions) => {
+      const seq = ++readSeq;
+      estimateSeq++; // any estimate still running belongs to the old file
+      patch({ status: 'reading', fileName, problem: null, estimates: null, lastApply: null, announcement: `Reading “${fileName}”…` });
+      try {
+        const summary = await deps.reader.read(source, fileName, { delimiter: options.delimiter, header: options.header });
+        if (seq !== readSeq) return;
+        const saved = remembered[layoutKey(summary)];
+        const useSaved = saved !== undefined && fits(saved, summary);
+        const mapping = useSaved ? saved : guessPilotMapping(summary);
+        const rows = `${summary.rowCount.toLocaleString('en-GB')} ${summary.rowCount === 1 ? 'row' : 'rows'}`;
+        patch({
+          status: 'mapping',
+          summary,
+          mapping,
+          mappingRemembered: useSaved,
+          announcement: `Read “${fileName}”: ${rows} and ${summary.columns.length} columns. ${useSaved ? 'The column choices from earlier in this session are restored; check them' : 'Check the column choices'}, then estimate.`,
+        });
+      } catch (err) {
+        if (seq !== readSeq) return;
+        file = null;
+        const problem = problemFrom('read', err);
+        patch({
+          status: 'empty',
+          summary: null,
+          problem,
+          announcement: `“${fileName}” could not be read; your plan is unchanged. ${problem.message}`,
+        });
+      }
+    };
+
+    const apply = (pessimistic: boolean) => {
+      const s = get();
+      const estimates = s.pilot.estimates;
+      if (!estimates) return;
+      try {
+        const before = s.validPlan;
+        const update = deps.planUpdate(before, estimates);
+        let after = update.plan;
+        if (pessimistic) {
+          const low = deps.pessimisticPlan(update.plan);
+          if (!low.ok) {
+            patch({ problem: { stage: 'apply', message: low.reason }, announcement: `Your plan is unchanged. ${low.reason}` });
+            return;
+          }
+          after = low.plan;
+        }
+        const written = update.applied.map((a) => a.path);
+        const draft = writePlanChangesIntoDraft(s.draft, before, after, written);
+        get().replaceDraft(draft);
+        const applied = pessimistic
+          ? update.applied.map((a) =>
+              a.path === 'pretest.reliability' && typeof after.pretest.reliability === 'number'
+                ? { ...a, value: after.pretest.reliability, note: after.provenance?.[a.path]?.note ?? a.note }
+                : a,
+            )
+          : update.applied;
+        const n = applied.length;
+        const skippedText = update.skipped.length > 0 ? ` ${update.skipped.length} left as they were (see why below).` : '';
+        patch({
+          lastApply: { applied, skipped: update.skipped, pessimistic },
+          problem: null,
+          announcement: `${n === 1 ? 'One plan field' : `${n} plan fields`} filled from “${estimates.fileName ?? s.pilot.fileName ?? 'the pilot file'}”${pessimistic ? ', with the reliability at the lower end of its confidence interval' : ''}.${skippedText}`,
+        });
+      } catch (err) {
+        const problem = problemFrom('apply', err);
+        patch({ problem, announcement: `The estimates could not be written into the plan; your plan is unchanged. ${problem.message}` });
+      }
+    };
+
+    return {
+      pilot: initialPilot(),
+      readPilotFile: async (source, fileName) => {
+        file = source;
+        await read(source, fileName, get().pilot.readOptions);
+      },
+      setPilotReadOptions: async (options) => {
+        const readOptions = { ...get().pilot.readOptions, ...options };
+        patch({ readOptions });
+        const { fileName } = get().pilot;
+        if (file !== null && fileName !== null) await read(file, fileName, readOptions);
+      },
+      setPilotMapping: (p) => {
+        const s = get().pilot;
+        const mapping = { ...s.mapping, ...p };
+        // A new group column means a new programme value (unless given).
+        if (p.group !== undefined && p.group !== s.mapping.group && p.programmeValue === undefined) {
+          const col = s.summary?.columns.find((c) => c.name === p.group);
+          mapping.programmeValue = col?.distinct[0] ?? '';
+        }
+        estimateSeq++;
+        patch({
+          mapping,
+          mappingRemembered: false,
+          estimates: null,
+          lastApply: null,
+          problem: s.problem?.stage === 'read' ? s.problem : null,
+          status: s.summary ? 'mapping' : s.status,
+        });
+      },
+      estimateFromPilot: async () => {
+        const s = get().pilot;
+        if (!s.summary) return;
+        const m = mappingFromDraft(s.mapping);
+        if ('message' in m) {
+          patch({ problem: { stage: 'map', message: m.message }, announcement: m.message });
+          return;
+        }
+        const seq = ++estimateSeq;
+        remember(s.summary, s.mapping);
+        patch({ status: 'estimating', problem: null, estimates: null, lastApply: null, announcement: 'Estimating…' });
+        try {
+          const estimates = await deps.reader.estimate(m.mapping);
+          if (seq !== estimateSeq) return;
+          const dropped = estimates.rowsDropped > 0 ? ` ${estimates.rowsDropped.toLocaleString('en-GB')} rows were left out (see why below).` : '';
+          const warn = estimates.warnings.length > 0 ? ` ${estimates.warnings.length === 1 ? 'One warning' : `${estimates.warnings.length} warnings`} to read.` : '';
+          patch({
+            status: 'estimated',
+            estimates,
+            announcement: `Estimates ready from ${estimates.rowsUsed.toLocaleString('en-GB')} rows.${dropped}${warn} Nothing is in the plan until you choose “Use these values”.`,
+          });
+        } catch (err) {
+          if (seq !== estimateSeq) return;
+          const problem = problemFrom('estimate', err);
+          patch({ status: 'mapping', problem, announcement: `No estimates; your plan is unchanged. ${problem.message}` });
+        }
+      },
+      applyPilotEstimates: () => apply(false),
+      applyPessimisticPilotEstimates: () => apply(true),
+      clearPilot: () => {
+        file = null;
+        readSeq++;
+        estimateSeq++;
+        deps.reader.forget();
+        set((s) => ({ pilot: { ...initialPilot(), readOptions: s.pilot.readOptions, announcement: 'The pilot file was closed and forgotten.' } }));
+      },
+    };
+  };

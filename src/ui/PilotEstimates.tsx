@@ -1,0 +1,228 @@
+import type { GroupEstimates, Interval } from '../pilot/types';
+import { FIELD_NAMES } from '../state/planDraft';
+import { useMeanwardStore } from '../state/store';
+import { fmt, fmtInt, fmtR, fmtSigned } from './format';
+
+/** "0.81 (95% CI .76–.85)": an estimate and its interval, as given by src/pilot. */
+function withInterval(x: { value: number; lower: number; upper: number; level: number }): string {
+  return `${fmtR(x.value)} (${Math.round(x.level * 100)}% CI ${fmtR(x.lower)}–${fmtR(x.upper)})`;
+}
+
+function alphaText(a: Interval & { n: number; items?: number }): string {
+  return `${withInterval(a)}, n = ${fmtInt(a.n)}${a.items !== undefined ? `, ${a.items} items` : ''}`;
+}
+
+/**
+ * The estimates from the pilot file, per group and pooled, each with its n;
+ * the reliability coefficients (which is which); rows left out and why; the
+ * warnings; and the buttons that write them into the plan.
+ */
+export function PilotEstimatesView() {
+  const e = useMeanwardStore((s) => s.pilot.estimates)!;
+  const lastApply = useMeanwardStore((s) => s.pilot.lastApply);
+  const apply = useMeanwardStore((s) => s.applyPilotEstimates);
+  const applyPessimistic = useMeanwardStore((s) => s.applyPessimisticPilotEstimates);
+  const P = e.groups.programme;
+  const C = e.groups.comparison;
+  const progName = e.mapping?.programmeValue ?? 'programme';
+  const rel = e.reliability;
+  const hasInterval = rel.alpha !== undefined || rel.testRetest !== undefined;
+  const hasPost = P.posttestSD !== undefined || C.posttestSD !== undefined;
+  const cell = (g: GroupEstimates, f: (g: GroupEstimates) => string | undefined) => <td>{f(g) ?? '—'}</td>;
+  return (
+    <div className="pilot-estimates" data-testid="pilot-estimates">
+      <h3>3. What the file says</h3>
+      <p className="pilot-rows" data-testid="pilot-rows">
+        {fmtInt(e.rowsUsed)} of {fmtInt(e.rowsRead)} rows used
+        {e.rowsDropped > 0 ? `; ${fmtInt(e.rowsDropped)} left out.` : '.'} {e.droppedReason}
+      </p>
+      {e.warnings.length > 0 && (
+        <div className="pilot-warnings" data-testid="pilot-warnings">
+          <h4>Read before using these values</h4>
+          <ul>
+            {e.warnings.map((w) => (
+              <li key={w.code + w.message} data-code={w.code}>
+                {w.message}
+              </li>
+            ))}
+          </ul>
+        </div>
+      )}
+      <div className="pilot-estimate-grid">
+        <div className="table-scroll">
+          <table className="pilot-table" data-testid="pilot-group-table">
+            <caption>By group (and pooled within groups)</caption>
+            <thead>
+              <tr>
+                <th scope="col">Quantity</th>
+                <th scope="col">Programme (“{progName}”)</th>
+                <th scope="col">Comparison (“{e.groups.comparisonValue}”)</th>
+                <th scope="col">Pooled within groups</th>
+              </tr>
+            </thead>
+            <tbody>
+              <tr>
+                <th scope="row">People used (n)</th>
+                {cell(P, (g) => fmtInt(g.n))}
+                {cell(C, (g) => fmtInt(g.n))}
+                <td>{fmtInt(e.rowsUsed)}</td>
+              </tr>
+              <tr>
+                <th scope="row">Pretest mean</th>
+                {cell(P, (g) => fmt(g.pretestMean))}
+                {cell(C, (g) => fmt(g.pretestMean))}
+                <td>—</td>
+              </tr>
+              <tr>
+                <th scope="row">Pretest SD</th>
+                {cell(P, (g) => fmt(g.pretestSD))}
+                {cell(C, (g) => fmt(g.pretestSD))}
+                <td>{fmt(e.pooledWithinSD)}</td>
+              </tr>
+              {hasPost && (
+                <>
+                  <tr>
+                    <th scope="row">Posttest SD</th>
+                    {cell(P, (g) => (g.posttestSD === undefined ? undefined : fmt(g.posttestSD)))}
+                    {cell(C, (g) => (g.posttestSD === undefined ? undefined : fmt(g.posttestSD)))}
+                    <td>—</td>
+                  </tr>
+                  <tr>
+                    <th scope="row">Pre–post correlation</th>
+                    {cell(P, (g) => (g.prePostCorrelation === undefined ? undefined : `${fmtR(g.prePostCorrelation)} (n = ${fmtInt(g.nPrePost)})`))}
+                    {cell(C, (g) => (g.prePostCorrelation === undefined ? undefined : `${fmtR(g.prePostCorrelation)} (n = ${fmtInt(g.nPrePost)})`))}
+                    <td>{e.prePostCorrelation ? `${fmtR(e.prePostCorrelation.value)} (n = ${fmtInt(e.prePostCorrelation.n)})` : '—'}</td>
+                  </tr>
+                </>
+              )}
+            </tbody>
+          </table>
+        </div>
+        <dl className="pilot-gap" data-testid="pilot-gap">
+          <dt>Pretest gap, programme minus comparison</dt>
+          <dd>
+            {fmtSigned(e.gap.points)} points; SMD {fmtSigned(e.gap.smd)} (on the pooled within-group SD {fmt(e.pooledWithinSD)})
+          </dd>
+        </dl>
+      </div>
+
+      <h4>Reliability of the pretest</h4>
+      {!rel.alpha && !rel.splitHalf && !rel.testRetest ? (
+        <p>None: map item columns (for alpha and split-half) or a retest column (for test–retest).</p>
+      ) : (
+        <dl className="pilot-reliability" data-testid="pilot-reliability">
+          {rel.alpha && (
+            <>
+              <dt>Cronbach’s alpha, pooled within groups (Feldt CI)</dt>
+              <dd data-testid="pilot-alpha">{alphaText(rel.alpha)}</dd>
+            </>
+          )}
+          {rel.alphaByGroup && (
+            <>
+              <dt>Alpha in each group</dt>
+              <dd>
+                programme {alphaText(rel.alphaByGroup.programme)}; comparison {alphaText(rel.alphaByGroup.comparison)}
+              </dd>
+            </>
+          )}
+          {rel.splitHalf && (
+            <>
+              <dt>Split-half (odd vs even items), stepped up by Spearman–Brown</dt>
+              <dd>
+                {fmtR(rel.splitHalf.spearmanBrown)} (correlation of the halves {fmtR(rel.splitHalf.halfCorrelation)}, n = {fmtInt(rel.splitHalf.n)})
+              </dd>
+            </>
+          )}
+          {rel.testRetest && (
+            <>
+              <dt>Test–retest correlation, pooled within groups (Fisher z CI)</dt>
+              <dd data-testid="pilot-retest">
+                {withInterval(rel.testRetest)}, n = {fmtInt(rel.testRetest.n)}
+              </dd>
+            </>
+          )}
+        </dl>
+      )}
+      <p className="field-hint">
+        Alpha and split-half describe how consistently the items measure on one occasion; test–retest describes how stable scores are over time
+        (it also counts real change as error). Alpha is a lower bound to the reliability when the items do not all measure the true score
+        equally (not tau-equivalent). Within-group values are what the plan needs: the spread of the two groups together would inflate them.
+      </p>
+      {e.itemTotal && e.itemTotal.length > 0 && (
+        <details className="pilot-items-detail">
+          <summary>Corrected item–total correlations</summary>
+          <table className="pilot-table">
+            <thead>
+              <tr>
+                <th scope="col">Item</th>
+                <th scope="col">Correlation with the rest</th>
+              </tr>
+            </thead>
+            <tbody>
+              {e.itemTotal.map((it) => (
+                <tr key={it.column} className={it.correctedCorrelation < 0 ? 'is-negative' : undefined}>
+                  <th scope="row">{it.column}</th>
+                  <td>{fmtR(it.correctedCorrelation)}</td>
+                </tr>
+              ))}
+            </tbody>
+          </table>
+        </details>
+      )}
+
+      <div className="pilot-apply">
+        <button type="button" className="primary" onClick={apply}>
+          Use these values
+        </button>
+        <button type="button" onClick={applyPessimistic} disabled={!hasInterval} aria-describedby="pilot-pessimistic-hint">
+          Plan with the pessimistic reliability
+        </button>
+        <p id="pilot-pessimistic-hint" className="field-hint">
+          {hasInterval
+            ? 'Uses the lower end of the reliability’s 95% confidence interval instead of its estimate: the artefact the plan then shows is one the pilot cannot rule out.'
+            : 'Needs a reliability with a confidence interval (item columns or a retest column).'}
+        </p>
+      </div>
+      {lastApply && <PilotApplyReport />}
+      <p className="caution">
+        Pilot estimates carry the pilot’s sampling error and its population; a small or unusual pilot can mislead. They inform the plan; they
+        do not replace a statistician’s judgement.
+      </p>
+    </div>
+  );
+}
+
+function PilotApplyReport() {
+  const r = useMeanwardStore((s) => s.pilot.lastApply)!;
+  const name = (path: string) => FIELD_NAMES[path] ?? path;
+  return (
+    <div className="pilot-report" data-testid="pilot-apply-report">
+      {r.applied.length > 0 ? (
+        <>
+          <h4>Now in the plan{r.pessimistic ? ' (reliability at the lower end of its interval)' : ''}</h4>
+          <ul>
+            {r.applied.map((a) => (
+              <li key={a.path} data-path={a.path}>
+                <strong>{name(a.path)}</strong>: {a.note}
+              </li>
+            ))}
+          </ul>
+        </>
+      ) : (
+        <p>No plan field was changed.</p>
+      )}
+      {r.skipped.length > 0 && (
+        <>
+          <h4>Left as they were</h4>
+          <ul>
+            {r.skipped.map((s) => (
+              <li key={s.path} data-path={s.path}>
+                <strong>{name(s.path)}</strong>: {s.reason}
+              </li>
+            ))}
+          </ul>
+        </>
+      )}
+    </div>
+  );
+}
