@@ -16,6 +16,7 @@ import {
   withMcse,
 } from './format';
 import { PdfWriter, type TableColumn } from './pdfWriter';
+import { caliperPhrase, COVARIATE_CAUTION, COVARIATE_MODEL_LINES, writeCovariateBalance, writeCovariateInputs } from './reportCovariates';
 import { planInputRows, type InputSource } from './planInputRows';
 import { CONTINUATION, PLAN_BEGIN, PLAN_END } from './planJsonBlock';
 import { FONT_SANS, loadReportFonts, registerReportFonts, type ReportFonts } from './reportFonts';
@@ -105,7 +106,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     gap === 0
       ? `The two groups have the same pretest mean; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`
       : `On the pretest the programme group’s mean is ${formatPoints(Math.abs(gap))} points ${gap < 0 ? 'below' : 'above'} the comparison group’s; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`,
-    `Each programme member is to be matched to ${plan.matching.ratio} comparison ${plan.matching.ratio === 1 ? 'person' : 'people'} within a caliper of ${plan.matching.caliper} SD of the pretest, and the study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points.`,
+    `Each programme member is to be matched to ${plan.matching.ratio} comparison ${plan.matching.ratio === 1 ? 'person' : 'people'} within a caliper of ${caliperPhrase(plan)}, and the study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points.`,
     `Under the model, the matched post-test difference is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a bias of ${formatSignedPoints(md.bias)} points${md.biasShare === null ? '' : ` (${formatShare(Math.abs(md.biasShare))} of the hoped-for effect${md.biasShare < 0 ? ', in the opposite direction' : ''})`}, so ${VERDICT_TEXT[md.verdict]}.`,
     best
       ? `The first-ranked remedy is “${best.title}”, which leaves an expected artefact of ${formatSignedPoints(best.remainingBias)} points (assumption: ${lowerFirst(best.assumption)}).`
@@ -127,6 +128,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     ],
     inputs.map((r) => [r.label, r.value, r.unit, r.source]),
   );
+  writeCovariateInputs(w, plan);
   w.heading('Derived by the planner from these inputs', 3);
   const m = analytic.model;
   w.table(
@@ -249,6 +251,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       ],
       { boldRows: [4] },
     );
+    writeCovariateBalance(w, sim.balance, sim.replications);
   }
 
   // ---- Charts --------------------------------------------------------------
@@ -319,12 +322,14 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   // ---- Method and references ----------------------------------------------
   w.heading('How this was computed');
   for (const line of MODEL_LINES) w.item('•', line, 9.5);
+  if ((plan.covariates?.length ?? 0) > 0) for (const line of COVARIATE_MODEL_LINES) w.item('•', line, 9.5);
   w.heading('References', 3);
   for (const ref of REFERENCES) w.item('–', ref, 9);
 
   // ---- Cautions ------------------------------------------------------------
   w.heading('Cautions');
   for (const c of CAUTIONS) w.item('•', c, 9.5);
+  if ((plan.covariates?.length ?? 0) > 0) w.item('•', COVARIATE_CAUTION, 9.5);
 
   // ---- Reproducibility -----------------------------------------------------
   w.heading('Reproducibility');

@@ -1,7 +1,8 @@
-import type { Plan, ProvenanceSource } from '../core/plan';
+import type { MatchingDistance, Plan, ProvenanceSource } from '../core/plan';
 import { DEMO_PLAN } from '../io/demoPlan';
 import { EXAMPLE_PLANS } from '../io/examplePlans';
 import { formatInput } from './format';
+import { CALIPER_UNIT_WORDS, DISTANCE_WORDS } from './reportCovariates';
 
 /** Where an input value came from. */
 export type InputSource = 'entered' | 'example' | 'pilot data';
@@ -72,7 +73,8 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
   add('outcome.hypothesisedEffect', 'Hoped-for programme effect (τ)', plan.outcome.effectScale === 'sd' ? 'post-test SDs' : 'post-test points');
   add('outcome.effectScale', 'Effect expressed in', '', (v) => (v === 'sd' ? 'post-test SDs (standardised)' : 'post-test points'));
   add('matching.method', 'Matching method', '', (v) => MATCHING_METHOD[v as Plan['matching']['method']] ?? String(v));
-  add('matching.caliper', 'Caliper', 'SDs of the pooled pretest');
+  add('matching.distance', 'Matching distance', '', (v) => DISTANCE_WORDS[v as MatchingDistance] ?? String(v));
+  add('matching.caliper', 'Caliper', plan.matching.distance === undefined || plan.matching.distance === 'pretest' ? 'SDs of the pooled pretest' : CALIPER_UNIT_WORDS[plan.matching.distance]);
   add('matching.ratio', 'Comparison partners per programme member', 'people');
   add('matching.replacement', 'Comparison people may be reused', '');
   add('matching.order', 'Matching order', '', (v) => MATCHING_ORDER[v as NonNullable<Plan['matching']['order']>] ?? String(v));

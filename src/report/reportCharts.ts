@@ -14,6 +14,10 @@ import {
   type ChartId,
   type ChartText,
 } from '../charts';
+import { covariateBalanceChartData, hasCovariateBalance } from '../charts/covariateBalanceChartData';
+import { covariateBalanceChartSvgString } from '../charts/covariateBalanceChartRender';
+import { covariateBalanceChartText } from '../charts/covariateBalanceChartText';
+import { usesCovariateModel } from '../core/multivariate/covariateModel';
 import type { ReportChart } from './buildReportPdf';
 
 /** How to read each chart: one or two plain sentences printed under it in the PDF. */
@@ -27,6 +31,10 @@ export const HOW_TO_READ: Record<ChartId, string> = {
   balance:
     'Standardised mean differences before and after matching, on the observed pretest and on the true score. Balance on the observed pretest can look fine while the true scores still differ.',
 };
+
+/** How to read the balance chart per covariate (plans with covariates). */
+export const HOW_TO_READ_COVARIATE_BALANCE =
+  'One row per variable, pretest first. Circles: the observed standardised mean difference before (hollow) and after matching (filled); diamond: the true-score difference after matching, which the observed balance hides. Dashed lines at 0.1 (strict) and 0.25 (lenient); the right column gives the variance ratio after matching, flagged when outside 0.5 to 2 (Rubin 2001; Stuart 2010).';
 
 /** Chart size in the PDF (CSS px, which svg2pdf scales to the page width). */
 const SIZE = { width: 720, height: 400 };
@@ -66,7 +74,28 @@ export function reportCharts(plan: Plan, analytic: AnalyticResults, simulation: 
     const d = sensitivityChartData(input);
     return { svg: renderChartToSvgString('sensitivity', d, SIZE), text: sensitivityChartText(d) };
   });
-  if (simulation) {
+  if (simulation && usesCovariateModel(plan)) {
+    // With covariates, balance is shown per variable (pretest included) instead of the pretest-only chart.
+    if (hasCovariateBalance(input)) {
+      try {
+        const d = covariateBalanceChartData(input);
+        const text = covariateBalanceChartText(d);
+        charts.push({
+          id: 'covariateBalance',
+          title: text.title,
+          svg: covariateBalanceChartSvgString(d, SIZE.width),
+          caption: `${HOW_TO_READ_COVARIATE_BALANCE} ${text.sentences.join(' ')}`,
+        });
+      } catch (e) {
+        charts.push({
+          id: 'covariateBalance',
+          title: 'Balance on each covariate',
+          svg: '',
+          caption: `This chart could not be drawn: ${e instanceof Error ? e.message : String(e)}`,
+        });
+      }
+    }
+  } else if (simulation) {
     add('balance', () => {
       const d = balanceChartData(input);
       return { svg: renderChartToSvgString('balance', d, SIZE), text: balanceChartText(d) };
