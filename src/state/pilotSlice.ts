@@ -222,6 +222,18 @@ function at(obj: unknown, path: string): unknown {
   return path.split('.').reduce<unknown>((o, k) => (o && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
 }
 
+/** Significant digits of a value typed into the form from an estimate. */
+export const PILOT_DRAFT_DIGITS = 6;
+
+/**
+ * An estimate as the text of its form box: 6 significant digits, far below
+ * any pilot's sampling error, so the box never shows floating-point noise
+ * such as "42.877750000000006".
+ */
+function draftText(value: number): string {
+  return String(Number(value.toPrecision(PILOT_DRAFT_DIGITS)));
+}
+
 /**
  * The draft with the plan fields that changed from `before` to `after` (and
  * the `written` paths) typed in, and `after`'s provenance for them. Fields
@@ -237,7 +249,7 @@ export function writePlanChangesIntoDraft(draft: PlanDraft, before: Plan, after:
   for (const path of paths) {
     const value = at(after, path);
     if (typeof value !== 'number' || !Number.isFinite(value)) continue;
-    next = setDraftField(next, path, String(value));
+    next = setDraftField(next, path, draftText(value));
   }
   if ([...paths].some((p) => p.startsWith('pretest.reliability')) && next.pretest.mode !== 'reliability') {
     next = { ...next, pretest: { ...next.pretest, mode: 'reliability' } };
