@@ -12,6 +12,7 @@ import type { SimulationResult } from '../sim/types';
 import { formatSimulationTable } from './formatSimulationTable';
 import { createProgressBar, type ProgressStream } from './progressBar';
 import { simulationJson, type SimulationJson } from './simulationJson';
+import { runPilotCommand } from './pilotCommand';
 
 /** Where the command line writes (process.stdout / process.stderr, or a test double). */
 export interface CliIO {
@@ -30,6 +31,10 @@ before any data are collected.
 
 Usage:
   meanward run <plan.json> [--json] [--reps N] [--seed S] [--no-sim] [--estimates]
+  meanward pilot <file.csv> --group COLUMN --programme VALUE
+                 (--pretest COLUMN | --items COL,COL,...) [--combine sum|mean]
+                 [--retest COLUMN] [--posttest COLUMN] [--delimiter ,|tab|;]
+                 [--no-header] [--json]
   meanward demo            print the built-in demo plan (an invented example)
   meanward --help          this text
 
@@ -40,6 +45,15 @@ run options:
   --no-sim    closed-form results only
   --estimates with --json, also print every replication's estimates and the
               first replication's matched sets (large)
+
+pilot: estimate plan inputs from a pilot (or earlier-wave) CSV/TSV file: group
+  means and SDs, the gap, Cronbach's alpha (within groups and per group) with
+  Feldt's CI, odd-even split-half, test-retest, posttest SD and pre-post r.
+  --items COL,COL,...  item columns (the pretest is their sum, or --combine mean)
+  --delimiter D        ",", "tab" or ";" (detected when left out)
+  --no-header          the first row is data; columns are "column 1", "column 2", ...
+  --json               print the estimates as one JSON object
+  The file never leaves this machine. See docs/pilot-data.md.
 
 Exit status: 0 done, 2 bad command line, unreadable file or invalid plan
 (every problem is printed on stderr, one per line), 1 internal fault.
@@ -61,6 +75,15 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
   }
   if (cmd.command === 'demo') {
     io.stdout.write(serializePlan(demoPlan()));
+    return EXIT_OK;
+  }
+  if (cmd.command === 'pilot') {
+    // Estimates come from src/pilot; runPilotCommand reads and formats only.
+    const pilot = await runPilotCommand(cmd);
+    if (!pilot.ok) return failWith(io, pilot.problems, pilot.internal ? EXIT_INTERNAL : EXIT_USAGE);
+    const bad = firstNonFinite(pilot.estimates, 'estimates');
+    if (bad !== null) return failWith(io, [`Internal fault: ${bad} is not a finite number. Please report this with the file's layout.`], EXIT_INTERNAL);
+    io.stdout.write(pilot.output);
     return EXIT_OK;
   }
 

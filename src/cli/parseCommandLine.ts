@@ -1,4 +1,5 @@
 import { PLAN_LIMITS } from '../core/planSchema';
+import { parsePilotCommandLine, type PilotCommandLine } from './pilotCommandLine';
 
 /** What the command line asked for, after checking every flag. */
 export type CommandLine =
@@ -16,7 +17,8 @@ export type CommandLine =
       seed?: number;
       /** --estimates: include per-replication estimates and the example replication in --json. */
       estimates?: boolean;
-    };
+    }
+  | PilotCommandLine;
 
 export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; problems: string[] };
 
@@ -33,8 +35,9 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
     if (rest.length > 0) return { ok: false, problems: [`"meanward demo" takes no arguments; got ${rest.map(quote).join(' ')}.`] };
     return { ok: true, value: { command: 'demo' } };
   }
+  if (command === 'pilot') return parsePilotCommandLine(rest);
   if (command !== 'run') {
-    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run" and "demo"; see "meanward --help".`] };
+    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot" and "demo"; see "meanward --help".`] };
   }
   const problems: string[] = [];
   const files: string[] = [];

@@ -1,0 +1,47 @@
+import { readFile } from 'node:fs/promises';
+import { basename } from 'node:path';
+import { estimatePilot } from '../pilot/estimatePilot';
+import { parseDelimitedText } from '../pilot/parseDelimitedText';
+import { PilotDataError, type PilotEstimates } from '../pilot/types';
+import type { PilotCommandLine } from './pilotCommandLine';
+import { formatPilotTable, PILOT_NOTE } from './pilotTable';
+import { PLANNING_CAUTION } from './formatResultsTable';
+
+export type PilotCommandResult =
+  | { ok: true; estimates: PilotEstimates; output: string }
+  | { ok: false; problems: string[]; internal?: boolean };
+
+/**
+ * `meanward pilot`: read the file, estimate with src/pilot, and format the
+ * table or the JSON. Every figure comes from estimatePilot; this file only
+ * reads and formats. Never throws for bad input: problems come back as lines.
+ */
+export async function runPilotCommand(cmd: PilotCommandLine): Promise<PilotCommandResult> {
+  let text: string;
+  try {
+    text = await readFile(cmd.file, 'utf8');
+  } catch (err) {
+    return { ok: false, problems: [`Cannot read the pilot file ${JSON.stringify(cmd.file)}: ${readFailure(err)}.`] };
+  }
+  let estimates: PilotEstimates;
+  try {
+    const table = parseDelimitedText(text, { delimiter: cmd.delimiter ?? 'auto', header: cmd.noHeader ? false : 'auto' });
+    estimates = estimatePilot(table, cmd.mapping, basename(cmd.file));
+  } catch (err) {
+    // A PilotDataError is bad input (exit 2); anything else is a fault of ours (exit 1).
+    if (err instanceof PilotDataError) return { ok: false, problems: [`${cmd.file}: ${err.message}`] };
+    return { ok: false, internal: true, problems: [`Internal fault: ${err instanceof Error ? err.message : String(err)}`] };
+  }
+  const output = cmd.json
+    ? `${JSON.stringify({ ...estimates, note: PILOT_NOTE, caution: PLANNING_CAUTION }, null, 2)}\n`
+    : formatPilotTable(estimates);
+  return { ok: true, estimates, output };
+}
+
+function readFailure(err: unknown): string {
+  const code = (err as { code?: string } | null)?.code;
+  if (code === 'ENOENT') return 'there is no such file';
+  if (code === 'EISDIR') return 'it is a folder, not a file';
+  if (code === 'EACCES' || code === 'EPERM') return 'permission denied';
+  return err instanceof Error ? err.message : String(err);
+}
