@@ -6,6 +6,13 @@ import { breakEvenReliability } from './breakEvenReliability';
 import { deriveModelParameters } from './deriveModelParameters';
 import { expectedMatchedShare } from './expectedMatchedShare';
 import { rankRemedies } from './rankRemedies';
+import { analyseCovariateAnalysis } from './multivariate/analyseCovariateAnalysis';
+import { covariateBreakEven } from './multivariate/covariateBreakEven';
+import { covariateMatchedShare } from './multivariate/covariateMatchedShare';
+import { deriveCovariateModel, matchingDistance, usesCovariateModel } from './multivariate/covariateModel';
+import { expectedCovariateBalance } from './multivariate/expectedCovariateBalance';
+import { unmeasuredBias } from './multivariate/unmeasuredBias';
+import { shareOfEffect } from './shareOfEffect';
 
 /** Default target power when the plan gives none (Cohen 1988's convention of .80). */
 export const DEFAULT_TARGET_POWER = 0.8;
@@ -28,6 +35,7 @@ export const DEFAULT_TARGET_POWER = 0.8;
  * @example analysePlan(demoPlan()).analyses.matchedDifference.bias // −2 (0.8·0.25·(−10))
  */
 export function analysePlan(plan: Plan): AnalyticResults {
+  if (usesCovariateModel(plan)) return analyseCovariatePlan(plan);
   const m = deriveModelParameters(plan);
   const share = expectedMatchedShare(m, plan.matching);
   const settings: AnalysisSettings = {
@@ -49,6 +57,49 @@ export function analysePlan(plan: Plan): AnalyticResults {
     analyses,
     breakEven: breakEvenReliability(m, plan.analysis.tolerableBiasShare),
     remedies: rankRemedies(plan, m),
+  };
+  return assertFiniteOutput(results, 'results');
+}
+
+/**
+ * analysePlan for a plan with covariates or a propensity/Mahalanobis distance:
+ * the covariate model's closed forms (src/core/multivariate), the matched share
+ * for the plan's distance, the break-even pretest reliability with the other
+ * covariates in place, the unmeasured part of the bias and the expected balance.
+ */
+function analyseCovariatePlan(plan: Plan): AnalyticResults {
+  const m = deriveModelParameters(plan);
+  const cm = deriveCovariateModel(plan, m);
+  const distance = matchingDistance(plan);
+  const share = covariateMatchedShare(cm, m, plan.matching, distance);
+  const settings: AnalysisSettings = {
+    alpha: plan.analysis.alpha,
+    assumedReliability: plan.analysis.assumedReliability,
+    tolerableBiasShare: plan.analysis.tolerableBiasShare,
+    targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
+    ratio: plan.matching.ratio,
+    matchedProgramme: m.n.programme * share,
+  };
+  const analyses = Object.fromEntries(
+    ANALYSIS_IDS.map((id) => [id, analyseCovariateAnalysis(id, cm, distance, settings)]),
+  ) as Record<AnalysisId, AnalyticAnalysis>;
+  const hidden = unmeasuredBias(cm);
+  const results: AnalyticResults = {
+    model: m,
+    reliability: { programme: m.reliability.programme, comparison: m.reliability.comparison, sem: m.sem },
+    tau: m.effect,
+    analyses,
+    breakEven: covariateBreakEven(cm, m, distance, plan.analysis.tolerableBiasShare),
+    remedies: rankRemedies(plan, m),
+    matchingDistance: distance,
+    unmeasuredBias: {
+      points: hidden,
+      sd: hidden / cm.posttestSD.comparison,
+      share: shareOfEffect(hidden, m.effect),
+      covariates: cm.names.filter((_, j) => !cm.measured[j]),
+    },
+    covariateModel: cm,
+    covariateBalance: expectedCovariateBalance(cm, distance),
   };
   return assertFiniteOutput(results, 'results');
 }

@@ -1,5 +1,7 @@
-import type { AnalysisId } from './plan';
+import type { AnalysisId, MatchingDistance } from './plan';
 import type { ModelParameters } from './modelParameters';
+import type { CovariateModel } from './multivariate/covariateModel';
+import type { ExpectedCovariateBalance } from './multivariate/expectedCovariateBalance';
 
 /** How an expected artefact changes the study's conclusion about a hoped-for effect. */
 export type ArtefactVerdict =
@@ -55,7 +57,17 @@ export interface BreakEven {
 }
 
 export interface Remedy {
-  id: 'more-reliable-pretest' | 'corrected-ancova' | 'gain-score' | 'tighter-caliper' | 'looser-caliper' | 'larger-pools';
+  id:
+    | 'more-reliable-pretest'
+    | 'corrected-ancova'
+    | 'gain-score'
+    | 'tighter-caliper'
+    | 'looser-caliper'
+    | 'larger-pools'
+    /** Only with covariates: match on all measured covariates instead of the pretest alone. */
+    | 'match-all-measured'
+    /** Only with unmeasured covariates: measure them and match on them too. */
+    | 'measure-confounders';
   title: string;
   /** What the remedy buys, plain language with numbers. */
   summary: string;
@@ -68,11 +80,42 @@ export interface Remedy {
   assumption: string;
 }
 
+/**
+ * The part of every analysis' bias that no analysis of the measured
+ * covariates can remove (see unmeasuredBias): carried by covariates that are
+ * never observed. The growth gap is reported separately (not included).
+ */
+export interface UnmeasuredBias {
+  /** Posttest points. */
+  points: number;
+  /** points / posttest SD (comparison group). */
+  sd: number;
+  /** points / tau; null when tau = 0. */
+  share: number | null;
+  /** Names of the unmeasured covariates (empty when every covariate is measured, and points is then 0). */
+  covariates: string[];
+}
+
 export interface AnalyticResults {
+  /** The one-pretest model (pretest and outcome as the plan states them; with covariates, beta is the outcome's slope on the true pretest alone). */
   model: ModelParameters;
   reliability: { programme: number; comparison: number; sem: number };
   tau: number;
+  /**
+   * Per analysis. With the covariate model (usesCovariateModel: covariates
+   * listed, or a propensity/Mahalanobis distance), the matched difference is
+   * for the plan's matching distance and ANCOVA / corrected ANCOVA adjust for
+   * all measured covariates.
+   */
   analyses: Record<AnalysisId, AnalyticAnalysis>;
   breakEven: BreakEven;
   remedies: Remedy[];
+  /** The matching distance the matched difference refers to. Present only with the covariate model. */
+  matchingDistance?: MatchingDistance;
+  /** Present only with the covariate model (absent, not 0, for one-pretest plans, whose results are unchanged). */
+  unmeasuredBias?: UnmeasuredBias;
+  /** The several-covariate model, pretest first. Present only with the covariate model. */
+  covariateModel?: CovariateModel;
+  /** Closed-form balance per variable (pretest first) after matching. Present only with the covariate model. */
+  covariateBalance?: ExpectedCovariateBalance[];
 }

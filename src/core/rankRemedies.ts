@@ -7,6 +7,16 @@ import { deriveModelParameters } from './deriveModelParameters';
 import { correctedAncovaEstimate, gainScoreEstimate, matchedDifferenceEstimate } from './expectedEstimate';
 import { expectedMatchedShare } from './expectedMatchedShare';
 import { shareOfEffect } from './shareOfEffect';
+import type { MatchingSpec } from './plan';
+import { covariateModelWithMeasured, covariateModelWithPoolSizes, covariateModelWithSem } from './multivariate/adjustCovariateModel';
+import { covariateBreakEven } from './multivariate/covariateBreakEven';
+import { covariateCorrectedAncovaEstimate } from './multivariate/covariateCorrectedAncovaEstimate';
+import { covariateGainScoreEstimate } from './multivariate/covariateGainScoreEstimate';
+import { covariateMatchedEstimate } from './multivariate/covariateMatchedEstimate';
+import { covariateMatchedShare } from './multivariate/covariateMatchedShare';
+import { type CovariateModel, deriveCovariateModel, matchingDistance, usesCovariateModel } from './multivariate/covariateModel';
+import { joinNames } from './multivariate/covariateModelProblems';
+import { unmeasuredBias } from './multivariate/unmeasuredBias';
 
 const pts = (x: number): string => `${x >= 0 ? '' : '−'}${Math.abs(x).toFixed(2)}`;
 const pct = (x: number): string => `${Math.round(x * 100)}%`;
@@ -26,10 +36,15 @@ const rel = (x: number): string => x.toFixed(2);
  *   unchanged (Cochran & Rubin 1973: matching on a fallible x removes only
  *   about rho of the true-score bias, from memory).
  * Remaining bias includes the growth gap, which no remedy here removes.
+ * With covariates (usesCovariateModel) every figure comes from the covariate
+ * model for the plan's matching distance, and two remedies may join: matching
+ * on all measured covariates (when the plan matches on the pretest alone and
+ * measures more), and measuring the unmeasured covariates and matching on
+ * them too (when they carry an artefact).
  *
  * @param plan a validated plan.
  * @param model its model parameters (derived from the plan when omitted).
- * @returns six remedies, best first.
+ * @returns six remedies (up to eight with covariates), best first.
  * @throws Error when the plan's inputs contradict each other (as deriveModelParameters).
  * @example demo plan → corrected ANCOVA first (remaining 0), then the more reliable pretest
  */
@@ -38,15 +53,25 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   const tau = m.effect;
   const shareOf = (b: number): number | null => shareOfEffect(b, tau);
   const matching = plan.matching;
-  const currentShare = expectedMatchedShare(m, matching);
-  const matchedBias = matchedDifferenceEstimate(m) - tau;
+  // With covariates, the same quantities from the covariate model (plan's distance).
+  const cov = usesCovariateModel(plan) ? deriveCovariateModel(plan, m) : null;
+  const distance = matchingDistance(plan);
+  const matchedBiasOf = (mm: ModelParameters, cm: CovariateModel | null): number =>
+    (cm ? covariateMatchedEstimate(cm, distance) : matchedDifferenceEstimate(mm)) - tau;
+  const matchedShareOf = (mm: ModelParameters, cm: CovariateModel | null, spec: MatchingSpec): number =>
+    cm ? covariateMatchedShare(cm, mm, spec, distance) : expectedMatchedShare(mm, spec);
+  const currentShare = matchedShareOf(m, cov, matching);
+  const matchedBias = matchedBiasOf(m, cov);
   const remedies: Remedy[] = [];
 
   // 1. More reliable pretest: average k parallel forms (SEM / sqrt(k)).
-  const be = breakEvenReliability(m, plan.analysis.tolerableBiasShare);
+  const be = cov
+    ? covariateBreakEven(cov, m, distance, plan.analysis.tolerableBiasShare)
+    : breakEvenReliability(m, plan.analysis.tolerableBiasShare);
   const k = be.alreadyMet ? 1 : (be.parallelForms ?? 2);
   const mk = modelWithSem(m, m.sem / Math.sqrt(k));
-  const biasK = matchedDifferenceEstimate(mk) - tau;
+  const cmk = cov ? covariateModelWithSem(cov, 0, m.sem / Math.sqrt(k)) : null;
+  const biasK = matchedBiasOf(mk, cmk);
   remedies.push({
     id: 'more-reliable-pretest',
     title: k === 1 ? 'Keep the pretest: it is reliable enough' : `Average ${k} parallel pretests`,
@@ -58,20 +83,21 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
           `artefact from ${pts(matchedBias)} to ${pts(biasK)} points.`,
     remainingBias: biasK,
     remainingBiasShare: shareOf(biasK),
-    discardedShare: 1 - expectedMatchedShare(mk, matching),
+    discardedShare: 1 - matchedShareOf(mk, cmk, matching),
     assumption: 'The forms are parallel (same true score, independent errors of equal size) and the extra testing is feasible.',
   });
 
   // 2. Reliability-corrected ANCOVA with the true pooled reliability.
   const rhoTrue = m.reliability.pooled;
-  const biasCorr = correctedAncovaEstimate(m, rhoTrue) - tau;
+  const corrected = (r: number): number => (cov ? covariateCorrectedAncovaEstimate(cov, r) : correctedAncovaEstimate(m, r));
+  const biasCorr = corrected(rhoTrue) - tau;
   const rhoOff = Math.min(1, rhoTrue + 0.05);
-  const biasOff = correctedAncovaEstimate(m, rhoOff) - tau;
+  const biasOff = corrected(rhoOff) - tau;
   remedies.push({
     id: 'corrected-ancova',
     title: 'Reliability-corrected ANCOVA on the full sample',
     summary:
-      `With the true within-group reliability (${rel(rhoTrue)}) the artefact is ${pts(biasCorr)} points; ` +
+      `With the true within-group reliability (${rel(rhoTrue)})${cov ? " and the covariates' stated reliabilities" : ''} the artefact is ${pts(biasCorr)} points; ` +
       `it is sensitive to that figure: assuming ${rel(rhoOff)} instead leaves ${pts(biasOff)} points.`,
     remainingBias: biasCorr,
     remainingBiasShare: shareOf(biasCorr),
@@ -80,7 +106,7 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   });
 
   // 3. Gain score.
-  const biasGain = gainScoreEstimate(m) - tau;
+  const biasGain = (cov ? covariateGainScoreEstimate(cov) : gainScoreEstimate(m)) - tau;
   remedies.push({
     id: 'gain-score',
     title: 'Compare gain scores (post-test minus pretest)',
@@ -94,7 +120,7 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   // 4–6. Caliper and pool size: the artefact does not move.
   const caliperRemedy = (id: 'tighter-caliper' | 'looser-caliper', factor: number): Remedy => {
     const caliper = matching.caliper * factor;
-    const share = expectedMatchedShare(m, { ...matching, caliper });
+    const share = matchedShareOf(m, cov, { ...matching, caliper });
     return {
       id,
       title: `${factor < 1 ? 'Tighter' : 'Looser'} caliper (${caliper.toFixed(2)} SD)`,
@@ -110,8 +136,9 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   remedies.push(caliperRemedy('tighter-caliper', 0.5), caliperRemedy('looser-caliper', 2));
 
   const mPool = modelWithPoolSizes(m, m.n.programme, m.n.comparison * 2);
-  const biasPool = matchedDifferenceEstimate(mPool) - tau;
-  const sharePool = expectedMatchedShare(mPool, matching);
+  const cmPool = cov ? covariateModelWithPoolSizes(cov, m.n.programme, m.n.comparison * 2) : null;
+  const biasPool = matchedBiasOf(mPool, cmPool);
+  const sharePool = matchedShareOf(mPool, cmPool, matching);
   remedies.push({
     id: 'larger-pools',
     title: `Double the comparison pool (${m.n.comparison * 2} people)`,
@@ -124,10 +151,63 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
     assumption: 'The extra comparison members come from the same population as the current pool.',
   });
 
+  if (cov) remedies.push(...covariateRemedies(cov, m, matching, distance, matchedBias, shareOf));
+
   const tol = 1e-9 * Math.max(1, Math.abs(tau), Math.abs(matchedBias));
   return remedies.sort((a, b) => {
     const d = Math.abs(a.remainingBias) - Math.abs(b.remainingBias);
     if (Math.abs(d) > tol) return d;
     return (a.discardedShare ?? 0) - (b.discardedShare ?? 0);
   });
+}
+
+/** The covariate-only remedies: match on all measured covariates; measure the unmeasured ones. */
+function covariateRemedies(
+  cov: CovariateModel,
+  m: ModelParameters,
+  matching: MatchingSpec,
+  distance: ReturnType<typeof matchingDistance>,
+  matchedBias: number,
+  shareOf: (b: number) => number | null,
+): Remedy[] {
+  const tau = cov.effect;
+  const out: Remedy[] = [];
+  const others = cov.measuredIndices.filter((j) => j > 0 && !cov.exact[j]);
+  if (distance === 'pretest' && others.length > 0) {
+    const bias = covariateMatchedEstimate(cov, 'mahalanobis') - tau;
+    out.push({
+      id: 'match-all-measured',
+      title: 'Match on all measured covariates (propensity score or Mahalanobis distance)',
+      summary:
+        `Matching on the pretest together with ${joinNames(others.map((j) => cov.names[j] as string))} changes the ` +
+        `matched-difference artefact from ${pts(matchedBias)} to ${pts(bias)} points; what is left comes from measurement ` +
+        'error in the covariates and from anything never measured.',
+      remainingBias: bias,
+      remainingBiasShare: shareOf(bias),
+      discardedShare: 1 - covariateMatchedShare(cov, m, matching, 'mahalanobis'),
+      assumption:
+        'Exact matching on all measured covariates (Mahalanobis distance; the propensity score gives the same in expectation when the groups\' covariances are equal); approximate matched share.',
+    });
+  }
+  const hidden = unmeasuredBias(cov);
+  const unmeasured = cov.names.flatMap((name, j) => (cov.measured[j] ? [] : [j]));
+  if (unmeasured.length > 0 && Math.abs(hidden) > 1e-9 * Math.max(1, Math.abs(tau))) {
+    const all = covariateModelWithMeasured(cov, unmeasured);
+    const d = distance === 'pretest' ? 'mahalanobis' : distance;
+    const bias = covariateMatchedEstimate(all, d) - tau;
+    const names = joinNames(unmeasured.map((j) => cov.names[j] as string));
+    out.push({
+      id: 'measure-confounders',
+      title: `Measure ${names} and match on ${unmeasured.length === 1 ? 'it' : 'them'} too`,
+      summary:
+        `No analysis of the measured covariates removes the ${pts(hidden)} points carried by ${names}. Measured with ` +
+        `the stated reliabilit${unmeasured.length === 1 ? 'y' : 'ies'} and matched on with everything else, the ` +
+        `matched-difference artefact would be ${pts(bias)} points (now ${pts(matchedBias)}).`,
+      remainingBias: bias,
+      remainingBiasShare: shareOf(bias),
+      discardedShare: 1 - covariateMatchedShare(all, m, matching, d),
+      assumption: `${names} can be measured for both groups before the programme starts, with the reliability stated in the plan.`,
+    });
+  }
+  return out;
 }

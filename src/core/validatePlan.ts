@@ -1,5 +1,6 @@
 import type { Plan } from './plan';
 import { FIELD_RULES, type FieldRule, PLAN_FORMAT, PLAN_LIMITS, PLAN_VERSION, planSchema } from './planSchema';
+import { type CovariateCheckInput, covariateModelProblems } from './multivariate/covariateModelProblems';
 
 /** One thing wrong with a plan: the field (dotted path) and a message a researcher understands. */
 export interface PlanProblem {
@@ -17,6 +18,8 @@ export type PlanCheck = { ok: true; plan: Plan } | { ok: false; problems: PlanPr
  * classical test theory (Lord & Novick 1968): the SEM must be smaller than
  * each group's pretest SD, and an observed pre–post correlation cannot exceed
  * the square root of the pretest's within-group reliability (Spearman 1904).
+ * With covariates, covariateModelProblems adds the checks that involve the
+ * covariates, their correlation matrix and reliabilities (see there).
  * Unknown extra fields are ignored (forward compatibility); a different
  * format or version is reported alone, since the rest would be noise.
  * Defaults are filled in (matching.order "random", tolerableBiasShare 0.25,
@@ -209,6 +212,41 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
       field: 'matching.caliper',
       message: `With a random partner within the caliper, the caliper must be at most ${PLAN_LIMITS.randomCaliperMax} SDs of the pretest, or partners are barely matched at all; got ${fmt(caliper)}.`,
     });
+  }
+
+  // Several covariates: the matrix, the reliabilities and the outcome correlations together.
+  const covariates = input.covariates;
+  if (!bad.has('covariates') && (Array.isArray(covariates) || present('covariateCorrelations'))) {
+    const isBad = (field: string): boolean => [...bad].some((b) => field === b || field.startsWith(`${b}.`));
+    const items = Array.isArray(covariates) ? covariates : [];
+    const item = (j: number, key: string): unknown => {
+      const c = items[j];
+      return isBad(`covariates.${j}.${key}`) || !isRecord(c) ? undefined : c[key];
+    };
+    const num = (x: unknown): number | undefined => (typeof x === 'number' && Number.isFinite(x) ? x : undefined);
+    const bool = (x: unknown): boolean | undefined => (typeof x === 'boolean' ? x : undefined);
+    const rawMatrix = input.covariateCorrelations;
+    const check: CovariateCheckInput = {
+      covariates: items.map((_, j) => ({
+        name: typeof item(j, 'name') === 'string' ? (item(j, 'name') as string) : undefined,
+        sd: num(item(j, 'sd')),
+        reliability: num(item(j, 'reliability')),
+        outcomeCorrelation: num(item(j, 'outcomeCorrelation')),
+        measured: bool(item(j, 'measured')),
+        exact: bool(item(j, 'exact')),
+      })),
+      correlations: rawMatrix === undefined
+          ? undefined
+          : [...bad].some((b) => b === 'covariateCorrelations' || b.startsWith('covariateCorrelations.'))
+            ? null
+            : (rawMatrix as number[][]),
+      pretestSD: { programme: sdP, comparison: sdC },
+      sem,
+      prePostCorrelation: r,
+      poolSize: { programme: ok('groups.programme.poolSize'), comparison: nC },
+      assumedReliability: ok('analysis.assumedReliability'),
+    };
+    out.push(...covariateModelProblems(check));
   }
   return out;
 }

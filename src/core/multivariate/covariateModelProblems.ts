@@ -101,7 +101,7 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
         message: `${label} is marked exact but not measured: a covariate that is never observed cannot be matched exactly. Mark it measured, or clear "exact".`,
       });
     }
-    if (c.exact === true && c.reliability !== undefined && c.reliability < 1) {
+    if (c.exact === true && c.measured !== false && c.reliability !== undefined && c.reliability < 1) {
       out.push({
         field: `covariates.${j}.reliability`,
         message: `${label} is matched exactly, so it must be recorded without error: its reliability must be 1; got ${fmt(c.reliability)}.`,
@@ -254,8 +254,11 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
         field: 'analysis.assumedReliability',
         message:
           `The reliability-corrected ANCOVA cannot use an assumed pretest reliability of ${fmt(rhoA)}: with ` +
-          `${joinNames(idx.slice(1).map((i) => `${name(i)}'s reliability (${fmt(assumed[i]!)})`))}, the observed correlations among ` +
-          `${list(idx)} would pass 1 once corrected for measurement error. Raise the assumed reliability.`,
+          `${joinNames(idx.slice(1).map((i) => `${name(i)}'s reliability (${fmt(assumed[i]!)})`))}, the observed ` +
+          (idx.length === 2
+            ? `correlation between ${list(idx)} would pass 1 once corrected for measurement error. `
+            : `correlations among ${list(idx)} would be impossible together once corrected for measurement error. `) +
+          'Raise the assumed reliability.',
       });
     }
   }

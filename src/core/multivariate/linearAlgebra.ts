@@ -67,15 +67,19 @@ export function symmetrise(a: readonly (readonly number[])[]): number[][] {
  * that is singular up to rounding counts as not positive definite.
  */
 export function isPositiveDefinite(a: readonly (readonly number[])[]): boolean {
-  if (a.length === 0) return true;
+  return a.length === 0 || choleskyIfPositiveDefinite(a) !== null;
+}
+
+/** ml-matrix's Cholesky factorisation when A is positive definite (with the tolerance above), else null. */
+function choleskyIfPositiveDefinite(a: readonly (readonly number[])[]): CholeskyDecomposition | null {
   const cho = new CholeskyDecomposition(new Matrix(symmetrise(a)));
-  if (!cho.isPositiveDefinite()) return false;
+  if (!cho.isPositiveDefinite()) return null;
   const l = cho.lowerTriangularMatrix;
   for (let j = 0; j < a.length; j++) {
     const d = l.get(j, j) ** 2;
-    if (!(d > 1e-10 * Math.abs(at(a, j, j)))) return false;
+    if (!(d > 1e-10 * Math.abs(at(a, j, j)))) return null;
   }
-  return true;
+  return cho;
 }
 
 /**
@@ -91,9 +95,10 @@ export function solvePositiveDefinite(
 ): number[] | number[][] {
   const isVector = typeof b[0] === 'number' || b.length === 0;
   if (a.length === 0) return isVector ? [] : (b as number[][]).map(() => []);
-  if (!isPositiveDefinite(a)) throw new Error('Internal fault: a covariance matrix that must be positive definite is not.');
+  const cho = choleskyIfPositiveDefinite(a);
+  if (!cho) throw new Error('Internal fault: a covariance matrix that must be positive definite is not.');
   const rhs = isVector ? Matrix.columnVector(b as number[]) : new Matrix(b as number[][]);
-  const x = new CholeskyDecomposition(new Matrix(symmetrise(a))).solve(rhs);
+  const x = cho.solve(rhs);
   return isVector ? x.getColumn(0) : x.to2DArray();
 }
 

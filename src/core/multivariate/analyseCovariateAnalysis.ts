@@ -1,0 +1,69 @@
+import type { AnalyticAnalysis } from '../analyticResults';
+import type { AnalysisSettings } from '../analyseAnalysis';
+import type { AnalysisId, MatchingDistance } from '../plan';
+import { classifyArtefact } from '../classifyArtefact';
+import { falsePositiveRate, twoSidedPower, wrongSignRate } from '../power';
+import { requiredNPerGroup } from '../requiredNPerGroup';
+import { shareOfEffect } from '../shareOfEffect';
+import type { CovariateModel } from './covariateModel';
+import { covariateAnalysisDescription } from './covariateAnalysisDescription';
+import { covariateExpectedEstimate } from './covariateExpectedEstimate';
+import { covariateStandardError } from './covariateStandardError';
+
+/**
+ * Closed-form results for one analysis under the covariate model: as
+ * analyseAnalysis (expected estimate, bias in points, posttest SDs and share of
+ * tau, verdict, approximate SE and df, power with and without the bias,
+ * false-positive and wrong-sign rates, required n per group), with the
+ * matched difference for the plan's matching distance and ANCOVA / corrected
+ * ANCOVA on all measured variables.
+ *
+ * Reference: covariateExpectedEstimate and covariateStandardError (computed);
+ * power — Cohen (1988), ch. 2.
+ *
+ * @param id analysis. @param cm covariate model. @param distance matching distance.
+ * @param s settings (see AnalysisSettings; matchedProgramme from covariateMatchedShare).
+ * @returns an AnalyticAnalysis record.
+ * @throws Error when a setting is out of range.
+ * @example pretest-only model → the same figures as analyseAnalysis to rounding
+ */
+export function analyseCovariateAnalysis(
+  id: AnalysisId,
+  cm: CovariateModel,
+  distance: MatchingDistance,
+  s: AnalysisSettings,
+): AnalyticAnalysis {
+  const tau = cm.effect;
+  const estimate = covariateExpectedEstimate(id, cm, distance, s.assumedReliability);
+  const bias = estimate - tau;
+  const options = { assumedReliability: s.assumedReliability, ratio: s.ratio };
+  const sizes =
+    id === 'matchedDifference'
+      ? { programme: s.matchedProgramme, comparison: s.matchedProgramme * s.ratio }
+      : { programme: cm.n.programme, comparison: cm.n.comparison };
+  const { se, df, nProgramme, nComparison } = covariateStandardError(id, cm, distance, sizes, options);
+  // Required n: the full-sample analyses need enough people for their covariates' df.
+  const minN = id === 'matchedDifference' || id === 'gainScore' ? 2 : Math.ceil((cm.measuredIndices.length + 3) / 2);
+  const design = (n: number) =>
+    covariateStandardError(id, cm, distance, { programme: Math.max(n, minN), comparison: Math.max(n, minN) }, options);
+  const { name, assumption } = covariateAnalysisDescription(id, distance);
+  return {
+    id,
+    name,
+    assumption,
+    expectedEstimate: estimate,
+    bias,
+    biasSD: bias / cm.posttestSD.comparison,
+    biasShare: shareOfEffect(bias, tau),
+    verdict: classifyArtefact(tau, bias, s.tolerableBiasShare),
+    se,
+    df,
+    nProgramme,
+    nComparison,
+    power: twoSidedPower(estimate, se, df, s.alpha),
+    powerWithoutBias: twoSidedPower(tau, se, df, s.alpha),
+    falsePositiveRate: falsePositiveRate(bias, se, df, s.alpha),
+    wrongSignRate: wrongSignRate(tau, bias, se, df, s.alpha),
+    requiredNPerGroup: requiredNPerGroup(estimate, tau, design, s.alpha, s.targetPower),
+  };
+}
