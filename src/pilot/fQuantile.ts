@@ -15,7 +15,7 @@ import { formatNumber, requireOpenInterval, requirePositive } from '../core/inpu
  * @returns f with P(F ≤ f) = p (> 0).
  * @throws Error when p is outside (0, 1), a df is not positive, or the
  *   quantile cannot be computed.
- * @example fQuantile(0.975, 4, 28) // 3.2863 (F tables, e.g. Pearson & Hartley 1966: 3.29; from memory)
+ * @example fQuantile(0.95, 4, 30) // 2.690 (F tables: 2.69, from memory); fQuantile(0.95, 1, 10) = t(.975, 10)² = 4.965
  */
 export function fQuantile(p: number, df1: number, df2: number): number {
   requireOpenInterval(p, 0, 1, 'The probability');

@@ -28,7 +28,7 @@ import type { Interval } from './types';
  * @returns { value: α̂, lower, upper, level } with lower ≤ α̂ ≤ upper; for α̂ < 1
  *   the upper end stays below 1, the lower end may be negative.
  * @throws Error when an argument is out of range.
- * @example feldtInterval(0.8, 99, 10) // { value: .8, lower: ≈ .737, upper: ≈ .852 } (computed with F quantiles)
+ * @example feldtInterval(0.8, 99, 10) // { value: .8, lower: ≈ .736, upper: ≈ .854, level: .95 } (computed with F quantiles)
  */
 export function feldtInterval(alpha: number, subjectDf: number, k: number, level = 0.95): Interval {
   requireFinite(alpha, "Cronbach's alpha");
