@@ -71,3 +71,14 @@ export {
 } from './multivariate/covariateCorrectedAncovaEstimate';
 export { unmeasuredBias } from './multivariate/unmeasuredBias';
 export { covariateExpectedEstimate } from './multivariate/covariateExpectedEstimate';
+export { covariateStandardError } from './multivariate/covariateStandardError';
+export { covariateMatchedShare } from './multivariate/covariateMatchedShare';
+export { expectedCovariateBalance, type ExpectedCovariateBalance } from './multivariate/expectedCovariateBalance';
+export { covariateBreakEven } from './multivariate/covariateBreakEven';
+export {
+  covariateModelWithSem,
+  covariateModelWithPoolSizes,
+  covariateModelWithMeasured,
+} from './multivariate/adjustCovariateModel';
+export { covariateAnalysisDescription } from './multivariate/covariateAnalysisDescription';
+export { analyseCovariateAnalysis } from './multivariate/analyseCovariateAnalysis';
