@@ -382,6 +382,9 @@ function resolveColumns(table: ParsedTable, mapping: PilotMapping): ResolvedColu
     if (!index.has(c)) index.set(c, i);
   });
   const find = (name: string, role: string): number => {
+    if (typeof name !== 'string' || name.trim() === '') {
+      throw new PilotDataError('bad-mapping', `Choose the ${role} column; none was given.`);
+    }
     const i = index.get(name);
     if (i === undefined) {
       const shown = table.columns.slice(0, 30).map((c) => `"${c}"`);
@@ -436,11 +439,12 @@ function resolveColumns(table: ParsedTable, mapping: PilotMapping): ResolvedColu
   } else {
     throw new PilotDataError('bad-mapping', 'The pretest must be a total-score column or a list of item columns.');
   }
-  if (mapping.retest !== undefined) {
+  // An empty retest or posttest name means "not mapped" (a form's "none" choice).
+  if (mapping.retest !== undefined && mapping.retest !== '') {
     out.retest = find(mapping.retest, 'retest');
     claim(mapping.retest, 'retest');
   }
-  if (mapping.posttest !== undefined) {
+  if (mapping.posttest !== undefined && mapping.posttest !== '') {
     out.posttest = find(mapping.posttest, 'posttest');
     claim(mapping.posttest, 'posttest');
   }
@@ -661,8 +665,8 @@ function structuredCopy(m: PilotMapping): PilotMapping {
     group: m.group,
     programmeValue: m.programmeValue,
     pretest,
-    ...(m.retest !== undefined ? { retest: m.retest } : {}),
-    ...(m.posttest !== undefined ? { posttest: m.posttest } : {}),
+    ...(m.retest ? { retest: m.retest } : {}),
+    ...(m.posttest ? { posttest: m.posttest } : {}),
   };
 }
 

@@ -248,6 +248,13 @@ describe('estimatePilot: bad files and mappings (each message names the column o
       'The column "q2" is mapped both as the item and as the posttest; each column can have one role only.',
     );
     expect(errorOf(() => estimatePilot(base(), { ...mapping, programmeValue: ' ' })).code).toBe('bad-mapping');
+    expect(errorOf(() => estimatePilot(base(), { ...mapping, group: '' })).message).toBe('Choose the group column; none was given.');
+  });
+  it('an empty retest or posttest name means "not mapped"', () => {
+    const est = estimatePilot(base(), { ...mapping, retest: '', posttest: '' });
+    expect(est.reliability.testRetest).toBeUndefined();
+    expect(est.prePostCorrelation).toBeUndefined();
+    expect(est.mapping).toEqual({ group: 'group', programmeValue: 'programme', pretest: mapping.pretest });
   });
 });
 

@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { parseDelimitedText } from '../../src/pilot/parseDelimitedText';
+import { parsePilotNumber } from '../../src/pilot/parsePilotNumber';
 import { PilotDataError } from '../../src/pilot/types';
 
 // Cell splitting follows RFC 4180 (Shafranovich 2005: fields, double quotes, "" inside quotes);
@@ -151,5 +152,26 @@ describe('parseDelimitedText: bad files', () => {
     expect(e.code).toBe('bad-quotes');
     expect(e.row).toBe(3);
     expect(e.message).toMatch(/^Row 3: a value starts with a double quote/);
+  });
+});
+
+describe('parsePilotNumber (plain decimal notation; common practice)', () => {
+  it('reads signs, decimals and exponents; exact', () => {
+    expect(parsePilotNumber(' 12.5 ', false)).toBe(12.5);
+    expect(parsePilotNumber('+2', false)).toBe(2);
+    expect(parsePilotNumber('-.5', false)).toBe(-0.5);
+    expect(parsePilotNumber('1e3', false)).toBe(1000);
+    expect(parsePilotNumber('7.', false)).toBe(7);
+  });
+  it('reads missing-value codes as NaN (missing), in any case', () => {
+    for (const m of ['', '  ', 'NA', 'na', 'N/A', 'NULL', 'NaN', '.', '-']) expect(parsePilotNumber(m, false)).toBeNaN();
+  });
+  it('rejects text, hexadecimal, infinities and sizes beyond 1e15 (undefined = not a number)', () => {
+    for (const bad of ['abc', '12a', '0x10', 'Infinity', '1,5', '1 000', '2e400', '1e16']) expect(parsePilotNumber(bad, false)).toBeUndefined();
+  });
+  it('reads a decimal comma only when asked (semicolon files)', () => {
+    expect(parsePilotNumber('3,25', true)).toBe(3.25);
+    expect(parsePilotNumber('-,5', true)).toBe(-0.5);
+    expect(parsePilotNumber('1,2,3', true)).toBeUndefined();
   });
 });
