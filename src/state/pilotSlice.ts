@@ -17,6 +17,12 @@ import { draftProvenance, withDraftProvenance } from './draftSlice';
 import { FIELD_NAMES, setDraftField, type PlanDraft } from './planDraft';
 import type { MeanwardState } from './store';
 
+/** What the buttons would do to the current plan. */
+export interface PilotPreview {
+  update: PilotPlanUpdate;
+  pessimistic: PessimisticPlanResult;
+}
+
 /** The pilot slice's real dependencies: the worker reader, src/pilot's plan writers, the tab's sessionStorage. */
 export function defaultPilotDeps(): PilotDeps {
   let session: DraftStorage | null = null;
@@ -97,6 +103,11 @@ export interface PilotSlice {
   applyPilotEstimates(): void;
   /** As applyPilotEstimates, with the reliability at the lower end of its confidence interval. */
   applyPessimisticPilotEstimates(): void;
+  /**
+   * What "Use these values" would write into the current plan (and the
+   * pessimistic reliability), without writing it; null before estimates.
+   */
+  previewPilotUpdate(): PilotPreview | null;
   /** Forget the file and its estimates. */
   clearPilot(): void;
 }
@@ -396,7 +407,8 @@ export const createPilotSlice =
         try {
           const estimates = await deps.reader.estimate(m.mapping);
           if (seq !== estimateSeq) return;
-          const dropped = estimates.rowsDropped > 0 ? ` ${estimates.rowsDropped.toLocaleString('en-GB')} rows were left out (see why below).` : '';
+          const d = estimates.rowsDropped;
+          const dropped = d > 0 ? ` ${d === 1 ? 'One row was' : `${d.toLocaleString('en-GB')} rows were`} left out (see why below).` : '';
           const warn = estimates.warnings.length > 0 ? ` ${estimates.warnings.length === 1 ? 'One warning' : `${estimates.warnings.length} warnings`} to read.` : '';
           patch({
             status: 'estimated',
@@ -411,6 +423,16 @@ export const createPilotSlice =
       },
       applyPilotEstimates: () => apply(false),
       applyPessimisticPilotEstimates: () => apply(true),
+      previewPilotUpdate: () => {
+        const s = get();
+        if (!s.pilot.estimates) return null;
+        try {
+          const update = deps.planUpdate(s.validPlan, s.pilot.estimates);
+          return { update, pessimistic: deps.pessimisticPlan(update.plan) };
+        } catch {
+          return null; // apply() reports the reason if the researcher presses the button
+        }
+      },
       clearPilot: () => {
         file = null;
         readSeq++;

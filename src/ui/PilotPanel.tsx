@@ -172,7 +172,7 @@ function PilotFileFacts() {
             value={options.delimiter}
             onChange={(e) => void setOptions({ delimiter: e.target.value as typeof options.delimiter })}
           >
-            <option value="auto">Detect ({DELIMITER_NAMES[summary.delimiter] ?? summary.delimiter} found)</option>
+            <option value="auto">Detect ({DELIMITER_NAMES[summary.delimiter] ?? summary.delimiter})</option>
             <option value=",">Commas</option>
             <option value={'\t'}>Tabs</option>
             <option value=";">Semicolons (decimal commas allowed)</option>
@@ -190,7 +190,7 @@ function PilotFileFacts() {
               void setOptions({ header: v === 'auto' ? 'auto' : v === 'true' });
             }}
           >
-            <option value="auto">Detect ({summary.hasHeader ? 'column names found' : 'data found'})</option>
+            <option value="auto">Detect ({summary.hasHeader ? 'names' : 'data'})</option>
             <option value="true">Holds the column names</option>
             <option value="false">Is already data</option>
           </select>

@@ -200,6 +200,16 @@ describe('pilot slice: into the plan', () => {
     expect(st.pilot.announcement).toMatch(/plan fields filled from “wave1-invented\.csv”/);
   });
 
+  it('previews exactly what the buttons would write, without writing it', async () => {
+    const s = store();
+    await readAndEstimate(s);
+    const draft = s.getState().draft;
+    const preview = s.getState().previewPilotUpdate()!;
+    expect(preview.update).toEqual(pilotPlanUpdate(s.getState().validPlan, s.getState().pilot.estimates!));
+    expect(preview.pessimistic.ok && preview.pessimistic.reliability).toBe(s.getState().pilot.estimates!.reliability.alpha!.lower);
+    expect(s.getState().draft).toBe(draft);
+  });
+
   it('keeps text the researcher is typing in a field the pilot does not fill', async () => {
     const s = store();
     await readAndEstimate(s);

@@ -86,6 +86,10 @@ describe('pilot panel', () => {
     expect(within(estimates).getByTestId('pilot-rows')).toHaveTextContent('200 of 200 rows used.');
     expect(panel.getByTestId('pilot-status')).toHaveTextContent(/Nothing is in the plan until you choose “Use these values”\./);
     expect(screen.getByTestId('verdict-bias').textContent).toBe(biasBefore);
+    // Before pressing: what will be written, the value now and the pilot's (demo plan: programme mean 44).
+    const preview = within(panel.getByTestId('pilot-preview'));
+    expect(preview.getByRole('row', { name: /^Programme pretest mean/ })).toHaveTextContent(`Programme pretest mean44.00${fmt(e.groups.programme.pretestMean)}`);
+    expect(preview.getAllByRole('row')).toHaveLength(1 + 8); // header + 4 group values, reliability, reference SD, posttest SD, pre–post r
 
     await user.click(panel.getByRole('button', { name: 'Use these values' }));
     const plan = store.getState().validPlan;
@@ -125,8 +129,9 @@ describe('pilot panel', () => {
     expect(await panel.findByTestId('pilot-file-facts')).toHaveTextContent('dropped-invented.csv');
     await user.click(panel.getByRole('button', { name: 'Estimate' }));
     await panel.findByTestId('pilot-estimates');
-    await user.click(panel.getByRole('button', { name: 'Plan with the pessimistic reliability' }));
     const lower = store.getState().pilot.estimates!.reliability.alpha!.lower;
+    // The button names the value it will plan with: alpha's lower Feldt limit, 3 decimals.
+    await user.click(panel.getByRole('button', { name: `Plan with the pessimistic reliability (${fmt(lower, 3).replace(/^0/, '')})` }));
     expectWritten((screen.getByRole('textbox', { name: /^Reliability/ }) as HTMLInputElement).value, lower);
     expect(panel.getByTestId('pilot-apply-report')).toHaveTextContent(/reliability at the lower end of its interval/);
   });
