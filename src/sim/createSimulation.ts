@@ -4,6 +4,7 @@ import type { ModelParameters } from '../core/modelParameters';
 import { ancovaEstimate } from './ancovaEstimate';
 import { createMatchingWorkspace, matchOnPretest, type MatchingWorkspace } from './matchOnPretest';
 import { NormalSampler } from './normalSampler';
+import { drawReplicationVariates } from './drawReplicationVariates';
 import { NormalSampleIndex } from './normalSampleIndex';
 import {
   FLAG_COMPUTED,
@@ -259,7 +260,8 @@ class ReplicationRunner {
   readonly tc: Float64Array;
   readonly yc: Float64Array;
   readonly sorterC: NormalSampleIndex;
-  readonly sorterP: NormalSampleIndex | null;
+  /** Lowest- or highest-first matching order: the programme pool is drawn sorted. */
+  readonly sortProgramme: boolean;
   readonly zBuffer: Float64Array;
   readonly rng: Xoshiro128StarStar;
   readonly normal: NormalSampler;
@@ -311,9 +313,9 @@ class ReplicationRunner {
     this.xc = new Float64Array(nC);
     this.tc = new Float64Array(nC);
     this.yc = new Float64Array(nC);
-    // Each pool is generated sorted on X by a linear-time sort that also indexes it for the matching.
+    // The comparison pool is drawn sorted on X; this index finds positions in it for the matching.
     this.sorterC = new NormalSampleIndex(nC);
-    this.sorterP = sortProgramme ? new NormalSampleIndex(nP) : null;
+    this.sortProgramme = sortProgramme;
     // A replication's standard normal variates, drawn in one go: 3 per person
     // (observed pretest, true score given it, outcome residual).
     this.zBuffer = new Float64Array(3 * (nP + nC));
@@ -352,33 +354,29 @@ class ReplicationRunner {
     this.normal.reset();
 
     // Draw every standard normal variate this replication needs, in a fixed layout:
-    // [comparison X | comparison T|X | comparison e | programme X | programme T|X | programme e].
+    // [comparison X (ascending) | comparison T|X | comparison e | programme X | programme T|X | programme e].
     const z = this.zBuffer;
-    this.normal.fillStandard(z, z.length);
+    drawReplicationVariates(this.normal, z, nC, nP, this.sortProgramme);
     const zTC = nC;
     const zEC = 2 * nC;
     const zXP = 3 * nC;
     const zTP = zXP + nP;
     const zEP = zXP + 2 * nP;
 
-    // Comparison pool, generated sorted on the observed pretest.
-    this.sorterC.sort(xc, z, 0, muC, sdXC);
+    // Comparison pool, drawn sorted on the observed pretest (indexed for the matching below).
     let cSx = 0, cSxx = 0, cSy = 0, cSyy = 0, cSxy = 0, cSt = 0, cStt = 0;
     for (let j = 0; j < nC; j++) {
-      const dx = (xc[j] as number) - muC;
+      const dx = sdXC * (z[j] as number);
+      xc[j] = muC + dx;
       const dt = rhoC * dx + condC * (z[zTC + j] as number);
       const dy = beta * dt + resSD * (z[zEC + j] as number);
       cSx += dx; cSxx += dx * dx; cSy += dy; cSyy += dy * dy; cSxy += dx * dy; cSt += dt; cStt += dt * dt;
     }
 
     // Programme pool, in matching order.
-    const sorterP = this.sorterP;
-    if (sorterP) {
-      sorterP.sort(xp, z, zXP, muP, sdXP);
-      if (this.highestFirst) xp.reverse();
-    } else {
-      for (let j = 0; j < nP; j++) xp[j] = muP + sdXP * (z[zXP + j] as number);
-    }
+    for (let j = 0; j < nP; j++) xp[j] = muP + sdXP * (z[zXP + j] as number);
+    // Lowest- or highest-first order: the programme X were drawn ascending.
+    if (this.sortProgramme && this.highestFirst) xp.reverse();
     let pSx = 0, pSxx = 0, pSy = 0, pSyy = 0, pSxy = 0, pSt = 0, pStt = 0;
     for (let j = 0; j < nP; j++) {
       const dx = (xp[j] as number) - muP;
@@ -421,6 +419,7 @@ class ReplicationRunner {
     const obsPooledSD = Math.sqrt((sxxP / (nP - 1) + sxxC / (nC - 1)) / 2);
     const truePooledSD = Math.sqrt((sttP / (nP - 1) + sttC / (nC - 1)) / 2);
     const caliper = this.caliperSD * obsPooledSD;
+    this.sorterC.indexSorted(xc, muC, sdXC);
     const m = matchOnPretest(xc, xp, caliper, this.method, this.replacement, rng, ws, this.sorterC);
 
     // Matched sets: D_i = Y_i - mean of its partners' Y; stacked matched sample.

@@ -43,7 +43,10 @@ export class NormalSampleIndex {
   private readonly cellBucket: Uint16Array;
   private readonly scratch: Float64Array;
   private readonly bucketOf: Uint16Array;
-  /** After a sort: ends[b] = one past the last position of bucket b. */
+  /**
+   * After `sort`: ends[b] = one past the last position of bucket b. After
+   * `indexSorted`: the same for non-empty buckets, 0 for empty ones.
+   */
   private readonly ends: Int32Array;
   private sorted: Float64Array;
   private lo = 0;
@@ -141,11 +144,56 @@ export class NormalSampleIndex {
     }
   }
 
+  /**
+   * Index values that are already in ascending order (e.g. a sample drawn
+   * sorted) for lowerBound/upperBound, without moving them: one pass records
+   * where each bucket ends. Linear time.
+   * @param sorted ascending values, length >= n; remembered as the searched array.
+   * @param mean, sd the location and scale the buckets are laid out for (sd > 0 for speed).
+   * @throws Error when the values are not in ascending order (the searches would be wrong).
+   */
+  indexSorted(sorted: Float64Array, mean: number, sd: number): void {
+    const n = this.n;
+    const ends = this.ends;
+    const table = this.cellBucket;
+    const last = this.cells - 1;
+    const lo = mean - SPAN * sd;
+    const scale = sd > 0 ? this.cells / (2 * SPAN * sd) : 0;
+    this.lo = lo;
+    this.scale = scale;
+    this.sorted = sorted;
+    // Each value marks its bucket's end (the last, i.e. largest, position wins);
+    // empty buckets keep 0, which the searches read as "empty" (see bucketStart).
+    ends.fill(0);
+    let prev = -Infinity;
+    for (let j = 0; j < n; j++) {
+      const x = sorted[j] as number;
+      if (!(x >= prev)) throw new Error(`Values to index must be in ascending order; position ${j} holds ${x} after ${prev}.`);
+      prev = x;
+      const f = (x - lo) * scale;
+      ends[table[f > 0 ? (f < last ? f | 0 : last) : 0] as number] = j + 1;
+    }
+  }
+
+  /**
+   * First position of bucket b: the end of the nearest lower bucket that is
+   * not marked empty (0). After `sort` no bucket above the first value reads
+   * 0, so this stops at once; after `indexSorted` it skips the empty buckets
+   * just below b (buckets are equiprobable, so runs of empty ones are short).
+   */
+  private bucketStart(b: number): number {
+    const ends = this.ends;
+    let p = b - 1;
+    while (p >= 0 && (ends[p] as number) === 0) p--;
+    return p >= 0 ? (ends[p] as number) : 0;
+  }
+
   /** First position i in the last sorted array with sorted[i] >= x (n when none). */
   lowerBound(x: number): number {
     const b = this.cellBucket[this.cell(x)] as number;
-    let i = b > 0 ? (this.ends[b - 1] as number) : 0;
-    const end = this.ends[b] as number;
+    let i = this.bucketStart(b);
+    const marked = this.ends[b] as number;
+    const end = marked > i ? marked : i;
     const s = this.sorted;
     while (i < end && (s[i] as number) < x) i++;
     return i;
@@ -154,8 +202,9 @@ export class NormalSampleIndex {
   /** First position i in the last sorted array with sorted[i] > x (n when none). */
   upperBound(x: number): number {
     const b = this.cellBucket[this.cell(x)] as number;
-    let i = b > 0 ? (this.ends[b - 1] as number) : 0;
-    const end = this.ends[b] as number;
+    let i = this.bucketStart(b);
+    const marked = this.ends[b] as number;
+    const end = marked > i ? marked : i;
     const s = this.sorted;
     while (i < end && (s[i] as number) <= x) i++;
     return i;

@@ -41,6 +41,35 @@ describe('NormalSampleIndex', () => {
     );
   });
 
+  it('indexes already-sorted values for the same bounds as a linear scan (fast-check, 300 cases)', () => {
+    // Reference: a linear scan (definition). indexSorted must not move the values.
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: -50, max: 50, noNaN: true }), { minLength: 1, maxLength: 300 }),
+        fc.double({ min: -100, max: 100, noNaN: true }),
+        fc.double({ min: 0.01, max: 100, noNaN: true }),
+        fc.array(fc.double({ min: -1e4, max: 1e4, noNaN: true }), { minLength: 1, maxLength: 20 }),
+        (zs, mean, sd, queries) => {
+          const sorted = Float64Array.from(zs.map((v) => mean + sd * v)).sort();
+          const copy = Array.from(sorted);
+          const index = new NormalSampleIndex(sorted.length);
+          index.indexSorted(sorted, mean, sd);
+          expect(Array.from(sorted)).toEqual(copy);
+          for (const q of [...queries, ...copy.slice(0, 5), mean]) {
+            expect(index.lowerBound(q)).toBe(firstIndex(copy, (v) => v >= q));
+            expect(index.upperBound(q)).toBe(firstIndex(copy, (v) => v > q));
+          }
+        },
+      ),
+      { numRuns: 300, seed: 12 },
+    );
+  });
+
+  it('refuses to index values that are not ascending, naming the position', () => {
+    const index = new NormalSampleIndex(3);
+    expect(() => index.indexSorted(Float64Array.from([1, 3, 2]), 0, 1)).toThrow('Values to index must be in ascending order; position 2 holds 2 after 3.');
+  });
+
   it('gives matchOnPretest exactly the partners binary search gives (fast-check, 200 cases)', () => {
     // Reference: matchOnPretest without the index (binary search), itself checked against the naive
     // definition in matchOnPretest.test.ts. Exact equality of partners and matched count.
