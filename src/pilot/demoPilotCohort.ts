@@ -1,4 +1,4 @@
-import { NormalSampler } from '../sim/normalSampler';
+import { normalQuantile } from '../core/distributions';
 import { Xoshiro128StarStar } from '../sim/xoshiro128StarStar';
 
 /** Where the generated file is served from (public/…) and its name. */
@@ -28,12 +28,15 @@ export const DEMO_PILOT_MAPPING = {
  * item j = round(b_j + a_j θ + 2 e), clamped to 0–10; retest = the same items
  * with fresh errors plus 1 point of practice; posttest = 40 + 7θ + 6e + 2.5
  * for the programme (an invented effect). Seeded (same text every run) with
- * the engine's generator (xoshiro128**, polar normals).
+ * the engine's uniform generator (xoshiro128**) and normals by inversion,
+ * Φ⁻¹((u + ½) / 2³²), so the file does not change when the engine's own
+ * normal sampler is tuned.
  *
  * @returns CSV text whose first line is a "#" comment labelling it as invented.
  */
 export function demoPilotCohortCsv(): string {
-  const z = new NormalSampler(Xoshiro128StarStar.forReplication(DEMO_PILOT_SEED, 0));
+  const rng = Xoshiro128StarStar.forReplication(DEMO_PILOT_SEED, 0);
+  const z = { next: (): number => normalQuantile((rng.nextUint32() + 0.5) / 4294967296) };
   const a = [1.7, 1.5, 1.8, 1.3, 1.6, 1.4, 1.9, 1.2];
   const b = [5.5, 6.0, 4.8, 6.5, 5.0, 5.8, 4.5, 6.2];
   const item = (j: number, theta: number) => Math.min(10, Math.max(0, Math.round(b[j]! + a[j]! * theta + 2 * z.next())));

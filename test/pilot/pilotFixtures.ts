@@ -1,4 +1,4 @@
-import { NormalSampler } from '../../src/sim/normalSampler';
+import { normalQuantile } from '../../src/core/distributions';
 import { Xoshiro128StarStar } from '../../src/sim/xoshiro128StarStar';
 import type { ParsedTable, PilotMapping } from '../../src/pilot/types';
 
@@ -29,7 +29,9 @@ export interface PilotFixture {
  * with String(x), which reads back to the same double (or rounded to `decimals`).
  */
 export function pilotFixtureTable(f: PilotFixture): ParsedTable {
-  const z = new NormalSampler(Xoshiro128StarStar.forReplication(f.seed, 0));
+  // Normals by inversion of the engine's uniform generator (stable when the engine's sampler is tuned).
+  const rng = Xoshiro128StarStar.forReplication(f.seed, 0);
+  const z = { next: (): number => normalQuantile((rng.nextUint32() + 0.5) / 4294967296) };
   const k = f.items;
   const itemCols = Array.from({ length: Math.max(k, 1) }, (_, j) => (k === 0 ? 'score' : `q${j + 1}`));
   const columns = ['group', ...itemCols, ...(f.retest ? ['retest'] : []), ...(f.posttest ? ['posttest'] : [])];
