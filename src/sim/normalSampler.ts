@@ -105,9 +105,14 @@ export class NormalSampler {
    */
   fillSortedStandard(out: Float64Array, n: number, offset = 0): void {
     const end = offset + n;
+    const rng = this.rng;
     let s = 0;
     for (let k = offset; k < end; k++) {
-      s += this.exponential();
+      // The exponential's fast path inline (about 98% of draws); exponential() otherwise.
+      const w = rng.nextUint32();
+      const i = w & 255;
+      const u = ((w >>> 8) + 0.5) * TWO_POW_MINUS_24;
+      s += u < (ERATIO[i] as number) ? u * (EX[i] as number) : this.exponentialSlow(i, u);
       out[k] = s;
     }
     s += this.exponential();
@@ -123,18 +128,26 @@ export class NormalSampler {
 
   /** One standard exponential variate (256-layer ziggurat), strictly positive. */
   exponential(): number {
+    const w = this.rng.nextUint32();
+    const i = w & 255;
+    // Uniform on (0, 1) from the 24 bits above the layer index (never 0, so the result is > 0).
+    const u = ((w >>> 8) + 0.5) * TWO_POW_MINUS_24;
+    return u < (ERATIO[i] as number) ? u * (EX[i] as number) : this.exponentialSlow(i, u);
+  }
+
+  /** The rest of an exponential draw whose first word (layer i, uniform u) fell outside the fast region. */
+  private exponentialSlow(i: number, u: number): number {
     const rng = this.rng;
     for (;;) {
-      const w = rng.nextUint32();
-      const i = w & 255;
-      // Uniform on (0, 1) from the 24 bits above the layer index (never 0, so the result is > 0).
-      const u = ((w >>> 8) + 0.5) * TWO_POW_MINUS_24;
       const x = u * (EX[i] as number);
       if (u < (ERATIO[i] as number)) return x;
       // Tail: the exponential is memoryless beyond r.
       if (i === 0) return ER - Math.log(1 - rng.nextFloat());
       const f0 = EF[i] as number;
       if (f0 + rng.nextFloat() * ((EF[i + 1] as number) - f0) < Math.exp(-x)) return x;
+      const w = rng.nextUint32();
+      i = w & 255;
+      u = ((w >>> 8) + 0.5) * TWO_POW_MINUS_24;
     }
   }
 
