@@ -1,5 +1,6 @@
 import type { Plan } from '../core/plan';
-import { createSimulation, type SimulationOptions } from './createSimulation';
+import type { SimulationOptions } from './createSimulation';
+import { createPlanSimulation } from './multivariate/createPlanSimulation';
 import type { SimulationResult } from './types';
 
 /** What the stepping driver needs from its host (the worker, or a test). */
@@ -33,7 +34,7 @@ export async function runSimulationInSteps(
   options: SimulationOptions,
   host: StepHost,
 ): Promise<SimulationResult | null> {
-  const run = createSimulation(plan, options);
+  const run = createPlanSimulation(plan, options);
   const total = run.total;
   const fivePercent = Math.max(1, Math.floor(total / 20));
   let chunk = Math.min(fivePercent, 10);

@@ -1,5 +1,6 @@
 import type { Plan } from '../core/plan';
-import { createSimulation, type SimulationOptions } from './createSimulation';
+import type { SimulationOptions } from './createSimulation';
+import { createPlanSimulation } from './multivariate/createPlanSimulation';
 import type { SimulationResult } from './types';
 
 export interface SimulatePlanOptions extends SimulationOptions {
@@ -11,7 +12,9 @@ export interface SimulatePlanOptions extends SimulationOptions {
 
 /**
  * Run the Monte Carlo simulation of a plan synchronously (for the CLI and
- * tests; the browser uses the worker). See createSimulation for the procedure
+ * tests; the browser uses the worker). Plans with covariates or a propensity /
+ * Mahalanobis distance run the several-covariate engine, others the
+ * one-pretest engine unchanged (createPlanSimulation). See createSimulation for the procedure
  * and docs/simulation.md for the estimators and Monte Carlo SEs (Morris,
  * White & Crowther 2019).
  *
@@ -26,7 +29,7 @@ export interface SimulatePlanOptions extends SimulationOptions {
  *   // ≈ 2.5 + 0.875 × (1 - 0.75) × (-10) = 0.31 within 3 MCSE (closed form: Lord 1960)
  */
 export function simulatePlan(plan: Plan, options: SimulatePlanOptions = {}): SimulationResult {
-  const run = createSimulation(plan, options);
+  const run = createPlanSimulation(plan, options);
   const chunk = options.chunkSize ?? 100;
   if (!Number.isInteger(chunk) || chunk < 1) {
     throw new Error(`The chunk size must be a whole number of at least 1; got ${String(chunk)}.`);

@@ -67,8 +67,8 @@ describe('fitLogisticRegression', () => {
     const n = 40;
     const x = Float64Array.from({ length: n }, (_, i) => i);
     const y = Uint8Array.from({ length: n }, (_, i) => (i >= 20 ? 1 : 0));
-    expect(() => fitLogisticRegression([x], y, n, { names: ['Attendance'], context: 'In simulated replication 3, ' })).toThrow(
-      /^In simulated replication 3, The propensity score cannot be fitted: the measured covariates \(Attendance\) separate the programme and comparison groups completely or almost completely/,
+    expect(() => fitLogisticRegression([x], y, n, { names: ['Attendance'], where: 'simulated replication 3' })).toThrow(
+      /^The propensity score cannot be fitted \(simulated replication 3\): the measured covariates \(Attendance\) separate the programme and comparison groups completely or almost completely/,
     );
   });
 

@@ -4,7 +4,7 @@ import type { MatchSettings } from '../../src/sim/multivariate/covariateMatching
 import { exactStrata, groupByStratum } from '../../src/sim/multivariate/exactStrata';
 import { createMahalanobisMatchingWorkspace, matchOnMahalanobis } from '../../src/sim/multivariate/matchOnMahalanobis';
 import { createScoreMatchingWorkspace, matchOnScore } from '../../src/sim/multivariate/matchOnScore';
-import { sortIndicesByScore } from '../../src/sim/multivariate/sortIndicesByScore';
+import { createSortWorkspace, sortIndicesByScore } from '../../src/sim/multivariate/sortIndicesByScore';
 import { NormalSampler } from '../../src/sim/normalSampler';
 import { Xoshiro128StarStar } from '../../src/sim/xoshiro128StarStar';
 
@@ -144,15 +144,34 @@ describe('exact strata and the score sort', () => {
 
   it('sorts indices exactly as the built-in comparison sort, ties by position (common practice)', () => {
     const rng = Xoshiro128StarStar.forReplication(3, 1);
-    for (let trial = 0; trial < 20; trial++) {
-      const n = 1 + Math.floor(rng.nextFloat() * 300);
-      // Scores with many exact ties and near-ties (values on a coarse grid plus tiny offsets).
-      const score = Float64Array.from({ length: n }, () => Math.floor(rng.nextFloat() * 20) + (rng.nextFloat() < 0.3 ? 1e-12 * rng.nextFloat() : 0));
-      const idx = Int32Array.from({ length: n }, (_, i) => i);
-      const expected = [...idx].sort((a, b) => score[a]! - score[b]! || a - b);
-      sortIndicesByScore(score, idx, 0, n, new Float64Array(n), new Int32Array(n));
-      expect([...idx]).toEqual(expected);
+    const z = new NormalSampler(rng);
+    const ws = createSortWorkspace(400);
+    const kinds = [
+      // normal scores with exact ties and near-ties (differences far below the quantisation level)
+      () => Math.floor(z.next() * 5) + (rng.nextFloat() < 0.3 ? 1e-12 * rng.nextFloat() : 0),
+      // whole numbers (grid cells) over a wide span, with repeats
+      () => Math.floor(rng.nextFloat() * 50) * 2 ** 30 + Math.floor(rng.nextFloat() * 3),
+      // an extreme outlier squeezes the rest into one level: the comparison-sort fallback
+      (i: number) => (i === 0 ? 1e300 : z.next()),
+      // all equal
+      () => 7.25,
+    ];
+    for (const kind of kinds) {
+      for (let trial = 0; trial < 8; trial++) {
+        const n = 1 + Math.floor(rng.nextFloat() * 400);
+        const score = Float64Array.from({ length: n }, (_, i) => kind(i));
+        const idx = Int32Array.from({ length: n }, (_, i) => i);
+        const expected = [...idx].sort((a, b) => (score[a]! < score[b]! ? -1 : score[a]! > score[b]! ? 1 : a - b));
+        sortIndicesByScore(score, idx, 0, n, ws);
+        expect([...idx]).toEqual(expected);
+      }
     }
+    // A segment in the middle of a larger array, and a message when the workspace is too small.
+    const score = Float64Array.of(5, 4, 3, 2, 1);
+    const idx = Int32Array.of(0, 1, 2, 3, 4);
+    sortIndicesByScore(score, idx, 1, 4, ws);
+    expect([...idx]).toEqual([0, 3, 2, 1, 4]);
+    expect(() => sortIndicesByScore(new Float64Array(500), new Int32Array(500), 0, 500, ws)).toThrow('Cannot sort 500 people with a workspace for 400.');
   });
 });
 

@@ -1,7 +1,7 @@
 import type { RandomSource } from '../randomSource';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { groupByStratum } from './exactStrata';
-import { sortIndicesByScore } from './sortIndicesByScore';
+import { createSortWorkspace, sortIndicesByScore, type SortWorkspace } from './sortIndicesByScore';
 
 /** Buffers for matchOnMahalanobis, allocated once per plan. */
 export interface MahalanobisMatchingWorkspace extends CovariateMatching {
@@ -18,8 +18,7 @@ export interface MahalanobisMatchingWorkspace extends CovariateMatching {
   readonly candidates: Int32Array;
   readonly bestIndex: Int32Array;
   readonly bestDistance: Float64Array;
-  readonly scratch: Float64Array;
-  readonly positions: Int32Array;
+  readonly sort: SortWorkspace;
 }
 
 /**
@@ -47,13 +46,12 @@ export function createMahalanobisMatchingWorkspace(nProgramme: number, nComparis
     candidates: new Int32Array(nComparison),
     bestIndex: new Int32Array(ratio),
     bestDistance: new Float64Array(ratio),
-    scratch: new Float64Array(n),
-    positions: new Int32Array(n),
+    sort: createSortWorkspace(n),
   };
 }
 
-/** Cells per grid axis at most (keeps keys exact in a double). */
-const MAX_CELLS = 2 ** 20;
+/** Cells per grid axis at most (keeps cell numbers below 2^30, sorted exactly by sortIndicesByScore). */
+const MAX_CELLS = 2 ** 15;
 
 /**
  * Greedy caliper matching on the Mahalanobis distance (Rubin 1980,
@@ -170,10 +168,10 @@ export function matchOnMahalanobis(
       const q = w2 ? Math.floor(((w2[c] as number) - lo2) / h) : 0;
       cellKey[c] = r * cols + q;
     }
-    sortIndicesByScore(cellKey, orderC, c0, c1, ws.scratch, ws.positions);
+    sortIndicesByScore(cellKey, orderC, c0, c1, ws.sort);
     for (let j = c0; j < c1; j++) sortedKey[j] = cellKey[orderC[j] as number] as number;
     if (byScore) {
-      sortIndicesByScore(orderScore, orderP, p0, p1, ws.scratch, ws.positions);
+      sortIndicesByScore(orderScore, orderP, p0, p1, ws.sort);
       if (settings.order === 'highest-first') orderP.subarray(p0, p1).reverse();
     }
 

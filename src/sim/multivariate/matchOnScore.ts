@@ -2,7 +2,7 @@ import { createMatchingWorkspace, matchOnPretest, type MatchingWorkspace } from 
 import type { RandomSource } from '../randomSource';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { groupByStratum } from './exactStrata';
-import { sortIndicesByScore } from './sortIndicesByScore';
+import { createSortWorkspace, sortIndicesByScore, type SortWorkspace } from './sortIndicesByScore';
 
 /** Buffers for matchOnScore, allocated once per plan. */
 export interface ScoreMatchingWorkspace extends CovariateMatching {
@@ -14,10 +14,7 @@ export interface ScoreMatchingWorkspace extends CovariateMatching {
   readonly startP: Int32Array;
   readonly sortedC: Float64Array;
   readonly orderedP: Float64Array;
-  readonly scratch: Float64Array;
-  readonly positions: Int32Array;
-  /** Stratum starts (strata + 1), grown when needed. */
-  strataCapacity: number;
+  readonly sort: SortWorkspace;
 }
 
 /**
@@ -43,9 +40,7 @@ export function createScoreMatchingWorkspace(nProgramme: number, nComparison: nu
     startP: new Int32Array(2),
     sortedC: new Float64Array(nComparison),
     orderedP: new Float64Array(nProgramme),
-    scratch: new Float64Array(n),
-    positions: new Int32Array(n),
-    strataCapacity: 1,
+    sort: createSortWorkspace(n),
   };
 }
 
@@ -119,9 +114,9 @@ export function matchOnScore(
       localCount.fill(0, p0, p1);
       continue;
     }
-    sortIndicesByScore(score, orderC, c0, c1, ws.scratch, ws.positions);
+    sortIndicesByScore(score, orderC, c0, c1, ws.sort);
     if (byScore) {
-      sortIndicesByScore(score, orderP, p0, p1, ws.scratch, ws.positions);
+      sortIndicesByScore(score, orderP, p0, p1, ws.sort);
       if (settings.order === 'highest-first') orderP.subarray(p0, p1).reverse();
     }
     for (let j = c0; j < c1; j++) sortedC[j] = score[orderC[j] as number] as number;

@@ -1,36 +1,53 @@
-const INDEX_BITS = 2 ** 24;
-const LEVELS = 2 ** 29 - 1;
+const PACK = 2 ** 24;
+
+/** Buffers for sortIndicesByScore, sized for segments of up to `capacity` people. */
+export interface SortWorkspace {
+  readonly capacity: number;
+  /** Bucket number per position. */
+  readonly buckets: Int32Array;
+  /** Bucket starts (capacity + 1). */
+  readonly counts: Int32Array;
+  readonly positions: Int32Array;
+  /** Scratch for the fallback sort and the final permutation. */
+  readonly packed: Float64Array;
+}
+
+/** Allocate a sort workspace. @param capacity longest segment (≥ 1). @returns the buffers. @throws never. @example createSortWorkspace(1200).positions.length // 1200 */
+export function createSortWorkspace(capacity: number): SortWorkspace {
+  const n = Math.max(1, capacity);
+  return {
+    capacity: n,
+    buckets: new Int32Array(n),
+    counts: new Int32Array(n + 1),
+    positions: new Int32Array(n),
+    packed: new Float64Array(n),
+  };
+}
 
 /**
  * Sort a segment of person indices ascending by their score, ties by position
- * in the segment (so the result is fully determined), in O(m log m): the
- * scores are quantised to 29 bits over their range and packed with the
- * segment position into one exactly representable double (2^29 × 2^24 = 2^53),
- * sorted by the built-in numeric sort of a Float64Array, then put in exact
- * order by an insertion pass (only people whose scores share a quantisation
- * level can be out of order, so the pass is linear in practice).
+ * in the segment (so the result is fully determined), in expected linear time
+ * for scores spread like a normal sample (logits, pretests, grid cells): a
+ * distribution sort into m equal-width buckets over the scores' range (a
+ * stable counting pass; Knuth 1998, "The Art of Computer Programming" vol. 3,
+ * sec. 5.2.1 and 5.2.5), then an insertion pass on the exact scores, which only
+ * has to order scores sharing a bucket. Should that pass meet many such
+ * scores (an extreme outlier squeezing the others into few buckets), it falls
+ * back to a comparison sort, so the worst case is O(m log m).
  *
  * @param score scores indexed by person.
  * @param idx person indices; the segment idx[from .. to) is sorted in place.
  * @param from start of the segment.
- * @param to end of the segment (exclusive); to − from < 2^24.
- * @param scratch work space of at least to − from doubles.
- * @param positions work space of at least to − from 32-bit integers.
+ * @param to end of the segment (exclusive); to − from ≤ ws.capacity (< 2^24).
+ * @param ws work space from createSortWorkspace.
  * @returns nothing.
- * @throws Error when the segment is longer than 2^24 − 1 people or a score is not finite.
+ * @throws Error when the segment is longer than the workspace or a score is not finite.
  * @example score [0.3, −1, 0.3], idx [0, 1, 2] → idx [1, 0, 2]
  */
-export function sortIndicesByScore(
-  score: Float64Array,
-  idx: Int32Array,
-  from: number,
-  to: number,
-  scratch: Float64Array,
-  positions: Int32Array,
-): void {
+export function sortIndicesByScore(score: Float64Array, idx: Int32Array, from: number, to: number, ws: SortWorkspace): void {
   const m = to - from;
   if (m < 2) return;
-  if (m >= INDEX_BITS) throw new Error(`Cannot sort more than ${INDEX_BITS - 1} people at once; got ${m}.`);
+  if (m > ws.capacity) throw new Error(`Cannot sort ${m} people with a workspace for ${ws.capacity}.`);
   let lo = Infinity;
   let hi = -Infinity;
   for (let j = from; j < to; j++) {
@@ -39,19 +56,57 @@ export function sortIndicesByScore(
     if (s < lo) lo = s;
     if (s > hi) hi = s;
   }
-  const f = hi > lo ? LEVELS / (hi - lo) : 0;
-  const keys = scratch.subarray(0, m);
+  const { buckets, counts, positions: pos } = ws;
+  const f = hi > lo ? (m - 1) / (hi - lo) : 0;
+  counts.fill(0, 0, m + 1);
   for (let j = 0; j < m; j++) {
-    const level = Math.min(LEVELS, Math.floor(((score[idx[from + j] as number] as number) - lo) * f));
-    keys[j] = level * INDEX_BITS + j;
+    const b = Math.floor(((score[idx[from + j] as number] as number) - lo) * f);
+    const c = b < m ? b : m - 1;
+    buckets[j] = c;
+    counts[c + 1] = (counts[c + 1] as number) + 1;
   }
-  keys.sort();
-  const pos = positions;
+  for (let c = 0; c < m; c++) counts[c + 1] = (counts[c + 1] as number) + (counts[c] as number);
   for (let j = 0; j < m; j++) {
-    const key = keys[j] as number;
-    pos[j] = key - Math.floor(key / INDEX_BITS) * INDEX_BITS;
+    const c = buckets[j] as number;
+    const at = counts[c] as number;
+    counts[c] = at + 1;
+    pos[at] = j;
   }
-  // Exact order by (score, position): insertion pass over the nearly sorted positions.
+  // Exact order by (score, position) within buckets.
+  let moves = 0;
+  const limit = 16 * m + 64;
+  for (let j = 1; j < m && moves <= limit; j++) {
+    const p = pos[j] as number;
+    const s = score[idx[from + p] as number] as number;
+    let q = j - 1;
+    while (q >= 0) {
+      const pq = pos[q] as number;
+      const sq = score[idx[from + pq] as number] as number;
+      if (sq < s || (sq === s && pq < p)) break;
+      pos[q + 1] = pq;
+      q--;
+      moves++;
+    }
+    pos[q + 1] = p;
+  }
+  const out = ws.packed;
+  if (moves > limit) comparisonSort(score, idx, from, m, pos, out, lo, hi);
+  // Permute the segment.
+  for (let j = 0; j < m; j++) out[j] = idx[from + (pos[j] as number)] as number;
+  for (let j = 0; j < m; j++) idx[from + j] = out[j] as number;
+}
+
+/** Fallback: positions sorted by (score, position) with the built-in numeric sort of packed keys, then an insertion pass. */
+function comparisonSort(score: Float64Array, idx: Int32Array, from: number, m: number, pos: Int32Array, keys: Float64Array, lo: number, hi: number): void {
+  const levels = 2 ** 29 - 1;
+  const f = hi > lo ? levels / (hi - lo) : 0;
+  for (let j = 0; j < m; j++) keys[j] = Math.min(levels, Math.floor(((score[idx[from + j] as number] as number) - lo) * f)) * PACK + j;
+  const view = keys.subarray(0, m);
+  view.sort();
+  for (let j = 0; j < m; j++) {
+    const key = view[j] as number;
+    pos[j] = key - Math.floor(key / PACK) * PACK;
+  }
   for (let j = 1; j < m; j++) {
     const p = pos[j] as number;
     const s = score[idx[from + p] as number] as number;
@@ -65,7 +120,4 @@ export function sortIndicesByScore(
     }
     pos[q + 1] = p;
   }
-  // Permute the segment.
-  for (let j = 0; j < m; j++) keys[j] = idx[from + (pos[j] as number)] as number;
-  for (let j = 0; j < m; j++) idx[from + j] = keys[j] as number;
 }

@@ -1,0 +1,600 @@
+import { CholeskyDecomposition, inverse, Matrix } from 'ml-matrix';
+import { ANALYSIS_IDS, type AnalysisId, type MatchingDistance, type Plan } from '../../core/plan';
+import { assumedTrueScoreCovariance } from '../../core/multivariate/covariateCorrectedAncovaEstimate';
+import { deriveCovariateModel, matchingDistance, type CovariateModel } from '../../core/multivariate/covariateModel';
+import type { SimulationOptions, SimulationRun } from '../createSimulation';
+import { NormalSampler } from '../normalSampler';
+import { FLAG_COMPUTED, FLAG_COVERED, FLAG_REJECTED, FLAG_WRONG_SIGN, summariseAnalysis } from '../summariseAnalysis';
+import { TCriticalValues } from '../tQuantile';
+import type { CovariateBalance, ExamplePair, SimMatchingSummary, SimulationResult } from '../types';
+import { validateSimulationSettings } from '../validateSimulationSettings';
+import { Xoshiro128StarStar } from '../xoshiro128StarStar';
+import { ancovaOnCovariates, createGroupMoments, groupMoments, type GroupMoments } from './ancovaOnCovariates';
+import type { CovariateMatching, MatchSettings } from './covariateMatching';
+import { createCovariatePools, drawCovariatePools, type CovariatePools } from './drawCovariatePools';
+import { exactStrata } from './exactStrata';
+import { fitLogisticRegression } from './fitLogisticRegression';
+import { createMahalanobisMatchingWorkspace, matchOnMahalanobis, type MahalanobisMatchingWorkspace } from './matchOnMahalanobis';
+import { createScoreMatchingWorkspace, matchOnScore, type ScoreMatchingWorkspace } from './matchOnScore';
+import { whitenedCoordinates } from './whitenedCoordinates';
+
+// Slots of the per-replication estimate stores (as in createSimulation).
+const A_MATCHED = 0;
+const A_ANCOVA = 1;
+const A_GAIN = 2;
+const A_CORRECTED = 3;
+const A_ANCOVA_MATCHED = 4;
+const SLOT: Record<AnalysisId, number> = { matchedDifference: A_MATCHED, ancova: A_ANCOVA, gainScore: A_GAIN, correctedAncova: A_CORRECTED };
+
+// Per-replication balance records, per variable (index v * B_COUNT + metric).
+const B_OBS_BEFORE = 0; // observed mean difference, raw
+const B_OBS_AFTER = 1;
+const B_TRUE_BEFORE = 2;
+const B_TRUE_AFTER = 3;
+const B_OBS_SD = 4; // pooled SD of the observed variable in the full pools
+const B_TRUE_SD = 5;
+const B_VAR_RATIO = 6;
+const B_COUNT = 7;
+const AFTER_OK = 1; // at least one matched set
+const VAR_RATIO_OK = 2; // variance ratio computable (per variable)
+
+/**
+ * The several-covariate Monte Carlo engine's stepping interface (issue:
+ * several covariates; docs/simulation.md, "Several covariates"): the same
+ * SimulationRun as createSimulation, for plans with covariates or a
+ * propensity / Mahalanobis matching distance. The generating model is the
+ * core's deriveCovariateModel, so simulation and closed forms describe the
+ * same world.
+ *
+ * One replication, from its own stream xoshiro128**(seed, i) (so results are
+ * bit-identical however replications are chunked):
+ *  1. Draw both pools (drawCovariatePools): true scores of the pretest and
+ *     every covariate, measured or not, observed values with each one's SEM,
+ *     the outcome from the true scores. Exactly matched covariates are whole-number categories.
+ *  2. Analyses in the full pools on all measured covariates m: ANCOVA (normal
+ *     equations), the multivariate reliability-corrected ANCOVA (covariates
+ *     replaced by X̄_g + Λ (X − X̄_g), Λ = Σ_T'[m, m] Σ_X[m, m]^-1 with the
+ *     core's assumed true-score covariance: the plan's assumed reliability for
+ *     the pretest, each covariate's own reliability), and the gain score on the pretest.
+ *  3. Match within strata of the exactly matched covariates on the plan's distance:
+ *     'pretest' — the observed pretest, caliper in pooled pretest SDs;
+ *     'propensity' — the logit of a logistic regression of group on all measured
+ *       covariates, fitted in this replication (fitLogisticRegression), caliper in
+ *       pooled SDs of the logit (Austin 2011);
+ *     'mahalanobis' — the Mahalanobis distance on the measured covariates with this
+ *       replication's pooled within-group covariance matrix, caliper in distance units.
+ *     Unmeasured covariates are never used.
+ *  4. Matched difference, ANCOVA on all measured covariates in the stacked
+ *     matched sample, balance of every variable (observed and true) before and after.
+ *
+ * @param plan a validated plan (covariates optional).
+ * @param options replications (2..1,000,000) and seed (defaults: plan.simulation).
+ * @returns a SimulationRun whose result carries `balance` (pretest first).
+ * @throws Error with a researcher-readable message for out-of-range settings,
+ *   impossible covariate inputs (from deriveCovariateModel), an unknown distance,
+ *   or (while running) a propensity score that cannot be fitted in some replication.
+ * @example
+ *   const run = createMultivariateSimulation({ ...demoPlan(), matching: { ...demoPlan().matching, distance: 'propensity' } });
+ *   run.runChunk(0, run.total); run.finish().balance?.[0]?.name // 'Pretest'
+ */
+export function createMultivariateSimulation(plan: Plan, options: SimulationOptions = {}): SimulationRun {
+  const total = options.replications ?? plan.simulation.replications;
+  const seed = options.seed ?? plan.simulation.seed;
+  validateSimulationSettings(plan, total, seed);
+  const distance = matchingDistance(plan);
+  if (distance !== 'pretest' && distance !== 'propensity' && distance !== 'mahalanobis') {
+    throw new Error(`The matching distance must be "pretest", "propensity" or "mahalanobis"; got ${String(distance)}.`);
+  }
+  const model = deriveCovariateModel(plan);
+  const runner = new MultivariateRunner(plan, model, distance, total, seed);
+  const done = new Uint8Array(total);
+  let completed = 0;
+
+  const runChunk = (from: number, to: number): void => {
+    if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to > total || from > to) {
+      throw new Error(`Replication range ${from}..${to} is outside 0..${total}.`);
+    }
+    for (let i = from; i < to; i++) {
+      runner.run(i);
+      if (!done[i]) {
+        done[i] = 1;
+        completed++;
+      }
+    }
+  };
+
+  const finish = (): SimulationResult => {
+    if (completed < total) throw new Error(`Only ${completed} of ${total} replications have run; cannot summarise yet.`);
+    const { est, se, flags, tau } = runner;
+    const summary = (id: AnalysisId, slot: number, sample: 'full' | 'matched') =>
+      summariseAnalysis(id, est[slot] as Float64Array, se[slot] as Float64Array, flags[slot] as Uint8Array, total, tau, sample);
+    const analyses = {} as SimulationResult['analyses'];
+    const estimates = {} as SimulationResult['estimates'];
+    for (const id of ANALYSIS_IDS) {
+      const slot = SLOT[id];
+      analyses[id] = summary(id, slot, id === 'matchedDifference' ? 'matched' : 'full');
+      const list: number[] = [];
+      const e = est[slot] as Float64Array;
+      const f = flags[slot] as Uint8Array;
+      for (let i = 0; i < total; i++) if ((f[i] as number) & FLAG_COMPUTED) list.push(e[i] as number);
+      estimates[id] = list;
+    }
+    return {
+      plan: structuredClone(plan),
+      seed,
+      replications: total,
+      tau,
+      analyses,
+      ancovaMatchedSample: summary('ancova', A_ANCOVA_MATCHED, 'matched'),
+      matching: runner.matchingSummary(),
+      estimates,
+      example: runner.example ?? { pairs: [], discarded: [] },
+      balance: runner.balanceSummary(),
+    };
+  };
+
+  return {
+    total,
+    seed,
+    get completed() {
+      return completed;
+    },
+    runChunk,
+    finish,
+  };
+}
+
+/** Mean and its MCSE (sd / sqrt(n)) of values[i] over i with ok(i); [0, 0] when none. */
+function meanAndMCSE(values: Float64Array, n: number, ok: (i: number) => boolean): [number, number] {
+  let c = 0;
+  let s = 0;
+  for (let i = 0; i < n; i++) {
+    if (!ok(i)) continue;
+    c++;
+    s += values[i] as number;
+  }
+  if (c === 0) return [0, 0];
+  const mean = s / c;
+  if (c < 2) return [mean, 0];
+  let ss = 0;
+  for (let i = 0; i < n; i++) {
+    if (!ok(i)) continue;
+    const d = (values[i] as number) - mean;
+    ss += d * d;
+  }
+  return [mean, Math.sqrt(ss / (c - 1) / c)];
+}
+
+/**
+ * One pass over col[from..to): count, shifted sum and sum of squares of all
+ * rows (out[0..2]) and of the rows weighted by weight[i − from] (out[3..5]);
+ * values are shifted by `shift` (Chan, Golub & LeVeque 1983).
+ */
+function subsetSums(col: Float64Array, from: number, to: number, weight: ArrayLike<number>, shift: number, out: Float64Array): void {
+  let s = 0, ss = 0, n2 = 0, s2 = 0, ss2 = 0;
+  for (let i = from; i < to; i++) {
+    const d = (col[i] as number) - shift;
+    s += d;
+    ss += d * d;
+    const w = weight[i - from] as number;
+    if (w !== 0) {
+      n2 += w;
+      s2 += w * d;
+      ss2 += w * d * d;
+    }
+  }
+  out[0] = to - from;
+  out[1] = s;
+  out[2] = ss;
+  out[3] = n2;
+  out[4] = s2;
+  out[5] = ss2;
+}
+
+/** Mean and variance (divisor n − 1; 0 when n < 2) from shifted sums. */
+function meanOf(n: number, s: number, shift: number): number {
+  return n > 0 ? shift + s / n : 0;
+}
+function varianceOf(n: number, s: number, ss: number): number {
+  return n > 1 ? Math.max(0, ss - (s * s) / n) / (n - 1) : 0;
+}
+
+/**
+ * One several-covariate simulation's settings, buffers and per-replication
+ * work. A class, like the one-covariate engine's, so the hot loops compile
+ * once for every simulation created.
+ */
+class MultivariateRunner {
+  readonly seed: number;
+  readonly total: number;
+  readonly nP: number;
+  readonly nC: number;
+  readonly k: number;
+  readonly tau: number;
+  readonly direction: number;
+  readonly distance: MatchingDistance;
+  readonly settings: MatchSettings;
+  readonly caliperUnits: number;
+  readonly names: string[];
+  readonly measuredNames: string[];
+  readonly measuredFlags: boolean[];
+  readonly exactFlags: boolean[];
+  readonly variables: number;
+  readonly pools: CovariatePools;
+  readonly rng: Xoshiro128StarStar;
+  readonly normal: NormalSampler;
+  /** Observed measured covariates (pretest first), views of the pools' columns. */
+  readonly measuredObserved: Float64Array[];
+  /** Observed exactly matched covariates. */
+  readonly exactObserved: Float64Array[];
+  /** Indices within the measured list of those not matched exactly (for the Mahalanobis distance). */
+  readonly notExact: number[];
+  readonly strata: Int32Array | null;
+  readonly correction: Float64Array;
+  readonly P: GroupMoments;
+  readonly C: GroupMoments;
+  readonly MP: GroupMoments;
+  readonly MC: GroupMoments;
+  readonly out = new Float64Array(3);
+  readonly mv = new Float64Array(3);
+  readonly sums = new Float64Array(6);
+  readonly programmeGroup: Uint8Array;
+  readonly logit: Float64Array;
+  readonly logisticScratch: Float64Array;
+  readonly coords: Float64Array[];
+  readonly scoreWs: ScoreMatchingWorkspace | null;
+  readonly mahalanobisWs: MahalanobisMatchingWorkspace | null;
+  readonly matchedFlag: Uint8Array;
+  readonly useCount: Int32Array;
+  readonly pooledSxx: Float64Array;
+  readonly critAlpha: TCriticalValues;
+  readonly crit95: TCriticalValues;
+  readonly est: Float64Array[] = [];
+  readonly se: Float64Array[] = [];
+  readonly flags: Uint8Array[] = [];
+  readonly matchedCount: Float64Array;
+  /** Balance records: bal[v * B_COUNT + metric][i]. */
+  readonly bal: Float64Array[] = [];
+  readonly balOk: Uint8Array;
+  example: SimulationResult['example'] | null = null;
+
+  constructor(plan: Plan, model: CovariateModel, distance: MatchingDistance, total: number, seed: number) {
+    this.seed = seed;
+    this.total = total;
+    this.nP = model.n.programme;
+    this.nC = model.n.comparison;
+    const N = this.nP + this.nC;
+    this.k = plan.matching.ratio;
+    this.tau = model.effect;
+    this.direction = this.tau < 0 ? -1 : 1; // tau = 0: a positive effect is the hoped-for direction
+    this.distance = distance;
+    this.caliperUnits = plan.matching.caliper;
+    this.settings = {
+      caliper: plan.matching.caliper,
+      method: plan.matching.method,
+      replacement: plan.matching.replacement,
+      order: plan.matching.order ?? 'random',
+    };
+    this.names = [...model.names];
+    this.measuredFlags = [...model.measured];
+    this.exactFlags = [...model.exact];
+    this.variables = model.names.length;
+    this.pools = createCovariatePools(model);
+    this.rng = new Xoshiro128StarStar();
+    this.normal = new NormalSampler(this.rng);
+    const m = model.measuredIndices;
+    this.measuredNames = m.map((j) => model.names[j] as string);
+    this.measuredObserved = m.map((j) => this.pools.observed[j] as Float64Array);
+    this.exactObserved = model.exactIndices.map((j) => this.pools.observed[j] as Float64Array);
+    this.notExact = m.map((j, t) => (model.exact[j] ? -1 : t)).filter((t) => t >= 0);
+    this.strata = this.exactObserved.length > 0 ? new Int32Array(N) : null;
+
+    // Λ = Σ_T'[m, m] Σ_X[m, m]^-1 (pooled), the corrected ANCOVA's replacement matrix.
+    const assumed = assumedTrueScoreCovariance(model, plan.analysis.assumedReliability);
+    const sub = (s: number[][]) => new Matrix(m.map((a) => m.map((b) => s[a]?.[b] as number)));
+    const lambda = sub(assumed).mmul(inverse(sub(model.sigmaX.pooled)));
+    const p = m.length;
+    this.correction = new Float64Array(p * p);
+    for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) this.correction[a * p + b] = lambda.get(a, b);
+
+    this.P = createGroupMoments(p);
+    this.C = createGroupMoments(p);
+    this.MP = createGroupMoments(p);
+    this.MC = createGroupMoments(p);
+    this.pooledSxx = new Float64Array(p * p);
+    this.programmeGroup = new Uint8Array(N).fill(1, this.nC);
+    this.logit = distance === 'propensity' ? new Float64Array(N) : new Float64Array(0);
+    this.logisticScratch = distance === 'propensity' ? new Float64Array(N * p) : new Float64Array(0);
+    this.coords = distance === 'mahalanobis' ? this.notExact.map(() => new Float64Array(N)) : [];
+    this.scoreWs = distance === 'mahalanobis' ? null : createScoreMatchingWorkspace(this.nP, this.nC, this.k);
+    this.mahalanobisWs = distance === 'mahalanobis' ? createMahalanobisMatchingWorkspace(this.nP, this.nC, this.k) : null;
+    this.matchedFlag = new Uint8Array(this.nP);
+    this.useCount = new Int32Array(this.nC);
+    this.critAlpha = new TCriticalValues(plan.analysis.alpha);
+    this.crit95 = new TCriticalValues(0.05);
+    for (let a = 0; a < 5; a++) {
+      this.est.push(new Float64Array(total));
+      this.se.push(new Float64Array(total));
+      this.flags.push(new Uint8Array(total));
+    }
+    this.matchedCount = new Float64Array(total);
+    for (let r = 0; r < this.variables * B_COUNT; r++) this.bal.push(new Float64Array(total));
+    this.balOk = new Uint8Array(total * this.variables);
+  }
+
+  private record(a: number, i: number, e: number, s: number, df: number): void {
+    let f = FLAG_COMPUTED;
+    if (Math.abs(e - this.tau) <= this.crit95.get(df) * s) f |= FLAG_COVERED;
+    if (Math.abs(e) > this.critAlpha.get(df) * s) {
+      f |= FLAG_REJECTED;
+      if (e * this.direction < 0) f |= FLAG_WRONG_SIGN;
+    }
+    (this.est[a] as Float64Array)[i] = e;
+    (this.se[a] as Float64Array)[i] = s;
+    (this.flags[a] as Uint8Array)[i] = f;
+  }
+
+  /** Replication i, from its own random stream; results stored at index i. */
+  run(i: number): void {
+    const { nP, nC, k, pools, P, C, MP, MC, out } = this;
+    const N = nP + nC;
+    const y = pools.outcome;
+    this.rng.reseed(this.seed, i);
+    this.normal.reset();
+    drawCovariatePools(pools, this.normal);
+
+    // Full-sample analyses on all measured covariates.
+    const cols = this.measuredObserved;
+    groupMoments(cols, y, 0, nC, null, C);
+    groupMoments(cols, y, nC, N, null, P);
+    if (ancovaOnCovariates(P, C, null, out)) this.record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
+    if (ancovaOnCovariates(P, C, this.correction, out)) this.record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
+    {
+      // Gain score Y − pretest: pooled-variance two-sample t (Student 1908), df n − 2. The pretest is measured variable 0.
+      const dfG = nP + nC - 2;
+      const ss = P.syy - 2 * (P.sxy[0] as number) + (P.sxx[0] as number) + (C.syy - 2 * (C.sxy[0] as number) + (C.sxx[0] as number));
+      const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
+      const e = P.meanY - (P.means[0] as number) - (C.meanY - (C.means[0] as number));
+      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.record(A_GAIN, i, e, s, dfG);
+    }
+
+    // Match.
+    const strata = this.strata;
+    const strataCount = strata ? exactStrata(this.exactObserved, N, strata) : 1;
+    let matching: CovariateMatching;
+    let m: number;
+    const settings = this.settings;
+    if (this.distance === 'mahalanobis') {
+      const p = P.p;
+      for (let a = 0; a < p * p; a++) this.pooledSxx[a] = (P.sxx[a] as number) + (C.sxx[a] as number);
+      if (!whitenedCoordinates(cols, this.notExact, this.pooledSxx, N - 2, N, this.coords)) {
+        throw new Error(
+          `The Mahalanobis distance cannot be computed (simulated replication ${i + 1}): the measured covariates (${this.measuredNames.join(', ')}) ` +
+            'are collinear in these data, so their covariance matrix has no inverse. Leave one of them out.',
+        );
+      }
+      const ws = this.mahalanobisWs as MahalanobisMatchingWorkspace;
+      m = matchOnMahalanobis(this.coords, strata, strataCount, pools.observed[0] as Float64Array, settings, this.rng, ws);
+      matching = ws;
+    } else {
+      let score: Float64Array;
+      let vP: number;
+      let vC: number;
+      if (this.distance === 'propensity') {
+        fitLogisticRegression(cols, this.programmeGroup, N, {
+          names: this.measuredNames,
+          linearPredictor: this.logit,
+          where: `simulated replication ${i + 1}`,
+          start: this.discriminantStart(),
+          scratch: this.logisticScratch,
+        });
+        score = this.logit;
+        const sums = this.sums;
+        subsetSums(score, nC, N, this.matchedFlag, 0, sums);
+        vP = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
+        subsetSums(score, 0, nC, this.useCount, 0, sums);
+        vC = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
+      } else {
+        score = pools.observed[0] as Float64Array;
+        vP = (P.sxx[0] as number) / (nP - 1);
+        vC = (C.sxx[0] as number) / (nC - 1);
+      }
+      // Caliper in pooled SDs of the score, sqrt((s_P² + s_C²) / 2) (Cochran & Rubin 1973; Austin 2011 for the logit).
+      const caliper = this.caliperUnits * Math.sqrt((vP + vC) / 2);
+      const ws = this.scoreWs as ScoreMatchingWorkspace;
+      m = matchOnScore(score, strata, strataCount, { ...settings, caliper }, this.rng, ws);
+      matching = ws;
+    }
+
+    // Matched sets: D_j = Y_j − mean of its partners' Y; stacked partner rows weighted by use.
+    const { partners, partnerCount } = matching;
+    const matchedFlag = this.matchedFlag;
+    const useCount = this.useCount;
+    useCount.fill(0);
+    let dS = 0;
+    let dSS = 0;
+    for (let j = 0; j < nP; j++) {
+      const cnt = partnerCount[j] as number;
+      matchedFlag[j] = cnt > 0 ? 1 : 0;
+      if (cnt === 0) continue;
+      let ySum = 0;
+      for (let q = 0; q < cnt; q++) {
+        const c = partners[j * k + q] as number;
+        useCount[c] = (useCount[c] as number) + 1;
+        ySum += y[c] as number;
+      }
+      const d = (y[nC + j] as number) - ySum / cnt;
+      dS += d;
+      dSS += d * d;
+    }
+    if (m >= 2) {
+      const mean = dS / m;
+      const v = (dSS - dS * mean) / (m - 1);
+      const s = Math.sqrt(v / m);
+      if (s > 0 && Number.isFinite(s)) this.record(A_MATCHED, i, mean, s, m - 1);
+      groupMoments(cols, y, nC, N, matchedFlag, MP);
+      groupMoments(cols, y, 0, nC, useCount, MC);
+      if (ancovaOnCovariates(MP, MC, null, out)) this.record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+    }
+    this.matchedCount[i] = m;
+    this.recordBalance(i, m);
+    if (i === 0) this.example = this.captureExample(matching);
+  }
+
+  /**
+   * Linear discriminant coefficients from this replication's moments, as the
+   * logistic regression's starting point: slopes S^-1 (x̄_P − x̄_C) with S the
+   * pooled within-group covariance, intercept log(n_P / n_C) − slopes'(x̄_P + x̄_C)/2
+   * (the log-odds under normal covariates with a common covariance; Efron 1975, from memory).
+   * Undefined when S is singular (the regression then starts from zero slopes).
+   */
+  private discriminantStart(): number[] | undefined {
+    const { P, C, nP, nC } = this;
+    const p = P.p;
+    const s = new Matrix(p, p);
+    for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) s.set(a, b, ((P.sxx[a * p + b] as number) + (C.sxx[a * p + b] as number)) / (nP + nC - 2));
+    const cho = new CholeskyDecomposition(s);
+    if (!cho.isPositiveDefinite()) return undefined;
+    const d = Matrix.columnVector(Array.from({ length: p }, (_, a) => (P.means[a] as number) - (C.means[a] as number)));
+    const slopes = cho.solve(d).getColumn(0);
+    let intercept = Math.log(nP / nC);
+    for (let a = 0; a < p; a++) intercept -= ((slopes[a] as number) * ((P.means[a] as number) + (C.means[a] as number))) / 2;
+    return [intercept, ...slopes];
+  }
+
+  /** Observed and true differences of every variable before and after matching (replication i). */
+  private recordBalance(i: number, m: number): void {
+    const { nP, nC, pools, sums, bal, matchedFlag, useCount } = this;
+    const N = nP + nC;
+    const p = this.variables;
+    for (let v = 0; v < p; v++) {
+      let ok = 0;
+      for (let series = 0; series < 2; series++) {
+        const col = (series === 0 ? pools.observed[v] : pools.trueScore[v]) as Float64Array;
+        const shift = col[0] as number;
+        subsetSums(col, nC, N, matchedFlag, shift, sums);
+        const meanP = meanOf(sums[0] as number, sums[1] as number, shift);
+        const varP = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
+        const nMP = sums[3] as number;
+        const meanMP = meanOf(nMP, sums[4] as number, shift);
+        const varMP = varianceOf(nMP, sums[4] as number, sums[5] as number);
+        subsetSums(col, 0, nC, useCount, shift, sums);
+        const meanC = meanOf(sums[0] as number, sums[1] as number, shift);
+        const varC = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
+        const nMC = sums[3] as number;
+        const meanMC = meanOf(nMC, sums[4] as number, shift);
+        const varMC = varianceOf(nMC, sums[4] as number, sums[5] as number);
+        const base = v * B_COUNT;
+        (bal[base + (series === 0 ? B_OBS_BEFORE : B_TRUE_BEFORE)] as Float64Array)[i] = meanP - meanC;
+        (bal[base + (series === 0 ? B_OBS_SD : B_TRUE_SD)] as Float64Array)[i] = Math.sqrt((varP + varC) / 2);
+        if (m >= 1) {
+          ok |= AFTER_OK;
+          (bal[base + (series === 0 ? B_OBS_AFTER : B_TRUE_AFTER)] as Float64Array)[i] = meanMP - meanMC;
+          if (series === 0 && nMP >= 2 && nMC >= 2 && varMC > 0 && Number.isFinite(varMP / varMC)) {
+            (bal[base + B_VAR_RATIO] as Float64Array)[i] = varMP / varMC;
+            ok |= VAR_RATIO_OK;
+          }
+        }
+      }
+      this.balOk[i * p + v] = ok;
+    }
+  }
+
+  /** Per-variable balance over all replications (pretest first). */
+  balanceSummary(): CovariateBalance[] {
+    const { total, variables: p, bal, balOk } = this;
+    const result: CovariateBalance[] = [];
+    const smd = new Float64Array(total);
+    for (let v = 0; v < p; v++) {
+      const series = (metric: number) => bal[v * B_COUNT + metric] as Float64Array;
+      const all = () => true;
+      const after = (i: number) => ((balOk[i * p + v] as number) & AFTER_OK) !== 0;
+      const ratioOk = (i: number) => ((balOk[i * p + v] as number) & VAR_RATIO_OK) !== 0;
+      // SMDs: difference over the full pools' pooled SD of the same replication (Stuart 2010).
+      const obsBefore = meanAndMCSE(scaled(series(B_OBS_BEFORE), series(B_OBS_SD), smd, total), total, all);
+      const obsAfter = meanAndMCSE(scaled(series(B_OBS_AFTER), series(B_OBS_SD), smd, total), total, after);
+      const trueBefore = meanAndMCSE(scaled(series(B_TRUE_BEFORE), series(B_TRUE_SD), smd, total), total, all);
+      const trueAfter = meanAndMCSE(scaled(series(B_TRUE_AFTER), series(B_TRUE_SD), smd, total), total, after);
+      const ratio = meanAndMCSE(series(B_VAR_RATIO), total, ratioOk);
+      result.push({
+        name: this.names[v] as string,
+        measured: this.measuredFlags[v] as boolean,
+        exact: this.exactFlags[v] as boolean,
+        observedSMDBefore: obsBefore[0],
+        observedSMDBeforeMCSE: obsBefore[1],
+        observedSMDAfter: obsAfter[0],
+        observedSMDAfterMCSE: obsAfter[1],
+        trueSMDBefore: trueBefore[0],
+        trueSMDBeforeMCSE: trueBefore[1],
+        trueSMDAfter: trueAfter[0],
+        trueSMDAfterMCSE: trueAfter[1],
+        varianceRatioAfter: ratio[0],
+        varianceRatioAfterMCSE: ratio[1],
+      });
+    }
+    return result;
+  }
+
+  /** The pretest's matching summary, in the one-covariate engine's shape. */
+  matchingSummary(): SimMatchingSummary {
+    const { total, nP, bal, balOk, variables: p } = this;
+    const s = (metric: number) => bal[metric] as Float64Array; // pretest = variable 0
+    const all = () => true;
+    const after = (i: number) => ((balOk[i * p] as number) & AFTER_OK) !== 0;
+    const ratioOk = (i: number) => ((balOk[i * p] as number) & VAR_RATIO_OK) !== 0;
+    const smd = new Float64Array(total);
+    const [matchedMean, matchedMCSE] = meanAndMCSE(this.matchedCount, total, all);
+    const obsAfter = meanAndMCSE(s(B_OBS_AFTER), total, after);
+    const trueAfter = meanAndMCSE(s(B_TRUE_AFTER), total, after);
+    let withMatches = 0;
+    for (let i = 0; i < total; i++) if (after(i)) withMatches++;
+    return {
+      meanMatchedProgramme: matchedMean,
+      meanMatchedProgrammeMCSE: matchedMCSE,
+      discardedProgrammeShare: 1 - matchedMean / nP,
+      discardedProgrammeShareMCSE: matchedMCSE / nP,
+      observedDifferenceBefore: meanAndMCSE(s(B_OBS_BEFORE), total, all)[0],
+      observedDifferenceAfter: obsAfter[0],
+      observedDifferenceAfterMCSE: obsAfter[1],
+      observedSMDBefore: meanAndMCSE(scaled(s(B_OBS_BEFORE), s(B_OBS_SD), smd, total), total, all)[0],
+      observedSMDAfter: meanAndMCSE(scaled(s(B_OBS_AFTER), s(B_OBS_SD), smd, total), total, after)[0],
+      trueDifferenceBefore: meanAndMCSE(s(B_TRUE_BEFORE), total, all)[0],
+      trueDifferenceAfter: trueAfter[0],
+      trueDifferenceAfterMCSE: trueAfter[1],
+      trueSMDBefore: meanAndMCSE(scaled(s(B_TRUE_BEFORE), s(B_TRUE_SD), smd, total), total, all)[0],
+      trueSMDAfter: meanAndMCSE(scaled(s(B_TRUE_AFTER), s(B_TRUE_SD), smd, total), total, after)[0],
+      varianceRatioAfter: meanAndMCSE(s(B_VAR_RATIO), total, ratioOk)[0],
+      replicationsWithMatches: withMatches,
+    };
+  }
+
+  private captureExample(matching: CovariateMatching): SimulationResult['example'] {
+    const { nP, nC, k, pools } = this;
+    const x = pools.observed[0] as Float64Array;
+    const t = pools.trueScore[0] as Float64Array;
+    const y = pools.outcome;
+    const pairs: ExamplePair[] = [];
+    const discarded: { observed: number; trueScore: number }[] = [];
+    for (let j = 0; j < nP; j++) {
+      const i = nC + j;
+      const cnt = matching.partnerCount[j] as number;
+      if (cnt === 0) {
+        discarded.push({ observed: x[i] as number, trueScore: t[i] as number });
+        continue;
+      }
+      const comparison: ExamplePair['comparison'] = [];
+      for (let q = 0; q < cnt; q++) {
+        const c = matching.partners[j * k + q] as number;
+        comparison.push({ observed: x[c] as number, trueScore: t[c] as number, outcome: y[c] as number });
+      }
+      pairs.push({ programme: { observed: x[i] as number, trueScore: t[i] as number, outcome: y[i] as number }, comparison });
+    }
+    return { pairs, discarded };
+  }
+}
+
+/** out[i] = diff[i] / sd[i] (0 when sd is 0), for i < n; returns out. */
+function scaled(diff: Float64Array, sd: Float64Array, out: Float64Array, n: number): Float64Array {
+  for (let i = 0; i < n; i++) out[i] = (sd[i] as number) > 0 ? (diff[i] as number) / (sd[i] as number) : 0;
+  return out;
+}
