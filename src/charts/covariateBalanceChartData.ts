@@ -15,8 +15,8 @@ export interface CovariateBalanceRow {
   varianceRatio: number | null;
   /** Whether the variance ratio falls outside the acceptable range (Rubin 2001). */
   varianceRatioOutside: boolean;
-  /** Monte Carlo SEs of the simulated figures. */
-  mcse: { observedAfter: number; trueAfter: number; varianceRatio: number | null };
+  /** Monte Carlo SEs of the simulated figures; null for closed-form figures. */
+  mcse: { observedAfter: number; trueAfter: number; varianceRatio: number | null } | null;
 }
 
 /** Plain data for the per-covariate balance chart. */
@@ -24,8 +24,9 @@ export interface CovariateBalanceChartData {
   chart: 'covariateBalance';
   title: string;
   xLabel: string;
-  source: 'simulation';
-  replications: number;
+  source: 'closed-form' | 'simulation';
+  /** Simulated studies the figures average over; null for closed-form figures. */
+  replications: number | null;
   rows: CovariateBalanceRow[];
   /** SMD reference lines: 0.1 strict, 0.25 lenient (Normand et al. 2001; Austin 2009; Rubin 2001; Stuart 2010). */
   thresholds: [number, number];
@@ -40,26 +41,44 @@ export const SMD_THRESHOLDS: [number, number] = [0.1, 0.25];
 /** Variance ratios outside this range flag poor balance (Rubin 2001; Stuart 2010). */
 export const VARIANCE_RATIO_RANGE: [number, number] = [0.5, 2];
 
-/** Whether the per-covariate chart applies: the simulation reports balance per covariate. */
+/** Whether the per-covariate chart applies: the simulation or the closed form reports balance per covariate. */
 export function hasCovariateBalance(input: ChartInput): boolean {
-  return Boolean(input.simulation?.balance && input.simulation.balance.length > 0);
+  return Boolean((input.simulation?.balance?.length ?? 0) > 0 || (input.analytic.covariateBalance?.length ?? 0) > 0);
+}
+
+/** The figures one row needs, from either source (src/sim's CovariateBalance or src/core's ExpectedCovariateBalance). */
+interface BalanceFigures {
+  name: string;
+  measured: boolean;
+  exact: boolean;
+  observedSMDBefore: number;
+  observedSMDAfter: number;
+  trueSMDBefore: number;
+  trueSMDAfter: number;
+  varianceRatioAfter: number;
+  observedSMDAfterMCSE?: number;
+  trueSMDAfterMCSE?: number;
+  varianceRatioAfterMCSE?: number;
 }
 
 /**
- * Transform a simulation's per-covariate balance into the chart's data:
- * for the pretest and every covariate (measured or not), the observed SMD
- * before and after matching, the true-score SMD after matching, and the
- * observed variance ratio after matching flagged when outside 0.5–2. Every
- * figure is the engine's (src/sim); nothing is computed here beyond the
- * flag and the axis range. Pure and deterministic.
+ * Transform per-covariate balance into the chart's data: for the pretest and
+ * every covariate (measured or not), the observed SMD before and after
+ * matching, the true-score SMD after matching, and the observed variance
+ * ratio after matching, flagged when outside 0.5–2. The figures are the
+ * simulation's (src/sim, means over replications with Monte Carlo SEs) when
+ * a run of this plan carries them, else core's closed form (exact matching
+ * from an unlimited pool). Nothing is computed here beyond the flag and the
+ * axis range. Pure and deterministic.
  *
- * @throws Error when the simulation carries no per-covariate balance, or a
- *   figure is not a finite number (no matched sets).
+ * @throws Error when neither source has per-covariate balance, or a figure
+ *   is not a finite number (no matched sets).
  */
-export function covariateBalanceChartData({ simulation }: ChartInput): CovariateBalanceChartData {
-  const balance = simulation?.balance;
-  if (!simulation || !balance || balance.length === 0) {
-    throw new Error('Balance per covariate comes from the simulation: run it to see this chart.');
+export function covariateBalanceChartData({ analytic, simulation }: ChartInput): CovariateBalanceChartData {
+  const simulated = simulation?.balance && simulation.balance.length > 0 ? simulation.balance : null;
+  const balance: readonly BalanceFigures[] | undefined = simulated ?? analytic.covariateBalance;
+  if (!balance || balance.length === 0) {
+    throw new Error('This plan has no balance per covariate (it matches on the pretest alone and lists no covariates).');
   }
   const [lo, hi] = VARIANCE_RATIO_RANGE;
   const rows: CovariateBalanceRow[] = balance.map((b) => {
@@ -81,11 +100,13 @@ export function covariateBalanceChartData({ simulation }: ChartInput): Covariate
       trueAfter: b.trueSMDAfter,
       varianceRatio: vr,
       varianceRatioOutside: vr !== null && (vr < lo || vr > hi),
-      mcse: {
-        observedAfter: b.observedSMDAfterMCSE,
-        trueAfter: b.trueSMDAfterMCSE,
-        varianceRatio: vr === null || !Number.isFinite(b.varianceRatioAfterMCSE) ? null : b.varianceRatioAfterMCSE,
-      },
+      mcse: simulated
+        ? {
+            observedAfter: b.observedSMDAfterMCSE ?? NaN,
+            trueAfter: b.trueSMDAfterMCSE ?? NaN,
+            varianceRatio: vr === null || !Number.isFinite(b.varianceRatioAfterMCSE) ? null : (b.varianceRatioAfterMCSE as number),
+          }
+        : null,
     };
   });
   const largest = Math.max(0.3, ...rows.flatMap((r) => [Math.abs(r.observedBefore), Math.abs(r.observedAfter), Math.abs(r.trueAfter)]));
@@ -93,8 +114,8 @@ export function covariateBalanceChartData({ simulation }: ChartInput): Covariate
     chart: 'covariateBalance',
     title: 'Balance on each covariate: observed after matching, and on the true scores',
     xLabel: 'Absolute standardised mean difference (pooled SD units)',
-    source: 'simulation',
-    replications: simulation.replications,
+    source: simulated ? 'simulation' : 'closed-form',
+    replications: simulated && simulation ? simulation.replications : null,
     rows,
     thresholds: SMD_THRESHOLDS,
     varianceRatioRange: VARIANCE_RATIO_RANGE,

@@ -36,7 +36,15 @@ export function renderCovariateBalanceChart(svg: SVGSVGElement, data: CovariateB
   const right = 112;
   const x = d3.scaleLinear().domain([0, data.xMax]).range([left, width - right]);
   text(root, 12, 18, data.title, { 'font-size': FONT.title, 'font-weight': 'bold' });
-  text(root, 12, 36, `From ${data.replications} simulated studies (mean over replications)`, { fill: GROUP_COLOURS.muted });
+  text(
+    root,
+    12,
+    36,
+    data.source === 'simulation'
+      ? `From ${data.replications} simulated studies (mean over replications)`
+      : 'Closed form: exact matching from an unlimited comparison pool',
+    { fill: GROUP_COLOURS.muted },
+  );
 
   // Legend: shape and fill tell the three figures apart, not colour alone.
   const ly = 56;
@@ -50,6 +58,11 @@ export function renderCovariateBalanceChart(svg: SVGSVGElement, data: CovariateB
   text(root, width - right + 10, TOP - 4, `after (ok ${fmt(data.varianceRatioRange[0], 1)} to ${fmt(data.varianceRatioRange[1], 0)})`, { fill: GROUP_COLOURS.muted });
 
   const plotBottom = height - BOTTOM;
+  const rowH = (plotBottom - TOP) / Math.max(1, data.rows.length);
+  // Alternate row shading first, so the reference lines stay visible on top of it.
+  data.rows.forEach((_, i) => {
+    if (i % 2 === 1) add(root, 'rect', { x: 4, y: TOP + rowH * i, width: width - 8, height: rowH, fill: '#f4f5f6' });
+  });
   for (const [t, label] of [
     [data.thresholds[0], `${fmt(data.thresholds[0], 2)} strict`],
     [data.thresholds[1], `${fmt(data.thresholds[1], 2)} lenient`],
@@ -62,13 +75,11 @@ export function renderCovariateBalanceChart(svg: SVGSVGElement, data: CovariateB
   const emph = opts.highlight === null || opts.highlight === 'matchedDifference';
   const plot = add(root, 'g', { opacity: emph ? 1 : DIMMED_OPACITY + 0.4 });
   linkSeries(plot, 'matchedDifference', opts, false);
-  const rowH = (plotBottom - TOP) / Math.max(1, data.rows.length);
   const clamp = (v: number) => x(Math.min(Math.abs(v), data.xMax));
   data.rows.forEach((r, i) => {
     const yy = TOP + rowH * (i + 0.5);
     const row = add(plot, 'g');
     row.attr('data-covariate', r.name);
-    if (i % 2 === 1) add(row, 'rect', { x: 4, y: yy - rowH / 2, width: width - 8, height: rowH, fill: '#f6f7f8' });
     const name = r.name.length > 22 ? `${r.name.slice(0, 21)}...` : r.name;
     text(row, 12, yy + (r.measured && !r.exact ? 4 : -2), name, { 'font-size': FONT.label, 'font-weight': 'bold', fill: '#222222' });
     if (!r.measured) text(row, 12, yy + 12, 'not measured', { fill: FLAG, 'font-style': 'italic' });
@@ -78,11 +89,17 @@ export function renderCovariateBalanceChart(svg: SVGSVGElement, data: CovariateB
     const xa = clamp(r.observedAfter);
     const xt = clamp(r.trueAfter);
     // Observed: before → after on the row's upper lane; the true score sits on the lower lane.
-    const yo = yy - 7;
-    const yt = yy + 8;
+    const yo = yy - 4;
+    const yt = yy + 11;
     if (Math.abs(xb - xa) > 10) add(row, 'line', { x1: xb, x2: xa, y1: yo, y2: yo, stroke: OBSERVED, 'stroke-width': 1.5 });
     add(row, 'circle', { cx: xb, cy: yo, r: 5, fill: '#ffffff', stroke: OBSERVED, 'stroke-width': 1.5 });
+    // The before value sits above its hollow circle (the after value is in the text alternative and usually near 0).
+    text(row, xb, yo - 9, fmt(r.observedBefore, 2), { 'text-anchor': 'middle', fill: GROUP_COLOURS.muted });
     add(row, 'circle', { cx: xa, cy: yo, r: 5, fill: OBSERVED });
+    // Label the after value too when it is visibly off zero and clear of the before label.
+    if (Math.abs(r.observedAfter) >= 0.05 && Math.abs(xb - xa) > 34) {
+      text(row, xa, yo - 9, fmt(r.observedAfter, 2), { 'text-anchor': 'middle', fill: OBSERVED, 'font-weight': 'bold' });
+    }
     add(row, 'line', { x1: xa, x2: xt, y1: yo, y2: yt, stroke: TRUE_SCORE, 'stroke-width': 1, 'stroke-dasharray': '2 2' });
     add(row, 'path', { d: markerPath('diamond', xt, yt, 5.5), fill: TRUE_SCORE });
     text(row, Math.min(xt + 9, width - right - 34), yt + 4, fmt(r.trueAfter, 2), { fill: TRUE_SCORE, 'font-weight': 'bold' });

@@ -52,7 +52,9 @@ export function covariateBalanceChartText(data: CovariateBalanceChartData): Char
       ? `Variance ratio after matching outside ${fmt(lo, 1)}–${fmt(hi, 0)} (poor balance of spread): ${listNames(vrOff.map((r) => `${r.name} (${fmt(r.varianceRatio ?? NaN, 2)})`))}.`
       : `Every variance ratio after matching is within ${fmt(lo, 1)}–${fmt(hi, 0)}.`,
   );
-  sentences.push(`Figures are means over ${data.replications} simulated studies; the reference lines are at ${fmt(strict, 2)} (strict) and ${fmt(lenient, 2)} (lenient).`);
+  sentences.push(
+    `${data.source === 'simulation' ? `Figures are means over ${data.replications} simulated studies` : 'Figures are closed-form values for exact matching from an unlimited comparison pool'}; the reference lines are at ${fmt(strict, 2)} (strict) and ${fmt(lenient, 2)} (lenient).`,
+  );
   return {
     title: data.title,
     sentences,

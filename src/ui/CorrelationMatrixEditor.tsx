@@ -67,8 +67,8 @@ export function CorrelationMatrixEditor() {
           <tbody>
             {Array.from({ length: n }, (_, i) => (
               <tr key={i}>
-                <th scope="row">
-                  {i === 0 ? 'Pre' : i}. {matrixName(covariates, i)}
+                <th scope="row" title={matrixName(covariates, i)}>
+                  {i === 0 ? 'Pretest' : `${i}. ${matrixName(covariates, i)}`}
                 </th>
                 {Array.from({ length: n }, (_, j) => {
                   if (i === j) {

@@ -10,9 +10,8 @@ import { useMeanwardStore } from '../state/store';
  * The balance chart per covariate (pretest first): observed SMD before and
  * after matching, true-score SMD after matching, the 0.1 and 0.25 lines and
  * variance ratios flagged outside 0.5–2, with its text and table
- * alternative. Its figures come from the simulation; before a run (or when
- * the run is out of date) the card says so instead of showing stale or
- * invented values.
+ * alternative. Its figures come from the simulation of this plan when there
+ * is one, else from core's closed form (exact matching, unlimited pool).
  */
 export function CovariateBalanceCard({ input, simulationOutOfDate }: { input: ChartInput; simulationOutOfDate: boolean }) {
   const ref = useRef<SVGSVGElement>(null);
@@ -73,9 +72,7 @@ export function CovariateBalanceCard({ input, simulationOutOfDate }: { input: Ch
           <svg ref={ref} aria-labelledby={headingId} />
         ) : (
           <p className="chart-placeholder" data-testid="covariate-balance-placeholder">
-            {simulationOutOfDate
-              ? 'The simulation is out of date for this plan. Run it again to see the balance on each covariate after matching.'
-              : 'Balance on each covariate after matching comes from the simulation: run it (Check by simulation, above) to see, for every variable, the observed and the true-score standardised differences and the variance ratios.'}
+            Balance on each covariate appears once the plan is complete{simulationOutOfDate ? ' (the last simulation is for an earlier plan)' : ''}.
           </p>
         )}
       </div>

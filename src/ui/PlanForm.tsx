@@ -195,11 +195,11 @@ function MatchingSection() {
         <ChoiceField
           path="matching.distance"
           label="Match on"
-          hint="Covariates marked “match exactly” must agree whatever the distance; unmeasured covariates are never used."
+          hint="The propensity score is the logit fitted on every measured variable. Covariates marked “match exactly” must agree whatever the distance; unmeasured covariates are never used."
           options={[
             { value: 'pretest', label: 'The observed pretest alone' },
-            { value: 'propensity', label: 'Propensity score (logit) on all measured variables' },
-            { value: 'mahalanobis', label: 'Mahalanobis distance on all measured variables' },
+            { value: 'propensity', label: 'Propensity score (measured variables)' },
+            { value: 'mahalanobis', label: 'Mahalanobis distance (measured variables)' },
           ]}
         />
       )}

@@ -1,4 +1,5 @@
-import type { ArtefactVerdict } from '../core/analyticResults';
+import type { ArtefactVerdict, UnmeasuredBias } from '../core/analyticResults';
+import type { MatchingDistance } from '../core/plan';
 import { selectAnalytic, selectAnalyticStale, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { fmt, fmtPct, fmtSigned } from './format';
@@ -11,6 +12,42 @@ const VERDICT_WORDS: Record<ArtefactVerdict, { short: string; heading: string; s
   inflates: { short: 'inflates the effect', heading: 'inflates the effect', sentence: 'works in the programme’s favour: the programme would look better than it is.' },
   invents: { short: 'invents an effect', heading: 'invents an effect', sentence: 'would produce a difference even though the hoped-for effect is zero.' },
 };
+
+/** What the matched comparison matches on, in plain words. */
+const MATCHED_ON: Record<MatchingDistance, string> = {
+  pretest: 'the observed pretest',
+  propensity: 'the propensity score',
+  mahalanobis: 'the Mahalanobis distance',
+};
+
+/** "A", "A and B", "A, B and C". */
+function names(list: string[]): string {
+  return list.length <= 1 ? list.join('') : `${list.slice(0, -1).join(', ')} and ${list[list.length - 1]}`;
+}
+
+/**
+ * The part of the bias that no analysis of the measured variables removes
+ * (core's unmeasuredBias), in plain words; shown only for plans with covariates.
+ */
+function UnmeasuredPart({ u, tauZero }: { u: UnmeasuredBias; tauZero: boolean }) {
+  if (u.covariates.length === 0) {
+    return (
+      <p className="verdict-unmeasured" data-testid="verdict-unmeasured">
+        Every covariate you listed is measured, so none of this bias comes from a known confounder left unobserved. Confounders you did not list
+        are not in these figures.
+      </p>
+    );
+  }
+  const one = u.covariates.length === 1;
+  return (
+    <p className="verdict-unmeasured is-unremovable" data-testid="verdict-unmeasured">
+      <strong>Not measured: {names(u.covariates)}.</strong> Of the shift, <strong data-testid="verdict-unmeasured-bias">{fmtSigned(u.points)} points</strong>{' '}
+      ({fmtSigned(u.sd)} posttest SD{!tauZero && u.share !== null ? <>, {fmtPct(Math.abs(u.share), 0)} of the hoped-for effect</> : null}) comes from{' '}
+      {one ? 'this confounder' : 'these confounders'}. No matching, adjustment or reliability correction on the measured variables can remove that
+      part; only measuring {one ? 'it' : 'them'} could.
+    </p>
+  );
+}
 
 export function verdictWords(v: ArtefactVerdict) {
   return VERDICT_WORDS[v];
@@ -54,7 +91,7 @@ export function VerdictPanel() {
         </p>
       )}
       <p className="verdict-lead" data-testid="verdict-lead">
-        Matching on the observed pretest is expected to shift the estimated effect by{' '}
+        Matching on {MATCHED_ON[analytic.matchingDistance ?? 'pretest']} is expected to shift the estimated effect by{' '}
         <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
         {tauZero ? (
           <> when the hoped-for effect is zero.</>
@@ -99,6 +136,7 @@ export function VerdictPanel() {
           )}
         </li>
       </ul>
+      {analytic.unmeasuredBias && (plan.covariates?.length ?? 0) > 0 && <UnmeasuredPart u={analytic.unmeasuredBias} tauZero={tauZero} />}
       <p className="caution" role="note">
         <strong>A planning aid, not a verdict on your study.</strong> These figures hold under the stated assumptions (normal scores, linear
         relations, the reliability and correlations you entered). They do not replace advice from a statistician or review by an ethics board.
