@@ -16,7 +16,14 @@ import {
   withMcse,
 } from './format';
 import { PdfWriter, type TableColumn } from './pdfWriter';
-import { caliperPhrase, COVARIATE_CAUTION, COVARIATE_MODEL_LINES, writeCovariateBalance, writeCovariateInputs } from './reportCovariates';
+import {
+  caliperPhrase,
+  COVARIATE_CAUTION,
+  COVARIATE_MODEL_LINES,
+  writeCovariateBalance,
+  writeCovariateInputs,
+  writeUnmeasuredPart,
+} from './reportCovariates';
 import { planInputRows, type InputSource } from './planInputRows';
 import { CONTINUATION, PLAN_BEGIN, PLAN_END } from './planJsonBlock';
 import { FONT_SANS, loadReportFonts, registerReportFonts, type ReportFonts } from './reportFonts';
@@ -182,6 +189,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     w.paragraph(`${A[id].name}, assumption: ${A[id].assumption}`, { size: 8.5, muted: true, after: 2 });
   }
   w.gap(6);
+  writeUnmeasuredPart(w, plan, analytic);
 
   w.heading('Simulated studies', 3);
   if (sim === null) {

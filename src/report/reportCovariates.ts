@@ -4,9 +4,10 @@
  * simulated results, and the covariate model in brief. Values are shown as
  * entered or as src/core and src/sim return them (formatting only).
  */
+import type { AnalyticResults } from '../core/analyticResults';
 import type { MatchingDistance, Plan } from '../core/plan';
 import type { CovariateBalance } from '../sim/types';
-import { formatCount, formatInput, formatPoints, formatSD, withMcse } from './format';
+import { formatCount, formatInput, formatPoints, formatSD, formatShare, formatSignedPoints, withMcse } from './format';
 import type { PdfWriter, TableColumn } from './pdfWriter';
 
 /** Plain words for each matching distance. */
@@ -37,14 +38,14 @@ export interface ReportTable {
 /** The covariates as entered, one row each (empty when the plan has none). */
 export function covariateInputTable(plan: Plan): ReportTable {
   const columns: TableColumn[] = [
-    { header: 'Covariate', width: 22 },
-    { header: 'Programme mean', width: 12, align: 'right' },
-    { header: 'Comparison mean', width: 12, align: 'right' },
+    { header: 'Covariate', width: 16 },
+    { header: 'Programme mean', width: 13, align: 'right' },
+    { header: 'Comparison mean', width: 14, align: 'right' },
     { header: 'SD within a group', width: 11, align: 'right' },
-    { header: 'Reliability', width: 10, align: 'right' },
+    { header: 'Reliability', width: 12, align: 'right' },
     { header: 'Correlation with the outcome', width: 13, align: 'right' },
-    { header: 'Measured', width: 9 },
-    { header: 'Matched exactly', width: 11 },
+    { header: 'Measured', width: 11 },
+    { header: 'Matched exactly', width: 10 },
   ];
   const rows = (plan.covariates ?? []).map((c, i) => [
     `${i + 1}. ${c.name}`,
@@ -53,7 +54,7 @@ export function covariateInputTable(plan: Plan): ReportTable {
     formatInput(c.sd),
     formatInput(c.reliability),
     formatInput(c.outcomeCorrelation),
-    c.measured ? 'yes' : 'no (never matched or adjusted on)',
+    formatInput(c.measured),
     formatInput(c.exact),
   ]);
   return { columns, rows };
@@ -91,11 +92,11 @@ export function writeCovariateInputs(w: PdfWriter, plan: Plan): void {
 /** Balance per variable from the simulation, with Monte Carlo SEs (empty when the run has none). */
 export function covariateBalanceTable(balance: readonly CovariateBalance[] | undefined): ReportTable {
   const columns: TableColumn[] = [
-    { header: 'Variable', width: 24 },
-    { header: 'Observed SMD before', width: 14, align: 'right' },
-    { header: 'Observed SMD after', width: 19, align: 'right' },
-    { header: 'True-score SMD after (hidden)', width: 22, align: 'right' },
-    { header: 'Variance ratio after (0.5–2 acceptable)', width: 21, align: 'right' },
+    { header: 'Variable', width: 28 },
+    { header: 'Observed SMD before', width: 13, align: 'right' },
+    { header: 'Observed SMD after', width: 18, align: 'right' },
+    { header: 'True-score SMD after (hidden)', width: 21, align: 'right' },
+    { header: 'Variance ratio after (0.5–2 acceptable)', width: 20, align: 'right' },
   ];
   const rows = (balance ?? []).map((b) => [
     `${b.name}${b.measured ? (b.exact ? ' (matched exactly)' : '') : ' (not measured)'}`,
@@ -129,3 +130,31 @@ export const COVARIATE_MODEL_LINES: string[] = [
 /** Caution added when the plan lists covariates. */
 export const COVARIATE_CAUTION =
   'Covariates are modelled as jointly normal with linear relations and the same correlations in both groups. A category matched exactly is treated as a normal variable with no measurement error, an approximation. Confounders not listed at all (neither measured nor marked unmeasured) are not in these figures.';
+
+/** "A", "A and B", "A, B and C". */
+function listNames(names: readonly string[]): string {
+  return names.length <= 1 ? names.join('') : `${names.slice(0, -1).join(', ')} and ${names[names.length - 1]}`;
+}
+
+/**
+ * The unmeasured part of the bias in plain words (core's unmeasuredBias), or
+ * null when the plan lists no covariates.
+ */
+export function unmeasuredPartText(plan: Plan, analytic: AnalyticResults): string | null {
+  const u = analytic.unmeasuredBias;
+  if (!u || (plan.covariates?.length ?? 0) === 0) return null;
+  if (u.covariates.length === 0) {
+    return 'Every covariate listed in the plan is measured, so no part of the expected bias comes from a known confounder left unobserved. Confounders not listed are not in these figures.';
+  }
+  const one = u.covariates.length === 1;
+  const share = u.share === null ? '' : `, ${formatShare(Math.abs(u.share))} of the hoped-for effect`;
+  return `Not measured: ${listNames(u.covariates)}. ${formatSignedPoints(u.points)} post-test points (${formatSD(u.sd)} post-test SD${share}) of the expected bias come from ${one ? 'this confounder' : 'these confounders'}. No matching, adjustment or reliability correction on the measured variables removes that part, in any of the analyses above; only measuring ${one ? 'it' : 'them'} could.`;
+}
+
+/** Write the unmeasured part under the results (nothing for plans without covariates). */
+export function writeUnmeasuredPart(w: PdfWriter, plan: Plan, analytic: AnalyticResults): void {
+  const text = unmeasuredPartText(plan, analytic);
+  if (text === null) return;
+  w.heading('What was never measured', 3);
+  w.paragraph(text);
+}

@@ -1,0 +1,122 @@
+// @vitest-environment jsdom
+// The covariate parts of the PDF summary, read back with pdfjs-dist (an
+// independent PDF reader). Figures are compared as exact strings: the PDF
+// must show what analysePlan / simulatePlan return, through the shared
+// formatters (tolerance: none, formatting is deterministic).
+import { beforeAll, describe, expect, it } from 'vitest';
+import { analysePlan } from '../../src/core/analysePlan';
+import type { Plan } from '../../src/core/plan';
+import { demoPlan } from '../../src/io/demoPlan';
+import { buildReportPdf } from '../../src/report/buildReportPdf';
+import { formatPoints, formatSD, formatShare, formatSignedPoints, withMcse } from '../../src/report/format';
+import { reportCharts } from '../../src/report/reportCharts';
+import { covariateInputTable, correlationMatrixTable, unmeasuredPartText } from '../../src/report/reportCovariates';
+import { simulatePlan } from '../../src/sim/simulatePlan';
+import type { SimulationResult } from '../../src/sim/types';
+import { TEST_FONTS } from './fontsFromDisk';
+import { readPdfText, type PdfText } from './readPdfText';
+
+const GENERATED = new Date('2026-12-02T10:00:00Z');
+
+/** An invented plan: the demo plus a measured covariate and a confounder never measured, matched on a Mahalanobis distance. */
+function covariatePlan(): Plan {
+  const plan = demoPlan();
+  return {
+    ...plan,
+    title: 'Invented example for the report test: two covariates, one never measured',
+    matching: { ...plan.matching, distance: 'mahalanobis' },
+    simulation: { replications: 200, seed: 424242 },
+    covariates: [
+      { name: 'Attendance', programmeMean: 85, comparisonMean: 90, sd: 10, reliability: 0.7, outcomeCorrelation: 0.3, measured: true, exact: false },
+      { name: 'Motivation', programmeMean: -0.5, comparisonMean: 0, sd: 1, reliability: 1, outcomeCorrelation: 0.3, measured: false, exact: false },
+    ],
+    covariateCorrelations: [
+      [1, 0.3, 0.2],
+      [0.3, 1, 0.1],
+      [0.2, 0.1, 1],
+    ],
+  };
+}
+
+function flat(text: PdfText): string {
+  return text.body.join(' ').replace(/\s+/g, ' ');
+}
+
+describe('PDF summary of a plan with covariates, with a simulation', () => {
+  let plan: Plan;
+  let sim: SimulationResult;
+  let text: PdfText;
+  let all: string;
+
+  beforeAll(async () => {
+    plan = covariatePlan();
+    const analytic = analysePlan(plan);
+    sim = simulatePlan(plan, { replications: plan.simulation.replications, seed: plan.simulation.seed });
+    const bytes = await buildReportPdf({
+      plan,
+      analytic,
+      simulation: sim,
+      charts: reportCharts(plan, analytic, sim),
+      appVersion: '0.1.0',
+      generatedAt: GENERATED,
+      fonts: TEST_FONTS,
+    });
+    text = await readPdfText(bytes);
+    all = flat(text);
+  }, 60_000);
+
+  it('lists the covariates as entered and their correlation matrix in the assumptions', () => {
+    expect(all).toContain('Covariates besides the pretest');
+    // Rows of the covariate table, as entered (no statistic computed).
+    expect(all).toContain('1. Attendance 85 90 10 0.7 0.3 yes no');
+    expect(all).toContain('2. Motivation −0.5 0 1 1 0.3 no no');
+    expect(all).toContain('Observed correlations within a group (pretest first)');
+    expect(all).toContain('Pretest 1 0.3 0.2');
+    expect(all).toContain('1. Attendance 0.3 1 0.1');
+    // The distance and the caliper's unit follow the plan.
+    // (Table cells wrap, so only each cell's first line is matched.)
+    expect(all).toContain('Matching distance the Mahalanobis distance');
+    expect(all).toMatch(/Caliper 0\.2 Mahalanobis-/);
+    expect(all).toContain('within a caliper of 0.2 Mahalanobis-distance units');
+  });
+
+  it('states the unmeasured part of the bias exactly as analysePlan gives it', () => {
+    const u = analysePlan(plan).unmeasuredBias!;
+    expect(u.covariates).toEqual(['Motivation']);
+    expect(all).toContain('What was never measured');
+    expect(all).toContain(
+      `Not measured: Motivation. ${formatSignedPoints(u.points)} post-test points (${formatSD(u.sd)} post-test SD, ${formatShare(Math.abs(u.share!))} of the hoped-for effect) of the expected bias come from this confounder.`,
+    );
+  });
+
+  it('prints the simulated balance per covariate with Monte Carlo SEs, and the per-covariate chart', () => {
+    expect(all).toContain('Balance on each covariate (simulated)');
+    const m = sim.balance!.find((b) => b.name === 'Motivation')!;
+    const row = [
+      'Motivation (not measured)',
+      formatSD(m.observedSMDBefore),
+      withMcse(formatSD(m.observedSMDAfter), m.observedSMDAfterMCSE, (x) => formatPoints(x)),
+      withMcse(formatSD(m.trueSMDAfter), m.trueSMDAfterMCSE, (x) => formatPoints(x)),
+    ].join(' ');
+    expect(all).toContain(row);
+    // The chart is drawn as vector text, with its caption; the pretest-only balance chart is not repeated.
+    expect(all).toMatch(/Figure \d\. Balance on each covariate: observed after matching, and on the true scores/);
+    expect(all).toContain('0.25 lenient');
+    expect(all).not.toContain('Balance: looks balanced on the observed pretest, is not on the true score');
+  });
+
+  it('adds the covariate model and its caution', () => {
+    expect(all).toContain('Σ_T = Σ_X − diag(SEM²)');
+    expect(all).toContain('Confounders not listed at all (neither measured nor marked unmeasured) are not in these figures.');
+    expect(text.all).not.toMatch(/NaN|Infinity|undefined|\[object/);
+  });
+});
+
+describe('covariate parts of the report for a plan without covariates', () => {
+  it('add nothing: no tables, no unmeasured paragraph', () => {
+    const plan = demoPlan();
+    expect(covariateInputTable(plan).rows).toEqual([]);
+    expect(correlationMatrixTable(plan).rows).toEqual([]);
+    expect(unmeasuredPartText(plan, analysePlan(plan))).toBeNull();
+  });
+});
