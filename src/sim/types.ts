@@ -65,8 +65,11 @@ export interface ExamplePair {
  * SMDs are programme minus comparison over the pooled within-group SD of the
  * full pools before matching, sqrt((s_P^2 + s_C^2) / 2) (Stuart 2010), for the
  * before and after figures alike; the true-score SMD uses the true scores'
- * pooled SD. "After" figures average over replications with at least one
- * matched set (the variance ratio over those with at least two in each group).
+ * pooled SD. After matching, each matched set counts once: a programme
+ * member's partners share a weight of 1 (matching weights; Stuart 2010), so
+ * the "after" gaps are those the matched difference compares. "After" figures
+ * average over replications with at least one matched set (the variance ratio
+ * over those with at least two in each group).
  */
 export interface CovariateBalance {
   /** The covariate's name from the plan; the pretest (always first) is "Pretest". */

@@ -246,6 +246,8 @@ class MultivariateRunner {
   readonly mahalanobisWs: MahalanobisMatchingWorkspace | null;
   readonly matchedFlag: Uint8Array;
   readonly useCount: Int32Array;
+  /** Matching weight per comparison member: Σ over the sets using it of 1 / (partners in that set). */
+  readonly setWeight: Float64Array;
   readonly pooledSxx: Float64Array;
   readonly critAlpha: TCriticalValues;
   readonly crit95: TCriticalValues;
@@ -310,6 +312,7 @@ class MultivariateRunner {
     this.mahalanobisWs = distance === 'mahalanobis' ? createMahalanobisMatchingWorkspace(this.nP, this.nC, this.k) : null;
     this.matchedFlag = new Uint8Array(this.nP);
     this.useCount = new Int32Array(this.nC);
+    this.setWeight = new Float64Array(this.nC);
     this.critAlpha = new TCriticalValues(plan.analysis.alpha);
     this.crit95 = new TCriticalValues(0.05);
     for (let a = 0; a < 5; a++) {
@@ -392,7 +395,7 @@ class MultivariateRunner {
         const sums = this.sums;
         subsetSums(score, nC, N, this.matchedFlag, 0, sums);
         vP = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
-        subsetSums(score, 0, nC, this.useCount, 0, sums);
+        subsetSums(score, 0, nC, this.setWeight, 0, sums);
         vC = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
       } else {
         score = pools.observed[0] as Float64Array;
@@ -410,7 +413,9 @@ class MultivariateRunner {
     const { partners, partnerCount } = matching;
     const matchedFlag = this.matchedFlag;
     const useCount = this.useCount;
+    const setWeight = this.setWeight;
     useCount.fill(0);
+    setWeight.fill(0);
     let dS = 0;
     let dSS = 0;
     for (let j = 0; j < nP; j++) {
@@ -421,6 +426,7 @@ class MultivariateRunner {
       for (let q = 0; q < cnt; q++) {
         const c = partners[j * k + q] as number;
         useCount[c] = (useCount[c] as number) + 1;
+        setWeight[c] = (setWeight[c] as number) + 1 / cnt;
         ySum += y[c] as number;
       }
       const d = (y[nC + j] as number) - ySum / cnt;
@@ -464,7 +470,7 @@ class MultivariateRunner {
 
   /** Observed and true differences of every variable before and after matching (replication i). */
   private recordBalance(i: number, m: number): void {
-    const { nP, nC, pools, sums, bal, matchedFlag, useCount } = this;
+    const { nP, nC, pools, sums, bal, matchedFlag, setWeight } = this;
     const N = nP + nC;
     const p = this.variables;
     for (let v = 0; v < p; v++) {
@@ -478,7 +484,7 @@ class MultivariateRunner {
         const nMP = sums[3] as number;
         const meanMP = meanOf(nMP, sums[4] as number, shift);
         const varMP = varianceOf(nMP, sums[4] as number, sums[5] as number);
-        subsetSums(col, 0, nC, useCount, shift, sums);
+        subsetSums(col, 0, nC, setWeight, shift, sums);
         const meanC = meanOf(sums[0] as number, sums[1] as number, shift);
         const varC = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
         const nMC = sums[3] as number;
