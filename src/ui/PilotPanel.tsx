@@ -66,7 +66,8 @@ function PilotBody() {
         )}
       </div>
       <p className="pilot-status" role="status" aria-live="polite" data-testid="pilot-status" data-status={pilot.status}>
-        {pilot.announcement}
+        {/* A problem is shown (and announced) once, in the alert below. */}
+        {pilot.problem ? '' : pilot.announcement}
       </p>
       {pilot.problem && (
         <div className="pilot-problem" role="alert" data-testid="pilot-problem">

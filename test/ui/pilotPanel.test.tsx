@@ -153,6 +153,8 @@ describe('pilot panel', () => {
     // Data row 20 is line 22 of the file (a comment line and the header come first).
     expect(alert).toHaveTextContent('Column "item3" must hold numbers, but row 22 holds "absent".');
     expect(panel.queryByTestId('pilot-estimates')).toBeNull();
+    // Said once: the polite status region stays quiet while the alert speaks.
+    expect(panel.getByTestId('pilot-status')).toHaveTextContent(/^$/);
     expect(store.getState().draft).toBe(draftBefore);
     expect(screen.getAllByRole('textbox').map((b) => (b as HTMLInputElement).value)).toEqual(values);
   });
