@@ -16,11 +16,14 @@ import { defaultDeps } from '../../src/state/defaultDeps';
 import { draftProvenance } from '../../src/state/draftSlice';
 import { PILOT_MAPPING_KEY } from '../../src/state/pilotSlice';
 import { createMeanwardStore } from '../../src/state/store';
-import { memoryStorage } from './helpers';
+import type { SimulationResult } from '../../src/sim/types';
+import { controlledRunner, memoryStorage } from './helpers';
 import { inventedPilot } from './pilotTestData';
 
-function store(opts: { session?: ReturnType<typeof memoryStorage>; storage?: ReturnType<typeof memoryStorage> } = {}) {
-  const deps = { ...defaultDeps(null), storage: opts.storage ?? null };
+function store(
+  opts: { session?: ReturnType<typeof memoryStorage>; storage?: ReturnType<typeof memoryStorage>; simulation?: ReturnType<typeof controlledRunner>['runner'] } = {},
+) {
+  const deps = { ...defaultDeps(opts.simulation ?? null), storage: opts.storage ?? null };
   return createMeanwardStore({ deps, demo: demoPlan, pilot: { session: opts.session ?? memoryStorage() } });
 }
 
@@ -198,6 +201,20 @@ describe('pilot slice: into the plan', () => {
     const again = store({ storage });
     expect(again.getState().validPlan.provenance).toEqual(expected.plan.provenance);
     expect(st.pilot.announcement).toMatch(/plan fields filled from “wave1-invented\.csv”/);
+  });
+
+  it('marks a finished simulation out of date when the pilot values go in', async () => {
+    const c = controlledRunner();
+    const s = store({ simulation: c.runner });
+    const run = s.getState().runSimulation();
+    // Only the fields the store reads; the figures themselves are not under test here.
+    c.runs[0]!.resolve({ plan: c.runs[0]!.plan, seed: 1, replications: 1 } as unknown as SimulationResult);
+    await run;
+    expect(s.getState().simulation.stale).toBe(false);
+    await readAndEstimate(s);
+    expect(s.getState().simulation.stale).toBe(false); // estimating alone changes nothing
+    s.getState().applyPilotEstimates();
+    expect(s.getState().simulation.stale).toBe(true);
   });
 
   it('previews exactly what the buttons would write, without writing it', async () => {
