@@ -16,7 +16,9 @@ export const fmtPercent = (x: number | null): string => (x === null ? 'n/a' : `$
 /**
  * The readable result of "meanward run": per analysis the expected estimate,
  * bias (points and SD units), bias as a share of the effect, power and
- * false-positive rate; then the reliabilities, SEM and break-even reliability.
+ * false-positive rate; with covariates, the expected balance per variable and
+ * the unmeasured part of the bias; then the reliabilities, SEM and break-even
+ * reliability.
  */
 export function formatResultsTable(plan: Plan, results: AnalyticResults): string {
   const lines: string[] = [];
@@ -37,6 +39,7 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   lines.push(line(header));
   lines.push(widths.map((w) => '-'.repeat(w)).join('  '));
   for (const r of rows) lines.push(line(r));
+  lines.push(...covariateLines(results));
   lines.push('');
   lines.push('Pretest');
   lines.push(`  Within-group reliability, programme:  ${fmtReliability(results.reliability.programme)}`);
@@ -49,4 +52,44 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
       : `  Break-even reliability: ${fmtReliability(be.reliability)} (${be.alreadyMet ? 'already met' : 'not met'}). ${be.note}`.trimEnd(),
   );
   return `${lines.join('\n')}\n`;
+}
+
+const DISTANCE_WORDS = {
+  pretest: 'the pretest',
+  propensity: 'the propensity score',
+  mahalanobis: 'Mahalanobis distance',
+} as const;
+
+/** With covariates: expected balance per variable and the unmeasured part (empty otherwise). */
+function covariateLines(results: AnalyticResults): string[] {
+  const cm = results.covariateModel;
+  const balance = results.covariateBalance;
+  const hidden = results.unmeasuredBias;
+  if (!cm || !balance || !hidden) return [];
+  const out: string[] = [''];
+  out.push(`Pretest and covariates (closed form: balance after exact matching on ${DISTANCE_WORDS[results.matchingDistance ?? 'pretest']})`);
+  const yesNo = (x: boolean): string => (x ? 'yes' : 'no');
+  const header = ['Variable', 'Measured', 'Exact', 'Reliability', 'SMD before', 'Observed SMD after', 'True SMD after'];
+  const rows = balance.map((b, j) => [
+    b.name,
+    yesNo(b.measured),
+    yesNo(b.exact),
+    fmtReliability(cm.reliability.comparison[j] as number),
+    fmtSD(b.observedSMDBefore),
+    fmtSD(b.observedSMDAfter),
+    fmtSD(b.trueSMDAfter),
+  ]);
+  const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c]!.length)));
+  const line = (cells: string[]) => cells.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]!) : cell.padStart(widths[c]!))).join('  ');
+  out.push(line(header));
+  out.push(widths.map((w) => '-'.repeat(w)).join('  '));
+  for (const r of rows) out.push(line(r));
+  out.push('');
+  out.push(
+    hidden.covariates.length === 0
+      ? 'Unmeasured part of the bias: none (every covariate in the plan is measured).'
+      : `Unmeasured part of the bias (${hidden.covariates.join(', ')}): ${fmtPoints(hidden.points)} points (${fmtSD(hidden.sd)} SD), ` +
+          `${fmtPercent(hidden.share)} of the effect. No analysis of the measured covariates removes it.`,
+  );
+  return out;
 }

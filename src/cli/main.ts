@@ -55,6 +55,11 @@ pilot: estimate plan inputs from a pilot (or earlier-wave) CSV/TSV file: group
   --json               print the estimates as one JSON object
   The file never leaves this machine. See docs/pilot-data.md.
 
+With covariates in the plan, the matched difference is for the plan's matching
+distance, ANCOVA adjusts for every measured covariate, and the results add the
+unmeasured part of the bias (--json: analytic.unmeasuredBias) and the expected
+balance per covariate (docs/covariates.md).
+
 Exit status: 0 done, 2 bad command line, unreadable file or invalid plan
 (every problem is printed on stderr, one per line), 1 internal fault.
 The plan file format is described in docs/plan-file.md.

@@ -61,6 +61,48 @@ const GAIN_SCORE_READING: Plan = {
   simulation: { replications: 2000, seed: 90210 },
 };
 
+/**
+ * INVENTED EXAMPLE with several covariates (see docs/covariates.md): prior
+ * attainment as the pretest, attendance (reliability .7), a deprivation index,
+ * a recorded category matched exactly, and an unmeasured family-engagement
+ * confounder. Not yet in EXAMPLE_PLANS: serializePlan (src/io/planFile.ts,
+ * canonicalPlan) does not write covariates, covariateCorrelations or
+ * matching.distance yet, so its public/examples file would lose them; add
+ * AFTER_SCHOOL_MATHS_EXAMPLE to the list (and run scripts/write-plan-schema.ts)
+ * once it does.
+ */
+export const AFTER_SCHOOL_MATHS: Plan = {
+  format: 'meanward-plan',
+  version: 1,
+  title: 'Invented example: an after-school maths club, matched on prior attainment and three more covariates, one confounder unmeasured',
+  groups: {
+    programme: { label: 'Pupils referred to the club', poolSize: 250, pretestMean: 92, pretestSD: 15 },
+    comparison: { label: 'Pupils in the same schools not referred', poolSize: 2000, pretestMean: 100, pretestSD: 15 },
+  },
+  pretest: { reliability: 0.85, referenceSD: 15 },
+  outcome: { posttestSD: 15, prePostCorrelation: 0.7, growthGap: 0, hypothesisedEffect: 3, effectScale: 'points' },
+  matching: { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random', distance: 'propensity' },
+  analysis: { alpha: 0.05, assumedReliability: 0.85, tolerableBiasShare: 0.25, targetPower: 0.8 },
+  simulation: { replications: 1000, seed: 5150 },
+  covariates: [
+    // Share of school sessions attended last year, per cent; registers are kept loosely.
+    { name: 'Attendance', programmeMean: 88, comparisonMean: 92, sd: 8, reliability: 0.7, outcomeCorrelation: 0.3, measured: true, exact: false },
+    // Neighbourhood deprivation index of the home postcode, 0 to 10.
+    { name: 'Deprivation index', programmeMean: 6.5, comparisonMean: 5, sd: 2, reliability: 0.9, outcomeCorrelation: -0.3, measured: true, exact: false },
+    // Recorded sex, 1 for girls: recorded without error and matched exactly.
+    { name: 'Recorded sex (girl)', programmeMean: 0.45, comparisonMean: 0.5, sd: 0.5, reliability: 1, outcomeCorrelation: 0.05, measured: true, exact: true },
+    // How much the family supports homework: known to matter, never recorded.
+    { name: 'Family engagement', programmeMean: 4.2, comparisonMean: 5.8, sd: 2, reliability: 0.8, outcomeCorrelation: 0.4, measured: false, exact: false },
+  ],
+  covariateCorrelations: [
+    [1, 0.35, -0.35, 0.05, 0.3],
+    [0.35, 1, -0.25, 0, 0.2],
+    [-0.35, -0.25, 1, 0, -0.2],
+    [0.05, 0, 0, 1, 0.05],
+    [0.3, 0.2, -0.2, 0.05, 1],
+  ],
+};
+
 /** The built-in examples, the demo first. Callers must copy a plan before changing it. */
 export const EXAMPLE_PLANS: readonly ExamplePlan[] = [
   {
@@ -92,3 +134,12 @@ export const EXAMPLE_PLANS: readonly ExamplePlan[] = [
     plan: GAIN_SCORE_READING,
   },
 ];
+
+/** The several-covariate example's entry, ready for EXAMPLE_PLANS (see AFTER_SCHOOL_MATHS). */
+export const AFTER_SCHOOL_MATHS_EXAMPLE: ExamplePlan = {
+  id: 'after-school-maths',
+  name: 'Several covariates, one unmeasured',
+  description:
+    'Invented. Pupils referred to a maths club start lower on prior attainment, attend less and live in more deprived areas; matching on a propensity score of the four measured covariates leaves their measurement error and an unmeasured family-engagement confounder, which no analysis of the measured covariates removes.',
+  plan: AFTER_SCHOOL_MATHS,
+};

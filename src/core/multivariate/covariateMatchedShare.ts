@@ -19,7 +19,9 @@ import { block, dot, multiplyVector, pick, solvePositiveDefinite } from './linea
  *   When the measured variables show no gap, L is constant and every
  *   programme member finds a partner (rationed without replacement);
  * - "mahalanobis": the q measured variables that are not exact, whitened by
- *   the pooled within-group covariance (the Mahalanobis metric); the expected
+ *   the average of the two groups' covariance matrices (Σ_P + Σ_C)/2 (the
+ *   Mahalanobis metric, in the caliper units of Cochran & Rubin 1973; with one
+ *   variable this is the pretest calculation on that variable); the expected
  *   number of comparison members within distance c of x is
  *   λ(x) = n_C·P(‖Z − x‖ ≤ c), Z ~ N(0, I_q), a function of x's distance d
  *   from the comparison mean only: P = ∫ φ(z)·F_{χ²(q−1)}(c² − (z − d)²) dz over
@@ -27,7 +29,7 @@ import { block, dot, multiplyVector, pick, solvePositiveDefinite } from './linea
  *   replacement by supply over demand as in expectedMatchedShare, and averaged
  *   over the programme's distribution (mean at Mahalanobis distance δ from the
  *   comparison mean) by Simpson's rule in two dimensions. Assumes equal
- *   within-group covariances (the pooled one).
+ *   within-group covariances (the average one).
  * Exact matching on exact covariates is not counted (it lowers the share,
  * little for a covariate with few categories): see the simulation.
  *
@@ -72,8 +74,21 @@ export function covariateMatchedShare(
   const dims = cm.measuredIndices.filter((j) => !cm.exact[j]);
   const q = dims.length;
   if (q === 0) return unrestricted;
+  if (q === 1) {
+    // One variable: Mahalanobis distance is |difference| / its SD, so this is matching on it.
+    const j = dims[0] as number;
+    const one: ModelParameters = {
+      ...m,
+      mean: { programme: cm.mean.programme[j] as number, comparison: cm.mean.comparison[j] as number },
+      observedSD: { programme: cm.observedSD.programme[j] as number, comparison: cm.observedSD.comparison[j] as number },
+    };
+    return expectedMatchedShare(one, matching);
+  }
   const gap = pick(cm.gap, dims);
-  const delta = Math.sqrt(Math.max(0, dot(gap, solvePositiveDefinite(block(cm.sigmaX.pooled, dims, dims), gap))));
+  const metric = block(cm.sigmaX.programme, dims, dims).map((row, i) =>
+    row.map((x, l) => (x + (cm.sigmaX.comparison[dims[i] as number]![dims[l] as number] as number)) / 2),
+  );
+  const delta = Math.sqrt(Math.max(0, dot(gap, solvePositiveDefinite(metric, gap))));
   return mahalanobisShare(q, delta, c, nP, nC, k, matching.replacement);
 }
 
@@ -131,15 +146,34 @@ function ballProbabilityTable(q: number, c: number, dMax: number): (d: number) =
   };
 }
 
+/**
+ * P(‖Z − a‖ ≤ c) for Z ~ N(0, I_q) and ‖a‖ = d: the chance that a comparison
+ * member (whitened) falls within Mahalanobis distance c of a point at distance
+ * d from the comparison mean. For q = 1, Φ(d + c) − Φ(d − c); otherwise
+ * ∫ φ(z) F_{χ²(q−1)}(c² − (z − d)²) dz over |z − d| ≤ c (Simpson, 32 intervals
+ * in θ with z = d + c·sin θ).
+ * Reference: the noncentral chi-square CDF P(χ²_q(d²) ≤ c²) (Johnson, Kotz &
+ * Balakrishnan 1995, ch. 29, from memory), computed by conditioning on the
+ * coordinate along a. Exported for its tests.
+ * @param q dimensions (≥ 1). @param c radius (> 0). @param d distance of the centre (≥ 0).
+ * @returns probability in [0, 1]. @throws never.
+ * @example mahalanobisBallProbability(2, 1, 0) // 1 − e^{−1/2} ≈ 0.3935
+ */
+export function mahalanobisBallProbability(q: number, c: number, d: number): number {
+  return ballProbability(q, c, d);
+}
+
 function ballProbability(q: number, c: number, d: number): number {
   if (q === 1) return normalCdf(d + c) - normalCdf(d - c);
+  // z = d + c·sin θ removes the square-root behaviour at the ends of [d − c, d + c].
   const n = 32;
-  const h = (2 * c) / n;
+  const h = Math.PI / n;
   let s = 0;
   for (let i = 0; i <= n; i++) {
-    const z = d - c + i * h;
+    const theta = -Math.PI / 2 + i * h;
     const w = i === 0 || i === n ? 1 : i % 2 === 1 ? 4 : 2;
-    s += w * normalPdf(z) * chiSquareCdf(Math.max(0, c * c - (z - d) ** 2), q - 1);
+    const cos = Math.cos(theta);
+    s += w * normalPdf(d + c * Math.sin(theta)) * chiSquareCdf(c * c * cos * cos, q - 1) * c * cos;
   }
   return (s * h) / 3;
 }
@@ -150,6 +184,9 @@ function ballProbability(q: number, c: number, d: number): number {
  * 1 − e^{−y/2} Σ_{i<r} (y/2)^i / i!; for odd df = 2r + 1,
  * 2Φ(√y) − 1 − 2φ(√y) Σ_{i=1}^{r} y^{i − 1/2} / (1·3·…·(2i − 1)).
  * Exported for its test only.
+ * @param y value (≤ 0 gives 0). @param df whole degrees of freedom (≥ 1).
+ * @returns P(χ²_df ≤ y). @throws never.
+ * @example chiSquareCdf(2, 2) // 1 − e^{−1} ≈ 0.6321
  */
 export function chiSquareCdf(y: number, df: number): number {
   if (!(y > 0)) return 0;
