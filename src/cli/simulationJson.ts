@@ -8,7 +8,10 @@ export type SimulationJson = Omit<SimulationResult, 'plan' | 'estimates' | 'exam
  * Select what `--json` prints from a simulation result: the per-analysis
  * summaries (analyses.*: meanEstimate, bias, empiricalSE, rmse, coverage,
  * rejectionRate, wrongSignRate, each with its Monte Carlo SE), the matched-sample
- * ANCOVA and the matching summary (raw points and SMDs). The per-replication
+ * ANCOVA and the matching summary (raw points and SMDs), and, for plans with
+ * covariates or a propensity / Mahalanobis distance, `balance[]`: per variable
+ * (pretest first) {name, measured, exact, observedSMDBefore, observedSMDAfter,
+ * trueSMDBefore, trueSMDAfter, varianceRatioAfter}, each with its MCSE. The per-replication
  * estimates and the example replication are large and appear only with
  * `withDetail` (the --estimates flag). The plan is printed once, beside it.
  * Formatting only: every figure comes from src/sim.

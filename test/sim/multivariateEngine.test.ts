@@ -3,6 +3,7 @@ import { createSimulation } from '../../src/sim/createSimulation';
 import { createMultivariateSimulation } from '../../src/sim/multivariate/createMultivariateSimulation';
 import { runSimulationInSteps } from '../../src/sim/runSimulationInSteps';
 import { simulatePlan } from '../../src/sim/simulatePlan';
+import { simulationJson } from '../../src/cli/simulationJson';
 import { demoPlan } from '../../src/io/demoPlan';
 import type { MatchingDistance, Plan } from '../../src/core/plan';
 import { AGE, ATTENDANCE, MOTIVATION, covariatePlan } from './multivariateFixtures';
@@ -97,6 +98,12 @@ describe('the several-covariate engine', () => {
     // The pretest's matching summary is the pretest's balance.
     expect(r.matching.observedSMDAfter).toBeCloseTo(r.balance![0]!.observedSMDAfter, 12);
     expect(r.example.pairs.length + r.example.discarded.length).toBe(40);
+    // The command line's JSON carries the same balance records (formatting only).
+    const json = simulationJson(r, false);
+    expect(json.balance).toEqual(r.balance);
+    expect(Object.keys(json.balance![0]!)).toEqual(
+      expect.arrayContaining(['name', 'observedSMDBefore', 'observedSMDAfter', 'trueSMDAfter', 'varianceRatioAfter']),
+    );
   });
 
   it('matches on the propensity logit exactly as on the pretest when the pretest is the only covariate', () => {
