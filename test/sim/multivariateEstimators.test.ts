@@ -234,6 +234,37 @@ describe('drawCovariatePools', () => {
     }
   });
 
+  it('records a 0/1 covariate matched exactly as an indicator with each group\'s proportion', () => {
+    // Liability-threshold model (common practice): 1 when the normal draw exceeds mean_g + sd Φ^-1(1 − mean_g),
+    // so P(1 | g) = mean_g. Tolerance 4 binomial SEs, sqrt(p(1 − p)/n).
+    const indicatorModel: CovariateSimModel = {
+      names: ['Pretest', 'Recorded sex (girl)'],
+      measured: [true, true],
+      exact: [false, true],
+      mean: { programme: [45, 0.35], comparison: [50, 0.5] },
+      sigmaT: { programme: [[64, 1], [1, 0.25]], comparison: [[64, 1], [1, 0.25]] },
+      sem: [6, 0],
+      beta: [0.5, 1],
+      residualSD: 5,
+      growthGap: 0,
+      effect: 0,
+      n: { programme: 20000, comparison: 20000 },
+    };
+    const pools = createCovariatePools(indicatorModel);
+    drawCovariatePools(pools, new NormalSampler(Xoshiro128StarStar.forReplication(13, 0)));
+    const n = 20000;
+    for (const [from, p] of [[0, 0.5], [n, 0.35]] as const) {
+      let ones = 0;
+      for (let i = from; i < from + n; i++) {
+        const v = pools.observed[1]![i]!;
+        expect(v === 0 || v === 1).toBe(true);
+        expect(pools.trueScore[1]![i]).toBe(v);
+        ones += v;
+      }
+      expect(Math.abs(ones / n - p)).toBeLessThan(4 * Math.sqrt((p * (1 - p)) / n));
+    }
+  });
+
   it('records an exactly matched covariate in whole-number categories, without error', () => {
     const exactModel: CovariateSimModel = { ...model, measured: [true, true, true], exact: [false, false, true], n: { programme: 50, comparison: 80 } };
     const pools = createCovariatePools(exactModel);

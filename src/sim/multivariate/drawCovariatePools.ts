@@ -1,5 +1,6 @@
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import type { NormalSampler } from '../normalSampler';
+import { normalQuantile } from '../normalQuantile';
 import type { CovariateSimModel } from './covariateSimModel';
 
 /**
@@ -31,12 +32,36 @@ export interface CovariatePools {
   readonly sem: Float64Array;
   /** Indices of the variables measured with error (sem > 0), ascending. */
   readonly errorVariables: Int32Array;
-  /** Whether each variable is recorded in whole-number categories (exact matching). */
-  readonly wholeNumbers: Uint8Array;
+  /**
+   * How each variable is recorded: CONTINUOUS, WHOLE_NUMBERS (a categorical
+   * variable matched exactly: the draw rounded) or INDICATOR (a 0/1 variable
+   * matched exactly: the draw thresholded so each group keeps its mean).
+   */
+  readonly recording: Uint8Array;
+  /** Per variable, the indicator's threshold in each group (+Infinity: always 0; −Infinity: always 1). */
+  readonly thresholdProgramme: Float64Array;
+  readonly thresholdComparison: Float64Array;
   readonly beta: Float64Array;
   readonly residualSD: number;
   /** Outcome shift of the programme group: growth gap + tau. */
   readonly programmeShift: number;
+}
+
+/** Recording of a variable (CovariatePools.recording). */
+export const CONTINUOUS = 0;
+export const WHOLE_NUMBERS = 1;
+export const INDICATOR = 2;
+
+/**
+ * Whether an exactly matched variable is a 0/1 indicator: both group means in
+ * [0, 1] and an SD of at most 0.5 (the largest a 0/1 variable can have).
+ * @param programmeMean mean in the programme group. @param comparisonMean mean in the comparison group.
+ * @param sd within-group SD. @returns true for an indicator. @throws never.
+ * @example isIndicator(0.45, 0.5, 0.5) // true; isIndicator(40, 42, 8) // false
+ */
+export function isIndicator(programmeMean: number, comparisonMean: number, sd: number): boolean {
+  const inUnit = (m: number) => m >= 0 && m <= 1;
+  return inUnit(programmeMean) && inUnit(comparisonMean) && sd <= 0.5 + 1e-12;
 }
 
 /**
@@ -65,6 +90,20 @@ export function createCovariatePools(model: CovariateSimModel): CovariatePools {
     for (let i = 0; i < p; i++) for (let j = 0; j <= i; j++) out[i * p + j] = l.get(i, j);
     return out;
   };
+  const recording = Uint8Array.from(model.exact.map((e, j) => {
+    if (!(e && model.measured[j])) return CONTINUOUS;
+    const sd = Math.sqrt(model.sigmaT.comparison[j]?.[j] as number);
+    return isIndicator(model.mean.programme[j] as number, model.mean.comparison[j] as number, sd) ? INDICATOR : WHOLE_NUMBERS;
+  }));
+  // An indicator is 1 when its normal draw N(mean_g, sd²) exceeds mean_g + sd Φ^-1(1 − mean_g), i.e. with probability mean_g.
+  const threshold = (g: 'programme' | 'comparison') =>
+    Float64Array.from(model.mean[g], (m, j) => {
+      if (recording[j] !== INDICATOR) return 0;
+      const sd = Math.sqrt(model.sigmaT[g][j]?.[j] as number);
+      if (m <= 0) return Infinity;
+      if (m >= 1) return -Infinity;
+      return m + sd * normalQuantile(1 - m);
+    });
   return {
     nProgramme: nP,
     nComparison: nC,
@@ -81,7 +120,9 @@ export function createCovariatePools(model: CovariateSimModel): CovariatePools {
     meanComparison: Float64Array.from(model.mean.comparison),
     sem: Float64Array.from(model.sem),
     errorVariables,
-    wholeNumbers: Uint8Array.from(model.exact.map((e, j) => (e && model.measured[j] ? 1 : 0))),
+    recording,
+    thresholdProgramme: threshold('programme'),
+    thresholdComparison: threshold('comparison'),
     beta: Float64Array.from(model.beta),
     residualSD: model.residualSD,
     programmeShift: model.growthGap + model.effect,
@@ -97,12 +138,15 @@ export function createCovariatePools(model: CovariateSimModel): CovariatePools {
  * variates), observed X_j = T_j + sem_j z', outcome
  * Y = [P](growthGap + tau) + beta'T + residualSD z''.
  *
- * A variable matched exactly (a binary or categorical one) is recorded in
- * whole-number categories: its true value is the normal draw rounded to the
- * nearest whole number (its observed value too, after any measurement error),
- * and the outcome depends on the rounded value. The closed forms treat it as
- * continuous; the two agree closely when its SD spans several categories and
- * only roughly for a 0/1 variable (see docs/simulation.md).
+ * A variable matched exactly is recorded in categories, and the category is
+ * its true value (the outcome depends on it): a 0/1 indicator (isIndicator:
+ * group means in [0, 1], SD ≤ 0.5) is 1 when its normal draw exceeds the
+ * group's threshold mean_g + sd Φ^-1(1 − mean_g), so each group keeps its
+ * proportion mean_g (a liability-threshold model); any other exact variable
+ * is the draw rounded to the nearest whole number (age in years, a band
+ * number). Its correlations with the rest follow from the normal draw. The
+ * closed forms treat it as continuous: they agree closely when the SD spans
+ * several categories, only roughly for an indicator (docs/simulation.md).
  *
  * The replication's normal variates are drawn in one go, in a fixed layout:
  * comparison members first, then programme members; per person `stride`
@@ -119,7 +163,7 @@ export function createCovariatePools(model: CovariateSimModel): CovariatePools {
  */
 export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler): void {
   const { nComparison: nC, size, variables: p, stride, observed, trueScore, outcome, normals: z } = pools;
-  const { sem, errorVariables, wholeNumbers, beta, residualSD } = pools;
+  const { sem, errorVariables, recording, beta, residualSD } = pools;
   const nErr = errorVariables.length;
   normal.fillStandard(z, z.length);
   for (let g = 0; g < 2; g++) {
@@ -129,6 +173,7 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
     const L = programme ? pools.choleskyProgramme : pools.choleskyComparison;
     const mu = programme ? pools.meanProgramme : pools.meanComparison;
     const shift = programme ? pools.programmeShift : 0;
+    const cut = programme ? pools.thresholdProgramme : pools.thresholdComparison;
     for (let i = from; i < to; i++) {
       const base = i * stride;
       let y = shift + residualSD * (z[base + stride - 1] as number);
@@ -136,7 +181,9 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
         let v = mu[a] as number;
         const row = a * p;
         for (let b = 0; b <= a; b++) v += (L[row + b] as number) * (z[base + b] as number);
-        if (wholeNumbers[a]) v = Math.round(v);
+        const rec = recording[a] as number;
+        if (rec === WHOLE_NUMBERS) v = Math.round(v);
+        else if (rec === INDICATOR) v = v > (cut[a] as number) ? 1 : 0;
         (trueScore[a] as Float64Array)[i] = v;
         (observed[a] as Float64Array)[i] = v;
         y += (beta[a] as number) * v;
@@ -145,7 +192,7 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
         const a = errorVariables[e] as number;
         const col = observed[a] as Float64Array;
         const x = (col[i] as number) + (sem[a] as number) * (z[base + p + e] as number);
-        col[i] = wholeNumbers[a] ? Math.round(x) : x;
+        col[i] = recording[a] === WHOLE_NUMBERS ? Math.round(x) : recording[a] === INDICATOR ? (x > 0.5 ? 1 : 0) : x;
       }
       outcome[i] = y;
     }
