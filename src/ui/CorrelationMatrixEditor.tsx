@@ -106,24 +106,24 @@ export function CorrelationMatrixEditor() {
         </table>
       </div>
       {(cells.size > 0 || whole.length > 0) && (
-        <ul className="matrix-problems" aria-label="Problems in the correlation matrix">
+        <div className="matrix-problems" role="group" aria-label="Problems in the correlation matrix">
           {whole.map((m) => (
-            <li key={m} className="field-error" role="alert">
+            <p key={m} className="field-error" role="alert">
               {m}
-            </li>
+            </p>
           ))}
           {[...cells.entries()].map(([path, m]) => {
             const [i, j] = cellOfField(path)!;
             return (
-              <li key={path} id={messageId(path)} className="field-error" role="alert">
+              <p key={path} id={messageId(path)} className="field-error" role="alert">
                 <span className="matrix-cell-name">
                   {matrixName(covariates, i)} × {matrixName(covariates, j)}:
                 </span>{' '}
                 {m}
-              </li>
+              </p>
             );
           })}
-        </ul>
+        </div>
       )}
     </div>
   );
