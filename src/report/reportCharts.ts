@@ -74,8 +74,9 @@ export function reportCharts(plan: Plan, analytic: AnalyticResults, simulation: 
     const d = sensitivityChartData(input);
     return { svg: renderChartToSvgString('sensitivity', d, SIZE), text: sensitivityChartText(d) };
   });
-  if (simulation && usesCovariateModel(plan)) {
-    // With covariates, balance is shown per variable (pretest included) instead of the pretest-only chart.
+  if (usesCovariateModel(plan)) {
+    // With covariates, balance is shown per variable (pretest included) instead of the pretest-only
+    // chart: simulated when a run of this plan is given, else core's closed form, as on screen.
     if (hasCovariateBalance(input)) {
       try {
         const d = covariateBalanceChartData(input);

@@ -120,3 +120,14 @@ describe('covariate parts of the report for a plan without covariates', () => {
     expect(unmeasuredPartText(plan, analysePlan(plan))).toBeNull();
   });
 });
+
+describe('report charts for a plan with covariates', () => {
+  it('draw balance per covariate from the closed form before a simulation, and never the pretest-only balance chart', () => {
+    const plan = covariatePlan();
+    const charts = reportCharts(plan, analysePlan(plan), null);
+    expect(charts.map((c) => c.id)).toEqual(['pretest', 'estimates', 'sensitivity', 'covariateBalance']);
+    const balance = charts[3]!;
+    expect(balance.svg).toContain('Closed form: exact matching from an unlimited comparison pool');
+    expect(balance.caption).toContain('Not measured, so matching cannot balance it: Motivation');
+  });
+});
