@@ -3,8 +3,9 @@ import { validatePlan, type PlanCheck } from '../core/validatePlan';
 
 /**
  * The plan with its keys in the file's fixed order (format, version, title,
- * groups, pretest, outcome, matching, analysis, simulation) and absent
- * optional fields left out, so the same plan always gives the same text.
+ * groups, pretest, outcome, matching, analysis, simulation, then the optional
+ * covariates, covariateCorrelations and provenance) and absent optional fields
+ * left out, so the same plan always gives the same text.
  */
 export function canonicalPlan(plan: Plan): Plan {
   const group = (g: Plan['groups']['programme']) => ({
@@ -24,13 +25,14 @@ export function canonicalPlan(plan: Plan): Plan {
     replacement: plan.matching.replacement,
   };
   if (plan.matching.order !== undefined) matching.order = plan.matching.order;
+  if (plan.matching.distance !== undefined) matching.distance = plan.matching.distance;
   const analysis: Plan['analysis'] = {
     alpha: plan.analysis.alpha,
     assumedReliability: plan.analysis.assumedReliability,
     tolerableBiasShare: plan.analysis.tolerableBiasShare,
   };
   if (plan.analysis.targetPower !== undefined) analysis.targetPower = plan.analysis.targetPower;
-  return {
+  const canonical: Plan = {
     format: plan.format,
     version: plan.version,
     title: plan.title,
@@ -47,6 +49,33 @@ export function canonicalPlan(plan: Plan): Plan {
     analysis,
     simulation: { replications: plan.simulation.replications, seed: plan.simulation.seed },
   };
+  if (plan.covariates !== undefined) {
+    canonical.covariates = plan.covariates.map((c) => ({
+      name: c.name,
+      programmeMean: c.programmeMean,
+      comparisonMean: c.comparisonMean,
+      sd: c.sd,
+      reliability: c.reliability,
+      outcomeCorrelation: c.outcomeCorrelation,
+      measured: c.measured,
+      exact: c.exact,
+    }));
+  }
+  if (plan.covariateCorrelations !== undefined) canonical.covariateCorrelations = plan.covariateCorrelations.map((row) => [...row]);
+  if (plan.provenance !== undefined) {
+    // Keys sorted, so the same provenance always gives the same text; estimates only, never data rows.
+    const provenance: NonNullable<Plan['provenance']> = {};
+    for (const key of Object.keys(plan.provenance).sort()) {
+      const entry = plan.provenance[key];
+      if (!entry) continue;
+      provenance[key] = { source: entry.source, note: entry.note };
+      if (entry.interval) {
+        provenance[key].interval = { lower: entry.interval.lower, upper: entry.interval.upper, level: entry.interval.level };
+      }
+    }
+    canonical.provenance = provenance;
+  }
+  return canonical;
 }
 
 /**
