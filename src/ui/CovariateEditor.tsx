@@ -129,10 +129,7 @@ export function CovariateEditor() {
         </p>
       ))}
       {count === 0 ? (
-        <p className="covariates-empty">
-          None yet: matching and adjustment use the pretest alone. Add a covariate for each other variable you will match or adjust on (attendance, a
-          deprivation index, age band), and for each confounder you know of but will not measure.
-        </p>
+        <p className="covariates-empty">None yet: matching and adjustment use the pretest alone (for example, add attendance, a deprivation index or an age band).</p>
       ) : (
         <ol className="covariate-list" aria-label="Covariates besides the pretest">
           {Array.from({ length: count }, (_, i) => (
