@@ -7,6 +7,12 @@
  *                 arrays of objects, linear-scan matching, t quantiles and p-values per estimate)
  *                 ÷ engine time per replication (target ≥ 20)
  *   doublingRatio engine time with both pools doubled ÷ engine time (target ≤ 2.3; O(n log n))
+ * and, for the several-covariate engine on the demo's invented covariate variant
+ * (demoWithCovariates below), measured in rounds of their own after those above:
+ *   covariates.doublingRatio             propensity-score matching, pools doubled ÷ as given
+ *                                        (target ≤ 2.3: no quadratic work in pool size)
+ *   covariates.mahalanobisDoublingRatio  the same plan matched on the Mahalanobis distance
+ *                                        (no target: grid search, quadratic only in the worst case)
  * Each ratio is the median over several interleaved rounds (after a warm-up) of that
  * round's ratio. Times are this
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
@@ -18,6 +24,7 @@ import { demoPlan } from '../src/io/demoPlan';
 import type { Plan } from '../src/core/plan';
 import { deriveModelParameters } from '../src/core/deriveModelParameters';
 import { createSimulation } from '../src/sim/createSimulation';
+import { createMultivariateSimulation } from '../src/sim/multivariate/createMultivariateSimulation';
 import { NormalSampler } from '../src/sim/normalSampler';
 import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
@@ -218,6 +225,69 @@ const range = (xs: number[], d: number) => [round(Math.min(...xs), d), round(Mat
 const floorRatio = median(cpuRatios.floor);
 const naiveSpeedup = median(cpuRatios.naive);
 const doublingRatio = median(cpuRatios.doubling);
+/**
+ * INVENTED: the demo plan with covariates a falls-prevention evaluation might match on: grip
+ * strength (reliability .85), self-reported weekly activity (.6), living alone (a 0/1 record,
+ * matched exactly) and an unmeasured fear-of-falling scale; matched on the propensity score.
+ */
+function demoWithCovariates(distance: 'propensity' | 'mahalanobis', scale: number): Plan {
+  const p = demoPlan();
+  p.groups.programme.poolSize *= scale;
+  p.groups.comparison.poolSize *= scale;
+  p.matching = { ...p.matching, distance, caliper: distance === 'mahalanobis' ? 0.5 : 0.2 };
+  p.covariates = [
+    { name: 'Grip strength', programmeMean: 24, comparisonMean: 28, sd: 8, reliability: 0.85, outcomeCorrelation: 0.35, measured: true, exact: false },
+    { name: 'Weekly activity', programmeMean: 4, comparisonMean: 6, sd: 3, reliability: 0.6, outcomeCorrelation: 0.3, measured: true, exact: false },
+    { name: 'Lives alone', programmeMean: 0.55, comparisonMean: 0.4, sd: 0.5, reliability: 1, outcomeCorrelation: -0.1, measured: true, exact: true },
+    { name: 'Fear of falling', programmeMean: 6, comparisonMean: 4.5, sd: 2, reliability: 0.8, outcomeCorrelation: -0.3, measured: false, exact: false },
+  ];
+  p.covariateCorrelations = [
+    [1, 0.4, 0.3, -0.1, -0.3],
+    [0.4, 1, 0.3, 0, -0.2],
+    [0.3, 0.3, 1, 0, -0.25],
+    [-0.1, 0, 0, 1, 0.1],
+    [-0.3, -0.2, -0.25, 0.1, 1],
+  ];
+  return p;
+}
+const COVARIATE_REPS = 200;
+function covariateEngine(p: Plan): void {
+  const run = createMultivariateSimulation(p, { replications: COVARIATE_REPS });
+  run.runChunk(0, COVARIATE_REPS);
+  sink += run.finish().analyses.ancova.meanEstimate;
+}
+const covariateTasks = {
+  propensity: () => covariateEngine(demoWithCovariates('propensity', 1)),
+  propensityDoubled: () => covariateEngine(demoWithCovariates('propensity', 2)),
+  mahalanobis: () => covariateEngine(demoWithCovariates('mahalanobis', 1)),
+  mahalanobisDoubled: () => covariateEngine(demoWithCovariates('mahalanobis', 2)),
+};
+for (let w = 0; w < 2; w++) for (const f of Object.values(covariateTasks)) f();
+const covariateRounds: Record<keyof typeof covariateTasks, Timing>[] = [];
+for (let r = 0; r < RUNS; r++) {
+  covariateRounds.push({
+    propensity: timeOnce(covariateTasks.propensity),
+    propensityDoubled: timeOnce(covariateTasks.propensityDoubled),
+    mahalanobis: timeOnce(covariateTasks.mahalanobis),
+    mahalanobisDoubled: timeOnce(covariateTasks.mahalanobisDoubled),
+  });
+}
+const covariateDoubling = covariateRounds.map((t) => t.propensityDoubled.cpu / t.propensity.cpu);
+const mahalanobisDoubling = covariateRounds.map((t) => t.mahalanobisDoubled.cpu / t.mahalanobis.cpu);
+const covariateMs = median(covariateRounds.map((t) => t.propensity.cpu));
+const mahalanobisMs = median(covariateRounds.map((t) => t.mahalanobis.cpu));
+const covariateBench = {
+  plan: "demo plan's invented covariate variant (4 covariates, one unmeasured, one matched exactly; propensity caliper 0.2, Mahalanobis caliper 0.5)",
+  replications: COVARIATE_REPS,
+  propensityMsPerReplication: round(covariateMs / COVARIATE_REPS, 4),
+  mahalanobisMsPerReplication: round(mahalanobisMs / COVARIATE_REPS, 4),
+  doublingRatio: round(median(covariateDoubling), 3),
+  mahalanobisDoublingRatio: round(median(mahalanobisDoubling), 3),
+  roundRanges: { doublingRatio: range(covariateDoubling, 3), mahalanobisDoublingRatio: range(mahalanobisDoubling, 3) },
+  targets: { doublingRatio: '<= 2.3' },
+  met: { doublingRatio: median(covariateDoubling) <= 2.3 },
+};
+
 const out = {
   plan: 'demo plan (180 programme, 1,200 comparison; nearest 1:1, caliper 0.2, no replacement)',
   replications: REPS,
@@ -237,6 +307,7 @@ const out = {
   },
   wallClockRatios: wall,
   met: { floorRatio: floorRatio <= 2, naiveSpeedup: naiveSpeedup >= 20, doublingRatio: doublingRatio <= 2.3 },
+  covariates: covariateBench,
 };
 
 function round(x: number, d = 1): number {
@@ -255,5 +326,10 @@ if (json) {
   line('naiveSpeedup', naiveSpeedup, '>= 20', out.met.naiveSpeedup, 'straightforward baseline (Math.random, objects, linear-scan matching) ÷ engine, per replication');
   console.log(`(wall-clock ratios, for comparison: floor ${wall.floorRatio}, naive ${wall.naiveSpeedup}, doubling ${wall.doublingRatio})`);
   line('doublingRatio', doublingRatio, '<= 2.3', out.met.doublingRatio, 'engine time with both pools doubled ÷ engine time (2 = linear; O(n^2) would give 4)');
+  const c = covariateBench;
+  console.log(`\nSeveral-covariate engine: ${c.plan}, ${c.replications} replications, median over ${RUNS} rounds (CPU time)`);
+  console.log(`propensity ${c.propensityMsPerReplication} ms per replication; Mahalanobis ${c.mahalanobisMsPerReplication} ms per replication`);
+  line('covariates.doublingRatio', c.doublingRatio, '<= 2.3', c.met.doublingRatio, `propensity matching, pools doubled ÷ as given (2 = linear; quadratic would give 4); rounds ${c.roundRanges.doublingRatio.join('–')}`);
+  console.log(`covariates.mahalanobisDoublingRatio ${c.mahalanobisDoublingRatio.toFixed(2)} (no target; rounds ${c.roundRanges.mahalanobisDoublingRatio.join('–')})\n  Mahalanobis matching, pools doubled ÷ as given: about 2 while the caliper is small beside the covariates' spread (grid search), up to 4 when it covers most of the pool`);
 }
 if (sink === 42.4242) console.log(''); // use the sink

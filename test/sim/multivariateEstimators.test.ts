@@ -5,6 +5,8 @@ import { ancovaOnCovariates, createGroupMoments, groupMoments } from '../../src/
 import { createCovariatePools, drawCovariatePools } from '../../src/sim/multivariate/drawCovariatePools';
 import type { CovariateSimModel } from '../../src/sim/multivariate/covariateSimModel';
 import { whitenedCoordinates } from '../../src/sim/multivariate/whitenedCoordinates';
+import { choleskyInPlace, choleskySolveInPlace } from '../../src/sim/multivariate/smallCholesky';
+import { CholeskyDecomposition } from 'ml-matrix';
 import { NormalSampler } from '../../src/sim/normalSampler';
 import { Xoshiro128StarStar } from '../../src/sim/xoshiro128StarStar';
 
@@ -137,6 +139,28 @@ describe('ANCOVA on several covariates (normal equations)', () => {
     expect(ancovaOnCovariates(P1, C1, null, out)).toBe(false); // 3 rows: df = 3 − 2 − 1 = 0
     groupMoments([cols[0]!], y, 50, 52, null, P1);
     expect(ancovaOnCovariates(P1, C1, null, out)).toBe(true); // 4 rows: df 1
+  });
+});
+
+describe('small Cholesky solves', () => {
+  it('agree with ml-matrix\'s CholeskyDecomposition (a general-purpose library) and refuse a singular matrix', () => {
+    // Random SPD matrices M M' + I of orders 1..9; factor and solution within 1e-10 (relative) of ml-matrix's.
+    const rng = Xoshiro128StarStar.forReplication(21, 0);
+    for (let n = 1; n <= 9; n++) {
+      const m = Matrix.zeros(n, n);
+      for (let i = 0; i < n; i++) for (let j = 0; j < n; j++) m.set(i, j, rng.nextFloat() * 2 - 1);
+      const spd = m.mmul(m.transpose()).add(Matrix.eye(n));
+      const a = Float64Array.from(spd.to1DArray());
+      expect(choleskyInPlace(a, n)).toBe(true);
+      const ref = new CholeskyDecomposition(spd);
+      for (let i = 0; i < n; i++) for (let j = 0; j <= i; j++) expect(Math.abs(a[i * n + j]! - ref.lowerTriangularMatrix.get(i, j))).toBeLessThan(1e-10);
+      const b = Float64Array.from({ length: n }, (_, i) => i + 1);
+      const want = ref.solve(Matrix.columnVector([...b])).getColumn(0);
+      choleskySolveInPlace(a, n, b);
+      for (let i = 0; i < n; i++) expect(Math.abs(b[i]! - want[i]!)).toBeLessThan(1e-10 * Math.max(1, Math.abs(want[i]!)));
+    }
+    expect(choleskyInPlace(Float64Array.of(1, 2, 2, 4), 2)).toBe(false);
+    expect(choleskyInPlace(Float64Array.of(4, 2, 2, 3), 2)).toBe(true);
   });
 });
 

@@ -1,4 +1,4 @@
-import { CholeskyDecomposition, Matrix } from 'ml-matrix';
+import { choleskyInPlace, choleskySolveInPlace } from './smallCholesky';
 
 /**
  * One group's moments for ANCOVA on several covariates: row count (or total
@@ -17,11 +17,45 @@ export interface GroupMoments {
   /** p: Σ w (x_a − x̄_a)(y − ȳ). */
   readonly sxy: Float64Array;
   syy: number;
+  /** Work space reused by groupMoments and ancovaOnCovariates (no allocation per replication). */
+  readonly work: {
+    shift: Float64Array;
+    row: Float64Array;
+    sum: Float64Array;
+    prod: Float64Array;
+    W: Float64Array;
+    w: Float64Array;
+    A: Float64Array;
+    c: Float64Array;
+    LW: Float64Array;
+    x: Float64Array;
+  };
 }
 
 /** Allocate moments for p covariates. @param p number of covariates (≥ 1). @returns zeroed moments. @throws never. @example createGroupMoments(3).sxx.length // 9 */
 export function createGroupMoments(p: number): GroupMoments {
-  return { p, n: 0, means: new Float64Array(p), meanY: 0, sxx: new Float64Array(p * p), sxy: new Float64Array(p), syy: 0 };
+  const q = p + 1;
+  return {
+    p,
+    n: 0,
+    means: new Float64Array(p),
+    meanY: 0,
+    sxx: new Float64Array(p * p),
+    sxy: new Float64Array(p),
+    syy: 0,
+    work: {
+      shift: new Float64Array(q),
+      row: new Float64Array(q),
+      sum: new Float64Array(q),
+      prod: new Float64Array(q * q),
+      W: new Float64Array(p * p),
+      w: new Float64Array(p),
+      A: new Float64Array(p * p),
+      c: new Float64Array(p),
+      LW: new Float64Array(p * p),
+      x: new Float64Array(p),
+    },
+  };
 }
 
 /**
@@ -52,10 +86,10 @@ export function groupMoments(
   const p = out.p;
   const q = p + 1; // the outcome is variable p
   const { means, sxx, sxy } = out;
-  const shift = new Float64Array(q);
-  const row = new Float64Array(q);
-  const sum = new Float64Array(q);
-  const prod = new Float64Array(q * q);
+  const { shift, row, sum, prod } = out.work;
+  shift.fill(0);
+  sum.fill(0);
+  prod.fill(0);
   let first = -1;
   for (let i = from; i < to && first < 0; i++) if (!weight || (weight[i - from] as number) !== 0) first = i;
   let n = 0;
@@ -131,15 +165,11 @@ export function ancovaOnCovariates(P: GroupMoments, C: GroupMoments, correction:
   const p = P.p;
   const df = P.n + C.n - 2 - p;
   if (!(df >= 1)) return false;
-  const W = new Float64Array(p * p);
-  const w = new Float64Array(p);
+  const { W, w, A, c, LW, x } = P.work;
   for (let a = 0; a < p * p; a++) W[a] = (P.sxx[a] as number) + (C.sxx[a] as number);
   for (let a = 0; a < p; a++) w[a] = (P.sxy[a] as number) + (C.sxy[a] as number);
-  let A = W;
-  let c = w;
   if (correction) {
     const L = correction;
-    const LW = new Float64Array(p * p);
     for (let a = 0; a < p; a++) {
       for (let b = 0; b < p; b++) {
         let s = 0;
@@ -147,36 +177,35 @@ export function ancovaOnCovariates(P: GroupMoments, C: GroupMoments, correction:
         LW[a * p + b] = s;
       }
     }
-    A = new Float64Array(p * p);
-    c = new Float64Array(p);
     for (let a = 0; a < p; a++) {
       let s = 0;
       for (let t = 0; t < p; t++) s += (L[a * p + t] as number) * (w[t] as number);
       c[a] = s;
-      for (let b = a; b < p; b++) {
+      for (let b = 0; b <= a; b++) {
         let v = 0;
         for (let t = 0; t < p; t++) v += (LW[a * p + t] as number) * (L[b * p + t] as number);
         A[a * p + b] = v;
-        A[b * p + a] = v;
       }
     }
+  } else {
+    A.set(W);
+    c.set(w);
   }
-  const m = new Matrix(p, p);
-  for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) m.set(a, b, A[a * p + b] as number);
-  const cho = new CholeskyDecomposition(m);
-  if (!cho.isPositiveDefinite()) return false;
-  const dx = new Array<number>(p);
-  for (let a = 0; a < p; a++) dx[a] = (P.means[a] as number) - (C.means[a] as number);
-  const sol = cho.solve(new Matrix([Array.from(c), dx]).transpose());
+  const sumsOfProducts = c.slice(); // c is needed after A is factored
+  if (!choleskyInPlace(A, p)) return false;
+  // b = A^-1 c (in c); A^-1 ΔX̄ (in x).
+  choleskySolveInPlace(A, p, c);
+  for (let a = 0; a < p; a++) x[a] = (P.means[a] as number) - (C.means[a] as number);
   let bc = 0;
   let bdx = 0;
-  let quad = 0;
   for (let a = 0; a < p; a++) {
-    const b = sol.get(a, 0);
-    bc += b * (c[a] as number);
-    bdx += b * (dx[a] as number);
-    quad += (dx[a] as number) * sol.get(a, 1);
+    bc += (c[a] as number) * (sumsOfProducts[a] as number);
+    bdx += (c[a] as number) * (x[a] as number);
   }
+  const dx = x.slice();
+  choleskySolveInPlace(A, p, x);
+  let quad = 0;
+  for (let a = 0; a < p; a++) quad += (dx[a] as number) * (x[a] as number);
   const rss = P.syy + C.syy - bc;
   if (!(rss > 0)) return false;
   const estimate = P.meanY - C.meanY - bdx;

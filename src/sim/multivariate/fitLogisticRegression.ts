@@ -1,4 +1,4 @@
-import { CholeskyDecomposition, Matrix } from 'ml-matrix';
+import { choleskyInPlace, choleskySolveInPlace } from './smallCholesky';
 
 /** The fitted logistic regression. */
 export interface LogisticFit {
@@ -41,7 +41,7 @@ const SEPARATION_LOGIT = 30;
  * (with an intercept) by Newton–Raphson, which for the canonical logit link is
  * iteratively reweighted least squares (McCullagh & Nelder 1989, "Generalized
  * Linear Models", 2nd ed., sec. 2.5 and 4.4; from memory). Each step solves
- * (X'WX) δ = X'(y − p) by Cholesky (ml-matrix), with W = diag(p(1 − p)); a step
+ * (X'WX) δ = X'(y − p) by Cholesky (choleskyInPlace), with W = diag(p(1 − p)); a step
  * that raises the deviance is halved (up to 30 times); convergence when the
  * deviance decrease the next step promises (the Newton decrement) falls below
  * the tolerance relative to the deviance, |D| + 0.1 (the scale of R's glm
@@ -80,14 +80,21 @@ export function fitLogisticRegression(
   if (!Number.isInteger(n) || n < q + 1) {
     throw new Error(`A logistic regression on ${k} covariate(s) needs at least ${q + 1} people${at}; got ${n}.`);
   }
+  const y = new Uint8Array(n);
   let ones = 0;
-  for (let i = 0; i < n; i++) if (outcome[i]) ones++;
+  for (let i = 0; i < n; i++) {
+    if (outcome[i]) {
+      y[i] = 1;
+      ones++;
+    }
+  }
   if (ones === 0 || ones === n) {
     throw new Error(`A logistic regression needs people in both groups${at}; all ${n} are in one group.`);
   }
-  // Centre and scale each column.
+  // Centre and scale each column into a column-major copy z[j * n + i].
   const centre = new Float64Array(k);
   const scale = new Float64Array(k);
+  const z = options.scratch && options.scratch.length >= k * n ? options.scratch : new Float64Array(k * n);
   for (let j = 0; j < k; j++) {
     const col = columns[j] as Float64Array;
     let s = 0;
@@ -106,103 +113,14 @@ export function fitLogisticRegression(
     }
     centre[j] = m;
     scale[j] = 1 / sd;
-  }
-
-  // Standardised copy of the columns, column-major: z[j * n + i].
-  const zbuf = options.scratch && options.scratch.length >= k * n ? options.scratch : new Float64Array(k * n);
-  for (let j = 0; j < k; j++) {
-    const col = columns[j] as Float64Array;
-    const m = centre[j] as number;
-    const f = scale[j] as number;
     const base = j * n;
-    for (let i = 0; i < n; i++) zbuf[base + i] = ((col[i] as number) - m) * f;
+    for (let i = 0; i < n; i++) z[base + i] = ((col[i] as number) - m) / sd;
   }
 
   const maxIterations = options.maxIterations ?? 25;
   const tolerance = options.tolerance ?? 1e-10;
   const eta = options.linearPredictor && options.linearPredictor.length >= n ? options.linearPredictor : new Float64Array(n);
-  const zrow = new Float64Array(k);
-  const hess = new Float64Array(q * q);
-  const grad = new Float64Array(q);
-  let maxAbsEta = 0;
-
-  // One pass over the data at coefficients b (standardised scale): deviance,
-  // gradient X'(y − p) and information X'WX (upper triangle), logits into eta.
-  const pass = (b: Float64Array): number => {
-    hess.fill(0);
-    grad.fill(0);
-    let linear = 0;
-    let logs = 0;
-    let product = 1;
-    let inChunk = 0;
-    maxAbsEta = 0;
-    const b0 = b[0] as number;
-    for (let i = 0; i < n; i++) {
-      let e = b0;
-      for (let j = 0; j < k; j++) {
-        const z = zbuf[j * n + i] as number;
-        zrow[j] = z;
-        e += (b[j + 1] as number) * z;
-      }
-      eta[i] = e;
-      const ae = e < 0 ? -e : e;
-      if (ae > maxAbsEta) maxAbsEta = ae;
-      const y = outcome[i] ? 1 : 0;
-      // One exponential per row: ex = exp(−|e|); p = 1/(1 + exp(−e)); deviance term 2 log(1 + exp(∓e)) stably.
-      const ex = Math.exp(-ae);
-      const onePlus = 1 + ex;
-      const inv = 1 / onePlus;
-      const p = e >= 0 ? inv : ex * inv;
-      // Deviance term 2 [log(1 + exp(−|e|)) + max(∓e, 0)]: the logs are taken of products of
-      // 64 factors in (1, 2] (exact enough, and one logarithm per 64 rows).
-      linear += y ? (e < 0 ? ae : 0) : e > 0 ? ae : 0;
-      product *= onePlus;
-      if (++inChunk === 64) {
-        logs += Math.log(product);
-        product = 1;
-        inChunk = 0;
-      }
-      const w = p * (1 - p);
-      const r = y - p;
-      grad[0] = (grad[0] as number) + r;
-      hess[0] = (hess[0] as number) + w;
-      for (let a = 0; a < k; a++) {
-        const za = zrow[a] as number;
-        grad[a + 1] = (grad[a + 1] as number) + r * za;
-        hess[a + 1] = (hess[a + 1] as number) + w * za;
-        const wz = w * za;
-        const row = (a + 1) * q;
-        for (let c = a; c < k; c++) hess[row + c + 1] = (hess[row + c + 1] as number) + wz * (zrow[c] as number);
-      }
-    }
-    return 2 * (logs + Math.log(product) + linear);
-  };
-
-  // The logits and deviance at b, without the information matrix (after the last step).
-  const finalPass = (b: Float64Array): number => {
-    let linear = 0;
-    let logs = 0;
-    let product = 1;
-    let inChunk = 0;
-    maxAbsEta = 0;
-    const b0 = b[0] as number;
-    for (let i = 0; i < n; i++) {
-      let e = b0;
-      for (let j = 0; j < k; j++) e += (b[j + 1] as number) * (zbuf[j * n + i] as number);
-      eta[i] = e;
-      const ae = e < 0 ? -e : e;
-      if (ae > maxAbsEta) maxAbsEta = ae;
-      linear += outcome[i] ? (e < 0 ? ae : 0) : e > 0 ? ae : 0;
-      product *= 1 + Math.exp(-ae);
-      if (++inChunk === 64) {
-        logs += Math.log(product);
-        product = 1;
-        inChunk = 0;
-      }
-    }
-    return 2 * (logs + Math.log(product) + linear);
-  };
-
+  const ws: PassWorkspace = { zrow: new Float64Array(k), hess: new Float64Array(q * q), grad: new Float64Array(q), maxAbsEta: 0 };
   const b = new Float64Array(q);
   b[0] = Math.log(ones / (n - ones));
   const start = options.start;
@@ -215,9 +133,10 @@ export function fitLogisticRegression(
     }
     b[0] = intercept;
   }
-  let dev = pass(b);
+  let dev = informationPass(z, y, n, k, b, eta, ws);
   const trial = new Float64Array(q);
   const delta = new Float64Array(q);
+  const factor = new Float64Array(q * q);
   let iterations = 0;
   let converged = false;
   const separated = (why: string): Error =>
@@ -228,53 +147,44 @@ export function fitLogisticRegression(
     );
   while (iterations < maxIterations) {
     iterations++;
-    // Solve (X'WX) delta = X'(y − p).
-    const h = new Matrix(q, q);
-    for (let a = 0; a < q; a++) {
-      for (let c = a; c < q; c++) {
-        const v = hess[a * q + c] as number;
-        h.set(a, c, v);
-        h.set(c, a, v);
-      }
-    }
-    const cho = new CholeskyDecomposition(h);
-    if (!cho.isPositiveDefinite()) {
-      if (maxAbsEta > SEPARATION_LOGIT / 2) throw separated('fitted probabilities reach 0 or 1');
+    // Solve (X'WX) delta = X'(y − p); the pass filled the upper triangle.
+    const hess = ws.hess;
+    for (let a = 0; a < q; a++) for (let c = a; c < q; c++) factor[c * q + a] = hess[a * q + c] as number;
+    if (!choleskyInPlace(factor, q)) {
+      if (ws.maxAbsEta > SEPARATION_LOGIT / 2) throw separated('fitted probabilities reach 0 or 1');
       throw new Error(
         `The propensity score cannot be fitted${at}: the measured covariates (${list()}) are collinear ` +
           '(one is an exact linear combination of the others in these data). Leave one of them out.',
       );
     }
-    const step = cho.solve(Matrix.columnVector(Array.from(grad))).getColumn(0);
+    delta.set(ws.grad);
+    choleskySolveInPlace(factor, q, delta);
     // Newton decrement λ² = g' H^-1 g, the deviance decrease the full step promises (Boyd &
     // Vandenberghe 2004, "Convex Optimization", sec. 9.5.1): when it is below the tolerance
     // relative to the deviance, take the step and stop (quadratic convergence makes the
     // remaining error far smaller still).
     let lambda2 = 0;
-    for (let a = 0; a < q; a++) {
-      delta[a] = step[a] as number;
-      lambda2 += (step[a] as number) * (grad[a] as number);
-    }
+    for (let a = 0; a < q; a++) lambda2 += (delta[a] as number) * (ws.grad[a] as number);
     if (lambda2 / (Math.abs(dev) + 0.1) < tolerance) {
       for (let a = 0; a < q; a++) b[a] = (b[a] as number) + (delta[a] as number);
-      dev = finalPass(b);
+      dev = finalPass(z, y, n, k, b, eta, ws);
       converged = true;
       break;
     }
-    let factor = 1;
+    let step = 1;
     let devTry = 0;
     for (let halvings = 0; ; halvings++) {
-      for (let a = 0; a < q; a++) trial[a] = (b[a] as number) + factor * (delta[a] as number);
-      devTry = pass(trial);
+      for (let a = 0; a < q; a++) trial[a] = (b[a] as number) + step * (delta[a] as number);
+      devTry = informationPass(z, y, n, k, trial, eta, ws);
       if (devTry <= dev * (1 + 1e-12) + 1e-12 || halvings >= 30) break;
-      factor /= 2;
+      step /= 2;
     }
     b.set(trial);
     dev = devTry;
     if (!Number.isFinite(dev)) throw separated('the deviance is no longer finite');
   }
   if (!converged) throw separated(`no convergence after ${maxIterations} Newton steps`);
-  if (maxAbsEta > SEPARATION_LOGIT) throw separated('fitted probabilities reach 0 or 1');
+  if (ws.maxAbsEta > SEPARATION_LOGIT) throw separated('fitted probabilities reach 0 or 1');
 
   const coefficients = new Array<number>(q);
   let intercept = b[0] as number;
@@ -285,4 +195,97 @@ export function fitLogisticRegression(
   }
   coefficients[0] = intercept;
   return { coefficients, iterations, deviance: dev };
+}
+
+/** Buffers and the largest |logit| of the last pass. */
+interface PassWorkspace {
+  zrow: Float64Array;
+  /** Upper triangle of X'WX (row-major q × q). */
+  hess: Float64Array;
+  /** X'(y − p). */
+  grad: Float64Array;
+  maxAbsEta: number;
+}
+
+/**
+ * One pass over the rows at coefficients b (standardised scale): the logits
+ * into eta, the gradient X'(y − p) and information X'WX, and the deviance.
+ * Module-level (not a closure) so V8 keeps it optimised across calls.
+ */
+function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b: Float64Array, eta: Float64Array, ws: PassWorkspace): number {
+  const { zrow, hess, grad } = ws;
+  const q = k + 1;
+  hess.fill(0);
+  grad.fill(0);
+  let linear = 0;
+  let logs = 0;
+  let product = 1;
+  let inChunk = 0;
+  let maxAbsEta = 0;
+  const b0 = b[0] as number;
+  for (let i = 0; i < n; i++) {
+    let e = b0;
+    for (let j = 0; j < k; j++) {
+      const v = z[j * n + i] as number;
+      zrow[j] = v;
+      e += (b[j + 1] as number) * v;
+    }
+    eta[i] = e;
+    const ae = e < 0 ? -e : e;
+    if (ae > maxAbsEta) maxAbsEta = ae;
+    // One exponential per row: ex = exp(−|e|), p = 1/(1 + exp(−e)).
+    const ex = Math.exp(-ae);
+    const onePlus = 1 + ex;
+    const inv = 1 / onePlus;
+    const p = e >= 0 ? inv : ex * inv;
+    // Deviance term 2 [log(1 + exp(−|e|)) + max(∓e, 0)]: the logarithms are taken of products
+    // of 64 factors in (1, 2] (exact enough, and one logarithm per 64 rows).
+    linear += y[i] ? (e < 0 ? ae : 0) : e > 0 ? ae : 0;
+    product *= onePlus;
+    if (++inChunk === 64) {
+      logs += Math.log(product);
+      product = 1;
+      inChunk = 0;
+    }
+    const w = p * (1 - p);
+    const r = (y[i] as number) - p;
+    grad[0] = (grad[0] as number) + r;
+    hess[0] = (hess[0] as number) + w;
+    for (let a = 0; a < k; a++) {
+      const za = zrow[a] as number;
+      grad[a + 1] = (grad[a + 1] as number) + r * za;
+      const wz = w * za;
+      hess[a + 1] = (hess[a + 1] as number) + wz;
+      const row = (a + 1) * q + 1;
+      for (let c = a; c < k; c++) hess[row + c] = (hess[row + c] as number) + wz * (zrow[c] as number);
+    }
+  }
+  ws.maxAbsEta = maxAbsEta;
+  return 2 * (logs + Math.log(product) + linear);
+}
+
+/** The logits into eta and the deviance at b, without the information matrix (after the last step). */
+function finalPass(z: Float64Array, y: Uint8Array, n: number, k: number, b: Float64Array, eta: Float64Array, ws: PassWorkspace): number {
+  let linear = 0;
+  let logs = 0;
+  let product = 1;
+  let inChunk = 0;
+  let maxAbsEta = 0;
+  const b0 = b[0] as number;
+  for (let i = 0; i < n; i++) {
+    let e = b0;
+    for (let j = 0; j < k; j++) e += (b[j + 1] as number) * (z[j * n + i] as number);
+    eta[i] = e;
+    const ae = e < 0 ? -e : e;
+    if (ae > maxAbsEta) maxAbsEta = ae;
+    linear += y[i] ? (e < 0 ? ae : 0) : e > 0 ? ae : 0;
+    product *= 1 + Math.exp(-ae);
+    if (++inChunk === 64) {
+      logs += Math.log(product);
+      product = 1;
+      inChunk = 0;
+    }
+  }
+  ws.maxAbsEta = maxAbsEta;
+  return 2 * (logs + Math.log(product) + linear);
 }
