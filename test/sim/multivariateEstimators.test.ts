@@ -166,8 +166,8 @@ describe('small Cholesky solves', () => {
 
 describe('whitened coordinates', () => {
   it('turn the Mahalanobis distance into the Euclidean distance (definition; Mahalanobis 1936)', () => {
-    // Distances checked against (x − x')' A (x − x') with A = (S^-1)[r, r] computed by ml-matrix's inverse;
-    // S the pooled within-group covariance. Tolerance 1e-9 relative.
+    // Distances checked against (x − x')' S_r^-1 (x − x') with S_r the pooled within-group covariance of the
+    // covariates in the distance, inverted by ml-matrix. Tolerance 1e-9 relative.
     const nC = 120;
     const nP = 60;
     const p = 3;
@@ -180,12 +180,13 @@ describe('whitened coordinates', () => {
     for (const notExact of [[0, 1, 2], [0, 2]]) {
       const out = notExact.map(() => new Float64Array(N));
       expect(whitenedCoordinates(cols, notExact, pooled, N - 2, N, out)).toBe(true);
-      const S = new Matrix(p, p);
-      for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) S.set(a, b, pooled[a * p + b]! / (N - 2));
+      const S = new Matrix(notExact.map((a) => notExact.map((b) => pooled[a * p + b]! / (N - 2))));
       const inv = inverse(S);
       for (const [i, j] of [[0, N - 1], [3, 150], [77, 78]] as const) {
         let direct = 0;
-        for (const a of notExact) for (const b of notExact) direct += (cols[a]![i]! - cols[a]![j]!) * inv.get(a, b) * (cols[b]![i]! - cols[b]![j]!);
+        notExact.forEach((a, s) =>
+          notExact.forEach((b, t) => (direct += (cols[a]![i]! - cols[a]![j]!) * inv.get(s, t) * (cols[b]![i]! - cols[b]![j]!))),
+        );
         let euclid = 0;
         for (const w of out) euclid += (w[i]! - w[j]!) ** 2;
         expect(Math.abs(euclid - direct)).toBeLessThan(1e-9 * direct);

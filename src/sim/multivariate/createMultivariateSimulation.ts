@@ -61,8 +61,9 @@ const VAR_RATIO_OK = 2; // variance ratio computable (per variable)
  *     'propensity' — the logit of a logistic regression of group on all measured
  *       covariates, fitted in this replication (fitLogisticRegression), caliper in
  *       pooled SDs of the logit (Austin 2011);
- *     'mahalanobis' — the Mahalanobis distance on the measured covariates with this
- *       replication's pooled within-group covariance matrix, caliper in distance units.
+ *     'mahalanobis' — the Mahalanobis distance on the measured covariates not matched
+ *       exactly, with this replication's pooled within-group covariance matrix of
+ *       those covariates, caliper in distance units.
  *     Unmeasured covariates are never used.
  *  4. Matched difference, ANCOVA on all measured covariates in the stacked
  *     matched sample, balance of every variable (observed and true) before and after.
@@ -227,7 +228,7 @@ class MultivariateRunner {
   readonly measuredObserved: Float64Array[];
   /** Observed exactly matched covariates. */
   readonly exactObserved: Float64Array[];
-  /** Indices within the measured list of those not matched exactly (for the Mahalanobis distance). */
+  /** Indices within the measured list of those not matched exactly (the Mahalanobis distance's covariates). */
   readonly notExact: number[];
   readonly strata: Int32Array | null;
   readonly correction: Float64Array;

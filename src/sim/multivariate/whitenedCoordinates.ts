@@ -1,17 +1,15 @@
-import { CholeskyDecomposition, inverse, Matrix } from 'ml-matrix';
+import { choleskyInPlace } from './smallCholesky';
 
 /**
  * Coordinates in which the Mahalanobis distance is the Euclidean distance
  * (Mahalanobis 1936; Rubin 1980): with S the pooled within-group covariance
- * matrix of the measured covariates and A = (S^-1)[r, r] its inverse's block
- * for the covariates r not matched exactly, A = L L' (Cholesky), w = L' x_r,
- * so (x − x')' A (x − x') = |w − w'|². Exactly matched covariates have equal
- * values within a matched set, so their differences are 0 and the distance on
- * all measured covariates reduces to this block.
+ * matrix of the measured covariates r that are not matched exactly (those
+ * matched exactly are equal within a matched set and take no part), S = L L'
+ * (Cholesky) and w = L^-1 x_r, so (x − x')' S^-1 (x − x') = |w − w'|².
  *
- * @param columns observed measured covariates (pool indexing), length p.
- * @param notExact indices (into columns) of the covariates not matched exactly, length r ≥ 1.
- * @param pooledSxx pooled within-group sums of squares and products of the p covariates (p × p row-major).
+ * @param columns observed measured covariates (pool indexing).
+ * @param notExact indices (into columns) of the covariates in the distance, length r ≥ 1.
+ * @param pooledSxx pooled within-group sums of squares and products of all the columns (p × p row-major, p = columns.length).
  * @param df their degrees of freedom (n_P + n_C − 2).
  * @param size number of people.
  * @param out r Float64Arrays receiving the coordinates.
@@ -29,30 +27,23 @@ export function whitenedCoordinates(
 ): boolean {
   const p = columns.length;
   const r = notExact.length;
-  const s = new Matrix(p, p);
-  for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) s.set(a, b, (pooledSxx[a * p + b] as number) / df);
-  if (!new CholeskyDecomposition(s).isPositiveDefinite()) return false;
-  const inv = inverse(s);
-  const a = new Matrix(r, r);
+  const l = new Float64Array(r * r);
   for (let i = 0; i < r; i++) {
-    for (let j = i; j < r; j++) {
-      const v = (inv.get(notExact[i] as number, notExact[j] as number) + inv.get(notExact[j] as number, notExact[i] as number)) / 2;
-      a.set(i, j, v);
-      a.set(j, i, v);
-    }
+    for (let j = 0; j <= i; j++) l[i * r + j] = (pooledSxx[(notExact[i] as number) * p + (notExact[j] as number)] as number) / df;
   }
-  const cho = new CholeskyDecomposition(a);
-  if (!cho.isPositiveDefinite()) return false;
-  const L = cho.lowerTriangularMatrix;
-  // w_i = Σ_{j ≥ i} L[j][i] x_j (L' is upper triangular).
+  if (!choleskyInPlace(l, r)) return false;
+  // Forward substitution for every person: w_i = (x_i − Σ_{j<i} L[i][j] w_j) / L[i][i].
   for (let i = 0; i < r; i++) {
     const w = out[i] as Float64Array;
-    w.fill(0, 0, size);
-    for (let j = i; j < r; j++) {
-      const l = L.get(j, i);
-      const x = columns[notExact[j] as number] as Float64Array;
-      for (let t = 0; t < size; t++) w[t] = (w[t] as number) + l * (x[t] as number);
+    const x = columns[notExact[i] as number] as Float64Array;
+    const d = l[i * r + i] as number;
+    for (let t = 0; t < size; t++) w[t] = x[t] as number;
+    for (let j = 0; j < i; j++) {
+      const lij = l[i * r + j] as number;
+      const wj = out[j] as Float64Array;
+      for (let t = 0; t < size; t++) w[t] = (w[t] as number) - lij * (wj[t] as number);
     }
+    for (let t = 0; t < size; t++) w[t] = (w[t] as number) / d;
   }
   return true;
 }
