@@ -65,11 +65,7 @@ const GAIN_SCORE_READING: Plan = {
  * INVENTED EXAMPLE with several covariates (see docs/covariates.md): prior
  * attainment as the pretest, attendance (reliability .7), a deprivation index,
  * a recorded category matched exactly, and an unmeasured family-engagement
- * confounder. Not yet in EXAMPLE_PLANS: serializePlan (src/io/planFile.ts,
- * canonicalPlan) does not write covariates, covariateCorrelations or
- * matching.distance yet, so its public/examples file would lose them; add
- * AFTER_SCHOOL_MATHS_EXAMPLE to the list (and run scripts/write-plan-schema.ts)
- * once it does.
+ * confounder.
  */
 export const AFTER_SCHOOL_MATHS: Plan = {
   format: 'meanward-plan',
@@ -133,13 +129,11 @@ export const EXAMPLE_PLANS: readonly ExamplePlan[] = [
       'Invented. The same reading passage before and after, and everyone improves alike (true-score slope 1): the gain score is unbiased while matching and ANCOVA on the fallible pretest are not.',
     plan: GAIN_SCORE_READING,
   },
+  {
+    id: 'after-school-maths',
+    name: 'Several covariates, one unmeasured',
+    description:
+      'Invented. Pupils referred to a maths club start lower on prior attainment, attend less and live in more deprived areas; matching on a propensity score of the four measured covariates leaves their measurement error and an unmeasured family-engagement confounder, which no analysis of the measured covariates removes.',
+    plan: AFTER_SCHOOL_MATHS,
+  },
 ];
-
-/** The several-covariate example's entry, ready for EXAMPLE_PLANS (see AFTER_SCHOOL_MATHS). */
-export const AFTER_SCHOOL_MATHS_EXAMPLE: ExamplePlan = {
-  id: 'after-school-maths',
-  name: 'Several covariates, one unmeasured',
-  description:
-    'Invented. Pupils referred to a maths club start lower on prior attainment, attend less and live in more deprived areas; matching on a propensity score of the four measured covariates leaves their measurement error and an unmeasured family-engagement confounder, which no analysis of the measured covariates removes.',
-  plan: AFTER_SCHOOL_MATHS,
-};
