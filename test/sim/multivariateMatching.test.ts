@@ -250,6 +250,22 @@ describe('matchOnMahalanobis equals a brute-force greedy matcher', () => {
     }
   }
 
+  it('searches many rings of fine cells correctly when the caliper is wide beside the cells (nearest)', () => {
+    // 2,000 comparison members: the nearest search's cells are about 0.1 wide, the caliper 1.0 spans ten rings.
+    for (const dims of [2, 3]) {
+      for (const replacement of [false, true]) {
+        const p = randomPools(60 + dims, 120, 2000, dims, false);
+        const d2 = (a: number, b: number): number => p.coords.reduce((s, col) => s + (col[a]! - col[b]!) ** 2, 0);
+        const settings: MatchSettings = { caliper: 1, method: 'nearest', replacement, order: 'random' };
+        const ws = createMahalanobisMatchingWorkspace(p.nP, p.nC, 2);
+        const m = matchOnMahalanobis(p.coords, null, 1, p.coords[0]!, settings, Xoshiro128StarStar.forReplication(1, 1), ws);
+        const ref = bruteForce(p, d2, (a, b) => d2(a, b) <= 1, settings, 2, Xoshiro128StarStar.forReplication(1, 1), p.coords[0]!, 'by-index', null);
+        expect(m).toBe(ref.matched);
+        for (let j = 0; j < p.nP; j++) expect([...ws.partners.subarray(j * 2, j * 2 + ws.partnerCount[j]!)]).toEqual(ref.partners[j]);
+      }
+    }
+  });
+
   it('finds partners far from the grid origin and rejects a bad caliper with a clear message', () => {
     // A caliper far smaller than the spread (many cells) and programme members outside the comparison range.
     const p = randomPools(5, 20, 200, 2, false);

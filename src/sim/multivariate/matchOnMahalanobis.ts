@@ -70,14 +70,18 @@ const MAX_CELLS = 2 ** 15;
  * A member with none is discarded.
  *
  * Search: the comparison members of a stratum are put on a grid over the
- * first one or two whitened coordinates with cells at least one caliper wide,
- * sorted by cell; a programme member's candidates are the members of its own
- * and the neighbouring cells (found by binary search, three runs of
- * consecutive cells), and only those within the caliper count. Time
- * O(n log n + candidates × coordinates); the candidates are few when the
- * caliper is small beside the spread of the coordinates. Worst case (a
- * caliper so wide that most of the pool shares a few cells):
- * O(n_P × n_C × coordinates), the cost of comparing all pairs.
+ * first one or two whitened coordinates, sorted by cell (each run of
+ * consecutive cells in a row found by binary search). 'random-within-caliper'
+ * uses cells one caliper wide and examines the 3 × 3 block around the
+ * programme member's cell (every eligible member is there). 'nearest' uses
+ * finer cells (about three comparison members per cell at the centre of the
+ * cloud) and examines rings of cells outward from the member's own, stopping
+ * once the next ring can hold no one nearer than the k-th best found or
+ * within the caliper. Time O(n log n + candidates × coordinates): for
+ * 'nearest' a few cells per member while partners are close; for 'random'
+ * every member within the caliper must be listed, so its cost grows with the
+ * caliper's share of the pool. Worst case (a caliper covering most of the
+ * pool): O(n_P × n_C × coordinates), the cost of comparing all pairs.
  *
  * @param coords whitened coordinates, one Float64Array per coordinate (≥ 1), pool indexing
  *   (comparison members at [0, nC), programme members at [nC, nC + nP)).
@@ -159,7 +163,15 @@ export function matchOnMahalanobis(
         if (v > hi2) hi2 = v;
       }
     }
-    const h = Math.max(caliper, (hi1 - lo1) / MAX_CELLS, (hi2 - lo2) / MAX_CELLS);
+    // Cell side: for 'random-within-caliper' one caliper (every eligible member lies in the 3 × 3
+    // block around the programme member's cell); for 'nearest' finer, about three comparison
+    // members per cell at the centre of the whitened (unit-variance) cloud, searched ring by ring.
+    const mC = c1 - c0;
+    const dense = w2 ? Math.sqrt((6 * Math.PI) / mC) : 7.5 / mC;
+    const floorSide = Math.max((hi1 - lo1) / MAX_CELLS, (hi2 - lo2) / MAX_CELLS);
+    const h = nearest ? Math.max(Math.min(caliper, dense), floorSide) : Math.max(caliper * (1 + 1e-9), floorSide);
+    // Cell numbers are computed by rounding divisions: allow for that in the ring bound.
+    const slack = 1e-12 * (Math.abs(lo1) + Math.abs(hi1) + Math.abs(lo2) + Math.abs(hi2) + h);
     const rows = Math.floor((hi1 - lo1) / h) + 1;
     const cols = w2 ? Math.floor((hi2 - lo2) / h) + 1 : 1;
     for (let j = c0; j < c1; j++) {
@@ -181,53 +193,93 @@ export function matchOnMahalanobis(
       const r = Math.floor(((w1[pi] as number) - lo1) / h);
       const q = w2 ? Math.floor(((w2[pi] as number) - lo2) / h) : 0;
       let got = 0; // nearest: size of the best list; random: number of candidates
-      for (let dr = -1; dr <= 1; dr++) {
-        const row = r + dr;
-        if (row < 0 || row >= rows) continue;
-        const qa = Math.max(0, q - 1);
-        const qb = Math.min(cols - 1, q + 1);
-        if (qa > qb) continue;
-        const keyLo = row * cols + qa;
-        const keyHi = row * cols + qb;
-        // First position with key >= keyLo, then walk while key <= keyHi.
-        let a = c0;
-        let b = c1;
-        while (a < b) {
-          const mid = (a + b) >>> 1;
-          if ((sortedKey[mid] as number) < keyLo) a = mid + 1;
-          else b = mid;
+      // Rings of cells at Chebyshev distance rho from the programme member's cell: rho = 0 is the
+      // cell itself; ring rho is its top and bottom rows and, with two coordinates, the left and
+      // right cells of the rows between. A member in ring rho + 1 is at least rho·h away.
+      for (let rho = 0; ; rho++) {
+        const top = r - rho;
+        const bottom = r + rho;
+        const left = q - rho;
+        const right = q + rho;
+        let segments = 1;
+        let midStart = 0;
+        if (rho > 0) {
+          midStart = Math.max(top + 1, 0);
+          const midEnd = Math.min(bottom - 1, rows - 1);
+          segments = 2 + (cols > 1 ? 2 * Math.max(0, midEnd - midStart + 1) : 0);
         }
-        for (let t = a; t < c1 && (sortedKey[t] as number) <= keyHi; t++) {
-          const c = orderC[t] as number;
-          if (!replacement && used[c]) continue;
-          const bound = nearest && got === k ? Math.min(cal2, bestDistance[k - 1] as number) : cal2;
-          let d2 = 0;
-          for (let dim = 0; dim < dims && d2 <= bound; dim++) {
-            const col = coords[dim] as Float64Array;
-            const diff = (col[pi] as number) - (col[c] as number);
-            d2 += diff * diff;
+        for (let sg = 0; sg < segments; sg++) {
+          let row: number;
+          let qa: number;
+          let qb: number;
+          if (rho === 0) {
+            row = r;
+            qa = q;
+            qb = q;
+          } else if (sg < 2) {
+            row = sg === 0 ? top : bottom;
+            qa = left;
+            qb = right;
+          } else {
+            const m = sg - 2;
+            row = midStart + (m >> 1);
+            qa = m & 1 ? right : left;
+            qb = qa;
           }
-          if (d2 > bound) continue;
-          if (!nearest) {
-            candidates[got++] = c;
-            continue;
+          if (row < 0 || row >= rows) continue;
+          if (qa < 0) qa = 0;
+          if (qb > cols - 1) qb = cols - 1;
+          if (qa > qb) continue;
+          const keyLo = row * cols + qa;
+          const keyHi = row * cols + qb;
+          // First position with key >= keyLo, then walk while key <= keyHi.
+          let a = c0;
+          let b = c1;
+          while (a < b) {
+            const mid = (a + b) >>> 1;
+            if ((sortedKey[mid] as number) < keyLo) a = mid + 1;
+            else b = mid;
           }
-          // Insert (d2, c) into the sorted best list (ties: lower comparison index first).
-          let pos = got < k ? got : k - 1;
-          if (got === k) {
-            const wd = bestDistance[k - 1] as number;
-            if (d2 > wd || (d2 === wd && c > (bestIndex[k - 1] as number))) continue;
-          } else got++;
-          while (pos > 0) {
-            const pd = bestDistance[pos - 1] as number;
-            if (pd < d2 || (pd === d2 && (bestIndex[pos - 1] as number) < c)) break;
-            bestDistance[pos] = pd;
-            bestIndex[pos] = bestIndex[pos - 1] as number;
-            pos--;
+          for (let t = a; t < c1 && (sortedKey[t] as number) <= keyHi; t++) {
+            const c = orderC[t] as number;
+            if (!replacement && used[c]) continue;
+            const bound = nearest && got === k ? Math.min(cal2, bestDistance[k - 1] as number) : cal2;
+            let d2 = 0;
+            for (let dim = 0; dim < dims && d2 <= bound; dim++) {
+              const col = coords[dim] as Float64Array;
+              const diff = (col[pi] as number) - (col[c] as number);
+              d2 += diff * diff;
+            }
+            if (d2 > bound) continue;
+            if (!nearest) {
+              candidates[got++] = c;
+              continue;
+            }
+            // Insert (d2, c) into the sorted best list (ties: lower comparison index first).
+            let pos = got < k ? got : k - 1;
+            if (got === k) {
+              const wd = bestDistance[k - 1] as number;
+              if (d2 > wd || (d2 === wd && c > (bestIndex[k - 1] as number))) continue;
+            } else got++;
+            while (pos > 0) {
+              const pd = bestDistance[pos - 1] as number;
+              if (pd < d2 || (pd === d2 && (bestIndex[pos - 1] as number) < c)) break;
+              bestDistance[pos] = pd;
+              bestIndex[pos] = bestIndex[pos - 1] as number;
+              pos--;
+            }
+            bestDistance[pos] = d2;
+            bestIndex[pos] = c;
           }
-          bestDistance[pos] = d2;
-          bestIndex[pos] = c;
         }
+        if (top <= 0 && bottom >= rows - 1 && left <= 0 && right >= cols - 1) break; // the whole grid is searched
+        if (!nearest) {
+          if (rho >= 1) break; // the 3 × 3 block of cells one caliper wide holds every eligible member
+          continue;
+        }
+        const next = rho * h - slack; // nearest possible distance in the next ring
+        if (next > caliper) break;
+        if (got === k && next > 0 && next * next > (bestDistance[k - 1] as number)) break;
       }
       const base = j * k;
       let taken = 0;
