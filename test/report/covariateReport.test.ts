@@ -7,7 +7,9 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { analysePlan } from '../../src/core/analysePlan';
 import type { Plan } from '../../src/core/plan';
 import { demoPlan } from '../../src/io/demoPlan';
+import { parsePlanText } from '../../src/io/planFile';
 import { buildReportPdf } from '../../src/report/buildReportPdf';
+import { planTextFromReportText } from '../../src/report/planJsonBlock';
 import { formatPoints, formatSD, formatShare, formatSignedPoints, withMcse } from '../../src/report/format';
 import { reportCharts } from '../../src/report/reportCharts';
 import { covariateInputTable, correlationMatrixTable, unmeasuredPartText } from '../../src/report/reportCovariates';
@@ -103,6 +105,16 @@ describe('PDF summary of a plan with covariates, with a simulation', () => {
     expect(all).toMatch(/Figure \d\. Balance on each covariate: observed after matching, and on the true scores/);
     expect(all).toContain('0.25 lenient');
     expect(all).not.toContain('Balance: looks balanced on the observed pretest, is not on the true score');
+  });
+
+  it('carries the covariates, their matrix and the distance in the plan file printed at the end', () => {
+    const recovered = planTextFromReportText(text.body.join('\n'));
+    const check = parsePlanText(recovered ?? '');
+    expect(check.ok).toBe(true);
+    if (!check.ok) return;
+    expect(check.plan.covariates).toEqual(plan.covariates);
+    expect(check.plan.covariateCorrelations).toEqual(plan.covariateCorrelations);
+    expect(check.plan.matching.distance).toBe('mahalanobis');
   });
 
   it('adds the covariate model and its caution', () => {
