@@ -1,4 +1,4 @@
-import { useId, useRef, useState, type DragEvent } from 'react';
+import { useDeferredValue, useId, useRef, useState, type DragEvent } from 'react';
 import { useMeanwardStore } from '../state/store';
 import { PilotEstimatesView } from './PilotEstimates';
 import { PilotMappingForm } from './PilotMapping';
@@ -41,6 +41,10 @@ export function PilotPanel() {
 function PilotBody() {
   const pilot = useMeanwardStore((s) => s.pilot);
   const clear = useMeanwardStore((s) => s.clearPilot);
+  // The mapping step and the estimates mount in a deferred (interruptible) render, so the
+  // message that brings them never holds the page for one long task.
+  const showMapping = useDeferredValue(pilot.summary !== null) && pilot.summary !== null;
+  const showEstimates = useDeferredValue(pilot.estimates !== null) && pilot.estimates !== null;
   return (
     <div className="pilot-body">
       <p className="pilot-privacy">
@@ -58,7 +62,7 @@ function PilotBody() {
             </button>
           )}
         </div>
-        {pilot.summary && (
+        {showMapping && (
           <div className="pilot-step pilot-step-map">
             <h3>2. Which columns mean what</h3>
             <PilotMappingForm />
@@ -74,7 +78,7 @@ function PilotBody() {
           <strong>{problemTitle(pilot.problem.stage)}</strong> {pilot.problem.message}
         </div>
       )}
-      {pilot.estimates && <PilotEstimatesView />}
+      {showEstimates && <PilotEstimatesView />}
     </div>
   );
 }

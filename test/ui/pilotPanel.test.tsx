@@ -58,8 +58,8 @@ describe('pilot panel', () => {
     expect(await panel.findByTestId('pilot-file-facts')).toHaveTextContent(
       'wave1-invented.csv: 200 rows of data, 10 columns, separated by commas; the first row holds the column names; 1 comment line (starting with #) skipped.',
     );
-    // The guessed mapping, as labelled controls.
-    expect(panel.getByLabelText('Group column')).toHaveValue('group');
+    // The guessed mapping, as labelled controls (mounted in a deferred render, hence findBy).
+    expect(await panel.findByLabelText('Group column')).toHaveValue('group');
     expect(panel.getByLabelText('Programme group is')).toHaveValue('programme');
     expect(panel.getByText('Comparison group: “comparison”.')).toBeInTheDocument();
     expect(panel.getByRole('radio', { name: 'Item columns' })).toBeChecked();
@@ -127,7 +127,7 @@ describe('pilot panel', () => {
       fireEvent.drop(drop, { dataTransfer: { files: [file] } });
     });
     expect(await panel.findByTestId('pilot-file-facts')).toHaveTextContent('dropped-invented.csv');
-    await user.click(panel.getByRole('button', { name: 'Estimate' }));
+    await user.click(await panel.findByRole('button', { name: 'Estimate' }));
     await panel.findByTestId('pilot-estimates');
     const lower = store.getState().pilot.estimates!.reliability.alpha!.lower;
     // The button names the value it will plan with: alpha's lower Feldt limit, 3 decimals.
@@ -146,7 +146,7 @@ describe('pilot panel', () => {
     await user.upload(panel.getByLabelText('Pilot data file (CSV or TSV)'), fileOf(bad.text, 'bad-invented.csv'));
     await panel.findByTestId('pilot-file-facts');
     // The column with text is offered, marked, and chosen by its name: estimating names the cell.
-    expect(panel.getByRole('checkbox', { name: 'item3 (has text)' })).toBeChecked();
+    expect(await panel.findByRole('checkbox', { name: 'item3 (has text)' })).toBeChecked();
     await user.click(panel.getByRole('button', { name: 'Estimate' }));
     const alert = await panel.findByRole('alert');
     expect(alert).toHaveTextContent('No estimates; your plan is unchanged.');
