@@ -57,7 +57,7 @@ export const REFERENCES: string[] = [
 /** Cautions: what the summary is, and what the model leaves out. */
 export const CAUTIONS: string[] = [
   'This summary is a planning aid. Its figures hold only under the assumptions stated above; it is not a substitute for a statistician’s review, an ethics board’s judgement, or the regulations that apply where the study is run.',
-  'The model leaves out: non-normal score distributions (floors, ceilings, skew); non-linear regression of the outcome on the pretest; several covariates measured with error; reliabilities that differ across settings or groups beyond what the SEM implies; attrition between pretest and follow-up; clustering (classes, clinics, areas); and hidden confounders other than the pretest.',
+  'The model leaves out: non-normal score distributions (floors, ceilings, skew); non-linear relations between the outcome and the pretest or covariates; reliabilities that differ across settings or groups beyond what the SEM implies; attrition between pretest and follow-up; clustering (classes, clinics, areas); and every covariate or confounder not listed in the plan (when none is listed, the pretest is the only one).',
   'Reliability figures from a test manual describe the manual’s norm sample. Within-group reliability in your groups can be lower; check it in pilot data where possible.',
   'A design that removes the artefact under this model can still be biased by selection on things the pretest does not capture.',
 ];
