@@ -156,7 +156,7 @@ describe('PDF summary of the invented demo plan, with a simulation', () => {
       expect(all).toContain(ref);
     }
     expect(all).toContain('not a substitute for a statistician’s review, an ethics board’s judgement');
-    for (const omitted of ['non-normal', 'non-linear relations', 'several covariates', 'attrition', 'clustering', 'hidden confounders']) {
+    for (const omitted of ['non-normal', 'non-linear relations', 'attrition', 'clustering', 'confounder not listed in the plan']) {
       expect(all).toContain(omitted);
     }
   });
