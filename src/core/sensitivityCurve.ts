@@ -6,6 +6,9 @@ import { breakEvenReliability } from './breakEvenReliability';
 import { deriveModelParameters } from './deriveModelParameters';
 import { expectedEstimate } from './expectedEstimate';
 import { formatNumber } from './inputChecks';
+import { covariateModelWithSem } from './multivariate/adjustCovariateModel';
+import { covariateExpectedEstimate } from './multivariate/covariateExpectedEstimate';
+import { deriveCovariateModel, matchingDistance, usesCovariateModel, type CovariateModel } from './multivariate/covariateModel';
 
 /** What the sensitivity curve varies. */
 export type SensitivityVariable = 'reliability' | 'pretestGap';
@@ -63,6 +66,15 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
   const rhoA = plan.analysis.assumedReliability;
   const biasOf = (mx: ModelParameters): Record<AnalysisId, number> =>
     Object.fromEntries(ANALYSIS_IDS.map((id) => [id, expectedEstimate(id, mx, rhoA) - tau])) as Record<AnalysisId, number>;
+  // With covariates (or a propensity / Mahalanobis distance) every point comes from the
+  // several-covariate closed form, with the pretest's SEM or gap changed in that model.
+  const cm = usesCovariateModel(plan) ? deriveCovariateModel(plan, m) : null;
+  const distance = matchingDistance(plan);
+  const covariateBiasOf = (c: CovariateModel): Record<AnalysisId, number> =>
+    Object.fromEntries(ANALYSIS_IDS.map((id) => [id, covariateExpectedEstimate(id, c, distance, rhoA) - tau])) as Record<
+      AnalysisId,
+      number
+    >;
   const grid = (lo: number, hi: number): number[] =>
     Array.from({ length: points }, (_, i) => (i === points - 1 ? hi : lo + ((hi - lo) * i) / (points - 1)));
 
@@ -78,6 +90,21 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
     const semAt = (x: number): number => Math.sqrt((trueVarRef * Math.max(0, 1 - x)) / x);
     const be = breakEvenReliability(m, share);
     const breakEvenX: number[] = [];
+    if (cm) {
+      const pts = grid(0.3, 1).map((x) => ({ x, bias: covariateBiasOf(covariateModelWithSem(cm, 0, semAt(x))) }));
+      return assertFiniteOutput(
+        {
+          variable,
+          xLabel: 'Pretest reliability in its reference population',
+          current: trueVarRef / (trueVarRef + m.sem * m.sem),
+          points: pts,
+          effect: tau,
+          tolerableBand: band,
+          breakEvenX: bandCrossings(pts, band),
+        },
+        'sensitivity curve',
+      );
+    }
     if (be.reliability !== null) {
       // Within-group rho* ↔ SEM² = trueVar_C (1 − rho*)/rho* ↔ reference reliability trueVarRef/(trueVarRef + SEM²).
       const sem2 = (m.trueSD.comparison ** 2 * (1 - be.reliability)) / be.reliability;
@@ -96,6 +123,21 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
   } else {
     const pooledSD = Math.sqrt((m.observedSD.programme ** 2 + m.observedSD.comparison ** 2) / 2);
     const w = Math.max(Math.abs(m.pretestGap), pooledSD);
+    if (cm) {
+      const pts = grid(m.pretestGap - w, m.pretestGap + w).map((x) => ({ x, bias: covariateBiasOf(covariateModelWithPretestGap(cm, x)) }));
+      return assertFiniteOutput(
+        {
+          variable,
+          xLabel: 'Pretest gap, programme minus comparison (points)',
+          current: m.pretestGap,
+          points: pts,
+          effect: tau,
+          tolerableBand: band,
+          breakEvenX: bandCrossings(pts, band),
+        },
+        'sensitivity curve',
+      );
+    }
     const slope = m.beta * (1 - m.reliability.comparison);
     const breakEvenX: number[] = [];
     if (tau !== 0 && slope !== 0) {
@@ -113,4 +155,40 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
     };
   }
   return assertFiniteOutput(result, 'sensitivity curve');
+}
+
+/**
+ * The covariate model with the pretest's group gap set to `gap` (programme
+ * minus comparison, points), the comparison mean held: only the programme
+ * mean of variable 0 moves. Covariances, slopes and the other gaps stay.
+ */
+function covariateModelWithPretestGap(cm: CovariateModel, gap: number): CovariateModel {
+  const programme = [...cm.mean.programme];
+  programme[0] = (cm.mean.comparison[0] as number) + gap;
+  const gaps = [...cm.gap];
+  gaps[0] = gap;
+  return { ...cm, mean: { programme, comparison: cm.mean.comparison }, gap: gaps };
+}
+
+/**
+ * Where the matched-difference bias crosses an edge of the tolerated band,
+ * by linear interpolation between neighbouring curve points (the
+ * several-covariate artefact need not be linear or monotone in x).
+ */
+function bandCrossings(points: SensitivityPoint[], band: { lower: number; upper: number }): number[] {
+  const out: number[] = [];
+  if (!(band.upper > 0)) return out;
+  for (let i = 1; i < points.length; i++) {
+    const a = points[i - 1] as SensitivityPoint;
+    const b = points[i] as SensitivityPoint;
+    for (const edge of [band.lower, band.upper]) {
+      const fa = a.bias.matchedDifference - edge;
+      const fb = b.bias.matchedDifference - edge;
+      if (fa === 0) out.push(a.x);
+      else if (fa * fb < 0) out.push(a.x + ((b.x - a.x) * fa) / (fa - fb));
+    }
+  }
+  const last = points[points.length - 1];
+  if (last && (last.bias.matchedDifference === band.lower || last.bias.matchedDifference === band.upper)) out.push(last.x);
+  return out;
 }
