@@ -120,7 +120,13 @@ export function fitLogisticRegression(
   const maxIterations = options.maxIterations ?? 25;
   const tolerance = options.tolerance ?? 1e-10;
   const eta = options.linearPredictor && options.linearPredictor.length >= n ? options.linearPredictor : new Float64Array(n);
-  const ws: PassWorkspace = { zrow: new Float64Array(k), hess: new Float64Array(q * q), grad: new Float64Array(q), maxAbsEta: 0 };
+  const ws: PassWorkspace = {
+    weight: new Float64Array(n),
+    residual: new Float64Array(n),
+    hess: new Float64Array(q * q),
+    grad: new Float64Array(q),
+    maxAbsEta: 0,
+  };
   const b = new Float64Array(q);
   b[0] = Math.log(ones / (n - ones));
   const start = options.start;
@@ -199,7 +205,10 @@ export function fitLogisticRegression(
 
 /** Buffers and the largest |logit| of the last pass. */
 interface PassWorkspace {
-  zrow: Float64Array;
+  /** p(1 − p) per row. */
+  weight: Float64Array;
+  /** y − p per row. */
+  residual: Float64Array;
   /** Upper triangle of X'WX (row-major q × q). */
   hess: Float64Array;
   /** X'(y − p). */
@@ -209,28 +218,29 @@ interface PassWorkspace {
 
 /**
  * One pass over the rows at coefficients b (standardised scale): the logits
- * into eta, the gradient X'(y − p) and information X'WX, and the deviance.
- * Module-level (not a closure) so V8 keeps it optimised across calls.
+ * into eta, the weights p(1 − p) and residuals y − p, and the deviance; then
+ * the gradient X'(y − p) and information X'WX (upper triangle) column by
+ * column, each sum in a register. Module-level (not a closure) so V8 keeps it
+ * optimised across calls.
  */
 function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b: Float64Array, eta: Float64Array, ws: PassWorkspace): number {
-  const { zrow, hess, grad } = ws;
+  const { hess, grad, weight, residual } = ws;
   const q = k + 1;
-  hess.fill(0);
-  grad.fill(0);
   let linear = 0;
   let logs = 0;
   let product = 1;
   let inChunk = 0;
   let maxAbsEta = 0;
-  const b0 = b[0] as number;
+  eta.fill(b[0] as number, 0, n);
+  for (let j = 0; j < k; j++) {
+    const bj = b[j + 1] as number;
+    const base = j * n;
+    for (let i = 0; i < n; i++) eta[i] = (eta[i] as number) + bj * (z[base + i] as number);
+  }
+  let sw = 0;
+  let sr = 0;
   for (let i = 0; i < n; i++) {
-    let e = b0;
-    for (let j = 0; j < k; j++) {
-      const v = z[j * n + i] as number;
-      zrow[j] = v;
-      e += (b[j + 1] as number) * v;
-    }
-    eta[i] = e;
+    const e = eta[i] as number;
     const ae = e < 0 ? -e : e;
     if (ae > maxAbsEta) maxAbsEta = ae;
     // One exponential per row: ex = exp(−|e|), p = 1/(1 + exp(−e)).
@@ -249,15 +259,29 @@ function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b
     }
     const w = p * (1 - p);
     const r = (y[i] as number) - p;
-    grad[0] = (grad[0] as number) + r;
-    hess[0] = (hess[0] as number) + w;
-    for (let a = 0; a < k; a++) {
-      const za = zrow[a] as number;
-      grad[a + 1] = (grad[a + 1] as number) + r * za;
-      const wz = w * za;
-      hess[a + 1] = (hess[a + 1] as number) + wz;
-      const row = (a + 1) * q + 1;
-      for (let c = a; c < k; c++) hess[row + c] = (hess[row + c] as number) + wz * (zrow[c] as number);
+    weight[i] = w;
+    residual[i] = r;
+    sw += w;
+    sr += r;
+  }
+  hess[0] = sw;
+  grad[0] = sr;
+  for (let a = 0; a < k; a++) {
+    const ba = a * n;
+    let g = 0;
+    let h0 = 0;
+    for (let i = 0; i < n; i++) {
+      const za = z[ba + i] as number;
+      g += (residual[i] as number) * za;
+      h0 += (weight[i] as number) * za;
+    }
+    grad[a + 1] = g;
+    hess[a + 1] = h0;
+    for (let c = a; c < k; c++) {
+      const bc = c * n;
+      let h = 0;
+      for (let i = 0; i < n; i++) h += (weight[i] as number) * (z[ba + i] as number) * (z[bc + i] as number);
+      hess[(a + 1) * q + c + 1] = h;
     }
   }
   ws.maxAbsEta = maxAbsEta;
@@ -271,11 +295,14 @@ function finalPass(z: Float64Array, y: Uint8Array, n: number, k: number, b: Floa
   let product = 1;
   let inChunk = 0;
   let maxAbsEta = 0;
-  const b0 = b[0] as number;
+  eta.fill(b[0] as number, 0, n);
+  for (let j = 0; j < k; j++) {
+    const bj = b[j + 1] as number;
+    const base = j * n;
+    for (let i = 0; i < n; i++) eta[i] = (eta[i] as number) + bj * (z[base + i] as number);
+  }
   for (let i = 0; i < n; i++) {
-    let e = b0;
-    for (let j = 0; j < k; j++) e += (b[j + 1] as number) * (z[j * n + i] as number);
-    eta[i] = e;
+    const e = eta[i] as number;
     const ae = e < 0 ? -e : e;
     if (ae > maxAbsEta) maxAbsEta = ae;
     linear += y[i] ? (e < 0 ? ae : 0) : e > 0 ? ae : 0;
