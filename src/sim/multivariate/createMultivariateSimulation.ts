@@ -237,7 +237,6 @@ class MultivariateRunner {
   readonly MP: GroupMoments;
   readonly MC: GroupMoments;
   readonly out = new Float64Array(3);
-  readonly mv = new Float64Array(3);
   readonly sums = new Float64Array(6);
   readonly programmeGroup: Uint8Array;
   readonly logit: Float64Array;
