@@ -3,11 +3,8 @@ import type { AnalysisId } from './plan';
 import type { ModelParameters } from './modelParameters';
 import { ANALYSIS_DESCRIPTIONS } from './analysisDescriptions';
 import { analysisStandardError } from './analysisStandardError';
-import { classifyArtefact } from './classifyArtefact';
+import { analyticAnalysisRecord } from './analyticAnalysisRecord';
 import { expectedEstimate } from './expectedEstimate';
-import { falsePositiveRate, twoSidedPower, wrongSignRate } from './power';
-import { requiredNPerGroup } from './requiredNPerGroup';
-import { shareOfEffect } from './shareOfEffect';
 
 /** The plan settings one analysis' results depend on. */
 export interface AnalysisSettings {
@@ -43,7 +40,6 @@ export interface AnalysisSettings {
 export function analyseAnalysis(id: AnalysisId, m: ModelParameters, s: AnalysisSettings): AnalyticAnalysis {
   const tau = m.effect;
   const estimate = expectedEstimate(id, m, s.assumedReliability);
-  const bias = estimate - tau;
   const options = { assumedReliability: s.assumedReliability, ratio: s.ratio };
   const sizes =
     id === 'matchedDifference'
@@ -51,23 +47,7 @@ export function analyseAnalysis(id: AnalysisId, m: ModelParameters, s: AnalysisS
       : { programme: m.n.programme, comparison: m.n.comparison };
   const { se, df, nProgramme, nComparison } = analysisStandardError(id, m, sizes, options);
   const design = (n: number) => analysisStandardError(id, m, { programme: n, comparison: n }, options);
-  return {
-    id,
-    name: ANALYSIS_DESCRIPTIONS[id].name,
-    assumption: ANALYSIS_DESCRIPTIONS[id].assumption,
-    expectedEstimate: estimate,
-    bias,
-    biasSD: bias / m.posttestSD.comparison,
-    biasShare: shareOfEffect(bias, tau),
-    verdict: classifyArtefact(tau, bias, s.tolerableBiasShare),
-    se,
-    df,
-    nProgramme,
-    nComparison,
-    power: twoSidedPower(estimate, se, df, s.alpha),
-    powerWithoutBias: twoSidedPower(tau, se, df, s.alpha),
-    falsePositiveRate: falsePositiveRate(bias, se, df, s.alpha),
-    wrongSignRate: wrongSignRate(tau, bias, se, df, s.alpha),
-    requiredNPerGroup: requiredNPerGroup(estimate, tau, design, s.alpha, s.targetPower),
-  };
+  const { name, assumption } = ANALYSIS_DESCRIPTIONS[id];
+  const inputs = { id, name, assumption, estimate, tau, posttestSD: m.posttestSD.comparison, se, df, nProgramme, nComparison, design };
+  return analyticAnalysisRecord(inputs, s);
 }

@@ -1,10 +1,7 @@
 import type { AnalyticAnalysis } from '../analyticResults';
 import type { AnalysisSettings } from '../analyseAnalysis';
 import type { AnalysisId, MatchingDistance } from '../plan';
-import { classifyArtefact } from '../classifyArtefact';
-import { falsePositiveRate, twoSidedPower, wrongSignRate } from '../power';
-import { requiredNPerGroup } from '../requiredNPerGroup';
-import { shareOfEffect } from '../shareOfEffect';
+import { analyticAnalysisRecord } from '../analyticAnalysisRecord';
 import type { CovariateModel } from './covariateModel';
 import { covariateAnalysisDescription } from './covariateAnalysisDescription';
 import { covariateExpectedEstimate } from './covariateExpectedEstimate';
@@ -35,7 +32,6 @@ export function analyseCovariateAnalysis(
 ): AnalyticAnalysis {
   const tau = cm.effect;
   const estimate = covariateExpectedEstimate(id, cm, distance, s.assumedReliability);
-  const bias = estimate - tau;
   const options = { assumedReliability: s.assumedReliability, ratio: s.ratio };
   const sizes =
     id === 'matchedDifference'
@@ -47,23 +43,6 @@ export function analyseCovariateAnalysis(
   const design = (n: number) =>
     covariateStandardError(id, cm, distance, { programme: Math.max(n, minN), comparison: Math.max(n, minN) }, options);
   const { name, assumption } = covariateAnalysisDescription(id, distance);
-  return {
-    id,
-    name,
-    assumption,
-    expectedEstimate: estimate,
-    bias,
-    biasSD: bias / cm.posttestSD.comparison,
-    biasShare: shareOfEffect(bias, tau),
-    verdict: classifyArtefact(tau, bias, s.tolerableBiasShare),
-    se,
-    df,
-    nProgramme,
-    nComparison,
-    power: twoSidedPower(estimate, se, df, s.alpha),
-    powerWithoutBias: twoSidedPower(tau, se, df, s.alpha),
-    falsePositiveRate: falsePositiveRate(bias, se, df, s.alpha),
-    wrongSignRate: wrongSignRate(tau, bias, se, df, s.alpha),
-    requiredNPerGroup: requiredNPerGroup(estimate, tau, design, s.alpha, s.targetPower),
-  };
+  const inputs = { id, name, assumption, estimate, tau, posttestSD: cm.posttestSD.comparison, se, df, nProgramme, nComparison, design };
+  return analyticAnalysisRecord(inputs, s);
 }
