@@ -190,23 +190,23 @@ export class NormalSampleIndex {
 
   /** First position i in the last sorted array with sorted[i] >= x (n when none). */
   lowerBound(x: number): number {
-    const b = this.cellBucket[this.cell(x)] as number;
-    let i = this.bucketStart(b);
-    const marked = this.ends[b] as number;
-    const end = marked > i ? marked : i;
-    const s = this.sorted;
-    while (i < end && (s[i] as number) < x) i++;
-    return i;
+    return this.firstPositionAbove(x, false);
   }
 
   /** First position i in the last sorted array with sorted[i] > x (n when none). */
   upperBound(x: number): number {
+    return this.firstPositionAbove(x, true);
+  }
+
+  /** First position whose value is above x (strictly) or at least x (not strictly); scans x's bucket only. */
+  private firstPositionAbove(x: number, strictly: boolean): number {
     const b = this.cellBucket[this.cell(x)] as number;
     let i = this.bucketStart(b);
     const marked = this.ends[b] as number;
     const end = marked > i ? marked : i;
     const s = this.sorted;
-    while (i < end && (s[i] as number) <= x) i++;
+    if (strictly) while (i < end && (s[i] as number) <= x) i++;
+    else while (i < end && (s[i] as number) < x) i++;
     return i;
   }
 }
