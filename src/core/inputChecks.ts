@@ -10,6 +10,14 @@ export function formatNumber(x: number): string {
   return Number.isInteger(x) ? String(x) : x.toFixed(3).replace(/0+$/, '').replace(/\.$/, '');
 }
 
+/**
+ * A number of points for sentences shown to researchers: two decimals and a
+ * typographic minus, as the planner's tables show points (e.g. "−1.80").
+ */
+export function formatPointsText(x: number): string {
+  return `${x >= 0 ? '' : '−'}${Math.abs(x).toFixed(2)}`;
+}
+
 /** Throws unless `value` is a finite number. */
 export function requireFinite(value: number, what: string): number {
   if (typeof value !== 'number' || !Number.isFinite(value)) {

@@ -6,6 +6,7 @@ import { breakEvenReliability } from './breakEvenReliability';
 import { deriveModelParameters } from './deriveModelParameters';
 import { correctedAncovaEstimate, gainScoreEstimate, matchedDifferenceEstimate } from './expectedEstimate';
 import { expectedMatchedShare } from './expectedMatchedShare';
+import { formatPointsText } from './inputChecks';
 import { shareOfEffect } from './shareOfEffect';
 import type { MatchingSpec } from './plan';
 import { covariateModelWithMeasured, covariateModelWithPoolSizes, covariateModelWithSem } from './multivariate/adjustCovariateModel';
@@ -18,7 +19,7 @@ import { type CovariateModel, deriveCovariateModel, matchingDistance, usesCovari
 import { joinNames } from './multivariate/covariateModelProblems';
 import { unmeasuredBias } from './multivariate/unmeasuredBias';
 
-const pts = (x: number): string => `${x >= 0 ? '' : '−'}${Math.abs(x).toFixed(2)}`;
+const pts = formatPointsText;
 const pct = (x: number): string => `${Math.round(x * 100)}%`;
 const rel = (x: number): string => x.toFixed(2);
 

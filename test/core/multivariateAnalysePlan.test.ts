@@ -70,7 +70,7 @@ describe('analysePlan with covariates (the invented after-school maths example)'
 
   it('break-even: null with a note when even a perfect pretest leaves too much; otherwise the artefact equals the tolerance there (1e-6)', () => {
     expect(r.breakEven.reliability).toBeNull();
-    expect(r.breakEven.note).toMatch(/^Even a perfectly reliable pretest would leave a matched-difference artefact of -1\.\d+ points/);
+    expect(r.breakEven.note).toMatch(/^Even a perfectly reliable pretest would leave a matched-difference artefact of −1\.\d\d points/);
     // The demo (invented) plus one well-measured covariate, matched on Mahalanobis distance.
     const measured = planWithCovariates(
       [covariate({ programmeMean: 83, comparisonMean: 85, reliability: 0.9, outcomeCorrelation: 0.2 })],

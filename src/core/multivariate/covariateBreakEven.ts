@@ -2,7 +2,7 @@ import type { BreakEven } from '../analyticResults';
 import type { ModelParameters } from '../modelParameters';
 import type { MatchingDistance } from '../plan';
 import { breakEvenReliability } from '../breakEvenReliability';
-import { formatNumber, requireNonNegative } from '../inputChecks';
+import { formatNumber, formatPointsText, requireNonNegative } from '../inputChecks';
 import { parallelFormsNeeded } from '../parallelFormsNeeded';
 import type { CovariateModel } from './covariateModel';
 import { covariateModelWithSem } from './adjustCovariateModel';
@@ -57,9 +57,9 @@ export function covariateBreakEven(
       alreadyMet: false,
       parallelForms: null,
       note:
-        `Even a perfectly reliable pretest would leave a matched-difference artefact of ${formatNumber(atOne)} points ` +
+        `Even a perfectly reliable pretest would leave a matched-difference artefact of ${formatPointsText(atOne)} points ` +
         `(from the other covariates' measurement error and the unmeasured covariates), more than the tolerable ` +
-        `${formatNumber(tol)}: see the other remedies.`,
+        `${formatPointsText(tol)}: see the other remedies.`,
     };
   }
   // Lowest grid reliability above which every grid point is tolerable.
