@@ -1,4 +1,3 @@
-import { readFile } from 'node:fs/promises';
 import { analysePlan } from '../core/analysePlan';
 import type { AnalyticResults } from '../core/analyticResults';
 import type { Plan } from '../core/plan';
@@ -13,6 +12,7 @@ import { formatSimulationTable } from './formatSimulationTable';
 import { createProgressBar, type ProgressStream } from './progressBar';
 import { simulationJson, type SimulationJson } from './simulationJson';
 import { runPilotCommand } from './pilotCommand';
+import { readInputFile } from './readInputFile';
 
 /** Where the command line writes (process.stdout / process.stderr, or a test double). */
 export interface CliIO {
@@ -92,13 +92,9 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
     return EXIT_OK;
   }
 
-  let text: string;
-  try {
-    text = await readFile(cmd.file, 'utf8');
-  } catch (err) {
-    return failWith(io, [`Cannot read the plan file ${JSON.stringify(cmd.file)}: ${readFailure(err)}.`]);
-  }
-  const checked = parsePlanText(text);
+  const read = await readInputFile(cmd.file, 'plan');
+  if (!read.ok) return failWith(io, [read.problem]);
+  const checked = parsePlanText(read.text);
   if (!checked.ok) return failWith(io, checked.problems.map((p) => problemLine(cmd.file, p)));
   const plan: Plan = structuredClone(checked.plan);
   if (cmd.replications !== undefined) plan.simulation.replications = cmd.replications;
@@ -154,14 +150,6 @@ function failWith(io: CliIO, lines: string[], code: number = EXIT_USAGE): number
 
 function problemLine(file: string, p: PlanProblem): string {
   return p.field === '' ? `${file}: ${p.message}` : `${file}: ${p.field}: ${p.message}`;
-}
-
-function readFailure(err: unknown): string {
-  const code = (err as { code?: string } | null)?.code;
-  if (code === 'ENOENT') return 'there is no such file';
-  if (code === 'EISDIR') return 'it is a folder, not a file';
-  if (code === 'EACCES' || code === 'EPERM') return 'permission denied';
-  return err instanceof Error ? err.message : String(err);
 }
 
 /** Dotted path of the first NaN or infinite number in a result, or null. */

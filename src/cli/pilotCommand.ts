@@ -1,4 +1,3 @@
-import { readFile } from 'node:fs/promises';
 import { basename } from 'node:path';
 import { estimatePilot } from '../pilot/estimatePilot';
 import { parseDelimitedText } from '../pilot/parseDelimitedText';
@@ -6,6 +5,7 @@ import { PilotDataError, type PilotEstimates } from '../pilot/types';
 import type { PilotCommandLine } from './pilotCommandLine';
 import { formatPilotTable, PILOT_NOTE } from './pilotTable';
 import { PLANNING_CAUTION } from './formatResultsTable';
+import { readInputFile } from './readInputFile';
 
 export type PilotCommandResult =
   | { ok: true; estimates: PilotEstimates; output: string }
@@ -17,15 +17,11 @@ export type PilotCommandResult =
  * reads and formats. Never throws for bad input: problems come back as lines.
  */
 export async function runPilotCommand(cmd: PilotCommandLine): Promise<PilotCommandResult> {
-  let text: string;
-  try {
-    text = await readFile(cmd.file, 'utf8');
-  } catch (err) {
-    return { ok: false, problems: [`Cannot read the pilot file ${JSON.stringify(cmd.file)}: ${readFailure(err)}.`] };
-  }
+  const read = await readInputFile(cmd.file, 'pilot');
+  if (!read.ok) return { ok: false, problems: [read.problem] };
   let estimates: PilotEstimates;
   try {
-    const table = parseDelimitedText(text, { delimiter: cmd.delimiter ?? 'auto', header: cmd.noHeader ? false : 'auto' });
+    const table = parseDelimitedText(read.text, { delimiter: cmd.delimiter ?? 'auto', header: cmd.noHeader ? false : 'auto' });
     estimates = estimatePilot(table, cmd.mapping, basename(cmd.file));
   } catch (err) {
     // A PilotDataError is bad input (exit 2); anything else is a fault of ours (exit 1).
@@ -36,12 +32,4 @@ export async function runPilotCommand(cmd: PilotCommandLine): Promise<PilotComma
     ? `${JSON.stringify({ ...estimates, note: PILOT_NOTE, caution: PLANNING_CAUTION }, null, 2)}\n`
     : formatPilotTable(estimates);
   return { ok: true, estimates, output };
-}
-
-function readFailure(err: unknown): string {
-  const code = (err as { code?: string } | null)?.code;
-  if (code === 'ENOENT') return 'there is no such file';
-  if (code === 'EISDIR') return 'it is a folder, not a file';
-  if (code === 'EACCES' || code === 'EPERM') return 'permission denied';
-  return err instanceof Error ? err.message : String(err);
 }
