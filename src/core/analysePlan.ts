@@ -1,4 +1,5 @@
-import type { AnalyticAnalysis, AnalyticResults } from './analyticResults';
+import type { AnalyticAnalysis, AnalyticResults, BreakEven } from './analyticResults';
+import type { ModelParameters } from './modelParameters';
 import { ANALYSIS_IDS, type AnalysisId, type Plan } from './plan';
 import { analyseAnalysis, type AnalysisSettings } from './analyseAnalysis';
 import { assertFiniteOutput } from './assertFiniteOutput';
@@ -38,27 +39,12 @@ export function analysePlan(plan: Plan): AnalyticResults {
   if (usesCovariateModel(plan)) return analyseCovariatePlan(plan);
   const m = deriveModelParameters(plan);
   const share = expectedMatchedShare(m, plan.matching);
-  const settings: AnalysisSettings = {
-    alpha: plan.analysis.alpha,
-    assumedReliability: plan.analysis.assumedReliability,
-    tolerableBiasShare: plan.analysis.tolerableBiasShare,
-    targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
-    ratio: plan.matching.ratio,
-    matchedProgramme: m.n.programme * share,
-  };
+  const settings = analysisSettings(plan, m.n.programme * share);
   const analyses = Object.fromEntries(ANALYSIS_IDS.map((id) => [id, analyseAnalysis(id, m, settings)])) as Record<
     AnalysisId,
     AnalyticAnalysis
   >;
-  const results: AnalyticResults = {
-    model: m,
-    reliability: { programme: m.reliability.programme, comparison: m.reliability.comparison, sem: m.sem },
-    tau: m.effect,
-    analyses,
-    breakEven: breakEvenReliability(m, plan.analysis.tolerableBiasShare),
-    remedies: rankRemedies(plan, m),
-  };
-  return assertFiniteOutput(results, 'results');
+  return assertFiniteOutput(sharedResults(plan, m, analyses, breakEvenReliability(m, plan.analysis.tolerableBiasShare)), 'results');
 }
 
 /**
@@ -72,25 +58,13 @@ function analyseCovariatePlan(plan: Plan): AnalyticResults {
   const cm = deriveCovariateModel(plan, m);
   const distance = matchingDistance(plan);
   const share = covariateMatchedShare(cm, m, plan.matching, distance);
-  const settings: AnalysisSettings = {
-    alpha: plan.analysis.alpha,
-    assumedReliability: plan.analysis.assumedReliability,
-    tolerableBiasShare: plan.analysis.tolerableBiasShare,
-    targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
-    ratio: plan.matching.ratio,
-    matchedProgramme: m.n.programme * share,
-  };
+  const settings = analysisSettings(plan, m.n.programme * share);
   const analyses = Object.fromEntries(
     ANALYSIS_IDS.map((id) => [id, analyseCovariateAnalysis(id, cm, distance, settings)]),
   ) as Record<AnalysisId, AnalyticAnalysis>;
   const hidden = unmeasuredBias(cm);
   const results: AnalyticResults = {
-    model: m,
-    reliability: { programme: m.reliability.programme, comparison: m.reliability.comparison, sem: m.sem },
-    tau: m.effect,
-    analyses,
-    breakEven: covariateBreakEven(cm, m, distance, plan.analysis.tolerableBiasShare),
-    remedies: rankRemedies(plan, m),
+    ...sharedResults(plan, m, analyses, covariateBreakEven(cm, m, distance, plan.analysis.tolerableBiasShare)),
     matchingDistance: distance,
     unmeasuredBias: {
       points: hidden,
@@ -102,4 +76,33 @@ function analyseCovariatePlan(plan: Plan): AnalyticResults {
     covariateBalance: expectedCovariateBalance(cm, distance),
   };
   return assertFiniteOutput(results, 'results');
+}
+
+/** The settings every analysis reads from the plan; matchedProgramme = expected matched programme members. */
+function analysisSettings(plan: Plan, matchedProgramme: number): AnalysisSettings {
+  return {
+    alpha: plan.analysis.alpha,
+    assumedReliability: plan.analysis.assumedReliability,
+    tolerableBiasShare: plan.analysis.tolerableBiasShare,
+    targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
+    ratio: plan.matching.ratio,
+    matchedProgramme,
+  };
+}
+
+/** The results both paths give, in this order: model, reliabilities, tau, analyses, break-even, remedies. */
+function sharedResults(
+  plan: Plan,
+  m: ModelParameters,
+  analyses: Record<AnalysisId, AnalyticAnalysis>,
+  breakEven: BreakEven,
+): AnalyticResults {
+  return {
+    model: m,
+    reliability: { programme: m.reliability.programme, comparison: m.reliability.comparison, sem: m.sem },
+    tau: m.effect,
+    analyses,
+    breakEven,
+    remedies: rankRemedies(plan, m),
+  };
 }
