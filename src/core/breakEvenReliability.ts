@@ -55,7 +55,33 @@ export function breakEvenReliability(m: ModelParameters, tolerableShare: number)
       note: 'The artefact stays within the tolerable share of the effect at any pretest reliability.',
     };
   }
-  if (rho >= target) {
+  return breakEvenFromTarget(
+    rho,
+    target,
+    rho >= target,
+    'The hoped-for effect is so small beside the pretest gap that only a perfectly reliable pretest would keep the ' +
+      'artefact tolerable: no number of parallel pretests reaches it.',
+  );
+}
+
+/**
+ * The break-even record once the break-even reliability is known, shared by
+ * breakEvenReliability and covariateBreakEven: already reached; reachable
+ * only by a perfectly reliable pretest (target ≥ 1 − 1e-12); or the number of
+ * averaged parallel pretests that take the current reliability there.
+ *
+ * Reference: Spearman (1910) – Brown (1910), through parallelFormsNeeded.
+ *
+ * @param rho the comparison group's current within-group reliability, in (0, 1).
+ * @param target the break-even reliability, in (0, 1].
+ * @param alreadyMet whether the current reliability already keeps the artefact tolerable.
+ * @param onlyPerfectNote the note when only a perfectly reliable pretest would do.
+ * @returns a BreakEven record.
+ * @throws Error from parallelFormsNeeded when rho or target is out of range.
+ * @example breakEvenFromTarget(0.75, 0.921875, false, '…') → parallelForms 4 (exact 3.93)
+ */
+export function breakEvenFromTarget(rho: number, target: number, alreadyMet: boolean, onlyPerfectNote: string): BreakEven {
+  if (alreadyMet) {
     return {
       reliability: target,
       alreadyMet: true,
@@ -64,14 +90,7 @@ export function breakEvenReliability(m: ModelParameters, tolerableShare: number)
     };
   }
   if (!(target < 1 - 1e-12)) {
-    return {
-      reliability: 1,
-      alreadyMet: false,
-      parallelForms: null,
-      note:
-        'The hoped-for effect is so small beside the pretest gap that only a perfectly reliable pretest would keep the ' +
-        'artefact tolerable: no number of parallel pretests reaches it.',
-    };
+    return { reliability: 1, alreadyMet: false, parallelForms: null, note: onlyPerfectNote };
   }
   const { forms } = parallelFormsNeeded(rho, target);
   return {

@@ -1,9 +1,8 @@
 import type { BreakEven } from '../analyticResults';
 import type { ModelParameters } from '../modelParameters';
 import type { MatchingDistance } from '../plan';
-import { breakEvenReliability } from '../breakEvenReliability';
-import { formatNumber, formatPointsText, requireNonNegative } from '../inputChecks';
-import { parallelFormsNeeded } from '../parallelFormsNeeded';
+import { breakEvenFromTarget, breakEvenReliability } from '../breakEvenReliability';
+import { formatPointsText, requireNonNegative } from '../inputChecks';
 import type { CovariateModel } from './covariateModel';
 import { covariateModelWithSem } from './adjustCovariateModel';
 import { expectedTrueGapAfterMatching } from './covariateMatchedEstimate';
@@ -90,30 +89,10 @@ export function covariateBreakEven(
     else lo = mid;
   }
   const target = hi;
-  if (rho >= target && ok(rho)) {
-    return {
-      reliability: target,
-      alreadyMet: true,
-      parallelForms: 1,
-      note: `The comparison group's within-group reliability (${formatNumber(rho)}) already reaches the break-even ${formatNumber(target)}.`,
-    };
-  }
-  if (!(target < 1 - 1e-12)) {
-    return {
-      reliability: 1,
-      alreadyMet: false,
-      parallelForms: null,
-      note:
-        'Only a perfectly reliable pretest would keep the artefact tolerable: no number of parallel pretests reaches it.',
-    };
-  }
-  const { forms } = parallelFormsNeeded(rho, target);
-  return {
-    reliability: target,
-    alreadyMet: false,
-    parallelForms: forms,
-    note:
-      `The comparison group's within-group reliability must rise from ${formatNumber(rho)} to ${formatNumber(target)}: ` +
-      `the average of ${forms} parallel pretests would do it (Spearman–Brown).`,
-  };
+  return breakEvenFromTarget(
+    rho,
+    target,
+    rho >= target && ok(rho),
+    'Only a perfectly reliable pretest would keep the artefact tolerable: no number of parallel pretests reaches it.',
+  );
 }
