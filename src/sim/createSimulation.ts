@@ -1,55 +1,28 @@
-import { ANALYSIS_IDS, type AnalysisId, type Plan } from '../core/plan';
+import type { Plan } from '../core/plan';
 import { deriveModelParameters } from '../core/deriveModelParameters';
 import type { ModelParameters } from '../core/modelParameters';
 import { ancovaEstimate } from './ancovaEstimate';
+import { assembleSimulationResult } from './assembleSimulationResult';
+import {
+  AnalysisRecords,
+  SLOT_ANCOVA as A_ANCOVA,
+  SLOT_ANCOVA_MATCHED as A_ANCOVA_MATCHED,
+  SLOT_CORRECTED as A_CORRECTED,
+  SLOT_GAIN as A_GAIN,
+  SLOT_MATCHED as A_MATCHED,
+} from './analysisRecords';
+import { exampleReplication } from './exampleReplication';
 import { createMatchingWorkspace, matchOnPretest, type MatchingWorkspace } from './matchOnPretest';
 import { NormalSampler } from './normalSampler';
 import { drawReplicationVariates } from './drawReplicationVariates';
 import { NormalSampleIndex } from './normalSampleIndex';
-import {
-  FLAG_COMPUTED,
-  FLAG_COVERED,
-  FLAG_REJECTED,
-  FLAG_WRONG_SIGN,
-  summariseAnalysis,
-} from './summariseAnalysis';
-import { TCriticalValues } from './tQuantile';
-import type { ExamplePair, SimMatchingSummary, SimulationResult } from './types';
-import { validateSimulationSettings } from './validateSimulationSettings';
+import { resolveSimulationOptions } from './resolveSimulationOptions';
+import { steppedSimulationRun } from './steppedSimulationRun';
+import { MATCHED_SETS_OK as AFTER_OK, summariseMatching, VARIANCE_RATIO_OK as VAR_RATIO_OK } from './summariseMatching';
+import type { SimMatchingSummary, SimulationOptions, SimulationResult, SimulationRun } from './types';
 import { Xoshiro128StarStar } from './xoshiro128StarStar';
 
-/** Options for a simulation run; each defaults to the plan's `simulation` block. */
-export interface SimulationOptions {
-  /** Number of replications, integer 2..1,000,000. */
-  replications?: number;
-  /** Seed, any safe integer. */
-  seed?: number;
-}
-
-/** A simulation in progress: run replications in any chunks, then summarise. */
-export interface SimulationRun {
-  readonly total: number;
-  readonly seed: number;
-  /** Replications finished so far. */
-  readonly completed: number;
-  /** Run replications from (inclusive) to `to` (exclusive); 0 <= from <= to <= total. */
-  runChunk(from: number, to: number): void;
-  /** Summaries over all replications. @throws Error if some replications have not run. */
-  finish(): SimulationResult;
-}
-
-// Slots of the per-replication estimate stores.
-const A_MATCHED = 0;
-const A_ANCOVA = 1;
-const A_GAIN = 2;
-const A_CORRECTED = 3;
-const A_ANCOVA_MATCHED = 4;
-const SLOT: Record<AnalysisId, number> = {
-  matchedDifference: A_MATCHED,
-  ancova: A_ANCOVA,
-  gainScore: A_GAIN,
-  correctedAncova: A_CORRECTED,
-};
+export type { SimulationOptions, SimulationRun } from './types';
 
 // Per-replication matching records (Float64Array each).
 const M_MATCHED = 0;
@@ -63,8 +36,6 @@ const M_TRUE_SMD_BEFORE = 7;
 const M_TRUE_SMD_AFTER = 8;
 const M_VAR_RATIO = 9;
 const M_COUNT = 10;
-const AFTER_OK = 1; // after-matching means computable (at least one matched set)
-const VAR_RATIO_OK = 2; // after-matching variance ratio computable
 
 /**
  * The Monte Carlo engine's stepping interface: simulate the researcher's
@@ -106,120 +77,33 @@ const VAR_RATIO_OK = 2; // after-matching variance ratio computable
  *   run.finish().analyses.matchedDifference.meanEstimate; // ≈ 2.5 + 0.875·0.25·(-10) ≈ 0.31 (closed form: Thorndike 1942)
  */
 export function createSimulation(plan: Plan, options: SimulationOptions = {}): SimulationRun {
-  const total = options.replications ?? plan.simulation.replications;
-  const seed = options.seed ?? plan.simulation.seed;
-  validateSimulationSettings(plan, total, seed);
+  const { total, seed } = resolveSimulationOptions(plan, options);
   const model = deriveModelParameters(plan);
   const runner = new ReplicationRunner(plan, model, total, seed);
-  const { nP, tau, est, se, flags, rec, recOk } = runner;
-  const done = new Uint8Array(total);
-  let completed = 0;
-
-  const runChunk = (from: number, to: number): void => {
-    if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to > total || from > to) {
-      throw new Error(`Replication range ${from}..${to} is outside 0..${total}.`);
-    }
-    for (let i = from; i < to; i++) {
-      runner.run(i);
-      if (!done[i]) {
-        done[i] = 1;
-        completed++;
-      }
-    }
-  };
-
-  const finish = (): SimulationResult => {
-    if (completed < total) {
-      throw new Error(`Only ${completed} of ${total} replications have run; cannot summarise yet.`);
-    }
-    const summary = (id: AnalysisId, slot: number, sample: 'full' | 'matched') =>
-      summariseAnalysis(id, est[slot] as Float64Array, se[slot] as Float64Array, flags[slot] as Uint8Array, total, tau, sample);
-    const analyses = {} as SimulationResult['analyses'];
-    const estimates = {} as SimulationResult['estimates'];
-    for (const id of ANALYSIS_IDS) {
-      const slot = SLOT[id];
-      analyses[id] = summary(id, slot, id === 'matchedDifference' ? 'matched' : 'full');
-      const list: number[] = [];
-      const e = est[slot] as Float64Array;
-      const f = flags[slot] as Uint8Array;
-      for (let i = 0; i < total; i++) if ((f[i] as number) & FLAG_COMPUTED) list.push(e[i] as number);
-      estimates[id] = list;
-    }
-    return {
-      plan: structuredClone(plan),
-      seed,
-      replications: total,
-      tau,
-      analyses,
-      ancovaMatchedSample: summary('ancova', A_ANCOVA_MATCHED, 'matched'),
-      matching: summariseMatching(),
-      estimates,
-      example: runner.example ?? { pairs: [], discarded: [] },
-    };
-  };
-
-  const summariseMatching = (): SimMatchingSummary => {
-    const all = (r: number): [number, number] => meanAndMCSE(rec[r] as Float64Array, total, recOk, 0);
-    const after = (r: number, bit: number): [number, number] => meanAndMCSE(rec[r] as Float64Array, total, recOk, bit);
-    const [matchedMean, matchedMCSE] = all(M_MATCHED);
-    const [obsAfter, obsAfterMCSE] = after(M_OBS_AFTER, AFTER_OK);
-    const [trueAfter, trueAfterMCSE] = after(M_TRUE_AFTER, AFTER_OK);
-    return {
-      meanMatchedProgramme: matchedMean,
-      meanMatchedProgrammeMCSE: matchedMCSE,
-      discardedProgrammeShare: 1 - matchedMean / nP,
-      discardedProgrammeShareMCSE: matchedMCSE / nP,
-      observedDifferenceBefore: all(M_OBS_BEFORE)[0],
-      observedDifferenceAfter: obsAfter,
-      observedDifferenceAfterMCSE: obsAfterMCSE,
-      observedSMDBefore: all(M_OBS_SMD_BEFORE)[0],
-      observedSMDAfter: after(M_OBS_SMD_AFTER, AFTER_OK)[0],
-      trueDifferenceBefore: all(M_TRUE_BEFORE)[0],
-      trueDifferenceAfter: trueAfter,
-      trueDifferenceAfterMCSE: trueAfterMCSE,
-      trueSMDBefore: all(M_TRUE_SMD_BEFORE)[0],
-      trueSMDAfter: after(M_TRUE_SMD_AFTER, AFTER_OK)[0],
-      varianceRatioAfter: after(M_VAR_RATIO, VAR_RATIO_OK)[0],
-      replicationsWithMatches: countBits(recOk, total, AFTER_OK),
-    };
-  };
-
-  return {
-    total,
-    seed,
-    get completed() {
-      return completed;
-    },
-    runChunk,
-    finish,
-  };
-}
-
-/** Mean and its MCSE (sd / sqrt(n)) over replications whose ok-bits include `bit` (bit 0: all). 0, 0 when none. */
-function meanAndMCSE(values: Float64Array, n: number, ok: Uint8Array, bit: number): [number, number] {
-  let c = 0;
-  let s = 0;
-  for (let i = 0; i < n; i++) {
-    if (bit && !((ok[i] as number) & bit)) continue;
-    c++;
-    s += values[i] as number;
-  }
-  if (c === 0) return [0, 0];
-  const mean = s / c;
-  if (c < 2) return [mean, 0];
-  let ss = 0;
-  for (let i = 0; i < n; i++) {
-    if (bit && !((ok[i] as number) & bit)) continue;
-    const d = (values[i] as number) - mean;
-    ss += d * d;
-  }
-  return [mean, Math.sqrt(ss / (c - 1) / c)];
-}
-
-function countBits(ok: Uint8Array, n: number, bit: number): number {
-  let c = 0;
-  for (let i = 0; i < n; i++) if ((ok[i] as number) & bit) c++;
-  return c;
+  const { nP, rec, recOk } = runner;
+  const matching = (): SimMatchingSummary =>
+    summariseMatching(
+      {
+        matched: rec[M_MATCHED] as Float64Array,
+        observedBefore: rec[M_OBS_BEFORE] as Float64Array,
+        observedAfter: rec[M_OBS_AFTER] as Float64Array,
+        observedSMDBefore: rec[M_OBS_SMD_BEFORE] as Float64Array,
+        observedSMDAfter: rec[M_OBS_SMD_AFTER] as Float64Array,
+        trueBefore: rec[M_TRUE_BEFORE] as Float64Array,
+        trueAfter: rec[M_TRUE_AFTER] as Float64Array,
+        trueSMDBefore: rec[M_TRUE_SMD_BEFORE] as Float64Array,
+        trueSMDAfter: rec[M_TRUE_SMD_AFTER] as Float64Array,
+        varianceRatio: rec[M_VAR_RATIO] as Float64Array,
+        ok: recOk,
+        stride: 1,
+        offset: 0,
+      },
+      total,
+      nP,
+    );
+  return steppedSimulationRun(total, seed, runner, () =>
+    assembleSimulationResult(plan, seed, total, runner.records, matching(), runner.example),
+  );
 }
 
 /**
@@ -239,7 +123,6 @@ class ReplicationRunner {
   readonly caliperSD: number;
   readonly rhoAssumed: number;
   readonly tau: number;
-  readonly direction: number;
   readonly beta: number;
   readonly resSD: number;
   readonly muP: number;
@@ -268,11 +151,8 @@ class ReplicationRunner {
   readonly ws: MatchingWorkspace;
   readonly moments = new Float64Array(12);
   readonly out = new Float64Array(3);
-  readonly critAlpha: TCriticalValues;
-  readonly crit95: TCriticalValues;
-  readonly est: Float64Array[] = [];
-  readonly se: Float64Array[] = [];
-  readonly flags: Uint8Array[] = [];
+  /** Per-replication estimates, SEs and flags of the five estimators. */
+  readonly records: AnalysisRecords;
   readonly rec: Float64Array[] = [];
   readonly recOk: Uint8Array;
   example: SimulationResult['example'] | null = null;
@@ -292,7 +172,6 @@ class ReplicationRunner {
     this.caliperSD = plan.matching.caliper;
     this.rhoAssumed = plan.analysis.assumedReliability;
     this.tau = model.effect;
-    this.direction = this.tau < 0 ? -1 : 1; // tau = 0: a positive effect is the hoped-for direction
     this.beta = model.beta;
     this.resSD = model.residualSD;
     this.muP = model.mean.programme;
@@ -322,27 +201,9 @@ class ReplicationRunner {
     this.rng = new Xoshiro128StarStar();
     this.normal = new NormalSampler(this.rng);
     this.ws = createMatchingWorkspace(nP, nC, this.k);
-    this.critAlpha = new TCriticalValues(plan.analysis.alpha);
-    this.crit95 = new TCriticalValues(0.05);
-    for (let a = 0; a < 5; a++) {
-      this.est.push(new Float64Array(total));
-      this.se.push(new Float64Array(total));
-      this.flags.push(new Uint8Array(total));
-    }
+    this.records = new AnalysisRecords(total, this.tau, plan.analysis.alpha);
     for (let r = 0; r < M_COUNT; r++) this.rec.push(new Float64Array(total));
     this.recOk = new Uint8Array(total);
-  }
-
-  private record(a: number, i: number, e: number, s: number, df: number): void {
-    let f = FLAG_COMPUTED;
-    if (Math.abs(e - this.tau) <= this.crit95.get(df) * s) f |= FLAG_COVERED;
-    if (Math.abs(e) > this.critAlpha.get(df) * s) {
-      f |= FLAG_REJECTED;
-      if (e * this.direction < 0) f |= FLAG_WRONG_SIGN;
-    }
-    (this.est[a] as Float64Array)[i] = e;
-    (this.se[a] as Float64Array)[i] = s;
-    (this.flags[a] as Uint8Array)[i] = f;
   }
 
   /** Replication i, from its own random stream; results stored at index i. */
@@ -403,9 +264,9 @@ class ReplicationRunner {
     moments[0] = nP; moments[1] = mxP; moments[2] = myP; moments[3] = sxxP; moments[4] = sxyP; moments[5] = syyP;
     moments[6] = nC; moments[7] = mxC; moments[8] = myC; moments[9] = sxxC; moments[10] = sxyC; moments[11] = syyC;
 
-    if (ancovaEstimate(moments, 1, out)) this.record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
+    if (ancovaEstimate(moments, 1, out)) this.records.record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
     if (ancovaEstimate(moments, this.rhoAssumed, out)) {
-      this.record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
+      this.records.record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
     }
     {
       // Gain score Y - X: pooled-variance two-sample t (Student 1908), df n - 2.
@@ -413,7 +274,7 @@ class ReplicationRunner {
       const ss = syyP - 2 * sxyP + sxxP + (syyC - 2 * sxyC + sxxC);
       const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
       const e = myP - mxP - (myC - mxC);
-      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.record(A_GAIN, i, e, s, dfG);
+      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.records.record(A_GAIN, i, e, s, dfG);
     }
 
     const obsPooledSD = Math.sqrt((sxxP / (nP - 1) + sxxC / (nC - 1)) / 2);
@@ -458,13 +319,13 @@ class ReplicationRunner {
       const mean = dS / m;
       const v = (dSS - dS * mean) / (m - 1);
       const s = Math.sqrt(v / m);
-      if (s > 0 && Number.isFinite(s)) this.record(A_MATCHED, i, mean, s, m - 1);
+      if (s > 0 && Number.isFinite(s)) this.records.record(A_MATCHED, i, mean, s, m - 1);
       moments[0] = m; moments[1] = muP + qSx / m; moments[2] = yCentreP + qSy / m;
       moments[3] = qSxx - (qSx * qSx) / m; moments[4] = qSxy - (qSx * qSy) / m; moments[5] = qSyy - (qSy * qSy) / m;
       moments[6] = rN; moments[7] = muC + rSx / rN; moments[8] = yCentreC + rSy / rN;
       moments[9] = rSxx - (rSx * rSx) / rN; moments[10] = rSxy - (rSx * rSy) / rN; moments[11] = rSyy - (rSy * rSy) / rN;
       if (ancovaEstimate(moments, 1, out)) {
-        this.record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+        this.records.record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
       }
     }
 
@@ -502,22 +363,7 @@ class ReplicationRunner {
   }
 
   private captureExample(): SimulationResult['example'] {
-    const { nP, k, xp, tp, yp, xc, tc, yc, ws } = this;
-    const pairs: ExamplePair[] = [];
-    const discarded: { observed: number; trueScore: number }[] = [];
-    for (let j = 0; j < nP; j++) {
-      const cnt = ws.partnerCount[j] as number;
-      if (cnt === 0) {
-        discarded.push({ observed: xp[j] as number, trueScore: tp[j] as number });
-        continue;
-      }
-      const comparison: ExamplePair['comparison'] = [];
-      for (let q = 0; q < cnt; q++) {
-        const c = ws.partners[j * k + q] as number;
-        comparison.push({ observed: xc[c] as number, trueScore: tc[c] as number, outcome: yc[c] as number });
-      }
-      pairs.push({ programme: { observed: xp[j] as number, trueScore: tp[j] as number, outcome: yp[j] as number }, comparison });
-    }
-    return { pairs, discarded };
+    const { xp, tp, yp, xc, tc, yc, ws } = this;
+    return exampleReplication(ws, { observed: xp, trueScore: tp, outcome: yp }, 0, { observed: xc, trueScore: tc, outcome: yc });
   }
 }

@@ -116,3 +116,23 @@ export interface SimulationResult {
    */
   balance?: CovariateBalance[];
 }
+
+/** Options for a simulation run; each defaults to the plan's `simulation` block. */
+export interface SimulationOptions {
+  /** Number of replications, integer 2..1,000,000. */
+  replications?: number;
+  /** Seed, any safe integer. */
+  seed?: number;
+}
+
+/** A simulation in progress: run replications in any chunks, then summarise. */
+export interface SimulationRun {
+  readonly total: number;
+  readonly seed: number;
+  /** Replications finished so far. */
+  readonly completed: number;
+  /** Run replications from (inclusive) to `to` (exclusive); 0 <= from <= to <= total. */
+  runChunk(from: number, to: number): void;
+  /** Summaries over all replications. @throws Error if some replications have not run. */
+  finish(): SimulationResult;
+}

@@ -1,13 +1,23 @@
 import { CholeskyDecomposition, inverse, Matrix } from 'ml-matrix';
-import { ANALYSIS_IDS, type AnalysisId, type MatchingDistance, type Plan } from '../../core/plan';
+import type { MatchingDistance, Plan } from '../../core/plan';
 import { assumedTrueScoreCovariance } from '../../core/multivariate/covariateCorrectedAncovaEstimate';
 import { deriveCovariateModel, matchingDistance, type CovariateModel } from '../../core/multivariate/covariateModel';
-import type { SimulationOptions, SimulationRun } from '../createSimulation';
+import {
+  AnalysisRecords,
+  SLOT_ANCOVA as A_ANCOVA,
+  SLOT_ANCOVA_MATCHED as A_ANCOVA_MATCHED,
+  SLOT_CORRECTED as A_CORRECTED,
+  SLOT_GAIN as A_GAIN,
+  SLOT_MATCHED as A_MATCHED,
+} from '../analysisRecords';
+import { assembleSimulationResult } from '../assembleSimulationResult';
+import { exampleReplication } from '../exampleReplication';
+import { meanAndMCSE, type ReplicationSelection } from '../meanAndMCSE';
 import { NormalSampler } from '../normalSampler';
-import { FLAG_COMPUTED, FLAG_COVERED, FLAG_REJECTED, FLAG_WRONG_SIGN, summariseAnalysis } from '../summariseAnalysis';
-import { TCriticalValues } from '../tQuantile';
-import type { CovariateBalance, ExamplePair, SimMatchingSummary, SimulationResult } from '../types';
-import { validateSimulationSettings } from '../validateSimulationSettings';
+import { resolveSimulationOptions } from '../resolveSimulationOptions';
+import { steppedSimulationRun } from '../steppedSimulationRun';
+import { MATCHED_SETS_OK as AFTER_OK, summariseMatching, VARIANCE_RATIO_OK as VAR_RATIO_OK } from '../summariseMatching';
+import type { CovariateBalance, SimMatchingSummary, SimulationOptions, SimulationResult, SimulationRun } from '../types';
 import { Xoshiro128StarStar } from '../xoshiro128StarStar';
 import { ancovaOnCovariates, createGroupMoments, groupMoments, type GroupMoments } from './ancovaOnCovariates';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
@@ -18,14 +28,6 @@ import { createMahalanobisMatchingWorkspace, matchOnMahalanobis, type Mahalanobi
 import { createScoreMatchingWorkspace, matchOnScore, type ScoreMatchingWorkspace } from './matchOnScore';
 import { whitenedCoordinates } from './whitenedCoordinates';
 
-// Slots of the per-replication estimate stores (as in createSimulation).
-const A_MATCHED = 0;
-const A_ANCOVA = 1;
-const A_GAIN = 2;
-const A_CORRECTED = 3;
-const A_ANCOVA_MATCHED = 4;
-const SLOT: Record<AnalysisId, number> = { matchedDifference: A_MATCHED, ancova: A_ANCOVA, gainScore: A_GAIN, correctedAncova: A_CORRECTED };
-
 // Per-replication balance records, per variable (index v * B_COUNT + metric).
 const B_OBS_BEFORE = 0; // observed mean difference, raw
 const B_OBS_AFTER = 1;
@@ -35,8 +37,6 @@ const B_OBS_SD = 4; // pooled SD of the observed variable in the full pools
 const B_TRUE_SD = 5;
 const B_VAR_RATIO = 6;
 const B_COUNT = 7;
-const AFTER_OK = 1; // at least one matched set
-const VAR_RATIO_OK = 2; // variance ratio computable (per variable)
 
 /**
  * The several-covariate Monte Carlo engine's stepping interface (issue:
@@ -79,91 +79,16 @@ const VAR_RATIO_OK = 2; // variance ratio computable (per variable)
  *   run.runChunk(0, run.total); run.finish().balance?.[0]?.name // 'Pretest'
  */
 export function createMultivariateSimulation(plan: Plan, options: SimulationOptions = {}): SimulationRun {
-  const total = options.replications ?? plan.simulation.replications;
-  const seed = options.seed ?? plan.simulation.seed;
-  validateSimulationSettings(plan, total, seed);
+  const { total, seed } = resolveSimulationOptions(plan, options);
   const distance = matchingDistance(plan);
   if (distance !== 'pretest' && distance !== 'propensity' && distance !== 'mahalanobis') {
     throw new Error(`The matching distance must be "pretest", "propensity" or "mahalanobis"; got ${String(distance)}.`);
   }
   const model = deriveCovariateModel(plan);
   const runner = new MultivariateRunner(plan, model, distance, total, seed);
-  const done = new Uint8Array(total);
-  let completed = 0;
-
-  const runChunk = (from: number, to: number): void => {
-    if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to > total || from > to) {
-      throw new Error(`Replication range ${from}..${to} is outside 0..${total}.`);
-    }
-    for (let i = from; i < to; i++) {
-      runner.run(i);
-      if (!done[i]) {
-        done[i] = 1;
-        completed++;
-      }
-    }
-  };
-
-  const finish = (): SimulationResult => {
-    if (completed < total) throw new Error(`Only ${completed} of ${total} replications have run; cannot summarise yet.`);
-    const { est, se, flags, tau } = runner;
-    const summary = (id: AnalysisId, slot: number, sample: 'full' | 'matched') =>
-      summariseAnalysis(id, est[slot] as Float64Array, se[slot] as Float64Array, flags[slot] as Uint8Array, total, tau, sample);
-    const analyses = {} as SimulationResult['analyses'];
-    const estimates = {} as SimulationResult['estimates'];
-    for (const id of ANALYSIS_IDS) {
-      const slot = SLOT[id];
-      analyses[id] = summary(id, slot, id === 'matchedDifference' ? 'matched' : 'full');
-      const list: number[] = [];
-      const e = est[slot] as Float64Array;
-      const f = flags[slot] as Uint8Array;
-      for (let i = 0; i < total; i++) if ((f[i] as number) & FLAG_COMPUTED) list.push(e[i] as number);
-      estimates[id] = list;
-    }
-    return {
-      plan: structuredClone(plan),
-      seed,
-      replications: total,
-      tau,
-      analyses,
-      ancovaMatchedSample: summary('ancova', A_ANCOVA_MATCHED, 'matched'),
-      matching: runner.matchingSummary(),
-      estimates,
-      example: runner.example ?? { pairs: [], discarded: [] },
-      balance: runner.balanceSummary(),
-    };
-  };
-
-  return {
-    total,
-    seed,
-    get completed() {
-      return completed;
-    },
-    runChunk,
-    finish,
-  };
-}
-
-/** Mean and its MCSE (sd / sqrt(n)) of values[i] over i with ok(i); [0, 0] when none. */
-function meanAndMCSE(values: Float64Array, n: number, ok: (i: number) => boolean): [number, number] {
-  let c = 0;
-  let s = 0;
-  for (let i = 0; i < n; i++) {
-    if (!ok(i)) continue;
-    c++;
-    s += values[i] as number;
-  }
-  if (c === 0) return [0, 0];
-  const mean = s / c;
-  if (c < 2) return [mean, 0];
-  let ss = 0;
-  for (let i = 0; i < n; i++) {
-    if (!ok(i)) continue;
-    const d = (values[i] as number) - mean;
-    ss += d * d;
-  }
-  return [mean, Math.sqrt(ss / (c - 1) / c)];
+  return steppedSimulationRun(total, seed, runner, () =>
+    assembleSimulationResult(plan, seed, total, runner.records, runner.matchingSummary(), runner.example, runner.balanceSummary()),
+  );
 }
 
 /**
@@ -211,8 +136,6 @@ class MultivariateRunner {
   readonly nP: number;
   readonly nC: number;
   readonly k: number;
-  readonly tau: number;
-  readonly direction: number;
   readonly distance: MatchingDistance;
   readonly settings: MatchSettings;
   readonly caliperUnits: number;
@@ -249,11 +172,8 @@ class MultivariateRunner {
   /** Matching weight per comparison member: Σ over the sets using it of 1 / (partners in that set). */
   readonly setWeight: Float64Array;
   readonly pooledSxx: Float64Array;
-  readonly critAlpha: TCriticalValues;
-  readonly crit95: TCriticalValues;
-  readonly est: Float64Array[] = [];
-  readonly se: Float64Array[] = [];
-  readonly flags: Uint8Array[] = [];
+  /** Per-replication estimates, SEs and flags of the five estimators. */
+  readonly records: AnalysisRecords;
   readonly matchedCount: Float64Array;
   /** Balance records: bal[v * B_COUNT + metric][i]. */
   readonly bal: Float64Array[] = [];
@@ -267,8 +187,6 @@ class MultivariateRunner {
     this.nC = model.n.comparison;
     const N = this.nP + this.nC;
     this.k = plan.matching.ratio;
-    this.tau = model.effect;
-    this.direction = this.tau < 0 ? -1 : 1; // tau = 0: a positive effect is the hoped-for direction
     this.distance = distance;
     this.caliperUnits = plan.matching.caliper;
     this.settings = {
@@ -313,28 +231,10 @@ class MultivariateRunner {
     this.matchedFlag = new Uint8Array(this.nP);
     this.useCount = new Int32Array(this.nC);
     this.setWeight = new Float64Array(this.nC);
-    this.critAlpha = new TCriticalValues(plan.analysis.alpha);
-    this.crit95 = new TCriticalValues(0.05);
-    for (let a = 0; a < 5; a++) {
-      this.est.push(new Float64Array(total));
-      this.se.push(new Float64Array(total));
-      this.flags.push(new Uint8Array(total));
-    }
+    this.records = new AnalysisRecords(total, model.effect, plan.analysis.alpha);
     this.matchedCount = new Float64Array(total);
     for (let r = 0; r < this.variables * B_COUNT; r++) this.bal.push(new Float64Array(total));
     this.balOk = new Uint8Array(total * this.variables);
-  }
-
-  private record(a: number, i: number, e: number, s: number, df: number): void {
-    let f = FLAG_COMPUTED;
-    if (Math.abs(e - this.tau) <= this.crit95.get(df) * s) f |= FLAG_COVERED;
-    if (Math.abs(e) > this.critAlpha.get(df) * s) {
-      f |= FLAG_REJECTED;
-      if (e * this.direction < 0) f |= FLAG_WRONG_SIGN;
-    }
-    (this.est[a] as Float64Array)[i] = e;
-    (this.se[a] as Float64Array)[i] = s;
-    (this.flags[a] as Uint8Array)[i] = f;
   }
 
   /** Replication i, from its own random stream; results stored at index i. */
@@ -350,15 +250,15 @@ class MultivariateRunner {
     const cols = this.measuredObserved;
     groupMoments(cols, y, 0, nC, null, C);
     groupMoments(cols, y, nC, N, null, P);
-    if (ancovaOnCovariates(P, C, null, out)) this.record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
-    if (ancovaOnCovariates(P, C, this.correction, out)) this.record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
+    if (ancovaOnCovariates(P, C, null, out)) this.records.record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
+    if (ancovaOnCovariates(P, C, this.correction, out)) this.records.record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
     {
       // Gain score Y − pretest: pooled-variance two-sample t (Student 1908), df n − 2. The pretest is measured variable 0.
       const dfG = nP + nC - 2;
       const ss = P.syy - 2 * (P.sxy[0] as number) + (P.sxx[0] as number) + (C.syy - 2 * (C.sxy[0] as number) + (C.sxx[0] as number));
       const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
       const e = P.meanY - (P.means[0] as number) - (C.meanY - (C.means[0] as number));
-      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.record(A_GAIN, i, e, s, dfG);
+      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.records.record(A_GAIN, i, e, s, dfG);
     }
 
     // Match.
@@ -437,10 +337,10 @@ class MultivariateRunner {
       const mean = dS / m;
       const v = (dSS - dS * mean) / (m - 1);
       const s = Math.sqrt(v / m);
-      if (s > 0 && Number.isFinite(s)) this.record(A_MATCHED, i, mean, s, m - 1);
+      if (s > 0 && Number.isFinite(s)) this.records.record(A_MATCHED, i, mean, s, m - 1);
       groupMoments(cols, y, nC, N, matchedFlag, MP);
       groupMoments(cols, y, 0, nC, useCount, MC);
-      if (ancovaOnCovariates(MP, MC, null, out)) this.record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+      if (ancovaOnCovariates(MP, MC, null, out)) this.records.record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
     }
     this.matchedCount[i] = m;
     this.recordBalance(i, m);
@@ -513,13 +413,12 @@ class MultivariateRunner {
     const smd = new Float64Array(total);
     for (let v = 0; v < p; v++) {
       const series = (metric: number) => bal[v * B_COUNT + metric] as Float64Array;
-      const all = () => true;
-      const after = (i: number) => ((balOk[i * p + v] as number) & AFTER_OK) !== 0;
-      const ratioOk = (i: number) => ((balOk[i * p + v] as number) & VAR_RATIO_OK) !== 0;
+      const after: ReplicationSelection = { ok: balOk, bit: AFTER_OK, stride: p, offset: v };
+      const ratioOk: ReplicationSelection = { ok: balOk, bit: VAR_RATIO_OK, stride: p, offset: v };
       // SMDs: difference over the full pools' pooled SD of the same replication (Stuart 2010).
-      const obsBefore = meanAndMCSE(scaled(series(B_OBS_BEFORE), series(B_OBS_SD), smd, total), total, all);
+      const obsBefore = meanAndMCSE(scaled(series(B_OBS_BEFORE), series(B_OBS_SD), smd, total), total);
       const obsAfter = meanAndMCSE(scaled(series(B_OBS_AFTER), series(B_OBS_SD), smd, total), total, after);
-      const trueBefore = meanAndMCSE(scaled(series(B_TRUE_BEFORE), series(B_TRUE_SD), smd, total), total, all);
+      const trueBefore = meanAndMCSE(scaled(series(B_TRUE_BEFORE), series(B_TRUE_SD), smd, total), total);
       const trueAfter = meanAndMCSE(scaled(series(B_TRUE_AFTER), series(B_TRUE_SD), smd, total), total, after);
       const ratio = meanAndMCSE(series(B_VAR_RATIO), total, ratioOk);
       result.push({
@@ -545,57 +444,32 @@ class MultivariateRunner {
   matchingSummary(): SimMatchingSummary {
     const { total, nP, bal, balOk, variables: p } = this;
     const s = (metric: number) => bal[metric] as Float64Array; // pretest = variable 0
-    const all = () => true;
-    const after = (i: number) => ((balOk[i * p] as number) & AFTER_OK) !== 0;
-    const ratioOk = (i: number) => ((balOk[i * p] as number) & VAR_RATIO_OK) !== 0;
-    const smd = new Float64Array(total);
-    const [matchedMean, matchedMCSE] = meanAndMCSE(this.matchedCount, total, all);
-    const obsAfter = meanAndMCSE(s(B_OBS_AFTER), total, after);
-    const trueAfter = meanAndMCSE(s(B_TRUE_AFTER), total, after);
-    let withMatches = 0;
-    for (let i = 0; i < total; i++) if (after(i)) withMatches++;
-    return {
-      meanMatchedProgramme: matchedMean,
-      meanMatchedProgrammeMCSE: matchedMCSE,
-      discardedProgrammeShare: 1 - matchedMean / nP,
-      discardedProgrammeShareMCSE: matchedMCSE / nP,
-      observedDifferenceBefore: meanAndMCSE(s(B_OBS_BEFORE), total, all)[0],
-      observedDifferenceAfter: obsAfter[0],
-      observedDifferenceAfterMCSE: obsAfter[1],
-      observedSMDBefore: meanAndMCSE(scaled(s(B_OBS_BEFORE), s(B_OBS_SD), smd, total), total, all)[0],
-      observedSMDAfter: meanAndMCSE(scaled(s(B_OBS_AFTER), s(B_OBS_SD), smd, total), total, after)[0],
-      trueDifferenceBefore: meanAndMCSE(s(B_TRUE_BEFORE), total, all)[0],
-      trueDifferenceAfter: trueAfter[0],
-      trueDifferenceAfterMCSE: trueAfter[1],
-      trueSMDBefore: meanAndMCSE(scaled(s(B_TRUE_BEFORE), s(B_TRUE_SD), smd, total), total, all)[0],
-      trueSMDAfter: meanAndMCSE(scaled(s(B_TRUE_AFTER), s(B_TRUE_SD), smd, total), total, after)[0],
-      varianceRatioAfter: meanAndMCSE(s(B_VAR_RATIO), total, ratioOk)[0],
-      replicationsWithMatches: withMatches,
-    };
+    const smd = (diff: number, sd: number) => scaled(s(diff), s(sd), new Float64Array(total), total);
+    return summariseMatching(
+      {
+        matched: this.matchedCount,
+        observedBefore: s(B_OBS_BEFORE),
+        observedAfter: s(B_OBS_AFTER),
+        observedSMDBefore: smd(B_OBS_BEFORE, B_OBS_SD),
+        observedSMDAfter: smd(B_OBS_AFTER, B_OBS_SD),
+        trueBefore: s(B_TRUE_BEFORE),
+        trueAfter: s(B_TRUE_AFTER),
+        trueSMDBefore: smd(B_TRUE_BEFORE, B_TRUE_SD),
+        trueSMDAfter: smd(B_TRUE_AFTER, B_TRUE_SD),
+        varianceRatio: s(B_VAR_RATIO),
+        ok: balOk,
+        stride: p,
+        offset: 0,
+      },
+      total,
+      nP,
+    );
   }
 
   private captureExample(matching: CovariateMatching): SimulationResult['example'] {
-    const { nP, nC, k, pools } = this;
-    const x = pools.observed[0] as Float64Array;
-    const t = pools.trueScore[0] as Float64Array;
-    const y = pools.outcome;
-    const pairs: ExamplePair[] = [];
-    const discarded: { observed: number; trueScore: number }[] = [];
-    for (let j = 0; j < nP; j++) {
-      const i = nC + j;
-      const cnt = matching.partnerCount[j] as number;
-      if (cnt === 0) {
-        discarded.push({ observed: x[i] as number, trueScore: t[i] as number });
-        continue;
-      }
-      const comparison: ExamplePair['comparison'] = [];
-      for (let q = 0; q < cnt; q++) {
-        const c = matching.partners[j * k + q] as number;
-        comparison.push({ observed: x[c] as number, trueScore: t[c] as number, outcome: y[c] as number });
-      }
-      pairs.push({ programme: { observed: x[i] as number, trueScore: t[i] as number, outcome: y[i] as number }, comparison });
-    }
-    return { pairs, discarded };
+    const { nC, pools } = this;
+    const columns = { observed: pools.observed[0] as Float64Array, trueScore: pools.trueScore[0] as Float64Array, outcome: pools.outcome };
+    return exampleReplication(matching, columns, nC, columns);
   }
 }
 

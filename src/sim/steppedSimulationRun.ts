@@ -1,0 +1,58 @@
+import type { SimulationResult, SimulationRun } from './types';
+
+/**
+ * The stepping interface both Monte Carlo engines return: replications run in
+ * any chunks (each replication from its own random stream, so chunking and
+ * re-running change nothing), and the summary only once every replication has
+ * run. The engine supplies the per-replication work and the summary.
+ *
+ * @param total number of replications (whole number ≥ 1; already validated).
+ * @param seed the run's seed (reported back only).
+ * @param runner runs replication i (0 ≤ i < total), storing its results at index i.
+ * @param summarise builds the result once all replications have run.
+ * @returns a SimulationRun over runner and summarise.
+ * @throws never itself; runChunk throws an Error for a range outside 0..total, and
+ *   finish one naming how many replications have run when some have not.
+ * @example
+ *   const run = steppedSimulationRun(4, 1, { run: () => {} }, summarise);
+ *   run.runChunk(0, 2); run.completed // 2; run.finish() throws "Only 2 of 4 replications have run; …"
+ */
+export function steppedSimulationRun(
+  total: number,
+  seed: number,
+  runner: { run(i: number): void },
+  summarise: () => SimulationResult,
+): SimulationRun {
+  const done = new Uint8Array(total);
+  let completed = 0;
+
+  const runChunk = (from: number, to: number): void => {
+    if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to > total || from > to) {
+      throw new Error(`Replication range ${from}..${to} is outside 0..${total}.`);
+    }
+    for (let i = from; i < to; i++) {
+      runner.run(i);
+      if (!done[i]) {
+        done[i] = 1;
+        completed++;
+      }
+    }
+  };
+
+  const finish = (): SimulationResult => {
+    if (completed < total) {
+      throw new Error(`Only ${completed} of ${total} replications have run; cannot summarise yet.`);
+    }
+    return summarise();
+  };
+
+  return {
+    total,
+    seed,
+    get completed() {
+      return completed;
+    },
+    runChunk,
+    finish,
+  };
+}
