@@ -1,3 +1,5 @@
+import type { ExpectedCovariateBalance } from '../core/multivariate/expectedCovariateBalance';
+import type { CovariateBalance } from '../sim/types';
 import type { ChartInput } from './chartTypes';
 
 /** One variable's balance before and after matching (SMDs: programme minus comparison, pooled SD). */
@@ -46,20 +48,13 @@ export function hasCovariateBalance(input: ChartInput): boolean {
   return Boolean((input.simulation?.balance?.length ?? 0) > 0 || (input.analytic.covariateBalance?.length ?? 0) > 0);
 }
 
-/** The figures one row needs, from either source (src/sim's CovariateBalance or src/core's ExpectedCovariateBalance). */
-interface BalanceFigures {
-  name: string;
-  measured: boolean;
-  exact: boolean;
-  observedSMDBefore: number;
-  observedSMDAfter: number;
-  trueSMDBefore: number;
-  trueSMDAfter: number;
-  varianceRatioAfter: number;
-  observedSMDAfterMCSE?: number;
-  trueSMDAfterMCSE?: number;
-  varianceRatioAfterMCSE?: number;
-}
+/**
+ * The figures one row needs, from either source: src/core's closed-form
+ * ExpectedCovariateBalance, or src/sim's CovariateBalance (the same fields
+ * plus their Monte Carlo SEs).
+ */
+type BalanceFigures = ExpectedCovariateBalance &
+  Partial<Pick<CovariateBalance, 'observedSMDAfterMCSE' | 'trueSMDAfterMCSE' | 'varianceRatioAfterMCSE'>>;
 
 /**
  * Transform per-covariate balance into the chart's data: for the pretest and
