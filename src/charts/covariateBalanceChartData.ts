@@ -43,6 +43,12 @@ export const SMD_THRESHOLDS: [number, number] = [0.1, 0.25];
 /** Variance ratios outside this range flag poor balance (Rubin 2001; Stuart 2010). */
 export const VARIANCE_RATIO_RANGE: [number, number] = [0.5, 2];
 
+/** Whether a variance ratio falls outside VARIANCE_RATIO_RANGE (false when it is null or not a finite number). */
+export function isVarianceRatioOutside(vr: number | null): boolean {
+  const [lo, hi] = VARIANCE_RATIO_RANGE;
+  return vr !== null && Number.isFinite(vr) && (vr < lo || vr > hi);
+}
+
 /** Whether the per-covariate chart applies: the simulation or the closed form reports balance per covariate. */
 export function hasCovariateBalance(input: ChartInput): boolean {
   return Boolean((input.simulation?.balance?.length ?? 0) > 0 || (input.analytic.covariateBalance?.length ?? 0) > 0);
@@ -75,7 +81,6 @@ export function covariateBalanceChartData({ analytic, simulation }: ChartInput):
   if (!balance || balance.length === 0) {
     throw new Error('This plan has no balance per covariate (it matches on the pretest alone and lists no covariates).');
   }
-  const [lo, hi] = VARIANCE_RATIO_RANGE;
   const rows: CovariateBalanceRow[] = balance.map((b) => {
     for (const [label, v] of [
       ['observed SMD before matching', b.observedSMDBefore],
@@ -94,7 +99,7 @@ export function covariateBalanceChartData({ analytic, simulation }: ChartInput):
       trueBefore: b.trueSMDBefore,
       trueAfter: b.trueSMDAfter,
       varianceRatio: vr,
-      varianceRatioOutside: vr !== null && (vr < lo || vr > hi),
+      varianceRatioOutside: isVarianceRatioOutside(vr),
       mcse: simulated
         ? {
             observedAfter: b.observedSMDAfterMCSE ?? NaN,

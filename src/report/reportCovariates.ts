@@ -4,6 +4,7 @@
  * simulated results, and the covariate model in brief. Values are shown as
  * entered or as src/core and src/sim return them (formatting only).
  */
+import { isVarianceRatioOutside } from '../charts/covariateBalanceChartData';
 import type { AnalyticResults } from '../core/analyticResults';
 import type { MatchingDistance, Plan } from '../core/plan';
 import type { CovariateBalance } from '../sim/types';
@@ -104,7 +105,7 @@ export function covariateBalanceTable(balance: readonly CovariateBalance[] | und
     withMcse(formatSD(b.observedSMDAfter), b.observedSMDAfterMCSE, (x) => formatPoints(x)),
     withMcse(formatSD(b.trueSMDAfter), b.trueSMDAfterMCSE, (x) => formatPoints(x)),
     withMcse(formatPoints(b.varianceRatioAfter), b.varianceRatioAfterMCSE, (x) => formatPoints(x)) +
-      (Number.isFinite(b.varianceRatioAfter) && (b.varianceRatioAfter < 0.5 || b.varianceRatioAfter > 2) ? ' outside' : ''),
+      (isVarianceRatioOutside(b.varianceRatioAfter) ? ' outside' : ''),
   ]);
   return { columns, rows };
 }
