@@ -11,31 +11,14 @@ import { covariateBalanceChartHeight, covariateBalanceChartSvgString } from '../
 import { covariateBalanceChartText } from '../../src/charts/covariateBalanceChartText';
 import { analysePlan } from '../../src/core/analysePlan';
 import type { Plan } from '../../src/core/plan';
-import { demoPlan } from '../../src/io/demoPlan';
 import { simulatePlan } from '../../src/sim/simulatePlan';
 import type { SimulationResult } from '../../src/sim/types';
+import { inventedCovariatePlan } from '../inventedCovariatePlan';
 import { closedFormInput } from './fixtures';
 
-/**
- * An invented plan: the demo's groups and pretest, plus a measured covariate
- * with its own error and group gap, and a confounder that is never measured.
- * Matching on the pretest alone, so the covariates are not matched on.
- */
+/** The shared invented plan, matched on the pretest alone unless told (so the covariates are not matched on). */
 function covariatePlan(distance: 'pretest' | 'mahalanobis' = 'pretest'): Plan {
-  const plan = demoPlan();
-  return {
-    ...plan,
-    matching: { ...plan.matching, distance },
-    covariates: [
-      { name: 'Attendance', programmeMean: 85, comparisonMean: 90, sd: 10, reliability: 0.7, outcomeCorrelation: 0.3, measured: true, exact: false },
-      { name: 'Motivation', programmeMean: -0.5, comparisonMean: 0, sd: 1, reliability: 1, outcomeCorrelation: 0.3, measured: false, exact: false },
-    ],
-    covariateCorrelations: [
-      [1, 0.3, 0.2],
-      [0.3, 1, 0.1],
-      [0.2, 0.1, 1],
-    ],
-  };
+  return inventedCovariatePlan({ distance });
 }
 
 function closedForm(plan = covariatePlan()): ChartInput {

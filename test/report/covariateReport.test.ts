@@ -15,28 +15,18 @@ import { reportCharts } from '../../src/report/reportCharts';
 import { covariateInputTable, correlationMatrixTable, unmeasuredPartText } from '../../src/report/reportCovariates';
 import { simulatePlan } from '../../src/sim/simulatePlan';
 import type { SimulationResult } from '../../src/sim/types';
+import { inventedCovariatePlan } from '../inventedCovariatePlan';
 import { TEST_FONTS } from './fontsFromDisk';
 import { readPdfText, type PdfText } from './readPdfText';
 
 const GENERATED = new Date('2026-12-02T10:00:00Z');
 
-/** An invented plan: the demo plus a measured covariate and a confounder never measured, matched on a Mahalanobis distance. */
+/** The shared invented plan (a measured covariate and a confounder never measured, Mahalanobis distance), titled for this test. */
 function covariatePlan(): Plan {
-  const plan = demoPlan();
   return {
-    ...plan,
+    ...inventedCovariatePlan(),
     title: 'Invented example for the report test: two covariates, one never measured',
-    matching: { ...plan.matching, distance: 'mahalanobis' },
     simulation: { replications: 200, seed: 424242 },
-    covariates: [
-      { name: 'Attendance', programmeMean: 85, comparisonMean: 90, sd: 10, reliability: 0.7, outcomeCorrelation: 0.3, measured: true, exact: false },
-      { name: 'Motivation', programmeMean: -0.5, comparisonMean: 0, sd: 1, reliability: 1, outcomeCorrelation: 0.3, measured: false, exact: false },
-    ],
-    covariateCorrelations: [
-      [1, 0.3, 0.2],
-      [0.3, 1, 0.1],
-      [0.2, 0.1, 1],
-    ],
   };
 }
 

@@ -2,26 +2,13 @@
 import { act, screen, within } from '@testing-library/react';
 import { describe, expect, it } from 'vitest';
 import type { Plan } from '../../src/core/plan';
-import { demoPlan } from '../../src/io/demoPlan';
 import { fmtPct, fmtSigned } from '../../src/ui/format';
+import { inventedCovariatePlan } from '../inventedCovariatePlan';
 import { renderApp } from './renderApp';
 
-/** An invented plan: the demo plus a measured covariate and a confounder never measured. */
+/** The shared invented plan (Mahalanobis distance); motivation is never measured unless `measuredBoth`. */
 function covariatePlan(measuredBoth = false): Plan {
-  const plan = demoPlan();
-  return {
-    ...plan,
-    matching: { ...plan.matching, distance: 'mahalanobis' },
-    covariates: [
-      { name: 'Attendance', programmeMean: 85, comparisonMean: 90, sd: 10, reliability: 0.7, outcomeCorrelation: 0.3, measured: true, exact: false },
-      { name: 'Motivation', programmeMean: -0.5, comparisonMean: 0, sd: 1, reliability: 1, outcomeCorrelation: 0.3, measured: measuredBoth, exact: false },
-    ],
-    covariateCorrelations: [
-      [1, 0.3, 0.2],
-      [0.3, 1, 0.1],
-      [0.2, 0.1, 1],
-    ],
-  };
+  return inventedCovariatePlan({ motivationMeasured: measuredBoth });
 }
 
 describe('results with covariates', () => {
