@@ -3,14 +3,7 @@ import { deriveModelParameters } from '../core/deriveModelParameters';
 import type { ModelParameters } from '../core/modelParameters';
 import { ancovaEstimate } from './ancovaEstimate';
 import { assembleSimulationResult } from './assembleSimulationResult';
-import {
-  AnalysisRecords,
-  SLOT_ANCOVA as A_ANCOVA,
-  SLOT_ANCOVA_MATCHED as A_ANCOVA_MATCHED,
-  SLOT_CORRECTED as A_CORRECTED,
-  SLOT_GAIN as A_GAIN,
-  SLOT_MATCHED as A_MATCHED,
-} from './analysisRecords';
+import { AnalysisRecords, SLOT_ANCOVA, SLOT_ANCOVA_MATCHED, SLOT_CORRECTED, SLOT_GAIN, SLOT_MATCHED } from './analysisRecords';
 import { exampleReplication } from './exampleReplication';
 import { createMatchingWorkspace, matchOnPretest, type MatchingWorkspace } from './matchOnPretest';
 import { NormalSampler } from './normalSampler';
@@ -264,9 +257,9 @@ class ReplicationRunner {
     moments[0] = nP; moments[1] = mxP; moments[2] = myP; moments[3] = sxxP; moments[4] = sxyP; moments[5] = syyP;
     moments[6] = nC; moments[7] = mxC; moments[8] = myC; moments[9] = sxxC; moments[10] = sxyC; moments[11] = syyC;
 
-    if (ancovaEstimate(moments, 1, out)) this.records.record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
+    if (ancovaEstimate(moments, 1, out)) this.records.record(SLOT_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
     if (ancovaEstimate(moments, this.rhoAssumed, out)) {
-      this.records.record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
+      this.records.record(SLOT_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
     }
     {
       // Gain score Y - X: pooled-variance two-sample t (Student 1908), df n - 2.
@@ -274,7 +267,7 @@ class ReplicationRunner {
       const ss = syyP - 2 * sxyP + sxxP + (syyC - 2 * sxyC + sxxC);
       const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
       const e = myP - mxP - (myC - mxC);
-      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.records.record(A_GAIN, i, e, s, dfG);
+      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.records.record(SLOT_GAIN, i, e, s, dfG);
     }
 
     const obsPooledSD = Math.sqrt((sxxP / (nP - 1) + sxxC / (nC - 1)) / 2);
@@ -319,13 +312,13 @@ class ReplicationRunner {
       const mean = dS / m;
       const v = (dSS - dS * mean) / (m - 1);
       const s = Math.sqrt(v / m);
-      if (s > 0 && Number.isFinite(s)) this.records.record(A_MATCHED, i, mean, s, m - 1);
+      if (s > 0 && Number.isFinite(s)) this.records.record(SLOT_MATCHED, i, mean, s, m - 1);
       moments[0] = m; moments[1] = muP + qSx / m; moments[2] = yCentreP + qSy / m;
       moments[3] = qSxx - (qSx * qSx) / m; moments[4] = qSxy - (qSx * qSy) / m; moments[5] = qSyy - (qSy * qSy) / m;
       moments[6] = rN; moments[7] = muC + rSx / rN; moments[8] = yCentreC + rSy / rN;
       moments[9] = rSxx - (rSx * rSx) / rN; moments[10] = rSxy - (rSx * rSy) / rN; moments[11] = rSyy - (rSy * rSy) / rN;
       if (ancovaEstimate(moments, 1, out)) {
-        this.records.record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+        this.records.record(SLOT_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
       }
     }
 

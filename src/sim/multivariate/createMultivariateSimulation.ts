@@ -2,14 +2,7 @@ import { CholeskyDecomposition, inverse, Matrix } from 'ml-matrix';
 import type { MatchingDistance, Plan } from '../../core/plan';
 import { assumedTrueScoreCovariance } from '../../core/multivariate/covariateCorrectedAncovaEstimate';
 import { deriveCovariateModel, matchingDistance, type CovariateModel } from '../../core/multivariate/covariateModel';
-import {
-  AnalysisRecords,
-  SLOT_ANCOVA as A_ANCOVA,
-  SLOT_ANCOVA_MATCHED as A_ANCOVA_MATCHED,
-  SLOT_CORRECTED as A_CORRECTED,
-  SLOT_GAIN as A_GAIN,
-  SLOT_MATCHED as A_MATCHED,
-} from '../analysisRecords';
+import { AnalysisRecords, SLOT_ANCOVA, SLOT_ANCOVA_MATCHED, SLOT_CORRECTED, SLOT_GAIN, SLOT_MATCHED } from '../analysisRecords';
 import { assembleSimulationResult } from '../assembleSimulationResult';
 import { exampleReplication } from '../exampleReplication';
 import { meanAndMCSE, type ReplicationSelection } from '../meanAndMCSE';
@@ -250,15 +243,15 @@ class MultivariateRunner {
     const cols = this.measuredObserved;
     groupMoments(cols, y, 0, nC, null, C);
     groupMoments(cols, y, nC, N, null, P);
-    if (ancovaOnCovariates(P, C, null, out)) this.records.record(A_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
-    if (ancovaOnCovariates(P, C, this.correction, out)) this.records.record(A_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
+    if (ancovaOnCovariates(P, C, null, out)) this.records.record(SLOT_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
+    if (ancovaOnCovariates(P, C, this.correction, out)) this.records.record(SLOT_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
     {
       // Gain score Y − pretest: pooled-variance two-sample t (Student 1908), df n − 2. The pretest is measured variable 0.
       const dfG = nP + nC - 2;
       const ss = P.syy - 2 * (P.sxy[0] as number) + (P.sxx[0] as number) + (C.syy - 2 * (C.sxy[0] as number) + (C.sxx[0] as number));
       const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
       const e = P.meanY - (P.means[0] as number) - (C.meanY - (C.means[0] as number));
-      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.records.record(A_GAIN, i, e, s, dfG);
+      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.records.record(SLOT_GAIN, i, e, s, dfG);
     }
 
     // Match.
@@ -337,10 +330,10 @@ class MultivariateRunner {
       const mean = dS / m;
       const v = (dSS - dS * mean) / (m - 1);
       const s = Math.sqrt(v / m);
-      if (s > 0 && Number.isFinite(s)) this.records.record(A_MATCHED, i, mean, s, m - 1);
+      if (s > 0 && Number.isFinite(s)) this.records.record(SLOT_MATCHED, i, mean, s, m - 1);
       groupMoments(cols, y, nC, N, matchedFlag, MP);
       groupMoments(cols, y, 0, nC, useCount, MC);
-      if (ancovaOnCovariates(MP, MC, null, out)) this.records.record(A_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+      if (ancovaOnCovariates(MP, MC, null, out)) this.records.record(SLOT_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
     }
     this.matchedCount[i] = m;
     this.recordBalance(i, m);
