@@ -1,14 +1,12 @@
 import type { MatchingMethod } from '../core/plan';
+import { createMatchedSets, type MatchedSets } from './matchedSets';
 import type { RandomSource } from './randomSource';
 
 /**
  * Reusable buffers for matchOnPretest, sized for one plan's pools so the
  * Monte Carlo loop allocates nothing per replication.
  */
-export interface MatchingWorkspace {
-  readonly nProgramme: number;
-  readonly nComparison: number;
-  readonly ratio: number;
+export interface MatchingWorkspace extends MatchedSets {
   /** partners[i * ratio + j] = sorted-comparison index of member i's j-th partner, or -1. */
   readonly partners: Int32Array;
   /** Number of partners found for programme member i (0..ratio). */
@@ -40,11 +38,7 @@ export interface SortedPositions {
 /** Allocate a matching workspace for pools of the given sizes and ratio 1..5. */
 export function createMatchingWorkspace(nProgramme: number, nComparison: number, ratio: number): MatchingWorkspace {
   return {
-    nProgramme,
-    nComparison,
-    ratio,
-    partners: new Int32Array(nProgramme * ratio),
-    partnerCount: new Uint8Array(nProgramme),
+    ...createMatchedSets(nProgramme, nComparison, ratio),
     nextUp: new Int32Array(nComparison + 1),
     nextDown: new Int32Array(nComparison + 1),
     fenwick: new Int32Array(nComparison + 1),

@@ -1,4 +1,5 @@
 import type { MatchingOrder } from '../../core/plan';
+import type { MatchedSets } from '../matchedSets';
 
 /**
  * The result of matching in the several-covariate engine, by pool position:
@@ -6,14 +7,7 @@ import type { MatchingOrder } from '../../core/plan';
  * partners, partners[j * ratio + q] for q < partnerCount[j], each an index
  * into the comparison pool (0-based), or −1 beyond the count.
  */
-export interface CovariateMatching {
-  readonly nProgramme: number;
-  readonly nComparison: number;
-  /** Partners per programme member sought (1..5). */
-  readonly ratio: number;
-  readonly partners: Int32Array;
-  readonly partnerCount: Uint8Array;
-}
+export type CovariateMatching = MatchedSets;
 
 /** Settings shared by the matchers (the plan's matching block, in the engine's terms). */
 export interface MatchSettings {

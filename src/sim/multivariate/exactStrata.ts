@@ -70,3 +70,54 @@ export function groupByStratum(stratum: Int32Array, from: number, to: number, co
     fill[s] = (fill[s] as number) + 1;
   }
 }
+
+/** The stratum bookkeeping a matcher's workspace carries (see groupPoolsByStratum). */
+export interface StratumGroups {
+  readonly nProgramme: number;
+  readonly nComparison: number;
+  /** Comparison members (pool indices 0..nC − 1) grouped by stratum. */
+  readonly orderC: Int32Array;
+  /** Programme members (pool indices nC..nC + nP − 1) grouped by stratum. */
+  readonly orderP: Int32Array;
+  /** Offsets of each stratum in orderC (strata + 1); replaced by a longer array when needed. */
+  startC: Int32Array;
+  /** Offsets of each stratum in orderP (strata + 1); replaced likewise. */
+  startP: Int32Array;
+}
+
+/**
+ * Group both pools by stratum for matching (groupByStratum on each): pool
+ * indexing puts comparison members at [0, nC) and programme members at
+ * [nC, nC + nP); without strata everyone is in stratum 0, in pool order.
+ * Grows ws.startC / ws.startP when there are more strata than they hold.
+ *
+ * @param stratum stratum number per person (pool indexing), or null for one stratum.
+ * @param strata number of strata (ignored when `stratum` is null).
+ * @param ws the matcher's workspace; orderC, orderP, startC, startP are filled.
+ * @returns the number of strata grouped (1 when `stratum` is null).
+ * @throws never.
+ * @example
+ *   // nC = 2, nP = 1, stratum [1, 0, 1], strata 2 → orderC [1, 0], startC [0, 1, 2]; orderP [2], startP [0, 0, 1]
+ */
+export function groupPoolsByStratum(stratum: Int32Array | null, strata: number, ws: StratumGroups): number {
+  const { nProgramme: nP, nComparison: nC, orderC, orderP } = ws;
+  const count = stratum ? strata : 1;
+  if (count + 1 > ws.startC.length) {
+    ws.startC = new Int32Array(count + 1);
+    ws.startP = new Int32Array(count + 1);
+  }
+  const startC = ws.startC;
+  const startP = ws.startP;
+  if (stratum) {
+    groupByStratum(stratum, 0, nC, count, orderC, startC);
+    groupByStratum(stratum, nC, nC + nP, count, orderP, startP);
+  } else {
+    for (let j = 0; j < nC; j++) orderC[j] = j;
+    for (let j = 0; j < nP; j++) orderP[j] = nC + j;
+    startC[0] = 0;
+    startC[1] = nC;
+    startP[0] = 0;
+    startP[1] = nP;
+  }
+  return count;
+}

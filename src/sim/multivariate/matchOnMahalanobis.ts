@@ -1,14 +1,12 @@
+import { createMatchedSets } from '../matchedSets';
 import type { RandomSource } from '../randomSource';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
-import { groupByStratum } from './exactStrata';
+import { groupPoolsByStratum, type StratumGroups } from './exactStrata';
+import { orderProgrammeByScore } from './orderProgrammeByScore';
 import { createSortWorkspace, sortIndicesByScore, type SortWorkspace } from './sortIndicesByScore';
 
 /** Buffers for matchOnMahalanobis, allocated once per plan. */
-export interface MahalanobisMatchingWorkspace extends CovariateMatching {
-  readonly orderC: Int32Array;
-  readonly orderP: Int32Array;
-  startC: Int32Array;
-  startP: Int32Array;
+export interface MahalanobisMatchingWorkspace extends CovariateMatching, StratumGroups {
   /** Grid cell key per person (pool indexing). */
   readonly cellKey: Float64Array;
   /** Cell keys of the comparison members in grid order. */
@@ -31,11 +29,7 @@ export interface MahalanobisMatchingWorkspace extends CovariateMatching {
 export function createMahalanobisMatchingWorkspace(nProgramme: number, nComparison: number, ratio: number): MahalanobisMatchingWorkspace {
   const n = Math.max(nProgramme, nComparison);
   return {
-    nProgramme,
-    nComparison,
-    ratio,
-    partners: new Int32Array(nProgramme * ratio),
-    partnerCount: new Uint8Array(nProgramme),
+    ...createMatchedSets(nProgramme, nComparison, ratio),
     orderC: new Int32Array(nComparison),
     orderP: new Int32Array(nProgramme),
     startC: new Int32Array(2),
@@ -109,26 +103,11 @@ export function matchOnMahalanobis(
   if (!(caliper > 0) || !Number.isFinite(caliper)) {
     throw new Error(`The Mahalanobis caliper must be a positive number of distance units; got ${String(caliper)}.`);
   }
-  const { nProgramme: nP, nComparison: nC, ratio: k, orderC, orderP, cellKey, sortedKey, used, candidates } = ws;
+  const { nComparison: nC, ratio: k, orderC, orderP, cellKey, sortedKey, used, candidates } = ws;
   const { partners, partnerCount, bestIndex, bestDistance } = ws;
-  const count = stratum ? strata : 1;
-  if (count + 1 > ws.startC.length) {
-    ws.startC = new Int32Array(count + 1);
-    ws.startP = new Int32Array(count + 1);
-  }
+  const count = groupPoolsByStratum(stratum, strata, ws);
   const startC = ws.startC;
   const startP = ws.startP;
-  if (stratum) {
-    groupByStratum(stratum, 0, nC, count, orderC, startC);
-    groupByStratum(stratum, nC, nC + nP, count, orderP, startP);
-  } else {
-    for (let j = 0; j < nC; j++) orderC[j] = j;
-    for (let j = 0; j < nP; j++) orderP[j] = nC + j;
-    startC[0] = 0;
-    startC[1] = nC;
-    startP[0] = 0;
-    startP[1] = nP;
-  }
   partnerCount.fill(0);
   partners.fill(-1);
   used.fill(0);
@@ -182,10 +161,7 @@ export function matchOnMahalanobis(
     }
     sortIndicesByScore(cellKey, orderC, c0, c1, ws.sort);
     for (let j = c0; j < c1; j++) sortedKey[j] = cellKey[orderC[j] as number] as number;
-    if (byScore) {
-      sortIndicesByScore(orderScore, orderP, p0, p1, ws.sort);
-      if (settings.order === 'highest-first') orderP.subarray(p0, p1).reverse();
-    }
+    if (byScore) orderProgrammeByScore(orderScore, orderP, p0, p1, settings.order, ws.sort);
 
     for (let qp = p0; qp < p1; qp++) {
       const pi = orderP[qp] as number;

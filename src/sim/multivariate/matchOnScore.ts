@@ -1,17 +1,15 @@
 import { createMatchingWorkspace, matchOnPretest, type MatchingWorkspace } from '../matchOnPretest';
+import { createMatchedSets } from '../matchedSets';
 import type { RandomSource } from '../randomSource';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
-import { groupByStratum } from './exactStrata';
+import { groupPoolsByStratum, type StratumGroups } from './exactStrata';
+import { orderProgrammeByScore } from './orderProgrammeByScore';
 import { createSortWorkspace, sortIndicesByScore, type SortWorkspace } from './sortIndicesByScore';
 
 /** Buffers for matchOnScore, allocated once per plan. */
-export interface ScoreMatchingWorkspace extends CovariateMatching {
+export interface ScoreMatchingWorkspace extends CovariateMatching, StratumGroups {
   /** The one-dimensional matcher's workspace (its partners are positions in the sorted stratum). */
   readonly inner: MatchingWorkspace;
-  readonly orderC: Int32Array;
-  readonly orderP: Int32Array;
-  readonly startC: Int32Array;
-  readonly startP: Int32Array;
   readonly sortedC: Float64Array;
   readonly orderedP: Float64Array;
   readonly sort: SortWorkspace;
@@ -28,11 +26,7 @@ export function createScoreMatchingWorkspace(nProgramme: number, nComparison: nu
   const inner = createMatchingWorkspace(nProgramme, nComparison, ratio);
   const n = Math.max(nProgramme, nComparison);
   return {
-    nProgramme,
-    nComparison,
-    ratio,
-    partners: new Int32Array(nProgramme * ratio),
-    partnerCount: new Uint8Array(nProgramme),
+    ...createMatchedSets(nProgramme, nComparison, ratio),
     inner,
     orderC: new Int32Array(nComparison),
     orderP: new Int32Array(nProgramme),
@@ -79,27 +73,10 @@ export function matchOnScore(
   rng: RandomSource,
   ws: ScoreMatchingWorkspace,
 ): number {
-  const { nProgramme: nP, nComparison: nC, ratio: k, orderC, orderP, sortedC, orderedP, inner } = ws;
-  let startC = ws.startC;
-  let startP = ws.startP;
-  const count = stratum ? strata : 1;
-  if (count + 1 > startC.length) {
-    startC = new Int32Array(count + 1);
-    startP = new Int32Array(count + 1);
-    (ws as { startC: Int32Array }).startC = startC;
-    (ws as { startP: Int32Array }).startP = startP;
-  }
-  if (stratum) {
-    groupByStratum(stratum, 0, nC, count, orderC, startC);
-    groupByStratum(stratum, nC, nC + nP, count, orderP, startP);
-  } else {
-    for (let j = 0; j < nC; j++) orderC[j] = j;
-    for (let j = 0; j < nP; j++) orderP[j] = nC + j;
-    startC[0] = 0;
-    startC[1] = nC;
-    startP[0] = 0;
-    startP[1] = nP;
-  }
+  const { nComparison: nC, ratio: k, orderC, orderP, sortedC, orderedP, inner } = ws;
+  const count = groupPoolsByStratum(stratum, strata, ws);
+  const startC = ws.startC;
+  const startP = ws.startP;
   const byScore = !settings.replacement && settings.order !== 'random';
   const localPartners = inner.partners;
   const localCount = inner.partnerCount;
@@ -115,10 +92,7 @@ export function matchOnScore(
       continue;
     }
     sortIndicesByScore(score, orderC, c0, c1, ws.sort);
-    if (byScore) {
-      sortIndicesByScore(score, orderP, p0, p1, ws.sort);
-      if (settings.order === 'highest-first') orderP.subarray(p0, p1).reverse();
-    }
+    if (byScore) orderProgrammeByScore(score, orderP, p0, p1, settings.order, ws.sort);
     for (let j = c0; j < c1; j++) sortedC[j] = score[orderC[j] as number] as number;
     for (let j = p0; j < p1; j++) orderedP[j] = score[orderP[j] as number] as number;
     const sc = c1 - c0;
