@@ -139,7 +139,7 @@ export function fitLogisticRegression(
     }
     b[0] = intercept;
   }
-  let dev = informationPass(z, y, n, k, b, eta, ws);
+  let dev = rowPass(z, y, n, k, b, eta, ws, true);
   const trial = new Float64Array(q);
   const delta = new Float64Array(q);
   const factor = new Float64Array(q * q);
@@ -173,7 +173,7 @@ export function fitLogisticRegression(
     for (let a = 0; a < q; a++) lambda2 += (delta[a] as number) * (ws.grad[a] as number);
     if (lambda2 / (Math.abs(dev) + 0.1) < tolerance) {
       for (let a = 0; a < q; a++) b[a] = (b[a] as number) + (delta[a] as number);
-      dev = finalPass(z, y, n, k, b, eta, ws);
+      dev = rowPass(z, y, n, k, b, eta, ws, false);
       converged = true;
       break;
     }
@@ -181,7 +181,7 @@ export function fitLogisticRegression(
     let devTry = 0;
     for (let halvings = 0; ; halvings++) {
       for (let a = 0; a < q; a++) trial[a] = (b[a] as number) + step * (delta[a] as number);
-      devTry = informationPass(z, y, n, k, trial, eta, ws);
+      devTry = rowPass(z, y, n, k, trial, eta, ws, true);
       if (devTry <= dev * (1 + 1e-12) + 1e-12 || halvings >= 30) break;
       step /= 2;
     }
@@ -218,12 +218,22 @@ interface PassWorkspace {
 
 /**
  * One pass over the rows at coefficients b (standardised scale): the logits
- * into eta, the weights p(1 − p) and residuals y − p, and the deviance; then
- * the gradient X'(y − p) and information X'WX (upper triangle) column by
- * column, each sum in a register. Module-level (not a closure) so V8 keeps it
- * optimised across calls.
+ * into eta and the deviance; with `information`, also the weights p(1 − p)
+ * and residuals y − p, then the gradient X'(y − p) and information X'WX
+ * (upper triangle) column by column, each sum in a register (without it, the
+ * pass after the last step, which needs only the deviance). Module-level (not
+ * a closure) so V8 keeps it optimised across calls.
  */
-function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b: Float64Array, eta: Float64Array, ws: PassWorkspace): number {
+function rowPass(
+  z: Float64Array,
+  y: Uint8Array,
+  n: number,
+  k: number,
+  b: Float64Array,
+  eta: Float64Array,
+  ws: PassWorkspace,
+  information: boolean,
+): number {
   const { hess, grad, weight, residual } = ws;
   const q = k + 1;
   let linear = 0;
@@ -231,12 +241,7 @@ function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b
   let product = 1;
   let inChunk = 0;
   let maxAbsEta = 0;
-  eta.fill(b[0] as number, 0, n);
-  for (let j = 0; j < k; j++) {
-    const bj = b[j + 1] as number;
-    const base = j * n;
-    for (let i = 0; i < n; i++) eta[i] = (eta[i] as number) + bj * (z[base + i] as number);
-  }
+  linearPredictor(z, n, k, b, eta);
   let sw = 0;
   let sr = 0;
   for (let i = 0; i < n; i++) {
@@ -246,8 +251,6 @@ function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b
     // One exponential per row: ex = exp(−|e|), p = 1/(1 + exp(−e)).
     const ex = Math.exp(-ae);
     const onePlus = 1 + ex;
-    const inv = 1 / onePlus;
-    const p = e >= 0 ? inv : ex * inv;
     // Deviance term 2 [log(1 + exp(−|e|)) + max(∓e, 0)]: the logarithms are taken of products
     // of 64 factors in (1, 2] (exact enough, and one logarithm per 64 rows).
     linear += y[i] ? (e < 0 ? ae : 0) : e > 0 ? ae : 0;
@@ -257,6 +260,9 @@ function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b
       product = 1;
       inChunk = 0;
     }
+    if (!information) continue;
+    const inv = 1 / onePlus;
+    const p = e >= 0 ? inv : ex * inv;
     const w = p * (1 - p);
     const r = (y[i] as number) - p;
     weight[i] = w;
@@ -264,6 +270,9 @@ function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b
     sw += w;
     sr += r;
   }
+  ws.maxAbsEta = maxAbsEta;
+  const deviance = 2 * (logs + Math.log(product) + linear);
+  if (!information) return deviance;
   hess[0] = sw;
   grad[0] = sr;
   for (let a = 0; a < k; a++) {
@@ -284,35 +293,15 @@ function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b
       hess[(a + 1) * q + c + 1] = h;
     }
   }
-  ws.maxAbsEta = maxAbsEta;
-  return 2 * (logs + Math.log(product) + linear);
+  return deviance;
 }
 
-/** The logits into eta and the deviance at b, without the information matrix (after the last step). */
-function finalPass(z: Float64Array, y: Uint8Array, n: number, k: number, b: Float64Array, eta: Float64Array, ws: PassWorkspace): number {
-  let linear = 0;
-  let logs = 0;
-  let product = 1;
-  let inChunk = 0;
-  let maxAbsEta = 0;
+/** eta[i] = b[0] + Σ_j b[j + 1] z[j · n + i] for i < n (column by column, in that order). */
+function linearPredictor(z: Float64Array, n: number, k: number, b: Float64Array, eta: Float64Array): void {
   eta.fill(b[0] as number, 0, n);
   for (let j = 0; j < k; j++) {
     const bj = b[j + 1] as number;
     const base = j * n;
     for (let i = 0; i < n; i++) eta[i] = (eta[i] as number) + bj * (z[base + i] as number);
   }
-  for (let i = 0; i < n; i++) {
-    const e = eta[i] as number;
-    const ae = e < 0 ? -e : e;
-    if (ae > maxAbsEta) maxAbsEta = ae;
-    linear += y[i] ? (e < 0 ? ae : 0) : e > 0 ? ae : 0;
-    product *= 1 + Math.exp(-ae);
-    if (++inChunk === 64) {
-      logs += Math.log(product);
-      product = 1;
-      inChunk = 0;
-    }
-  }
-  ws.maxAbsEta = maxAbsEta;
-  return 2 * (logs + Math.log(product) + linear);
 }

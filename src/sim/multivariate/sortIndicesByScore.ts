@@ -73,22 +73,8 @@ export function sortIndicesByScore(score: Float64Array, idx: Int32Array, from: n
     pos[at] = j;
   }
   // Exact order by (score, position) within buckets.
-  let moves = 0;
   const limit = 16 * m + 64;
-  for (let j = 1; j < m && moves <= limit; j++) {
-    const p = pos[j] as number;
-    const s = score[idx[from + p] as number] as number;
-    let q = j - 1;
-    while (q >= 0) {
-      const pq = pos[q] as number;
-      const sq = score[idx[from + pq] as number] as number;
-      if (sq < s || (sq === s && pq < p)) break;
-      pos[q + 1] = pq;
-      q--;
-      moves++;
-    }
-    pos[q + 1] = p;
-  }
+  const moves = insertionPass(score, idx, from, m, pos, limit);
   const out = ws.packed;
   if (moves > limit) comparisonSort(score, idx, from, m, pos, out, lo, hi);
   // Permute the segment.
@@ -107,7 +93,17 @@ function comparisonSort(score: Float64Array, idx: Int32Array, from: number, m: n
     const key = view[j] as number;
     pos[j] = key - Math.floor(key / PACK) * PACK;
   }
-  for (let j = 1; j < m; j++) {
+  insertionPass(score, idx, from, m, pos, Infinity);
+}
+
+/**
+ * Insertion sort of positions pos[0 .. m) by (score of idx[from + position],
+ * position), in place; stops starting new elements once more than `limit`
+ * moves have been made (Infinity: sorts fully). Returns the moves made.
+ */
+function insertionPass(score: Float64Array, idx: Int32Array, from: number, m: number, pos: Int32Array, limit: number): number {
+  let moves = 0;
+  for (let j = 1; j < m && moves <= limit; j++) {
     const p = pos[j] as number;
     const s = score[idx[from + p] as number] as number;
     let q = j - 1;
@@ -117,7 +113,9 @@ function comparisonSort(score: Float64Array, idx: Int32Array, from: number, m: n
       if (sq < s || (sq === s && pq < p)) break;
       pos[q + 1] = pq;
       q--;
+      moves++;
     }
     pos[q + 1] = p;
   }
+  return moves;
 }
