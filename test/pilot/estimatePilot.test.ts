@@ -3,18 +3,9 @@ import { describe, expect, it } from 'vitest';
 import { spearmanBrown } from '../../src/core/spearmanBrown';
 import { estimatePilot } from '../../src/pilot/estimatePilot';
 import { parseDelimitedText } from '../../src/pilot/parseDelimitedText';
-import { type ParsedTable, PilotDataError, type PilotMapping } from '../../src/pilot/types';
+import type { ParsedTable, PilotMapping } from '../../src/pilot/types';
+import { errorOf } from './errorOf';
 import { pilotFixtureMapping, pilotFixtureTable, toCsv, type PilotFixture } from './pilotFixtures';
-
-function errorOf(f: () => unknown): PilotDataError {
-  try {
-    f();
-  } catch (e) {
-    expect(e).toBeInstanceOf(PilotDataError);
-    return e as PilotDataError;
-  }
-  throw new Error('expected a PilotDataError, but nothing was thrown');
-}
 
 /** Centre each value on its own group's mean (simple-statistics' mean). */
 function centred(values: number[], groups: string[]): number[] {

@@ -1,20 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { parseDelimitedText } from '../../src/pilot/parseDelimitedText';
 import { parsePilotNumber } from '../../src/pilot/parsePilotNumber';
-import { PilotDataError } from '../../src/pilot/types';
+import { errorOf } from './errorOf';
 
 // Cell splitting follows RFC 4180 (Shafranovich 2005: fields, double quotes, "" inside quotes);
 // the expected tables below are written out by hand from that rule. Checks are exact (text).
-
-function errorOf(f: () => unknown): PilotDataError {
-  try {
-    f();
-  } catch (e) {
-    expect(e).toBeInstanceOf(PilotDataError);
-    return e as PilotDataError;
-  }
-  throw new Error('expected a PilotDataError, but nothing was thrown');
-}
 
 describe('parseDelimitedText: delimiter and header', () => {
   it('reads a comma file with a header (RFC 4180 quoting: a comma and "" inside quotes)', () => {
