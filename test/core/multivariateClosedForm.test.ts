@@ -14,7 +14,8 @@ import { validatePlan } from '../../src/core/validatePlan';
 import { demoPlan } from '../../src/io/demoPlan';
 import { NormalSampler } from '../../src/sim/normalSampler';
 import { Xoshiro128StarStar } from '../../src/sim/xoshiro128StarStar';
-import { afterSchoolMaths, covariate, oneFactor, planWithCovariates } from './multivariateFixture';
+import { drawnBasePlan, drawnCovariates } from './drawnCovariatePlan';
+import { afterSchoolMaths, oneFactor, planWithCovariates } from './multivariateFixture';
 
 /*
  * The several-covariate closed forms checked against an independent route: the joint normal
@@ -218,21 +219,9 @@ describe('closed forms against the joint normal law (ml-matrix)', () => {
           tau: fc.double({ min: -3, max: 3, noNaN: true }),
         }),
         (o) => {
-          const base = demoPlan();
-          base.groups.programme.pretestSD = o.sdP;
-          base.pretest = { reliability: 0.8, referenceSD: 8 };
+          const base = drawnBasePlan(o.sdP);
           base.outcome.hypothesisedEffect = o.tau;
-          const covs = Array.from({ length: o.k }, (_, j) =>
-            covariate({
-              name: `C${j + 1}`,
-              programmeMean: 5 * o.gaps[j]!,
-              comparisonMean: 0,
-              sd: 5,
-              reliability: o.rels[j]!,
-              outcomeCorrelation: o.outs[j]!,
-              measured: o.measured[j]!,
-            }),
-          );
+          const covs = drawnCovariates(o, 5);
           const plan = planWithCovariates(covs, oneFactor(o.loadings.slice(0, o.k + 1)), base);
           fc.pre(validatePlan(plan).ok);
           checkAll(plan, o.sdP === 10);

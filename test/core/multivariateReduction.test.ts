@@ -18,6 +18,7 @@ import { rankRemedies } from '../../src/core/rankRemedies';
 import { validatePlan } from '../../src/core/validatePlan';
 import { demoPlan } from '../../src/io/demoPlan';
 import { EXAMPLE_PLANS } from '../../src/io/examplePlans';
+import { drawnBasePlan, drawnCovariates } from './drawnCovariatePlan';
 import { covariate, identity, oneFactor, planWithCovariates } from './multivariateFixture';
 
 // The several-covariate closed forms must reduce to the one-pretest ones (Thorndike 1942;
@@ -183,21 +184,9 @@ describe('property: an unmeasured covariate with no group gap, uncorrelated with
   it('holds for 120 random plans', () => {
     fc.assert(
       fc.property(arb, (o) => {
-        const base = demoPlan();
-        base.groups.programme.pretestSD = o.sdP;
+        const base = drawnBasePlan(o.sdP);
         base.matching.distance = o.distance;
-        base.pretest = { reliability: 0.8, referenceSD: 8 };
-        const covs = Array.from({ length: o.k }, (_, j) =>
-          covariate({
-            name: `C${j + 1}`,
-            programmeMean: 10 * o.gaps[j]!,
-            comparisonMean: 0,
-            sd: 10,
-            reliability: o.rels[j]!,
-            outcomeCorrelation: o.outs[j]!,
-            measured: o.measured[j]!,
-          }),
-        );
+        const covs = drawnCovariates(o, 10);
         const R = oneFactor(o.loadings.slice(0, o.k + 1));
         const before = planWithCovariates(covs, R, base);
         fc.pre(validatePlan(before).ok);
