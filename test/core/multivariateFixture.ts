@@ -2,20 +2,8 @@ import type { CovariateSpec, Plan } from '../../src/core/plan';
 import { AFTER_SCHOOL_MATHS } from '../../src/io/examplePlans';
 import { demoPlan } from '../../src/io/demoPlan';
 
-/** A covariate with defaults (invented values), overridable. */
-export function covariate(o: Partial<CovariateSpec> = {}): CovariateSpec {
-  return {
-    name: 'Attendance',
-    programmeMean: 80,
-    comparisonMean: 85,
-    sd: 10,
-    reliability: 0.7,
-    outcomeCorrelation: 0.3,
-    measured: true,
-    exact: false,
-    ...o,
-  };
-}
+/** A covariate with defaults (invented values), overridable: the shared test fixture. */
+export { covariate } from '../fixtures/covariatePlans';
 
 /** The demo plan (invented) with the given covariates and correlation matrix. */
 export function planWithCovariates(covariates: CovariateSpec[], correlations: number[][], base: Plan = demoPlan()): Plan {

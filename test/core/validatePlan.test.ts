@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import { validatePlan, type PlanProblem } from '../../src/core/validatePlan';
 import { DEMO_PLAN } from '../../src/io/demoPlan';
+import { covariate as inventedCovariate } from '../fixtures/covariatePlans';
 
 // Messages are compared exactly (tolerance: none) because they are the
 // product here: each must name the field in plain words, its valid range and
@@ -257,16 +258,7 @@ describe('every problem at once', () => {
 });
 
 describe('optional covariate and provenance fields (messages name the item)', () => {
-  const covariate = {
-    name: 'Attendance',
-    programmeMean: 80,
-    comparisonMean: 85,
-    sd: 10,
-    reliability: 0.7,
-    outcomeCorrelation: 0.3,
-    measured: true,
-    exact: false,
-  };
+  const covariate = inventedCovariate();
   it('a list item that breaks its rule is named by its number', () => {
     const r = validatePlan({ ...demo(), covariates: [covariate, { ...covariate, sd: -2 }] });
     expect(r.ok).toBe(false);

@@ -1,4 +1,5 @@
 import type { CovariateSpec, Plan } from '../../src/core/plan';
+import { covariate } from '../fixtures/covariatePlans';
 import { testPlan } from './planFixtures';
 
 /**
@@ -6,36 +7,17 @@ import { testPlan } from './planFixtures';
  * motivation scale nobody measured, and age in whole years (error-free,
  * matched exactly). Correlations are invented too.
  */
-export const ATTENDANCE: CovariateSpec = {
-  name: 'Attendance',
-  programmeMean: 80,
-  comparisonMean: 85,
-  sd: 10,
-  reliability: 0.7,
-  outcomeCorrelation: 0.3,
-  measured: true,
-  exact: false,
-};
-export const MOTIVATION: CovariateSpec = {
-  name: 'Motivation',
-  programmeMean: 47,
-  comparisonMean: 50,
-  sd: 10,
-  reliability: 0.8,
-  outcomeCorrelation: 0.3,
-  measured: false,
-  exact: false,
-};
-export const AGE: CovariateSpec = {
+export const ATTENDANCE: CovariateSpec = covariate();
+export const MOTIVATION: CovariateSpec = covariate({ name: 'Motivation', programmeMean: 47, comparisonMean: 50, reliability: 0.8, measured: false });
+export const AGE: CovariateSpec = covariate({
   name: 'Age',
   programmeMean: 40,
   comparisonMean: 42,
   sd: 8,
   reliability: 1,
   outcomeCorrelation: 0.2,
-  measured: true,
   exact: true,
-};
+});
 
 /**
  * An invented several-covariate plan: testPlan's pools and pretest plus the
