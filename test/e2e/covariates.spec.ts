@@ -3,26 +3,15 @@
 // see the balance per covariate; load the invented covariate example and see
 // the unmeasured part; accessibility (axe) in the covariate state.
 import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import { AFTER_SCHOOL_MATHS } from '../../src/io/examplePlans';
-import { retype, trackForeignRequests } from './plannerHelpers';
+import { openFreshPlanner, retype, trackForeignRequests } from './plannerHelpers';
 
 const SHOTS = 'test-results/screens';
 
 test.beforeEach(async ({ page }) => {
-  await page.goto('/');
-  await page.evaluate(() => localStorage.clear());
-  await page.goto('/');
-  await expect(page.getByTestId('verdict-bias')).toBeVisible();
+  await openFreshPlanner(page);
 });
-
-/** Replace a text box's contents by its exact accessible name. */
-async function fillExact(page: Page, name: string, value: string) {
-  const box = page.getByRole('textbox', { name, exact: true });
-  await box.fill('');
-  await box.pressSequentially(value);
-  await expect(box).toHaveValue(value);
-}
 
 test('add a covariate, break a correlation cell and fix it, then simulate and see balance per covariate', async ({ page }) => {
   const foreign = trackForeignRequests(page);
@@ -35,16 +24,16 @@ test('add a covariate, break a correlation cell and fix it, then simulate and se
   await expect(page.getByRole('textbox', { name: 'Covariate 1: Name', exact: true })).toBeFocused();
   await page.keyboard.press('Control+A');
   await page.keyboard.type('Attendance');
-  await fillExact(page, 'Covariate 1: Programme mean', '85');
-  await fillExact(page, 'Covariate 1: Comparison mean', '90');
-  await fillExact(page, 'Covariate 1: SD within a group', '10');
-  await fillExact(page, 'Covariate 1: Reliability', '0.7');
-  await fillExact(page, 'Covariate 1: Correlation with the outcome', '0.3');
+  await retype(page, 'Covariate 1: Programme mean', '85');
+  await retype(page, 'Covariate 1: Comparison mean', '90');
+  await retype(page, 'Covariate 1: SD within a group', '10');
+  await retype(page, 'Covariate 1: Reliability', '0.7');
+  await retype(page, 'Covariate 1: Correlation with the outcome', '0.3');
 
   // An impossible correlation: kept as typed, both mirror cells marked, the message beside the grid.
   const upper = page.getByRole('textbox', { name: 'Correlation of Pretest and Attendance', exact: true });
   const lower = page.getByRole('textbox', { name: 'Correlation of Attendance and Pretest', exact: true });
-  await fillExact(page, 'Correlation of Pretest and Attendance', '1.2');
+  await retype(page, 'Correlation of Pretest and Attendance', '1.2');
   await expect(lower).toHaveValue('1.2');
   await expect(upper).toHaveAttribute('aria-invalid', 'true');
   await expect(lower).toHaveAttribute('aria-invalid', 'true');
@@ -57,13 +46,13 @@ test('add a covariate, break a correlation cell and fix it, then simulate and se
   // Within −1..1 but impossible with these reliabilities: .9 exceeds sqrt(.75 × .7) = .72 for the
   // true scores (Spearman 1904: a correlation of fallible scores is bounded by the root of the
   // product of reliabilities), so the whole matrix is flagged with the variables named.
-  await fillExact(page, 'Correlation of Attendance and Pretest', '0.9');
+  await retype(page, 'Correlation of Attendance and Pretest', '0.9');
   await expect(upper).toHaveValue('0.9');
   await expect(matrix.locator('.matrix-problems')).toContainText('Attendance');
   await expect(page.getByTestId('verdict')).toContainText('Out of date');
 
   // Fixed: the marks go, the results update.
-  await fillExact(page, 'Correlation of Pretest and Attendance', '0.3');
+  await retype(page, 'Correlation of Pretest and Attendance', '0.3');
   await expect(upper).not.toHaveAttribute('aria-invalid', 'true');
   await expect(matrix.locator('.matrix-problems')).toHaveCount(0);
   await expect(page.getByTestId('verdict')).not.toContainText('Out of date');
@@ -114,7 +103,7 @@ test('the invented covariate example: the unmeasured confounder in the verdict; 
   await expect(page.getByRole('button', { name: 'Move covariate 1 (Deprivation index) down' })).toBeFocused();
 
   // Accessibility with covariates on the page, including an invalid cell.
-  await fillExact(page, 'Correlation of Deprivation index and Attendance', '1.5');
+  await retype(page, 'Correlation of Deprivation index and Attendance', '1.5');
   await expect(page.getByRole('textbox', { name: 'Correlation of Deprivation index and Attendance', exact: true })).toHaveAttribute('aria-invalid', 'true');
   const result = await new AxeBuilder({ page }).analyze();
   expect(result.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(' ; ')})`)).toEqual([]);

@@ -13,19 +13,13 @@ import { estimatePilot } from '../../src/pilot/estimatePilot';
 import { parseDelimitedText } from '../../src/pilot/parseDelimitedText';
 import { pilotPlanUpdate } from '../../src/pilot/pilotPlanUpdate';
 import { inventedPilot } from '../state/pilotTestData';
-import { shownNumber, trackForeignRequests } from './plannerHelpers';
+import { openFreshPlanner, shownNumber, trackForeignRequests, watchedLongTasks, watchLongTasks } from './plannerHelpers';
 
 const SHOTS = 'test-results/screens';
 const PILOT = inventedPilot({ seed: 2026, programme: 80, comparison: 120, items: 6, retest: true, posttest: true });
 
 test.beforeEach(async ({ page }) => {
-  await page.goto('/');
-  await page.evaluate(() => {
-    localStorage.clear();
-    sessionStorage.clear();
-  });
-  await page.goto('/');
-  await expect(page.getByTestId('verdict-bias')).toBeVisible();
+  await openFreshPlanner(page);
 });
 
 async function openPanel(page: Page) {
@@ -140,34 +134,13 @@ test('100,000 rows are read and estimated off the main thread (no long task over
   const bigPath = testInfo.outputPath('big-invented.csv');
   writeFileSync(bigPath, big.text);
   await openPanel(page);
-  await page.waitForTimeout(500);
-  await page.evaluate(() => {
-    const w = window as unknown as { __longTasks: { start: number; duration: number }[]; __doneAt: number | null };
-    w.__longTasks = [];
-    w.__doneAt = null;
-    new PerformanceObserver((list) => {
-      for (const e of list.getEntries()) w.__longTasks.push({ start: e.startTime, duration: e.duration });
-    }).observe({ type: 'longtask', buffered: false });
-    const status = document.querySelector('[data-testid="pilot-status"]')!;
-    const w2 = w as unknown as { __marks: string[] };
-    w2.__marks = [];
-    new MutationObserver(() => {
-      w2.__marks.push(`${Math.round(performance.now())} ${status.getAttribute('data-status')}`);
-      if (status.getAttribute('data-status') === 'estimated' && w.__doneAt === null) w.__doneAt = performance.now();
-    }).observe(status, { attributes: true });
-  });
-  const startedAt = await page.evaluate(() => performance.now());
+  const startedAt = await watchLongTasks(page, 'pilot-status', 'estimated', { marks: true });
   await page.getByLabel('Pilot data file (CSV or TSV)').setInputFiles(bigPath);
   await expect(page.getByTestId('pilot-file-facts')).toContainText('100,000 rows of data', { timeout: 60_000 });
   await page.getByRole('button', { name: 'Estimate', exact: true }).click();
   await expect(page.getByTestId('pilot-status')).toHaveAttribute('data-status', 'estimated', { timeout: 60_000 });
-  await page.waitForTimeout(300);
-  const { tasks, doneAt, marks } = await page.evaluate(() => {
-    const w = window as unknown as { __longTasks: { start: number; duration: number }[]; __doneAt: number | null; __marks: string[] };
-    return { tasks: w.__longTasks, doneAt: w.__doneAt, marks: w.__marks };
-  });
+  const { during, doneAt, marks } = await watchedLongTasks(page, startedAt);
   expect(doneAt).not.toBeNull();
-  const during = tasks.filter((t) => t.start >= startedAt && t.start < doneAt!);
   console.log(
     `100,000 rows: ${Math.round(doneAt! - startedAt)} ms from choosing the file to the estimates (from ${Math.round(startedAt)}: ${marks.join(', ')}); long tasks: ${JSON.stringify(during)}`,
   );

@@ -4,16 +4,13 @@
 import AxeBuilder from '@axe-core/playwright';
 import { readFileSync } from 'node:fs';
 import { expect, test } from '@playwright/test';
-import { retype, shownFigure, shownNumber, trackForeignRequests } from './plannerHelpers';
+import { openFreshPlanner, retype, shownFigure, shownNumber, trackForeignRequests, watchedLongTasks, watchLongTasks } from './plannerHelpers';
 
 const SHOTS = 'test-results/screens';
 
 test.beforeEach(async ({ page }) => {
   // A fresh start: no autosave from an earlier test.
-  await page.goto('/');
-  await page.evaluate(() => localStorage.clear());
-  await page.goto('/');
-  await expect(page.getByTestId('verdict-bias')).toBeVisible();
+  await openFreshPlanner(page);
 });
 
 test('the demo loads, and changing the reliability updates the verdict and the charts', async ({ page }) => {
@@ -163,29 +160,11 @@ test('no accessibility violations (axe), before and after a simulation', async (
 test('the main thread stays responsive while 2,000 replications run (no long task over 50 ms)', async ({ page }) => {
   await expect(page.getByRole('textbox', { name: /^Replications/ })).toHaveValue('2000');
   // Let the page settle first, then watch long tasks from the click until the run reports done.
-  await page.waitForTimeout(500);
-  await page.evaluate(() => {
-    const w = window as unknown as { __longTasks: { start: number; duration: number }[]; __doneAt: number | null };
-    w.__longTasks = [];
-    w.__doneAt = null;
-    new PerformanceObserver((list) => {
-      for (const e of list.getEntries()) w.__longTasks.push({ start: e.startTime, duration: e.duration });
-    }).observe({ type: 'longtask', buffered: false });
-    const status = document.querySelector('[data-testid="sim-status"]')!;
-    new MutationObserver(() => {
-      if (status.getAttribute('data-status') === 'done' && w.__doneAt === null) w.__doneAt = performance.now();
-    }).observe(status, { attributes: true });
-  });
-  const startedAt = await page.evaluate(() => performance.now());
+  const startedAt = await watchLongTasks(page, 'sim-status', 'done');
   await page.getByRole('button', { name: /^Run the simulation/ }).click();
   await expect(page.getByTestId('sim-status')).toHaveAttribute('data-status', 'done', { timeout: 90_000 });
-  await page.waitForTimeout(300);
-  const { tasks, doneAt } = await page.evaluate(() => {
-    const w = window as unknown as { __longTasks: { start: number; duration: number }[]; __doneAt: number | null };
-    return { tasks: w.__longTasks, doneAt: w.__doneAt };
-  });
+  const { tasks, during, doneAt } = await watchedLongTasks(page, startedAt);
   expect(doneAt).not.toBeNull();
-  const during = tasks.filter((t) => t.start >= startedAt && t.start < doneAt!);
   test.info().annotations.push({
     type: 'long tasks',
     description: `run ${Math.round(doneAt! - startedAt)} ms; during: ${JSON.stringify(during)}; all: ${JSON.stringify(tasks)}`,

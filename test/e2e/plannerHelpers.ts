@@ -16,9 +16,9 @@ export function trackForeignRequests(page: Page, origin = E2E_ORIGIN): string[] 
   return foreign;
 }
 
-/** Replace a text box's contents as a user would (select all, type). */
-export async function retype(page: Page, label: RegExp, value: string): Promise<void> {
-  const box = page.getByRole('textbox', { name: label });
+/** Replace a text box's contents as a user would (select all, type); a string label is matched exactly. */
+export async function retype(page: Page, label: RegExp | string, value: string): Promise<void> {
+  const box = page.getByRole('textbox', { name: label, exact: typeof label === 'string' });
   await box.fill('');
   await box.pressSequentially(value);
   await expect(box).toHaveValue(value);
@@ -35,4 +35,72 @@ export function shownNumber(text: string): number {
 export function shownFigure(text: string): { value: number; mcse: number } {
   const [v, e] = text.split('±');
   return { value: shownNumber(v ?? ''), mcse: shownNumber(e ?? '') };
+}
+
+/**
+ * Open the planner afresh: no autosave or remembered pilot mapping from an
+ * earlier visit (local and session storage cleared), and wait for the verdict.
+ */
+export async function openFreshPlanner(page: Page): Promise<void> {
+  await page.goto('/');
+  await page.evaluate(() => {
+    localStorage.clear();
+    sessionStorage.clear();
+  });
+  await page.goto('/');
+  await expect(page.getByTestId('verdict-bias')).toBeVisible();
+}
+
+/** A long task the browser reported (PerformanceObserver 'longtask': over 50 ms on the main thread). */
+export interface LongTask {
+  start: number;
+  duration: number;
+}
+
+type LongTaskWindow = { __longTasks: LongTask[]; __doneAt: number | null; __marks: string[] | null };
+
+/**
+ * Let the page settle (500 ms), then record every long task from now on, and
+ * the time the element with data-testid `statusTestId` first reports
+ * data-status `doneStatus`; with `marks`, also each change of its status (for
+ * the log). Returns performance.now() at the start of the watch.
+ */
+export async function watchLongTasks(page: Page, statusTestId: string, doneStatus: string, { marks = false } = {}): Promise<number> {
+  await page.waitForTimeout(500);
+  await page.evaluate(
+    ({ testId, done, withMarks }) => {
+      const w = window as unknown as LongTaskWindow;
+      w.__longTasks = [];
+      w.__doneAt = null;
+      w.__marks = withMarks ? [] : null;
+      new PerformanceObserver((list) => {
+        for (const e of list.getEntries()) w.__longTasks.push({ start: e.startTime, duration: e.duration });
+      }).observe({ type: 'longtask', buffered: false });
+      const status = document.querySelector(`[data-testid="${testId}"]`)!;
+      new MutationObserver(() => {
+        w.__marks?.push(`${Math.round(performance.now())} ${status.getAttribute('data-status')}`);
+        if (status.getAttribute('data-status') === done && w.__doneAt === null) w.__doneAt = performance.now();
+      }).observe(status, { attributes: true });
+    },
+    { testId: statusTestId, done: doneStatus, withMarks: marks },
+  );
+  return page.evaluate(() => performance.now());
+}
+
+/**
+ * After a watch started at `startedAt` (watchLongTasks): wait 300 ms, then
+ * every long task seen, those that started before the status reported done,
+ * the time it did (null if it never did) and the status marks (empty unless asked for).
+ */
+export async function watchedLongTasks(
+  page: Page,
+  startedAt: number,
+): Promise<{ tasks: LongTask[]; during: LongTask[]; doneAt: number | null; marks: string[] }> {
+  await page.waitForTimeout(300);
+  const { tasks, doneAt, marks } = await page.evaluate(() => {
+    const w = window as unknown as LongTaskWindow;
+    return { tasks: w.__longTasks, doneAt: w.__doneAt, marks: w.__marks ?? [] };
+  });
+  const during = tasks.filter((t) => t.start >= startedAt && t.start < doneAt!);
+  return { tasks, during, doneAt, marks };
 }
