@@ -1,5 +1,5 @@
 import type { MatchingMethod } from '../core/plan';
-import { createMatchedSets, type MatchedSets } from './matchedSets';
+import type { MatchedSets } from './matchedSets';
 import type { RandomSource } from './randomSource';
 
 /**
@@ -38,7 +38,11 @@ export interface SortedPositions {
 /** Allocate a matching workspace for pools of the given sizes and ratio 1..5. */
 export function createMatchingWorkspace(nProgramme: number, nComparison: number, ratio: number): MatchingWorkspace {
   return {
-    ...createMatchedSets(nProgramme, nComparison, ratio),
+    nProgramme,
+    nComparison,
+    ratio,
+    partners: new Int32Array(nProgramme * ratio),
+    partnerCount: new Uint8Array(nProgramme),
     nextUp: new Int32Array(nComparison + 1),
     nextDown: new Int32Array(nComparison + 1),
     fenwick: new Int32Array(nComparison + 1),

@@ -1,4 +1,3 @@
-import { createMatchedSets } from '../matchedSets';
 import type { RandomSource } from '../randomSource';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { groupPoolsByStratum, type StratumGroups } from './exactStrata';
@@ -29,7 +28,11 @@ export interface MahalanobisMatchingWorkspace extends CovariateMatching, Stratum
 export function createMahalanobisMatchingWorkspace(nProgramme: number, nComparison: number, ratio: number): MahalanobisMatchingWorkspace {
   const n = Math.max(nProgramme, nComparison);
   return {
-    ...createMatchedSets(nProgramme, nComparison, ratio),
+    nProgramme,
+    nComparison,
+    ratio,
+    partners: new Int32Array(nProgramme * ratio),
+    partnerCount: new Uint8Array(nProgramme),
     orderC: new Int32Array(nComparison),
     orderP: new Int32Array(nProgramme),
     startC: new Int32Array(2),

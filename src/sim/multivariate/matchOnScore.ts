@@ -1,5 +1,4 @@
 import { createMatchingWorkspace, matchOnPretest, type MatchingWorkspace } from '../matchOnPretest';
-import { createMatchedSets } from '../matchedSets';
 import type { RandomSource } from '../randomSource';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { groupPoolsByStratum, type StratumGroups } from './exactStrata';
@@ -26,7 +25,11 @@ export function createScoreMatchingWorkspace(nProgramme: number, nComparison: nu
   const inner = createMatchingWorkspace(nProgramme, nComparison, ratio);
   const n = Math.max(nProgramme, nComparison);
   return {
-    ...createMatchedSets(nProgramme, nComparison, ratio),
+    nProgramme,
+    nComparison,
+    ratio,
+    partners: new Int32Array(nProgramme * ratio),
+    partnerCount: new Uint8Array(nProgramme),
     inner,
     orderC: new Int32Array(nComparison),
     orderP: new Int32Array(nProgramme),
