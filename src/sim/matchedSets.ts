@@ -1,8 +1,8 @@
 // Each matcher's workspace lists these five fields in its own object literal
 // rather than spreading a shared allocation into it: a workspace built by
 // spread gets a different object layout, and the one-pretest engine ran
-// measurably slower with it (same-process A/B runs: median 1.12–1.41 times
-// the time), so the literal was restored.
+// measurably slower with it (three same-process A/B runs, order rotated:
+// median 1.12–1.41 times the time), so the literal was restored.
 
 /**
  * The matched sets of one replication: programme member j (0-based in the
