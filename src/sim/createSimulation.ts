@@ -281,14 +281,17 @@ class ReplicationRunner {
     const counts = ws.partnerCount;
     let dS = 0, dSS = 0;
     let qSx = 0, qSxx = 0, qSy = 0, qSyy = 0, qSxy = 0, qSt = 0; // matched programme (centred at muP)
-    let rN = 0, rSx = 0, rSxx = 0, rSy = 0, rSyy = 0, rSxy = 0, rSt = 0; // stacked partner rows (centred at muC)
+    let rN = 0, rSx = 0, rSxx = 0, rSy = 0, rSyy = 0, rSxy = 0; // stacked partner rows (centred at muC)
+    // Balance after matching weights each matched set once (its partners' mean), like the
+    // matched difference does; with 1:1 this equals the stacked rows exactly.
+    let wSx = 0, wSt = 0;
     for (let j = 0; j < nP; j++) {
       const cnt = counts[j] as number;
       if (cnt === 0) continue;
       const dx = (xp[j] as number) - muP;
       const dy = (yp[j] as number) - yCentreP;
       qSx += dx; qSxx += dx * dx; qSy += dy; qSyy += dy * dy; qSxy += dx * dy; qSt += (tp[j] as number) - muP;
-      let ySum = 0;
+      let ySum = 0, setX = 0, setT = 0;
       const base = j * k;
       for (let q = 0; q < cnt; q++) {
         const c = partners[base + q] as number;
@@ -301,9 +304,12 @@ class ReplicationRunner {
         yc[c] = y;
         ySum += y;
         const cy = y - yCentreC;
-        rSx += cx; rSxx += cx * cx; rSy += cy; rSyy += cy * cy; rSxy += cx * cy; rSt += t - muC;
+        rSx += cx; rSxx += cx * cx; rSy += cy; rSyy += cy * cy; rSxy += cx * cy;
+        setX += cx; setT += t - muC;
       }
       rN += cnt;
+      wSx += setX / cnt;
+      wSt += setT / cnt;
       const d = (yp[j] as number) - ySum / cnt;
       dS += d;
       dSS += d * d;
@@ -333,8 +339,8 @@ class ReplicationRunner {
     let ok = 0;
     if (m >= 1) {
       ok |= AFTER_OK;
-      const obsAfter = qSx / m - rSx / rN + muP - muC;
-      const trueAfter = qSt / m - rSt / rN + muP - muC;
+      const obsAfter = qSx / m - wSx / m + muP - muC;
+      const trueAfter = qSt / m - wSt / m + muP - muC;
       (rec[M_OBS_AFTER] as Float64Array)[i] = obsAfter;
       (rec[M_TRUE_AFTER] as Float64Array)[i] = trueAfter;
       // SMDs after matching use the before-matching pooled SD (Stuart 2010), so the change shows mean shift only.
