@@ -42,10 +42,11 @@ const M_COUNT = 10;
  *     distribution T | X ~ N(mu_g + rho_g (X - mu_g), rho_g (1 - rho_g) sd_Xg^2)
  *     (Kelley 1947), then Y = d_g + beta T + tau [g = P] + e. This is exactly
  *     the joint law of T ~ N(mu_g, sd_Tg^2), X = T + N(0, sem^2), and lets the
- *     pool be generated already sorted on X (sort X, then draw T and Y), so no
+ *     comparison pool's X be drawn as a sorted sample (drawReplicationVariates:
+ *     exponential spacings and Φ⁻¹), then T and Y, so nothing is sorted and no
  *     index permutation is needed. Programme members are exchangeable, so
  *     generation order is a uniformly random matching order; 'lowest-first'
- *     and 'highest-first' sort the programme pool the same way.
+ *     and 'highest-first' draw the programme pool sorted the same way.
  *  2. Caliper = plan.matching.caliper × sqrt((s_P^2 + s_C^2) / 2) of this
  *     replication's observed pretest (Cochran & Rubin 1973's unit); match with
  *     matchOnPretest (O(n log n)).
