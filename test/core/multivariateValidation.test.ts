@@ -135,7 +135,7 @@ describe('covariate checks in validatePlan (exact messages)', () => {
     setPair(p, 1, 2, -1);
     expect(problems(p)).toEqual([
       {
-        field: 'covariateCorrelations',
+        field: 'covariateCorrelations.1.2', // two variables: the cell itself, so the editor can mark it
         message:
           'The correlation between Attendance and Deprivation is -1: two different variables cannot be perfectly correlated within groups (one would merely repeat the other). Drop one of them or check the value.',
       },
@@ -150,7 +150,7 @@ describe('covariate checks in validatePlan (exact messages)', () => {
     setPair(p, 0, 1, 0.8);
     expect(problems(p)).toEqual([
       {
-        field: 'covariateCorrelations',
+        field: 'covariateCorrelations.0.1',
         message:
           'The observed correlation between the pretest and Attendance (0.8) is too high for their reliabilities (the pretest 0.75 and Attendance 0.7): corrected for measurement error it would be 1.104, beyond 1 in size. Raise the reliabilities or check the correlation.',
       },
@@ -181,7 +181,7 @@ describe('covariate checks in validatePlan (exact messages)', () => {
     setPair(p, 0, 1, 0.66);
     expect(problems(p)).toEqual([
       {
-        field: 'covariateCorrelations',
+        field: 'covariateCorrelations.0.1',
         message:
           "The observed correlation between the pretest and Attendance (0.66) is too high for their reliabilities (the pretest 0.609 (the pretest's within-group reliability in the programme group) and Attendance 0.7): corrected for measurement error it would be 1.011, beyond 1 in size. Raise the reliabilities or check the correlation.",
       },

@@ -187,7 +187,7 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
   // Observed correlations possible together?
   const observedBad = smallestFailingSet(p, (s) => !isPositiveDefinite(block(corr, s, s)));
   if (observedBad) {
-    out.push({ field: 'covariateCorrelations', message: impossibleObservedMessage(observedBad, corr, name) });
+    out.push({ field: matrixField(observedBad), message: impossibleObservedMessage(observedBad, corr, name) });
     return out;
   }
 
@@ -207,7 +207,7 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
       trueBad.includes(0) && Math.abs(rhoPretest.programme - rhoPretest.comparison) > 1e-12
         ? ` (the pretest's within-group reliability in the ${lowerGroup} group)`
         : '';
-    out.push({ field: 'covariateCorrelations', message: tooUnreliableMessage(trueBad, corr, relLow, name, list, groupNote) });
+    out.push({ field: matrixField(trueBad), message: tooUnreliableMessage(trueBad, corr, relLow, name, list, groupNote) });
     return out;
   }
 
@@ -269,6 +269,16 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
  * The smallest set of variable indices (size ≥ minSize, then in index order)
  * for which `fails` is true; null when none fails. Exhaustive over 2^p subsets.
  */
+/**
+ * The field a correlation problem belongs to: the one cell when two variables
+ * are involved (so the editor can mark it), else the matrix as a whole.
+ */
+function matrixField(set: number[]): string {
+  if (set.length !== 2) return 'covariateCorrelations';
+  const [i, j] = [Math.min(set[0] as number, set[1] as number), Math.max(set[0] as number, set[1] as number)];
+  return `covariateCorrelations.${i}.${j}`;
+}
+
 function smallestFailingSet(p: number, fails: (s: number[]) => boolean, minSize = 2): number[] | null {
   const sets: number[][] = [];
   for (let mask = 1; mask < 1 << p; mask++) {
