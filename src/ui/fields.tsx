@@ -98,11 +98,15 @@ export function NumberField({ path, label, unit, hint, step, min, max, after, in
     // Round to the step's decimals so repeated steps never show 0.30000000000000004.
     setField(path, String(Number(next.toFixed(decimals(step)))));
   };
+  const notes = (
+    <>
+      <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
+      <SourceNote srcId={srcId} source={source} />
+      {after}
+    </>
+  );
   return (
-    <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
+    <LabelledField path={path} id={id} label={label} problem={problem} notes={notes}>
       <div className="field-input-row">
         <input
           id={id}
@@ -119,9 +123,33 @@ export function NumberField({ path, label, unit, hint, step, min, max, after, in
         />
         {unit && <span className="field-unit">{unit}</span>}
       </div>
-      <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
-      <SourceNote srcId={srcId} source={source} />
-      {after}
+    </LabelledField>
+  );
+}
+
+/** The frame every labelled field shares: the label above the control, then its hint and problem. */
+function LabelledField({
+  path,
+  id,
+  label,
+  problem,
+  notes,
+  children,
+}: {
+  path: string;
+  id: string;
+  label: ReactNode;
+  problem: string | undefined;
+  notes: ReactNode;
+  children: ReactNode;
+}) {
+  return (
+    <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
+      <label htmlFor={id} className="field-label">
+        {label}
+      </label>
+      {children}
+      {notes}
     </div>
   );
 }
@@ -136,11 +164,9 @@ interface BasicFieldProps {
 /** A labelled free-text box (names and titles). */
 export function TextField({ path, label, hint }: BasicFieldProps) {
   const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<string>(path);
+  const notes = <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />;
   return (
-    <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
+    <LabelledField path={path} id={id} label={label} problem={problem} notes={notes}>
       <input
         id={id}
         name={path}
@@ -150,8 +176,7 @@ export function TextField({ path, label, hint }: BasicFieldProps) {
         {...inputAria}
         onChange={(e) => setField(path, e.target.value)}
       />
-      <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
-    </div>
+    </LabelledField>
   );
 }
 
@@ -162,11 +187,9 @@ interface ChoiceFieldProps<T extends string> extends BasicFieldProps {
 /** A labelled drop-down for a string-union option. */
 export function ChoiceField<T extends string>({ path, label, hint, options }: ChoiceFieldProps<T>) {
   const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<string>(path);
+  const notes = <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />;
   return (
-    <div className={`field${problem ? ' field-invalid' : ''}`} data-field={path}>
-      <label htmlFor={id} className="field-label">
-        {label}
-      </label>
+    <LabelledField path={path} id={id} label={label} problem={problem} notes={notes}>
       <select
         id={id}
         name={path}
@@ -180,8 +203,7 @@ export function ChoiceField<T extends string>({ path, label, hint, options }: Ch
           </option>
         ))}
       </select>
-      <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />
-    </div>
+    </LabelledField>
   );
 }
 
