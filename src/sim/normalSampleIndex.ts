@@ -1,5 +1,4 @@
 import jStat from 'jstat';
-import { layoutOffsets } from './layoutOffsets';
 
 /** Half-width of the tabulated range, in SDs; values beyond it share the end buckets (still exact). */
 const SPAN = 6;
@@ -9,44 +8,36 @@ const CELLS_PER_ITEM = 4;
 const MAX_BUCKETS = 65536;
 
 /**
- * Sorting and searching for a sample of n values drawn from N(mean, sd^2),
- * both in expected linear time, with buffers reused across samples.
+ * Searching a sorted sample of n values drawn from N(mean, sd^2) in expected
+ * constant time per search, with buffers reused across samples.
  *
- * `sort` is a distribution (bucket) sort (Knuth 1998, TAOCP vol. 3, 5.2.1 and
- * 5.2.5): each value goes to bucket floor(m Φ(z)), z = (x - mean) / sd,
- * m = min(n, 65536) buckets, so a normal sample fills them about evenly; an insertion sort
- * then fixes order within buckets. Φ (the standard normal CDF, jStat's
- * normal.cdf; Abramowitz & Stegun 1972, 26.2) is tabulated once per n on a
- * grid of 4m cells over z in [-6, 6], so placing a value costs one multiply
- * and one table look-up. The bucket map x → bucket is monotone (every
- * floating-point step is), so the result is exactly sorted whatever the data;
- * the normal shape only makes it fast.
+ * The index puts each value in bucket floor(m Φ(z)), z = (x - mean) / sd,
+ * m = min(n, 65536) buckets (a distribution-sort layout; Knuth 1998, TAOCP
+ * vol. 3, 5.2.1 and 5.2.5), so a normal sample fills them about evenly. Φ (the
+ * standard normal CDF, jStat's normal.cdf; Abramowitz & Stegun 1972, 26.2) is
+ * tabulated once per n on a grid of 4m cells over z in [-6, 6], so placing a
+ * value costs one multiply and one table look-up. The map x → bucket is
+ * monotone (every floating-point step is), so searches are exact whatever the
+ * data; the normal shape only makes them fast.
  *
- * After a sort, `lowerBound` and `upperBound` find positions in the sorted
- * values through the same bucket map (values in lower buckets are smaller,
- * in higher buckets larger), scanning one bucket instead of binary searching.
+ * `indexSorted` records where each bucket ends in ascending values (e.g. a
+ * sample drawn sorted); `lowerBound` and `upperBound` then find positions
+ * through the same bucket map (values in lower buckets are smaller, in higher
+ * buckets larger), scanning one bucket instead of binary searching.
  *
  * @example
  *   const s = new NormalSampleIndex(3);
- *   const out = new Float64Array(3);
- *   s.sort(out, Float64Array.from([1, -1, 0]), 0, 10, 2); // out = [8, 10, 12] (hand-worked)
- *   s.lowerBound(10); // 1, s.upperBound(10); // 2
+ *   s.indexSorted(Float64Array.from([8, 10, 12]), 10, 2);
+ *   s.lowerBound(10); // 1, s.upperBound(10); // 2 (hand-worked)
  * @throws Error when n is not a positive integer.
  */
 export class NormalSampleIndex {
   /** Sample size sorted by this index, integer >= 1. */
   readonly n: number;
   private readonly cells: number;
-  /** Number of buckets, min(n, 65536). */
-  private readonly buckets: number;
   /** cellBucket[c] = bucket of table cell c (non-decreasing in c). */
   private readonly cellBucket: Uint16Array;
-  private readonly scratch: Float64Array;
-  private readonly bucketOf: Uint16Array;
-  /**
-   * After `sort`: ends[b] = one past the last position of bucket b. After
-   * `indexSorted`: the same for non-empty buckets, 0 for empty ones.
-   */
+  /** After `indexSorted`: one past the last position of each non-empty bucket, 0 for empty ones. */
   private readonly ends: Int32Array;
   private sorted: Float64Array;
   private lo = 0;
@@ -57,13 +48,9 @@ export class NormalSampleIndex {
     if (!Number.isInteger(n) || n < 1) throw new Error(`The sample size to sort must be a whole number of at least 1; got ${String(n)}.`);
     this.n = n;
     const nb = Math.min(n, MAX_BUCKETS);
-    this.buckets = nb;
     const cells = CELLS_PER_ITEM * nb;
     this.cells = cells;
-    // All four work arrays live in one buffer at staggered offsets (see layoutOffsets).
-    const at = layoutOffsets([2 * cells, 8 * n, 2 * n, 4 * nb]);
-    const buffer = new ArrayBuffer(at[4] as number);
-    this.cellBucket = new Uint16Array(buffer, at[0], cells);
+    this.cellBucket = new Uint16Array(cells);
     const width = (2 * SPAN) / cells;
     let prev = 0;
     for (let c = 0; c < cells; c++) {
@@ -74,9 +61,7 @@ export class NormalSampleIndex {
       this.cellBucket[c] = b;
       prev = b;
     }
-    this.scratch = new Float64Array(buffer, at[1], n);
-    this.bucketOf = new Uint16Array(buffer, at[2], n);
-    this.ends = new Int32Array(buffer, at[3], nb);
+    this.ends = new Int32Array(nb);
     this.sorted = new Float64Array(0);
   }
 
@@ -85,63 +70,6 @@ export class NormalSampleIndex {
     const f = (x - this.lo) * this.scale;
     const last = this.cells - 1;
     return f > 0 ? (f < last ? f | 0 : last) : 0;
-  }
-
-  /**
-   * Write out[0..n) = mean + sd * z[offset + j], j = 0..n-1, sorted ascending,
-   * and keep the bucket boundaries for lowerBound/upperBound.
-   * @param out destination, length >= n; remembered as the searched array.
-   * @param z standard normal draws (any finite numbers sort correctly).
-   * @param offset first index of z used.
-   * @param mean location of the sample (any finite number).
-   * @param sd scale, > 0 (for speed only: sd <= 0 still sorts, slowly).
-   */
-  sort(out: Float64Array, z: Float64Array, offset: number, mean: number, sd: number): void {
-    const n = this.n;
-    const scratch = this.scratch;
-    const bucketOf = this.bucketOf;
-    const ends = this.ends;
-    const table = this.cellBucket;
-    const last = this.cells - 1;
-    const lo = mean - SPAN * sd;
-    const scale = sd > 0 ? this.cells / (2 * SPAN * sd) : 0;
-    this.lo = lo;
-    this.scale = scale;
-    this.sorted = out;
-    ends.fill(0);
-    for (let j = 0; j < n; j++) {
-      const x = mean + sd * (z[offset + j] as number);
-      scratch[j] = x;
-      const f = (x - lo) * scale;
-      const b = table[f > 0 ? (f < last ? f | 0 : last) : 0] as number;
-      bucketOf[j] = b;
-      ends[b] = (ends[b] as number) + 1;
-    }
-    // Exclusive prefix sums: start of each bucket (the scatter turns them into ends).
-    let acc = 0;
-    const nb = this.buckets;
-    for (let b = 0; b < nb; b++) {
-      const size = ends[b] as number;
-      ends[b] = acc;
-      acc += size;
-    }
-    for (let j = 0; j < n; j++) {
-      const b = bucketOf[j] as number;
-      const at = ends[b] as number;
-      ends[b] = at + 1;
-      out[at] = scratch[j] as number;
-    }
-    // Insertion sort: items are already in bucket order, only neighbours within a bucket move.
-    for (let i = 1; i < n; i++) {
-      const v = out[i] as number;
-      let j = i - 1;
-      if (!((out[j] as number) > v)) continue;
-      do {
-        out[j + 1] = out[j] as number;
-        j--;
-      } while (j >= 0 && (out[j] as number) > v);
-      out[j + 1] = v;
-    }
   }
 
   /**
@@ -177,9 +105,8 @@ export class NormalSampleIndex {
 
   /**
    * First position of bucket b: the end of the nearest lower bucket that is
-   * not marked empty (0). After `sort` no bucket above the first value reads
-   * 0, so this stops at once; after `indexSorted` it skips the empty buckets
-   * just below b (buckets are equiprobable, so runs of empty ones are short).
+   * not marked empty (0), skipping the empty buckets just below b (buckets are
+   * equiprobable, so runs of empty ones are short).
    */
   private bucketStart(b: number): number {
     const ends = this.ends;
