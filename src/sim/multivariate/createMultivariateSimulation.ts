@@ -32,8 +32,8 @@ const B_VAR_RATIO = 6;
 const B_COUNT = 7;
 
 /**
- * The several-covariate Monte Carlo engine's stepping interface (issue:
- * several covariates; docs/simulation.md, "Several covariates"): the same
+ * The several-covariate Monte Carlo engine's stepping interface
+ * (docs/simulation.md, "Several covariates"): the same
  * SimulationRun as createSimulation, for plans with covariates or a
  * propensity / Mahalanobis matching distance. The generating model is the
  * core's deriveCovariateModel, so simulation and closed forms describe the
