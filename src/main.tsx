@@ -3,14 +3,17 @@ import { createRoot } from 'react-dom/client';
 import { demoPlan } from './io/demoPlan';
 import { defaultDeps } from './state/defaultDeps';
 import { isShareFragment } from './state/persistenceSlice';
-import { createSimulationRunner } from './state/simulationRunner';
+import { createPlannedProcedureRunner, createSimulationRunner } from './state/simulationRunner';
 import { createMeanwardStore, getAppStore, setAppStoreFactory } from './state/store';
 import { App } from './ui/App';
 import './ui/styles.css';
 
 setAppStoreFactory(() =>
   createMeanwardStore({
-    deps: defaultDeps(typeof Worker === 'undefined' ? null : createSimulationRunner()),
+    deps:
+      typeof Worker === 'undefined'
+        ? defaultDeps(null)
+        : defaultDeps(createSimulationRunner(), createPlannedProcedureRunner()),
     demo: demoPlan,
   }),
 );

@@ -14,6 +14,8 @@ import { deriveCovariateModel, matchingDistance, usesCovariateModel } from './mu
 import { expectedCovariateBalance } from './multivariate/expectedCovariateBalance';
 import { unmeasuredBias } from './multivariate/unmeasuredBias';
 import { shareOfEffect } from './shareOfEffect';
+import { plannedAnalysisRecord } from './plannedAnalysisRecord';
+import { isPlannedInfeasible, type PlannedProcedureEstimates } from './plannedProcedure';
 
 /** Default target power when the plan gives none (Cohen 1988's convention of .80). */
 export const DEFAULT_TARGET_POWER = 0.8;
@@ -35,16 +37,43 @@ export const DEFAULT_TARGET_POWER = 0.8;
  *   each other (e.g. r² > reliability) or a figure could not be computed.
  * @example analysePlan(demoPlan()).analyses.matchedDifference.bias // −2 (0.8·0.25·(−10))
  */
-export function analysePlan(plan: Plan): AnalyticResults {
-  if (usesCovariateModel(plan)) return analyseCovariatePlan(plan);
+export function analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults {
+  if (usesCovariateModel(plan)) return analyseCovariatePlan(plan, planned);
   const m = deriveModelParameters(plan);
   const share = expectedMatchedShare(m, plan.matching);
   const settings = analysisSettings(plan, m.n.programme * share);
-  const analyses = Object.fromEntries(ANALYSIS_IDS.map((id) => [id, analyseAnalysis(id, m, settings)])) as Record<
-    AnalysisId,
-    AnalyticAnalysis
-  >;
-  return assertFiniteOutput(sharedResults(plan, m, analyses, breakEvenReliability(m, plan.analysis.tolerableBiasShare)), 'results');
+  const analyses = withPlannedFigures(
+    Object.fromEntries(ANALYSIS_IDS.map((id) => [id, analyseAnalysis(id, m, settings)])) as Record<AnalysisId, AnalyticAnalysis>,
+    planned,
+    m,
+    settings,
+  );
+  return assertFiniteOutput(
+    sharedResults(plan, m, analyses, breakEvenReliability(m, plan.analysis.tolerableBiasShare), planned),
+    'results',
+  );
+}
+
+/**
+ * The analyses with the quick simulation's planned-procedure figures in place
+ * of the closed form wherever the simulation covered them (the matched
+ * difference); other analyses keep their closed forms, which already hold
+ * for the full samples as planned.
+ */
+function withPlannedFigures(
+  analyses: Record<AnalysisId, AnalyticAnalysis>,
+  planned: PlannedProcedureEstimates | undefined,
+  m: ModelParameters,
+  settings: AnalysisSettings,
+): Record<AnalysisId, AnalyticAnalysis> {
+  if (!planned) return analyses;
+  const out = { ...analyses };
+  for (const id of ANALYSIS_IDS) {
+    const f = planned.analyses[id];
+    if (!f || isPlannedInfeasible(f)) continue;
+    out[id] = plannedAnalysisRecord(analyses[id], f, m.effect, m.posttestSD.comparison, settings);
+  }
+  return out;
 }
 
 /**
@@ -53,18 +82,24 @@ export function analysePlan(plan: Plan): AnalyticResults {
  * for the plan's distance, the break-even pretest reliability with the other
  * covariates in place, the unmeasured part of the bias and the expected balance.
  */
-function analyseCovariatePlan(plan: Plan): AnalyticResults {
+function analyseCovariatePlan(plan: Plan, planned: PlannedProcedureEstimates | undefined): AnalyticResults {
   const m = deriveModelParameters(plan);
   const cm = deriveCovariateModel(plan, m);
   const distance = matchingDistance(plan);
   const share = covariateMatchedShare(cm, m, plan.matching, distance);
   const settings = analysisSettings(plan, m.n.programme * share);
-  const analyses = Object.fromEntries(
-    ANALYSIS_IDS.map((id) => [id, analyseCovariateAnalysis(id, cm, distance, settings)]),
-  ) as Record<AnalysisId, AnalyticAnalysis>;
+  const analyses = withPlannedFigures(
+    Object.fromEntries(ANALYSIS_IDS.map((id) => [id, analyseCovariateAnalysis(id, cm, distance, settings)])) as Record<
+      AnalysisId,
+      AnalyticAnalysis
+    >,
+    planned,
+    m,
+    settings,
+  );
   const hidden = unmeasuredBias(cm);
   const results: AnalyticResults = {
-    ...sharedResults(plan, m, analyses, covariateBreakEven(cm, m, distance, plan.analysis.tolerableBiasShare)),
+    ...sharedResults(plan, m, analyses, covariateBreakEven(cm, m, distance, plan.analysis.tolerableBiasShare), planned),
     matchingDistance: distance,
     unmeasuredBias: {
       points: hidden,
@@ -96,6 +131,7 @@ function sharedResults(
   m: ModelParameters,
   analyses: Record<AnalysisId, AnalyticAnalysis>,
   breakEven: BreakEven,
+  planned: PlannedProcedureEstimates | undefined,
 ): AnalyticResults {
   return {
     model: m,
@@ -104,5 +140,8 @@ function sharedResults(
     analyses,
     breakEven,
     remedies: rankRemedies(plan, m),
+    procedure: planned
+      ? { basis: 'planned-procedure', replications: planned.replications, seed: planned.seed }
+      : { basis: 'formula', replications: null, seed: null },
   };
 }

@@ -25,6 +25,12 @@ export interface AnalysisInputs {
   nComparison: number;
   /** SE and df at n per group, for the required n. */
   design: DesignAtN;
+  /** The infinite-pool formula's estimate when `estimate` is from the planned procedure (default: estimate). */
+  formulaEstimate?: number;
+  /** Where the estimate comes from (default 'formula'). */
+  basis?: 'formula' | 'planned-procedure';
+  /** Monte Carlo SE of a planned-procedure estimate (default null). */
+  estimateMCSE?: number | null;
 }
 
 /**
@@ -49,6 +55,9 @@ export function analyticAnalysisRecord(a: AnalysisInputs, s: AnalysisSettings): 
     name: a.name,
     assumption: a.assumption,
     expectedEstimate: estimate,
+    formulaEstimate: a.formulaEstimate ?? estimate,
+    basis: a.basis ?? 'formula',
+    expectedEstimateMCSE: a.estimateMCSE ?? null,
     bias,
     biasSD: bias / a.posttestSD,
     biasShare: shareOfEffect(bias, tau),

@@ -18,8 +18,20 @@ export interface AnalyticAnalysis {
   name: string;
   /** One-line statement of the assumption under which this analysis is unbiased. */
   assumption: string;
-  /** Expected estimate of the programme effect, posttest points. */
+  /**
+   * Expected estimate of the programme effect, posttest points, for the
+   * procedure as planned: with basis 'planned-procedure' the mean of a short
+   * seeded simulation of these pools, caliper, ratio, order and replacement;
+   * with basis 'formula' the closed form (for full-sample analyses that is the
+   * planned procedure; for the matched difference it assumes unlimited pools).
+   */
   expectedEstimate: number;
+  /** The closed-form estimate for unlimited pools and exact matching (Thorndike 1942; Lord 1960; Porter 1967). */
+  formulaEstimate: number;
+  /** Where expectedEstimate, se and nProgramme come from (see expectedEstimate). */
+  basis: 'formula' | 'planned-procedure';
+  /** Monte Carlo SE of expectedEstimate when basis is 'planned-procedure'; null for closed forms. */
+  expectedEstimateMCSE: number | null;
   /** expectedEstimate - tau, posttest points. */
   bias: number;
   /** bias / posttest SD (comparison group). */
@@ -27,7 +39,7 @@ export interface AnalyticAnalysis {
   /** bias / tau; null when tau = 0. */
   biasShare: number | null;
   verdict: ArtefactVerdict;
-  /** Approximate standard error of the estimate for the planned sample, points. */
+  /** Standard error of the estimate for the planned sample, points (the one the analysis should report). */
   se: number;
   df: number;
   /** Sample sizes the SE assumes (programme, comparison). */
@@ -118,4 +130,19 @@ export interface AnalyticResults {
   covariateModel?: CovariateModel;
   /** Closed-form balance per variable (pretest first) after matching. Present only with the covariate model. */
   covariateBalance?: ExpectedCovariateBalance[];
+  /**
+   * How the figures before a full simulation were obtained: 'formula' (closed
+   * forms only) or 'planned-procedure' (the matching-based analyses from a
+   * short seeded simulation of the planned procedure).
+   */
+  procedure: ProcedureBasis;
+}
+
+/** How the quick figures were obtained (see AnalyticResults.procedure). */
+export interface ProcedureBasis {
+  basis: 'formula' | 'planned-procedure';
+  /** Replications of the quick simulation; null for 'formula'. */
+  replications: number | null;
+  /** Its seed; null for 'formula'. */
+  seed: number | null;
 }

@@ -3,7 +3,7 @@ import { validatePlan } from '../core/validatePlan';
 import { EXAMPLE_PLANS } from '../io/examplePlans';
 import { parsePlanText, serializePlan } from '../io/planFile';
 import { decodePlanFromLink, encodePlanForLink } from '../io/shareLink';
-import type { MeanwardDeps, SimulationRunner } from './deps';
+import type { MeanwardDeps, PlannedProcedureRunner, SimulationRunner } from './deps';
 
 /** The browser's localStorage, or null when it is blocked (some private modes). */
 function browserStorage(): MeanwardDeps['storage'] {
@@ -18,11 +18,15 @@ function browserStorage(): MeanwardDeps['storage'] {
 }
 
 /** The real dependencies: core, io, and (when given) the simulation worker client. */
-export function defaultDeps(simulation: SimulationRunner | null): MeanwardDeps {
+export function defaultDeps(
+  simulation: SimulationRunner | null,
+  plannedProcedure: PlannedProcedureRunner | null = null,
+): MeanwardDeps {
   return {
     validatePlan,
     analysePlan,
     simulation,
+    plannedProcedure,
     storage: browserStorage(),
     examples: EXAMPLE_PLANS,
     parsePlanText,

@@ -2,6 +2,13 @@ import type { AnalyticResults } from '../core/analyticResults';
 import type { Plan } from '../core/plan';
 import type { SimulationResult } from '../sim/types';
 import type { PlanCheck } from '../core/validatePlan';
+import type { PlannedProcedureEstimates } from '../core/plannedProcedure';
+
+/** Computes the planned procedure's quick figures off the main thread (src/sim/quickFiguresClient). */
+export interface PlannedProcedureRunner {
+  /** Resolves with the estimates, or null when a newer request replaced this one or the run failed. */
+  estimate(plan: Plan): Promise<PlannedProcedureEstimates | null>;
+}
 
 /** Outcome of checking a candidate plan (src/core/validatePlan). */
 export type { PlanCheck };
@@ -31,8 +38,11 @@ export type DraftStorage = Pick<Storage, 'getItem' | 'setItem' | 'removeItem'>;
  */
 export interface MeanwardDeps {
   validatePlan(input: unknown): PlanCheck;
-  analysePlan(plan: Plan): AnalyticResults;
+  /** Closed forms; with `planned`, the matching-based analyses from the quick simulation of the planned procedure. */
+  analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults;
   simulation: SimulationRunner | null;
+  /** The quick figures for the planned procedure; null shows the closed forms only (tests, no Worker). */
+  plannedProcedure?: PlannedProcedureRunner | null;
   storage: DraftStorage | null;
   examples: readonly ExamplePlan[];
   /** Parse and check the text of a plan file. */

@@ -44,8 +44,31 @@ export function createMeanwardStore({ deps, demo, restore = true, pilot }: Creat
   store.subscribe((state, prev) => {
     if (state.draft !== prev.draft) state.autosave();
     if (state.validPlan !== prev.validPlan || state.problems !== prev.problems) state.refreshSimulationStale();
+    if (state.validPlan !== prev.validPlan) requestPlannedFigures(store, deps);
   });
+  requestPlannedFigures(store, deps);
   return store;
+}
+
+/**
+ * Ask for the quick figures of the planned procedure for the current valid
+ * plan; when they arrive and the plan is still the current one, the analytic
+ * results are recomputed with them (analysePlan(plan, estimates)). Until then,
+ * and when no runner is given, the closed forms stay shown, labelled as such.
+ */
+function requestPlannedFigures(store: MeanwardStore, deps: MeanwardDeps): void {
+  const runner = deps.plannedProcedure;
+  const { validPlan: plan, analytic } = store.getState();
+  if (!runner || !analytic) return;
+  void runner.estimate(plan).then((estimates) => {
+    const now = store.getState();
+    if (!estimates || now.validPlan !== plan || now.analytic === null) return;
+    try {
+      store.setState({ analytic: deps.analysePlan(plan, estimates) });
+    } catch {
+      // The closed forms stay shown; the quick figures add nothing a researcher could act on here.
+    }
+  });
 }
 
 /** The store the components read; the app provides its own, tests a fresh one. */

@@ -1,7 +1,9 @@
 import { ANALYSIS_STYLES } from '../charts/palette';
 import type { AnalysisId } from '../core/plan';
 import type { SimAnalysisSummary } from '../sim/types';
-import { selectAnalysesInOrder, selectAnalyticStale, selectHighlight, selectSetHighlight } from '../state/selectors';
+import { procedureBasisNote } from '../core/procedureBasisNote';
+import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
+import { selectAnalysesInOrder, selectAnalytic, selectAnalyticStale, selectHighlight, selectSetHighlight } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { fmt, fmtPct, fmtSigned } from './format';
 import { verdictWords } from './VerdictPanel';
@@ -23,6 +25,7 @@ function SimFigure({ value, mcse, pct, signed }: { value: number; mcse: number; 
  */
 export function ComparisonTable() {
   const rows = useMeanwardStore(selectAnalysesInOrder);
+  const analytic = useMeanwardStore(selectAnalytic);
   const stale = useMeanwardStore(selectAnalyticStale);
   const highlight = useMeanwardStore(selectHighlight);
   const setHighlight = useMeanwardStore(selectSetHighlight);
@@ -31,13 +34,14 @@ export function ComparisonTable() {
   const simStale = useMeanwardStore((s) => s.simulation.stale);
   const sim = { stale: simStale };
   const tauZero = simResult ? simResult.tau === 0 : false;
-  if (rows.length === 0) return null;
+  if (rows.length === 0 || !analytic) return null;
+  const disagreements = simResult && !simStale && !stale ? quickFiguresAgreement(analytic, simResult) : [];
   const simFor = (id: AnalysisId): SimAnalysisSummary | null => simResult?.analyses[id] ?? null;
   return (
     <section className="comparison" aria-labelledby="comparison-heading">
       <h2 id="comparison-heading">The four analyses compared</h2>
       <p className="section-intro">
-        Expected figures come from the closed-form model (infinite pools, exact matching).
+        <span data-testid="procedure-basis">{procedureBasisNote(analytic)}</span>
         {simResult ? (
           <>
             {' '}
@@ -91,6 +95,14 @@ export function ComparisonTable() {
                   </th>
                   <td>
                     {fmtSigned(a.bias)} / {fmtSigned(a.biasSD)}
+                    {a.basis === 'planned-procedure' && (
+                      <span className="formula-figure">
+                        {' '}
+                        ± {fmt(a.expectedEstimateMCSE)} (quick simulation)
+                        <br />
+                        formula, unlimited pools: {fmtSigned(a.formulaEstimate - analytic.tau)}
+                      </span>
+                    )}
                   </td>
                   <td>{s ? <SimFigure value={s.bias} mcse={s.biasMCSE} signed /> : '—'}</td>
                   <td>{s ? <SimFigure value={s.rmse} mcse={s.rmseMCSE} /> : '—'}</td>
@@ -128,6 +140,13 @@ export function ComparisonTable() {
           </tbody>
         </table>
       </div>
+      {disagreements.length > 0 && (
+        <ul className="disagreements" data-testid="quick-disagreements">
+          {disagreements.map((d) => (
+            <li key={d.id}>{d.note}</li>
+          ))}
+        </ul>
+      )}
       <p className="table-note">
         False-positive rate: how often the analysis declares an effect when the programme does nothing. Wrong-sign rate: how often a helpful
         programme comes out significantly harmful. Where two figures are stacked, the upper is expected and the lower simulated. Under each name: the condition under which that analysis is unbiased.
