@@ -1,5 +1,6 @@
 import type { AnalyticResults } from '../core/analyticResults';
 import { ANALYSIS_IDS, type Plan } from '../core/plan';
+import { procedureBasisNote } from '../core/procedureBasisNote';
 
 /** The caution printed under every result. */
 export const PLANNING_CAUTION =
@@ -28,11 +29,24 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
     `Hypothesised effect: ${fmtPoints(results.tau)} posttest points. Programme: ${plan.groups.programme.label} (${plan.groups.programme.poolSize}); comparison: ${plan.groups.comparison.label} (${plan.groups.comparison.poolSize}).`,
   );
   lines.push('');
-  lines.push('Expected results (closed form: large pools, exact matching)');
-  const header = ['Analysis', 'Expected estimate', 'Bias (points)', 'Bias (SD)', 'Share of effect', 'Power', 'False-positive rate'];
+  lines.push('Expected results for the procedure as planned');
+  lines.push(procedureBasisNote(results));
+  const header = ['Analysis', 'Expected estimate', '(MC SE)', 'Formula, unlimited pools', 'Bias (points)', 'Bias (SD)', 'Share of effect', 'SE', 'Power', 'False-positive rate', 'Programme n'];
   const rows = ANALYSIS_IDS.map((id) => {
     const a = results.analyses[id];
-    return [a.name, fmtPoints(a.expectedEstimate), fmtPoints(a.bias), fmtSD(a.biasSD), fmtPercent(a.biasShare), fmtPercent(a.power), fmtPercent(a.falsePositiveRate)];
+    return [
+      a.name,
+      fmtPoints(a.expectedEstimate),
+      a.expectedEstimateMCSE === null ? '' : `(${fmtPoints(a.expectedEstimateMCSE)})`,
+      fmtPoints(a.formulaEstimate),
+      fmtPoints(a.bias),
+      fmtSD(a.biasSD),
+      fmtPercent(a.biasShare),
+      fmtPoints(a.se),
+      fmtPercent(a.power),
+      fmtPercent(a.falsePositiveRate),
+      a.nProgramme.toFixed(0),
+    ];
   });
   const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c]!.length)));
   const line = (cells: string[]) => cells.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]!) : cell.padStart(widths[c]!))).join('  ');

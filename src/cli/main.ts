@@ -1,4 +1,3 @@
-import { analysePlan } from '../core/analysePlan';
 import type { AnalyticResults } from '../core/analyticResults';
 import type { Plan } from '../core/plan';
 import type { PlanProblem } from '../core/validatePlan';
@@ -8,6 +7,8 @@ import { formatResultsTable, PLANNING_CAUTION } from './formatResultsTable';
 import { parseCommandLine } from './parseCommandLine';
 import { simulatePlan } from '../sim/simulatePlan';
 import type { SimulationResult } from '../sim/types';
+import { analysePlannedProcedure } from '../sim/analysePlannedProcedure';
+import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { formatSimulationTable } from './formatSimulationTable';
 import { createProgressBar, type ProgressStream } from './progressBar';
 import { simulationJson, type SimulationJson } from './simulationJson';
@@ -67,7 +68,7 @@ The plan file format is described in docs/plan-file.md.
 
 /**
  * The command line: "meanward run | demo | --help". Every figure printed comes
- * from analysePlan (src/core); this file only reads, checks and formats.
+ * from analysePlannedProcedure (src/core closed forms with the quick simulation of the planned procedure from src/sim) and the simulation; this file only reads, checks and formats.
  * @returns the exit code. Never throws.
  */
 export async function main(argv: string[], io: CliIO): Promise<number> {
@@ -102,9 +103,9 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
 
   let analytic: AnalyticResults;
   try {
-    analytic = analysePlan(plan);
+    analytic = analysePlannedProcedure(plan);
   } catch (err) {
-    // analysePlan throws researcher-readable messages for inputs validation cannot foresee.
+    // analysePlannedProcedure (via analysePlan) throws researcher-readable messages for inputs validation cannot foresee.
     return failWith(io, [`${cmd.file}: ${err instanceof Error ? err.message : String(err)}`]);
   }
   const bad = firstNonFinite(analytic, 'analytic');
@@ -132,6 +133,8 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       return failWith(io, [`Internal fault: ${badSim} is not a finite number. Please report this with your plan file.`], EXIT_INTERNAL);
     }
     simulationText = formatSimulationTable(result, analytic);
+    const disagreements = quickFiguresAgreement(analytic, result);
+    if (disagreements.length > 0) simulationText += `\n${disagreements.map((d) => `Note: ${d.note}`).join('\n')}\n`;
   }
   // ───────────────────────────────────────────────────────────────────────
 

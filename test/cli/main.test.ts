@@ -3,7 +3,7 @@ import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { analysePlan } from '../../src/core/analysePlan';
+import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
 import { ANALYSIS_IDS } from '../../src/core/plan';
 import { fmtPercent, fmtPoints, fmtReliability, fmtSD, PLANNING_CAUTION } from '../../src/cli/formatResultsTable';
 import { main } from '../../src/cli/main';
@@ -40,11 +40,11 @@ describe('meanward demo and --help', () => {
 });
 
 describe('meanward run (table)', () => {
-  it('shows every analysis with the numbers analysePlan gives, the reliabilities and SEM, break-even and the caution', async () => {
+  it('shows every analysis with the numbers analysePlannedProcedure gives, the reliabilities and SEM, break-even and the caution', async () => {
     const r = await run(['run', demoFile, '--no-sim']);
     expect(r.code).toBe(0);
     expect(r.stderr).toBe('');
-    const res = analysePlan(DEMO_PLAN);
+    const res = analysePlannedProcedure(DEMO_PLAN);
     const lines = r.stdout.split('\n');
     for (const id of ANALYSIS_IDS) {
       const a = res.analyses[id];
@@ -53,11 +53,15 @@ describe('meanward run (table)', () => {
       const cells = row!.slice(a.name.length).trim().split(/\s{2,}/);
       expect(cells).toEqual([
         fmtPoints(a.expectedEstimate),
+        ...(a.expectedEstimateMCSE === null ? [] : [`(${fmtPoints(a.expectedEstimateMCSE)})`]),
+        fmtPoints(a.formulaEstimate),
         fmtPoints(a.bias),
         fmtSD(a.biasSD),
         fmtPercent(a.biasShare),
+        fmtPoints(a.se),
         fmtPercent(a.power),
         fmtPercent(a.falsePositiveRate),
+        a.nProgramme.toFixed(0),
       ]);
     }
     expect(r.stdout).toContain(`reliability, programme:  ${fmtReliability(res.reliability.programme)}`);
@@ -68,13 +72,17 @@ describe('meanward run (table)', () => {
     expect(r.stdout).toContain('Monte Carlo simulation: skipped (--no-sim).');
     expect(r.stdout.trimEnd().endsWith(PLANNING_CAUTION)).toBe(true);
   });
-  it('the demo table shows the closed-form artefact: matched difference 0.50 expected for an effect of 2.50', async () => {
+  it('the demo table shows the closed-form artefact: the formula for unlimited pools gives 0.50 for an effect of 2.50', async () => {
     // Demo: SEM 10*sqrt(.25) = 5, rho .75, beta = .6*10/(10*.75) = .8, Delta = -10.
     // Matched difference: tau + beta(1 - rho)Delta = 2.5 - 2 = 0.5 (Thorndike 1942; closed form
-    // in REFERENCES, computed). Printed to 2 decimals, so the check is exact on the text.
+    // in REFERENCES, computed). Printed to 2 decimals, so the check is exact on the text. ANCOVA's
+    // expected estimate is the same closed form (Lord 1960), its bias -2.00.
     const r = await run(['run', demoFile, '--no-sim']);
-    const row = r.stdout.split('\n').find((l) => l.startsWith(analysePlan(DEMO_PLAN).analyses.matchedDifference.name))!;
-    expect(row.trim().split(/\s{2,}/).slice(1, 3)).toEqual(['0.50', '-2.00']);
+    const res = analysePlannedProcedure(DEMO_PLAN);
+    const md = r.stdout.split('\n').find((l) => l.startsWith(res.analyses.matchedDifference.name))!;
+    expect(md.trim().split(/\s{2,}/)[3]).toBe('0.50');
+    const an = r.stdout.split('\n').find((l) => l.startsWith(res.analyses.ancova.name))!;
+    expect(an.trim().split(/\s{2,}/).slice(1, 4)).toEqual(['0.50', '0.50', '-2.00']);
   });
   it('without --no-sim it adds the simulated results (details in test/cli/simulation.test.ts)', async () => {
     const r = await run(['run', demoFile, '--reps', '50', '--seed', '9']);
@@ -84,14 +92,14 @@ describe('meanward run (table)', () => {
 });
 
 describe('meanward run --json', () => {
-  it('prints one JSON object equal to { plan, analytic: analysePlan(plan) }', async () => {
+  it('prints one JSON object equal to { plan, analytic: analysePlannedProcedure(plan) }', async () => {
     const r = await run(['run', demoFile, '--json', '--no-sim']);
     expect(r.code).toBe(0);
     expect(r.stderr).toBe('');
     const out = JSON.parse(r.stdout);
     expect(out.plan).toEqual(DEMO_PLAN);
     // JSON round trip of doubles is exact (shortest round-trip text), so toEqual is exact.
-    expect(out.analytic).toEqual(JSON.parse(JSON.stringify(analysePlan(DEMO_PLAN))));
+    expect(out.analytic).toEqual(JSON.parse(JSON.stringify(analysePlannedProcedure(DEMO_PLAN))));
     for (const id of ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova']) {
       for (const k of ['expectedEstimate', 'bias', 'biasSD']) expect(typeof out.analytic.analyses[id][k]).toBe('number');
     }
@@ -105,11 +113,12 @@ describe('meanward run --json', () => {
     // Tolerance 1e-9: double rounding only, the formulas are exact here.
     const out = JSON.parse((await run(['run', demoFile, '--json', '--no-sim'])).stdout);
     const a = out.analytic.analyses;
-    expect(Math.abs(a.matchedDifference.bias - -2)).toBeLessThan(1e-9);
+    // The matched difference's expected estimate is for the planned procedure; its formula is the closed form.
+    expect(Math.abs(a.matchedDifference.formulaEstimate - 0.5)).toBeLessThan(1e-9);
     expect(Math.abs(a.ancova.bias - -2)).toBeLessThan(1e-9);
     expect(Math.abs(a.gainScore.bias - 2)).toBeLessThan(1e-9);
     expect(Math.abs(a.correctedAncova.bias)).toBeLessThan(1e-9);
-    expect(Math.abs(a.matchedDifference.biasSD - -0.2)).toBeLessThan(1e-9); // -2 / posttest SD 10
+    expect(Math.abs(a.ancova.biasSD - -0.2)).toBeLessThan(1e-9); // -2 / posttest SD 10
     expect(Math.abs(out.analytic.reliability.sem - 5)).toBeLessThan(1e-9); // 10 * sqrt(1 - .75)
   });
   it('--reps and --seed replace the plan file values', async () => {
