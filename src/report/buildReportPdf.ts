@@ -3,6 +3,8 @@ import type { AnalyticResults } from '../core/analyticResults';
 import { ANALYSIS_IDS, type Plan } from '../core/plan';
 import { serializePlan } from '../io/planFile';
 import type { SimAnalysisSummary, SimulationResult } from '../sim/types';
+import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
+import { procedureBasisNote } from '../core/procedureBasisNote';
 import { drawSvgChart, parseChartSvg, svgSize } from './drawSvgChart';
 import {
   formatCount,
@@ -157,10 +159,10 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
 
   // ---- Results -------------------------------------------------------------
   w.heading('Results by analysis');
-  w.paragraph(
-    'Closed form: expected values for infinitely large pools and exact matching. “Bias” is the expected estimate minus the programme effect τ.',
-    { size: 9, muted: true },
-  );
+  w.paragraph(`${procedureBasisNote(analytic)} “Bias” is the expected estimate minus the programme effect τ.`, {
+    size: 9,
+    muted: true,
+  });
   const analysisCols: TableColumn[] = [
     { header: '', width: 24 },
     ...ANALYSIS_IDS.map((id) => ({ header: A[id].name, width: 19, align: 'right' as const })),
@@ -169,11 +171,17 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   w.table(
     analysisCols,
     [
-      row('Expected estimate (points)', (id) => formatSignedPoints(A[id].expectedEstimate)),
+      row('Expected estimate, procedure as planned (points)', (id) =>
+        A[id].expectedEstimateMCSE === null
+          ? formatSignedPoints(A[id].expectedEstimate)
+          : withMcse(formatSignedPoints(A[id].expectedEstimate), A[id].expectedEstimateMCSE, (x) => formatPoints(x)),
+      ),
+      row('Formula, unlimited pools (points)', (id) => formatSignedPoints(A[id].formulaEstimate)),
       row('Expected bias (points)', (id) => formatSignedPoints(A[id].bias)),
       row('Expected bias (post-test SDs)', (id) => formatSD(A[id].biasSD)),
       row('Bias as a share of the effect', (id) => (A[id].biasShare === null ? 'no effect hoped for' : formatShare(A[id].biasShare))),
       row('Verdict', (id) => VERDICT_LABEL[A[id].verdict]),
+      row('Standard error (points)', (id) => formatPoints(A[id].se)),
       row('Sample sizes assumed (programme / comparison)', (id) => `${formatCount(A[id].nProgramme)} / ${formatCount(A[id].nComparison)}`),
       row('Power', (id) => formatProbability(A[id].power)),
       row('Power if there were no bias', (id) => formatProbability(A[id].powerWithoutBias)),
@@ -183,7 +191,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
         A[id].requiredNPerGroup === null ? 'not reachable' : formatCount(A[id].requiredNPerGroup),
       ),
     ],
-    { boldRows: [1], boldFirstColumn: true },
+    { boldRows: [2], boldFirstColumn: true },
   );
   for (const id of ANALYSIS_IDS) {
     w.paragraph(`${A[id].name}, assumption: ${A[id].assumption}`, { size: 8.5, muted: true, after: 2 });
@@ -212,7 +220,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     w.table(
       [{ header: '', width: 22 }, ...simCols.map((s) => ({ header: s.label, width: 15.6, align: 'right' as const }))],
       [
-        ['Expected bias, closed form', ...ANALYSIS_IDS.map((id) => formatSignedPoints(A[id].bias)), '—'],
+        ['Expected bias before simulation', ...ANALYSIS_IDS.map((id) => formatSignedPoints(A[id].bias)), '—'],
         srow('Simulated bias (points)', (s) => withMcse(formatSignedPoints(s.bias), s.biasMCSE, (x) => formatPoints(x))),
         srow('Mean estimate (points)', (s) => withMcse(formatSignedPoints(s.meanEstimate), s.meanEstimateMCSE, (x) => formatPoints(x))),
         srow('Empirical SE (points)', (s) => withMcse(formatPoints(s.empiricalSE), s.empiricalSEMCSE, (x) => formatPoints(x))),
@@ -224,6 +232,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       ],
       { boldRows: [1], boldFirstColumn: true, fontSize: 8 },
     );
+    for (const d of quickFiguresAgreement(analytic, sim)) w.note(d.note);
     const mt = sim.matching;
     w.heading('Matching and balance (simulated)', 3);
     w.paragraph(
