@@ -28,10 +28,14 @@ export const DEFAULT_TARGET_POWER = 0.8;
  *
  * Reference: see the functions it calls (Kelley 1947; Spearman 1910, Brown 1910;
  * Thorndike 1942; Lord 1960; Porter 1967; Campbell & Erlebacher 1970; Cohen 1988).
- * These figures assume infinite pools for the estimates and approximate SEs and
- * matched shares; the simulation gives exact figures for the planned procedure.
+ * Without `planned`, the matched difference's figures are the closed form for
+ * unlimited pools and exact matching (basis 'formula'); with `planned` (from
+ * estimatePlannedProcedure in src/sim, a short seeded simulation of the
+ * planned procedure) they are for these pools, caliper, ratio, order and
+ * replacement (basis 'planned-procedure'), the formula kept as `formulaEstimate`.
  *
  * @param plan a plan that has passed validation.
+ * @param planned optional quick figures of the planned procedure (plain data).
  * @returns AnalyticResults in which every number is finite.
  * @throws Error with a researcher-readable message when the inputs contradict
  *   each other (e.g. r² > reliability) or a figure could not be computed.
