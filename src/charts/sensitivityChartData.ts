@@ -8,7 +8,7 @@ export interface SensitivitySeries {
   id: AnalysisId;
   name: string;
   points: { x: number; bias: number }[];
-  /** Expected bias under the plan as it stands (closed form), posttest points. */
+  /** Expected bias under the plan as it stands (formula for unlimited pools, as the curve), posttest points. */
   currentBias: number;
 }
 
@@ -39,7 +39,9 @@ export interface SensitivityChartData {
  * Transform plan + results into the sensitivity chart's data: expected bias of
  * each analysis against pretest reliability or against the pretest group gap
  * (core's sensitivityCurve), the tolerated band, break-even and current x.
- * Works from closed forms only (the simulation adds nothing here). Pure and deterministic.
+ * Works from closed forms only (formula for unlimited pools and exact matching;
+ * the simulation and the quick planned-procedure figures add nothing here),
+ * so it depends on the plan alone. Pure and deterministic.
  */
 export function sensitivityChartData({ plan, analytic }: ChartInput, mode: SensitivityVariable = 'reliability'): SensitivityChartData {
   const curve = sensitivityCurve(plan, mode);
@@ -47,7 +49,8 @@ export function sensitivityChartData({ plan, analytic }: ChartInput, mode: Sensi
     id,
     name: analytic.analyses[id].name,
     points: curve.points.map((p) => ({ x: p.x, bias: p.bias[id] })),
-    currentBias: analytic.analyses[id].bias,
+    // The curves are the formula for unlimited pools and exact matching: mark this plan on the same scale.
+    currentBias: analytic.analyses[id].formulaEstimate - analytic.tau,
   }));
   const ys = [curve.tolerableBand.lower, curve.tolerableBand.upper, curve.effect, -curve.effect, 0];
   for (const s of series) for (const p of s.points) ys.push(p.bias);

@@ -52,7 +52,13 @@ export function ChartsPanel() {
   const input: ChartInput | null = useMemo(() => (analytic ? { plan, analytic, simulation } : null), [plan, analytic, simulation]);
   const pretest = useMemo(() => (input ? buildChart(() => pretestChartData(input), pretestChartText) : null), [input]);
   const estimates = useMemo(() => (input ? buildChart(() => estimatesChartData(input), estimatesChartText) : null), [input]);
-  const sensitivity = useMemo(() => (input ? buildChart(() => sensitivityChartData(input, mode), sensitivityChartText) : null), [input, mode]);
+  // The sensitivity curves are closed forms of the plan alone: the quick planned-procedure figures arriving
+  // for the same plan (a new analytic object) must not recompute them.
+  const sensitivityInput = useMemo(() => input, [plan, analytic !== null]); // eslint-disable-line react-hooks/exhaustive-deps
+  const sensitivity = useMemo(
+    () => (sensitivityInput ? buildChart(() => sensitivityChartData(sensitivityInput, mode), sensitivityChartText) : null),
+    [sensitivityInput, mode],
+  );
   const balance = useMemo(() => (input ? buildChart(() => balanceChartData(input), balanceChartText) : null), [input]);
   const modeName = useId();
   if (!pretest || !estimates || !sensitivity || !balance) return null;

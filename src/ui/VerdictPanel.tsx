@@ -81,6 +81,7 @@ export function VerdictPanel() {
       aria-labelledby="verdict-heading"
       data-testid="verdict"
       data-verdict={m.verdict}
+      data-basis={m.basis}
     >
       <h2 id="verdict-heading">
         Verdict: the planned matching <span className="verdict-word">{words.heading}</span>
@@ -104,9 +105,18 @@ export function VerdictPanel() {
         This regression-toward-the-mean artefact {words.sentence}
       </p>
       <ul className="verdict-facts">
-        <li>
+        <li data-testid="verdict-basis">
           Expected estimate from the matched comparison: <strong>{fmtSigned(m.expectedEstimate)} points</strong> (true effect{' '}
-          {fmtSigned(analytic.tau)}).
+          {fmtSigned(analytic.tau)}
+          {m.basis === 'planned-procedure' ? (
+            <>
+              ; for the procedure as planned, from a quick simulation, Monte Carlo SE {fmt(m.expectedEstimateMCSE)}; the formula for unlimited pools and
+              exact matching gives {fmtSigned(m.formulaEstimate)})
+            </>
+          ) : (
+            <>; from the formula for unlimited pools and exact matching, until the quick simulation of the planned procedure is in)</>
+          )}
+          .
         </li>
         <li>
           If the programme did nothing, a matched comparison would be significant in <strong data-testid="verdict-fpr">{fmtPct(m.falsePositiveRate)}</strong>{' '}

@@ -4,7 +4,18 @@
 import AxeBuilder from '@axe-core/playwright';
 import { readFileSync } from 'node:fs';
 import { expect, test } from '@playwright/test';
-import { openFreshPlanner, retype, shownFigure, shownNumber, trackForeignRequests, watchedLongTasks, watchLongTasks } from './plannerHelpers';
+import { demoPlan } from '../../src/io/demoPlan';
+import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
+import {
+  openFreshPlanner,
+  retype,
+  shownFigure,
+  shownNumber,
+  trackForeignRequests,
+  waitForPlannedFigures,
+  watchedLongTasks,
+  watchLongTasks,
+} from './plannerHelpers';
 
 const SHOTS = 'test-results/screens';
 
@@ -16,17 +27,28 @@ test.beforeEach(async ({ page }) => {
 test('the demo loads, and changing the reliability updates the verdict and the charts', async ({ page }) => {
   const foreign = trackForeignRequests(page);
   await page.reload();
-  // Demo: bias = beta(1 − rho)·Delta = 0.8 × 0.25 × (−10) = −2.00 points
-  // (Thorndike 1942 closed form; computed). Display rounding: 2 decimals.
-  await expect(page.getByTestId('verdict-bias')).toHaveText('−2.00 points');
+  // The figures on screen become those of the planned procedure (a quick seeded simulation, the
+  // same function in Node and in the page: 2-decimal display, tolerance 0.01). The formula for
+  // unlimited pools stays beside it: demo bias beta(1 − rho)·Delta = 0.8 × 0.25 × (−10) = −2.00
+  // points, so the formula estimate is 2.5 − 2 = +0.50 (Thorndike 1942 closed form; computed).
+  await waitForPlannedFigures(page);
+  const planned = analysePlannedProcedure(demoPlan()).analyses.matchedDifference;
+  expect(Math.abs(shownNumber(await page.getByTestId('verdict-bias').innerText()) - planned.bias)).toBeLessThanOrEqual(0.01);
+  await expect(page.getByTestId('verdict-basis')).toContainText('formula for unlimited pools and exact matching gives +0.50');
   await expect(page.locator('figure[data-chart] svg')).toHaveCount(4);
   await page.screenshot({ path: `${SHOTS}/demo-1366x768.png` });
   const sensitivityBefore = await page.locator('figure[data-chart="sensitivity"] svg').innerHTML();
   const pretestBefore = await page.locator('figure[data-chart="pretest"] svg').innerHTML();
 
   await retype(page, /^Reliability/, '0.9');
-  // rho .9: beta = .6·10/(10·.9) = 2/3; bias = (2/3)(.1)(−10) = −0.67 (same closed form, computed).
-  await expect(page.getByTestId('verdict-bias')).toHaveText('−0.67 points');
+  // rho .9: beta = .6·10/(10·.9) = 2/3; formula bias = (2/3)(.1)(−10) = −0.67, estimate 2.5 − 0.67 = +1.83
+  // (same closed form, computed); the planned figure from the same quick simulation as in Node.
+  await expect(page.getByTestId('verdict-basis')).toContainText('gives +1.83', { timeout: 15_000 });
+  const rho9 = demoPlan();
+  rho9.pretest.reliability = 0.9;
+  const planned9 = analysePlannedProcedure(rho9).analyses.matchedDifference;
+  const bias9 = await page.getByTestId('verdict-bias').innerText();
+  expect(Math.abs(shownNumber(bias9) - planned9.bias)).toBeLessThanOrEqual(0.01);
   await expect(page.getByTestId('derived-reliability-comparison')).toHaveText('.900');
   // Charts redraw in their own tasks just after the verdict: poll.
   await expect.poll(() => page.locator('figure[data-chart="sensitivity"] svg').innerHTML()).not.toBe(sensitivityBefore);
@@ -38,7 +60,7 @@ test('the demo loads, and changing the reliability updates the verdict and the c
   await expect(box).toHaveAttribute('aria-invalid', 'true');
   await expect(page.locator('[data-field="pretest.reliability"] .field-error')).toContainText('1.4');
   await expect(page.getByTestId('verdict')).toContainText('Out of date');
-  await expect(page.getByTestId('verdict-bias')).toHaveText('−0.67 points');
+  await expect(page.getByTestId('verdict-bias')).toHaveText(bias9);
   await page.locator('[data-field="pretest.reliability"]').screenshot({ path: `${SHOTS}/invalid-reliability.png` });
   expect(foreign).toEqual([]);
 });

@@ -104,3 +104,11 @@ export async function watchedLongTasks(
   const during = tasks.filter((t) => t.start >= startedAt && t.start < doneAt!);
   return { tasks, during, doneAt, marks };
 }
+
+/**
+ * Wait until the figures on screen are those of the procedure as planned (the
+ * quick simulation's figures have replaced the closed forms shown at first).
+ */
+export async function waitForPlannedFigures(page: Page): Promise<void> {
+  await expect(page.getByTestId('verdict')).toHaveAttribute('data-basis', 'planned-procedure', { timeout: 15_000 });
+}

@@ -8,6 +8,7 @@ import { expect, test } from '@playwright/test';
 import { parsePlanText } from '../../src/io/planFile';
 import { planTextFromReportText } from '../../src/report/planJsonBlock';
 import { readPdfText } from '../report/readPdfText';
+import { waitForPlannedFigures } from './plannerHelpers';
 
 const ARTIFACTS = path.resolve('artifacts');
 
@@ -15,6 +16,7 @@ test('the PDF summary downloaded from the page carries the plan, the figures on 
   test.setTimeout(120_000);
   await page.goto('/');
   await expect(page.getByTestId('verdict-bias')).toBeVisible();
+  await waitForPlannedFigures(page);
   const onScreenBias = (await page.getByTestId('verdict-bias').innerText()).replace(/\s*points$/, '').trim();
   // User text with markup must reach the PDF as text.
   const title = 'Invented <script>alert(1)</script> & "balance" pilot';
