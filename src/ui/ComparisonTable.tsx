@@ -94,13 +94,11 @@ export function ComparisonTable() {
                     <span className="assumption">{a.assumption}</span>
                   </th>
                   <td>
-                    {fmtSigned(a.bias)} / {fmtSigned(a.biasSD)}
+                    {fmtSigned(a.bias)}
+                    {a.basis === 'planned-procedure' && <span className="mcse"> ± {fmt(a.expectedEstimateMCSE)}</span>} / {fmtSigned(a.biasSD)}
                     {a.basis === 'planned-procedure' && (
                       <span className="formula-figure">
-                        {' '}
-                        ± {fmt(a.expectedEstimateMCSE)} (quick simulation)
-                        <br />
-                        formula, unlimited pools: {fmtSigned(a.formulaEstimate - analytic.tau)}
+                        quick simulation of this plan; formula for unlimited pools: {fmtSigned(a.formulaEstimate - analytic.tau)}
                       </span>
                     )}
                   </td>
