@@ -18,7 +18,8 @@ export const fmtPercent = (x: number | null): string => (x === null ? 'n/a' : `$
  * bias (points and SD units), bias as a share of the effect, power and
  * false-positive rate; with covariates, the expected balance per variable and
  * the unmeasured part of the bias; then the reliabilities, SEM and break-even
- * reliability.
+ * reliability. An analysis that is not feasible shows a dash for its power and
+ * false-positive rate and its reason under the table.
  */
 export function formatResultsTable(plan: Plan, results: AnalyticResults): string {
   const lines: string[] = [];
@@ -32,13 +33,18 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   const header = ['Analysis', 'Expected estimate', 'Bias (points)', 'Bias (SD)', 'Share of effect', 'Power', 'False-positive rate'];
   const rows = ANALYSIS_IDS.map((id) => {
     const a = results.analyses[id];
-    return [a.name, fmtPoints(a.expectedEstimate), fmtPoints(a.bias), fmtSD(a.biasSD), fmtPercent(a.biasShare), fmtPercent(a.power), fmtPercent(a.falsePositiveRate)];
+    const rate = (x: number | null): string => (a.feasible ? fmtPercent(x) : '—');
+    return [a.name, fmtPoints(a.expectedEstimate), fmtPoints(a.bias), fmtSD(a.biasSD), fmtPercent(a.biasShare), rate(a.power), rate(a.falsePositiveRate)];
   });
   const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => r[c]!.length)));
   const line = (cells: string[]) => cells.map((cell, c) => (c === 0 ? cell.padEnd(widths[c]!) : cell.padStart(widths[c]!))).join('  ');
   lines.push(line(header));
   lines.push(widths.map((w) => '-'.repeat(w)).join('  '));
   for (const r of rows) lines.push(line(r));
+  for (const id of ANALYSIS_IDS) {
+    const a = results.analyses[id];
+    if (!a.feasible) lines.push(`  ${a.name}: not feasible. ${a.infeasibleReason ?? ''}`.trimEnd());
+  }
   lines.push(...covariateLines(results));
   lines.push('');
   lines.push('Pretest');

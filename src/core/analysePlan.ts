@@ -87,6 +87,7 @@ function analysisSettings(plan: Plan, matchedProgramme: number): AnalysisSetting
     targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
     ratio: plan.matching.ratio,
     matchedProgramme,
+    replacement: plan.matching.replacement,
   };
 }
 
