@@ -27,10 +27,12 @@ export function matchedDifferenceFeasibility(
 ): string | null {
   if (matchedProgramme >= MIN_MATCHED_PROGRAMME) return null;
   const expected = Number.isFinite(matchedProgramme) && matchedProgramme > 0 ? matchedProgramme : 0;
-  const shown = expected === 0 ? 'None' : expected < 0.05 ? 'Almost none' : `About ${expected.toFixed(1)}`;
+  const shown =
+    expected === 0 ? 'None' : expected < 0.05 ? 'Almost none' : expected >= 1.95 ? 'Fewer than 2' : `About ${expected.toFixed(1)}`;
   const fixes = [
     'widen the caliper',
     'enlarge the comparison pool',
+    'recruit a comparison group closer to the programme group on the pretest',
     ...(matching.replacement ? [] : ['allow a comparison member to be reused (matching with replacement)']),
     ...(matching.ratio > 1 ? ['ask for fewer partners per programme member'] : []),
   ];
