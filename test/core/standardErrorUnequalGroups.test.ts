@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest';
+import { analysePlan } from '../../src/core/analysePlan';
 import { analysisStandardError } from '../../src/core/analysisStandardError';
+import { twoSidedPower } from '../../src/core/power';
+import { demoPlan } from '../../src/io/demoPlan';
 import { adjustedDifferenceStandardError } from '../../src/core/adjustedDifferenceStandardError';
 import { studentTQuantile } from '../../src/core/distributions';
 import type { ModelParameters } from '../../src/core/modelParameters';
@@ -212,5 +215,29 @@ describe('welchSatterthwaiteDf and adjustedDifferenceStandardError: edge cases',
     // slope term = Σ 10·(1.25/400 + .25/400) = 20·1.5/400 = .075.
     expect(r.se).toBeCloseTo(Math.sqrt(2.5 / 11 + 0.075), 12);
     expect(r.df).toBeCloseTo(19, 12);
+  });
+});
+
+describe('required n per group uses the same Welch form', () => {
+  it('gain score, invented plan with pretest SDs 20 vs 10: power at the required n reaches the target, one fewer does not (Cohen 1988 ch. 2; Welch 1947)', () => {
+    const plan = demoPlan();
+    plan.groups.programme.pretestSD = 20;
+    plan.groups.comparison.pretestSD = 10;
+    const r = analysePlan(plan);
+    const m = r.model;
+    const a = r.analyses.gainScore;
+    expect(a.requiredNPerGroup).not.toBeNull();
+    // var(Y − X) from the model's definition Y = beta·T + e, X = T + E: (beta − 1)²·trueVar + residualVar + SEM².
+    const gainVar = (g: 'programme' | 'comparison') => (m.beta - 1) ** 2 * m.trueSD[g] ** 2 + m.residualSD ** 2 + m.sem ** 2;
+    const powerAt = (n: number) => {
+      const vP = gainVar('programme') / n;
+      const vC = gainVar('comparison') / n;
+      const df = (vP + vC) ** 2 / ((vP * vP) / (n - 1) + (vC * vC) / (n - 1));
+      return twoSidedPower(a.expectedEstimate, Math.sqrt(vP + vC), df, plan.analysis.alpha);
+    };
+    const target = plan.analysis.targetPower ?? 0.8;
+    const n = a.requiredNPerGroup!;
+    expect(powerAt(n)).toBeGreaterThanOrEqual(target);
+    expect(powerAt(n - 1)).toBeLessThan(target);
   });
 });
