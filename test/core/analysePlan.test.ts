@@ -42,7 +42,7 @@ describe('analysePlan on the demo plan', () => {
   it('false-positive rate of the ANCOVA matches an independent normal-mixture bound: between α and 1', () => {
     const a = r.analyses.ancova;
     // Independent check with @stdlib: P(|T| > t_crit) for T ≈ t_df shifted by bias/se (location-shift
-    // approximation, close to the noncentral t at df = 1377); tolerance .01.
+    // approximation, close to the noncentral t at the Welch–Satterthwaite df ≈ 235); tolerance .01.
     const df = a.df!;
     const tc = stdTQuantile(0.975, df);
     const shift = a.bias / a.se!;
