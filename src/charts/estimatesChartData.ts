@@ -16,8 +16,8 @@ export interface EstimatesRow {
   name: string;
   /** Closed-form expected estimate, posttest points. */
   expected: number;
-  /** Closed-form range expected ± 1.96·SE (95% of studies). */
-  interval: { lower: number; upper: number };
+  /** Closed-form range expected ± 1.96·SE (95% of studies); null when the analysis is not feasible (no SE). */
+  interval: { lower: number; upper: number } | null;
   /** Simulated estimates binned (null before a simulation). */
   bins: EstimateBin[] | null;
   /** Replications whose estimate was computed and is drawn. */
@@ -55,12 +55,12 @@ export function estimatesChartData({ analytic, simulation }: ChartInput): Estima
   const tau = analytic.tau;
   const rows: EstimatesRow[] = ANALYSIS_IDS.map((id) => {
     const a = analytic.analyses[id];
-    const iv = expectedEstimateInterval(a.expectedEstimate, a.se);
+    const iv = a.se === null ? null : expectedEstimateInterval(a.expectedEstimate, a.se);
     return {
       id,
       name: a.name,
       expected: a.expectedEstimate,
-      interval: { lower: iv.lower, upper: iv.upper },
+      interval: iv && { lower: iv.lower, upper: iv.upper },
       bins: null,
       drawn: 0,
       simulatedMean: simulation ? simulation.analyses[id].meanEstimate : null,
@@ -68,7 +68,7 @@ export function estimatesChartData({ analytic, simulation }: ChartInput): Estima
     };
   });
   const values: number[] = [0, tau];
-  for (const r of rows) values.push(r.interval.lower, r.interval.upper);
+  for (const r of rows) values.push(r.expected, ...(r.interval ? [r.interval.lower, r.interval.upper] : []));
   let maxCount = 0;
   if (simulation) {
     const finite = Object.fromEntries(

@@ -9,7 +9,10 @@ export function estimatesChartText(data: EstimatesChartData): ChartText {
   const sentences = [
     `Hoped-for programme effect: ${fmt(data.tau, 2)} posttest points.`,
     ...data.rows.map((r) => {
-      const base = `${r.name}: expected estimate ${fmt(r.expected, 2)} points; 95% of studies expected between ${fmt(r.interval.lower, 2)} and ${fmt(r.interval.upper, 2)}.`;
+      const range = r.interval
+        ? `95% of studies expected between ${fmt(r.interval.lower, 2)} and ${fmt(r.interval.upper, 2)}`
+        : 'no range: too few people are expected to be matched for this analysis';
+      const base = `${r.name}: expected estimate ${fmt(r.expected, 2)} points; ${range}.`;
       return r.simulatedMean !== null && r.simulatedMeanMCSE !== null
         ? `${base} Simulated mean ${fmt(r.simulatedMean, 2)} (Monte Carlo SE ${fmt(r.simulatedMeanMCSE, 3)}) over ${r.drawn} studies.`
         : base;
@@ -22,7 +25,7 @@ export function estimatesChartText(data: EstimatesChartData): ChartText {
   const columns = ['Analysis', 'Expected estimate (points)', '95% range low', '95% range high'];
   if (data.mode === 'simulation') columns.push('Simulated mean', 'Monte Carlo SE', 'Studies drawn');
   const rows = data.rows.map((r) => {
-    const row = [ANALYSIS_STYLES[r.id].shortLabel, fmt(r.expected, 2), fmt(r.interval.lower, 2), fmt(r.interval.upper, 2)];
+    const row = [ANALYSIS_STYLES[r.id].shortLabel, fmt(r.expected, 2), r.interval ? fmt(r.interval.lower, 2) : '—', r.interval ? fmt(r.interval.upper, 2) : '—'];
     if (data.mode === 'simulation') {
       row.push(r.simulatedMean === null ? 'n/a' : fmt(r.simulatedMean, 2), r.simulatedMeanMCSE === null ? 'n/a' : fmt(r.simulatedMeanMCSE, 3), String(r.drawn));
     }

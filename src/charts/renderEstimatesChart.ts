@@ -66,7 +66,7 @@ export function renderEstimatesChart(svg: SVGSVGElement, data: EstimatesChartDat
           'fill-opacity': opts.highlight === r.id ? 0.75 : 0.5,
         });
       }
-    } else {
+    } else if (r.interval) {
       const yy = y0 + rowH / 2;
       add(series, 'line', {
         x1: x(r.interval.lower), x2: x(r.interval.upper), y1: yy, y2: yy,

@@ -19,7 +19,8 @@ export const fmtPercent = (x: number | null): string => (x === null ? 'n/a' : `$
  * bias (points and SD units), bias as a share of the effect, power and
  * false-positive rate; with covariates, the expected balance per variable and
  * the unmeasured part of the bias; then the reliabilities, SEM and break-even
- * reliability.
+ * reliability. An analysis that is not feasible shows a dash for its power and
+ * false-positive rate and its reason under the table.
  */
 export function formatResultsTable(plan: Plan, results: AnalyticResults): string {
   const lines: string[] = [];
@@ -34,6 +35,7 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   const header = ['Analysis', 'Expected estimate', '(MC SE)', 'Formula, unlimited pools', 'Bias (points)', 'Bias (SD)', 'Share of effect', 'SE', 'Power', 'False-positive rate', 'Programme n'];
   const rows = ANALYSIS_IDS.map((id) => {
     const a = results.analyses[id];
+    const rate = (x: number | null): string => (a.feasible ? fmtPercent(x) : '—');
     return [
       a.name,
       fmtPoints(a.expectedEstimate),
@@ -42,9 +44,9 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
       fmtPoints(a.bias),
       fmtSD(a.biasSD),
       fmtPercent(a.biasShare),
-      fmtPoints(a.se),
-      fmtPercent(a.power),
-      fmtPercent(a.falsePositiveRate),
+      a.se === null ? '—' : fmtPoints(a.se),
+      rate(a.power),
+      rate(a.falsePositiveRate),
       a.nProgramme.toFixed(0),
     ];
   });
@@ -53,6 +55,10 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   lines.push(line(header));
   lines.push(widths.map((w) => '-'.repeat(w)).join('  '));
   for (const r of rows) lines.push(line(r));
+  for (const id of ANALYSIS_IDS) {
+    const a = results.analyses[id];
+    if (!a.feasible) lines.push(`  ${a.name}: not feasible. ${a.infeasibleReason ?? ''}`.trimEnd());
+  }
   lines.push(...covariateLines(results));
   lines.push('');
   lines.push('Pretest');

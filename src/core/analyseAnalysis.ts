@@ -5,6 +5,7 @@ import { ANALYSIS_DESCRIPTIONS } from './analysisDescriptions';
 import { analysisStandardError } from './analysisStandardError';
 import { analyticAnalysisRecord } from './analyticAnalysisRecord';
 import { expectedEstimate } from './expectedEstimate';
+import { matchedDifferenceFeasibility } from './matchedDifferenceFeasibility';
 
 /** The plan settings one analysis' results depend on. */
 export interface AnalysisSettings {
@@ -20,6 +21,8 @@ export interface AnalysisSettings {
   ratio: number;
   /** Expected number of matched programme members (programme pool × expected matched share). */
   matchedProgramme: number;
+  /** Whether a comparison member may serve several programme members (only shapes the infeasibility advice). */
+  replacement: boolean;
 }
 
 /**
@@ -30,7 +33,11 @@ export interface AnalysisSettings {
  *
  * Reference: expected estimates — Thorndike (1942), Lord (1960), Porter (1967);
  * power — Cohen (1988), ch. 2. SEs are the approximations documented in
- * analysisStandardError.
+ * analysisStandardError; the required n uses the same SE forms at n per group.
+ * The matched difference is reported as not feasible (feasible false, a
+ * reason, null SE, power, error rates and required n) when fewer than 2
+ * programme members are expected to be matched (matchedDifferenceFeasibility);
+ * its SE ignores partner reuse with replacement (see analysisStandardError).
  *
  * @param id analysis. @param m model parameters. @param s settings (see AnalysisSettings).
  * @returns an AnalyticAnalysis record.
@@ -41,13 +48,23 @@ export function analyseAnalysis(id: AnalysisId, m: ModelParameters, s: AnalysisS
   const tau = m.effect;
   const estimate = expectedEstimate(id, m, s.assumedReliability);
   const options = { assumedReliability: s.assumedReliability, ratio: s.ratio };
+  const { name, assumption } = ANALYSIS_DESCRIPTIONS[id];
+  const common = { id, name, assumption, estimate, tau, posttestSD: m.posttestSD.comparison };
+  if (id === 'matchedDifference') {
+    const reason = matchedDifferenceFeasibility(s.matchedProgramme, m.n.programme, s);
+    if (reason !== null) {
+      const matched = Math.max(0, s.matchedProgramme);
+      return analyticAnalysisRecord(
+        { ...common, precision: null, infeasibleReason: reason, nProgramme: matched, nComparison: matched * s.ratio },
+        s,
+      );
+    }
+  }
   const sizes =
     id === 'matchedDifference'
       ? { programme: s.matchedProgramme, comparison: s.matchedProgramme * s.ratio }
       : { programme: m.n.programme, comparison: m.n.comparison };
   const { se, df, nProgramme, nComparison } = analysisStandardError(id, m, sizes, options);
   const design = (n: number) => analysisStandardError(id, m, { programme: n, comparison: n }, options);
-  const { name, assumption } = ANALYSIS_DESCRIPTIONS[id];
-  const inputs = { id, name, assumption, estimate, tau, posttestSD: m.posttestSD.comparison, se, df, nProgramme, nComparison, design };
-  return analyticAnalysisRecord(inputs, s);
+  return analyticAnalysisRecord({ ...common, precision: { se, df, design }, infeasibleReason: null, nProgramme, nComparison }, s);
 }

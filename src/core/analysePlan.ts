@@ -14,7 +14,7 @@ import { deriveCovariateModel, matchingDistance, usesCovariateModel } from './mu
 import { expectedCovariateBalance } from './multivariate/expectedCovariateBalance';
 import { unmeasuredBias } from './multivariate/unmeasuredBias';
 import { shareOfEffect } from './shareOfEffect';
-import { plannedAnalysisRecord } from './plannedAnalysisRecord';
+import { plannedAnalysisRecord, plannedInfeasibleRecord } from './plannedAnalysisRecord';
 import { isPlannedInfeasible, type PlannedProcedureEstimates } from './plannedProcedure';
 
 /** Default target power when the plan gives none (Cohen 1988's convention of .80). */
@@ -74,8 +74,10 @@ function withPlannedFigures(
   const out = { ...analyses };
   for (const id of ANALYSIS_IDS) {
     const f = planned.analyses[id];
-    if (!f || isPlannedInfeasible(f)) continue;
-    out[id] = plannedAnalysisRecord(analyses[id], f, m.effect, m.posttestSD.comparison, settings);
+    if (!f) continue;
+    out[id] = isPlannedInfeasible(f)
+      ? plannedInfeasibleRecord(analyses[id], f.reason, m.effect, m.posttestSD.comparison, settings)
+      : plannedAnalysisRecord(analyses[id], f, m.effect, m.posttestSD.comparison, settings);
   }
   return out;
 }
@@ -126,6 +128,7 @@ function analysisSettings(plan: Plan, matchedProgramme: number): AnalysisSetting
     targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
     ratio: plan.matching.ratio,
     matchedProgramme,
+    replacement: plan.matching.replacement,
   };
 }
 

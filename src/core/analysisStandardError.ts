@@ -1,6 +1,8 @@
 import type { AnalysisId } from './plan';
 import type { ModelParameters } from './modelParameters';
+import { adjustedDifferenceStandardError } from './adjustedDifferenceStandardError';
 import { formatNumber, requireReliability } from './inputChecks';
+import { welchSatterthwaiteDf } from './welchSatterthwaiteDf';
 
 /** Approximate sampling precision of one analysis for given sample sizes. */
 export interface StandardErrorResult {
@@ -32,16 +34,27 @@ export interface StandardErrorOptions {
  *   v_g = var(Y | X, g) = beta²·trueVar_g·(1 − rho_g) + residualVar (Kelley
  *   regression of T on X; the second term is the spread of the pair
  *   differences' means when the groups' reliabilities differ). Ignores the
- *   caliper's leftover X differences and partner re-use with replacement.
+ *   caliper's leftover X differences and partner re-use with replacement
+ *   (a comparison member used for several programme members makes the pair
+ *   differences correlated, so the SE is too small when reuse is common;
+ *   Abadie & Imbens 2006).
  *   `sizes.programme` is the number of matched programme members (values below
- *   2 are raised to 2 so the SE stays finite).
- * - ancova: pooled within-group residual variance σ² of Y about the pooled
- *   slope b = Σ(n_g−1)·beta·trueVar_g / Σ(n_g−1)·s_g²; SE² = σ²(1/n_P + 1/n_C + ΔX²/SS_X),
- *   df = n_P + n_C − 3 (standard ANCOVA variance of an adjusted difference; Cochran 1957, from memory).
- * - gainScore: pooled var(Y − X) = var(Y) + s² − 2·beta·trueVar per group;
- *   SE² = v(1/n_P + 1/n_C), df = n_P + n_C − 2 (two-sample t test).
- * - correctedAncova: estimate ΔȲ − (b/rho')ΔX̄; SE² = σ²_c(1/n_P + 1/n_C) + ΔX²·σ²/(rho'²·SS_X),
- *   σ²_c the pooled residual variance of Y − (b/rho')(X − X̄_g), σ² the ANCOVA one.
+ *   2 are raised to 2 so the SE stays finite; analyseAnalysis reports such a
+ *   matching as infeasible instead of using this figure).
+ * - gainScore: each group's own v_g = var(Y − X) = var(Y) + s_g² − 2·beta·trueVar_g;
+ *   SE² = v_P/n_P + v_C/n_C with the Welch–Satterthwaite df (Welch 1947). With
+ *   equal variances and equal n it is the pooled two-sample t (df 2n − 2).
+ * - ancova and correctedAncova: the estimate ΔȲ − c·b̂·ΔX̄, b̂ the pooled
+ *   within-group slope, c = 1 for ANCOVA and 1/rho' for the corrected ANCOVA
+ *   (Porter 1967). Delta-method variance (see adjustedDifferenceStandardError):
+ *   SE² ≈ Σ_g (varY_g − 2c·b*·cov_g + c²b*²·s_g²)/n_g + c²·ΔX²·Var(b̂),
+ *   Var(b̂) ≈ Σ_g (n_g − 1)(s_g²·r_g + d_g²)/SS_X², with b* = Σ(n_g − 1)cov_g / SS_X,
+ *   SS_X = Σ(n_g − 1)s_g², r_g = varY_g − 2b*cov_g + b*²s_g² (residual variance
+ *   about the pooled slope) and d_g = cov_g − b*·s_g². The first sum carries
+ *   the sampling variance of the group pretest means the correction multiplies
+ *   by c. df: Welch–Satterthwaite on the two group terms, minus 1 for the slope.
+ *   With equal group variances it is the pooled ANCOVA SE σ²(1/n_P + 1/n_C + ΔX²/SS_X)
+ *   (Cochran 1957, from memory), with df n_P + n_C − 3 when n_P = n_C.
  *
  * @param id analysis. @param m model parameters.
  * @param sizes programme and comparison sample sizes (≥ 2 each; for the matched
@@ -84,26 +97,20 @@ export function analysisStandardError(
         `Each group needs at least 2 people for this analysis; got ${formatNumber(nP)} and ${formatNumber(nC)}.`,
       );
     }
-    const wP = nP - 1;
-    const wC = nC - 1;
-    const pool = (a: number, c: number): number => (wP * a + wC * c) / (wP + wC);
-    const ssx = wP * sx2.P + wC * sx2.C;
-    const dx = m.pretestGap;
-    const b = (wP * cov.P + wC * cov.C) / ssx;
-    const resAbout = (slope: number): number =>
-      pool(varY.P - 2 * slope * cov.P + slope * slope * sx2.P, varY.C - 2 * slope * cov.C + slope * slope * sx2.C);
-    const sigma2 = resAbout(b);
-    const inv = 1 / nP + 1 / nC;
-    if (id === 'ancova') {
-      result = { se: Math.sqrt(sigma2 * (inv + (dx * dx) / ssx)), df: nP + nC - 3, nProgramme: nP, nComparison: nC };
-    } else if (id === 'gainScore') {
-      const v = pool(varY.P + sx2.P - 2 * cov.P, varY.C + sx2.C - 2 * cov.C);
-      result = { se: Math.sqrt(v * inv), df: nP + nC - 2, nProgramme: nP, nComparison: nC };
+    if (id === 'gainScore') {
+      // Welch (1947): each group's own var(Y − X) over its own n, Welch–Satterthwaite df.
+      const vP = (varY.P + sx2.P - 2 * cov.P) / nP;
+      const vC = (varY.C + sx2.C - 2 * cov.C) / nC;
+      const df = vP + vC > 0 ? welchSatterthwaiteDf([{ variance: vP, df: nP - 1 }, { variance: vC, df: nC - 1 }]) : nP + nC - 2;
+      result = { se: Math.sqrt(vP + vC), df, nProgramme: nP, nComparison: nC };
     } else {
-      const rhoA = requireReliability(options.assumedReliability, 'The assumed reliability for the corrected ANCOVA');
-      const sigma2c = resAbout(b / rhoA);
-      const se = Math.sqrt(sigma2c * inv + (dx * dx * sigma2) / (rhoA * rhoA * ssx));
-      result = { se, df: nP + nC - 3, nProgramme: nP, nComparison: nC };
+      const c =
+        id === 'ancova'
+          ? 1
+          : 1 / requireReliability(options.assumedReliability, 'The assumed reliability for the corrected ANCOVA');
+      const group = (g: 'P' | 'C', n: number) => ({ n, varY: varY[g], covXY: [cov[g]], covX: [[sx2[g]]] });
+      const { se, df } = adjustedDifferenceStandardError(group('P', nP), group('C', nC), [m.pretestGap], [[c]]);
+      result = { se, df, nProgramme: nP, nComparison: nC };
     }
   }
   if (!(result.se > 0) || !Number.isFinite(result.se)) {

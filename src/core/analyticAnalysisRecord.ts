@@ -18,13 +18,16 @@ export interface AnalysisInputs {
   tau: number;
   /** Comparison group's posttest SD, posttest points (> 0). */
   posttestSD: number;
-  /** Approximate SE and df of the estimate at the planned sizes, and those sizes. */
-  se: number;
-  df: number;
+  /**
+   * Approximate SE and df of the estimate at the planned sizes and the SE and df
+   * at n per group (for the required n); null when the analysis is not feasible.
+   */
+  precision: { se: number; df: number; design: DesignAtN } | null;
+  /** Sizes the SE assumes (expected matched counts for the matched difference). */
   nProgramme: number;
   nComparison: number;
-  /** SE and df at n per group, for the required n. */
-  design: DesignAtN;
+  /** Why the analysis cannot be carried out, or null when it can (precision is then non-null). */
+  infeasibleReason: string | null;
   /** The infinite-pool formula's estimate when `estimate` is from the planned procedure (default: estimate). */
   formulaEstimate?: number;
   /** Where the estimate comes from (default 'formula'). */
@@ -42,15 +45,19 @@ export interface AnalysisInputs {
  *
  * Reference: power — Cohen (1988), ch. 2 (noncentral t).
  *
+ * When the analysis is not feasible (a.precision null, a.infeasibleReason
+ * given) the record keeps the expected estimate, bias and verdict and gives
+ * null SE, df, power, error rates and required n.
+ *
  * @param a the analysis' inputs (see AnalysisInputs). @param s plan settings.
  * @returns an AnalyticAnalysis record.
- * @throws Error when a setting is out of range.
+ * @throws Error when a setting is out of range, or precision is null without a reason.
  * @example demo matched difference: estimate 0.5, tau 2.5 → bias −2, biasShare −0.8, verdict 'hides'
  */
 export function analyticAnalysisRecord(a: AnalysisInputs, s: AnalysisSettings): AnalyticAnalysis {
-  const { estimate, tau, se, df } = a;
+  const { estimate, tau } = a;
   const bias = estimate - tau;
-  return {
+  const base = {
     id: a.id,
     name: a.name,
     assumption: a.assumption,
@@ -62,6 +69,29 @@ export function analyticAnalysisRecord(a: AnalysisInputs, s: AnalysisSettings): 
     biasSD: bias / a.posttestSD,
     biasShare: shareOfEffect(bias, tau),
     verdict: classifyArtefact(tau, bias, s.tolerableBiasShare),
+  };
+  if (a.precision === null) {
+    if (!a.infeasibleReason) throw new Error(`The ${a.name} has no standard error, and no reason was given.`);
+    return {
+      ...base,
+      feasible: false,
+      infeasibleReason: a.infeasibleReason,
+      se: null,
+      df: null,
+      nProgramme: a.nProgramme,
+      nComparison: a.nComparison,
+      power: null,
+      powerWithoutBias: null,
+      falsePositiveRate: null,
+      wrongSignRate: null,
+      requiredNPerGroup: null,
+    };
+  }
+  const { se, df, design } = a.precision;
+  return {
+    ...base,
+    feasible: true,
+    infeasibleReason: null,
     se,
     df,
     nProgramme: a.nProgramme,
@@ -70,6 +100,6 @@ export function analyticAnalysisRecord(a: AnalysisInputs, s: AnalysisSettings): 
     powerWithoutBias: twoSidedPower(tau, se, df, s.alpha),
     falsePositiveRate: falsePositiveRate(bias, se, df, s.alpha),
     wrongSignRate: wrongSignRate(tau, bias, se, df, s.alpha),
-    requiredNPerGroup: requiredNPerGroup(estimate, tau, a.design, s.alpha, s.targetPower),
+    requiredNPerGroup: requiredNPerGroup(estimate, tau, design, s.alpha, s.targetPower),
   };
 }

@@ -39,21 +39,32 @@ export interface AnalyticAnalysis {
   /** bias / tau; null when tau = 0. */
   biasShare: number | null;
   verdict: ArtefactVerdict;
-  /** Standard error of the estimate for the planned sample, points (the one the analysis should report). */
-  se: number;
-  df: number;
-  /** Sample sizes the SE assumes (programme, comparison). */
+  /**
+   * Whether the analysis can be carried out with the planned pools. Only the
+   * matched difference can be infeasible: when fewer than 2 programme members
+   * are expected to find a partner. Then se, df, power, powerWithoutBias,
+   * falsePositiveRate, wrongSignRate and requiredNPerGroup are null; the
+   * expected estimate and bias (what matching would do with unlimited pools) remain.
+   */
+  feasible: boolean;
+  /** Plain-English reason and what to change, when not feasible; null otherwise. */
+  infeasibleReason: string | null;
+  /** Approximate standard error of the estimate for the planned sample, points; null when not feasible. */
+  se: number | null;
+  /** Degrees of freedom of the t test (Welch–Satterthwaite for the full-sample analyses; may be fractional); null when not feasible. */
+  df: number | null;
+  /** Sample sizes the SE assumes (programme, comparison); for the matched difference the expected matched counts (may be below 2 when not feasible). */
   nProgramme: number;
   nComparison: number;
-  /** P(p < alpha) when the true effect is tau and the bias is as above. */
-  power: number;
-  /** Power the same design would have with no bias. */
-  powerWithoutBias: number;
-  /** P(p < alpha) when the programme does nothing (tau = 0) but the bias remains. */
-  falsePositiveRate: number;
-  /** P(significant with the sign opposite to the hoped-for effect); null when tau = 0. */
+  /** P(p < alpha) when the true effect is tau and the bias is as above; null when not feasible. */
+  power: number | null;
+  /** Power the same design would have with no bias; null when not feasible. */
+  powerWithoutBias: number | null;
+  /** P(p < alpha) when the programme does nothing (tau = 0) but the bias remains; null when not feasible. */
+  falsePositiveRate: number | null;
+  /** P(significant with the sign opposite to the hoped-for effect); null when tau = 0 or not feasible. */
   wrongSignRate: number | null;
-  /** Per-group n for the plan's target power given tau + bias; null when unreachable. */
+  /** Per-group n for the plan's target power given tau + bias; null when unreachable or not feasible. */
   requiredNPerGroup: number | null;
 }
 

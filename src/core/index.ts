@@ -23,6 +23,9 @@ export {
   type StandardErrorResult,
   type StandardErrorOptions,
 } from './analysisStandardError';
+export { adjustedDifferenceStandardError, type GroupMoments } from './adjustedDifferenceStandardError';
+export { welchSatterthwaiteDf } from './welchSatterthwaiteDf';
+export { matchedDifferenceFeasibility, MIN_MATCHED_PROGRAMME } from './matchedDifferenceFeasibility';
 export { normalCdf, normalPdf, normalQuantile, studentTCdf, studentTQuantile, noncentralTCdf } from './distributions';
 export { twoSidedPower, falsePositiveRate, wrongSignRate } from './power';
 export { requiredNPerGroup, type DesignAtN } from './requiredNPerGroup';
@@ -42,7 +45,7 @@ export { ANALYSIS_DESCRIPTIONS } from './analysisDescriptions';
 export { analyseAnalysis, type AnalysisSettings } from './analyseAnalysis';
 export { analysePlan, DEFAULT_TARGET_POWER } from './analysePlan';
 export { assertFiniteOutput } from './assertFiniteOutput';
-export { formatNumber } from './inputChecks';
+export { formatApart, formatNumber } from './inputChecks';
 export { PLANNING_CAUTION } from './planningCaution';
 // Several covariates (pretest first), each with its own reliability; matching distances; the unmeasured part.
 export {

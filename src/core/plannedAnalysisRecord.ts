@@ -50,14 +50,58 @@ export function plannedAnalysisRecord(
       estimate: planned.meanEstimate,
       tau,
       posttestSD,
-      se: planned.se,
-      df: Math.max(1, n - 1),
+      precision: {
+        se: planned.se,
+        df: Math.max(1, n - 1),
+        design: (size: number) => ({ se: perMember / Math.sqrt(size), df: Math.max(1, size - 1) }),
+      },
+      infeasibleReason: null,
       nProgramme: n,
       nComparison: planned.nComparison,
-      design: (size: number) => ({ se: perMember / Math.sqrt(size), df: Math.max(1, size - 1) }),
       formulaEstimate: formula.formulaEstimate,
       basis: 'planned-procedure',
       estimateMCSE: planned.meanEstimateMCSE,
+    },
+    s,
+  );
+}
+
+/**
+ * One analysis' record when the quick simulation of the planned procedure
+ * could not compute it (nobody, or almost nobody, found a partner): not
+ * feasible, with the simulation's reason; the formula's estimate, bias and
+ * verdict stay (what matching would do with unlimited pools), and SE, power,
+ * error rates and required n are null.
+ *
+ * @param formula the closed-form record. @param reason plain-English reason from the engine.
+ * @param tau hoped-for effect, points. @param posttestSD comparison posttest SD (> 0). @param s plan settings.
+ * @returns the AnalyticAnalysis with feasible false.
+ * @throws Error when a setting is out of range.
+ * @example a caliper nobody meets → feasible false, power null, the reason names the caliper
+ */
+export function plannedInfeasibleRecord(
+  formula: AnalyticAnalysis,
+  reason: string,
+  tau: number,
+  posttestSD: number,
+  s: AnalysisSettings,
+): AnalyticAnalysis {
+  if (!formula.feasible) return formula; // the closed form already says why
+  return analyticAnalysisRecord(
+    {
+      id: formula.id,
+      name: formula.name,
+      assumption: formula.assumption,
+      estimate: formula.expectedEstimate,
+      tau,
+      posttestSD,
+      precision: null,
+      infeasibleReason: reason,
+      nProgramme: formula.nProgramme,
+      nComparison: formula.nComparison,
+      formulaEstimate: formula.formulaEstimate,
+      basis: 'formula',
+      estimateMCSE: null,
     },
     s,
   );

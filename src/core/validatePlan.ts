@@ -1,6 +1,7 @@
 import type { Plan } from './plan';
 import { FIELD_RULES, type FieldRule, PLAN_FORMAT, PLAN_LIMITS, PLAN_VERSION, planSchema } from './planSchema';
 import { type CovariateCheckInput, covariateModelProblems } from './multivariate/covariateModelProblems';
+import { formatApart } from './inputChecks';
 
 /** One thing wrong with a plan: the field (dotted path) and a message a researcher understands. */
 export interface PlanProblem {
@@ -164,9 +165,10 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
     ];
     for (const [who, sd] of groups) {
       if (sd !== undefined && !(sem < sd)) {
+        const [semText, sdText] = formatApart(sem, sd);
         out.push({
           field: semField,
-          message: `The pretest's SEM must be smaller than each group's pretest SD, or the pretest would measure nothing but error in that group; got an SEM of ${fmt(sem)} points${semFrom} against the ${who} group's pretest SD of ${fmt(sd)}.`,
+          message: `The pretest's SEM must be smaller than each group's pretest SD, or the pretest would measure nothing but error in that group; got an SEM of ${semText} points${semFrom} against the ${who} group's pretest SD of ${sdText}.`,
         });
       }
     }
@@ -176,9 +178,11 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
   // A correlation with a fallible pretest cannot exceed the root of its reliability.
   const r = ok('outcome.prePostCorrelation');
   if (r !== undefined && rhoC !== undefined && r * r > rhoC + 1e-12) {
+    // Enough digits that the limit and the value never print alike (e.g. 0.866 vs 0.8663).
+    const [limit, , got] = formatApart(Math.sqrt(rhoC), Math.abs(r), r);
     out.push({
       field: 'outcome.prePostCorrelation',
-      message: `Pre–post correlation must be at most ${fmt(Math.sqrt(rhoC))} in size with this pretest: a correlation with a fallible pretest cannot exceed the square root of its within-group reliability (${fmt(rhoC)} in the comparison group); got ${fmt(r)}.`,
+      message: `Pre–post correlation must be at most ${limit} in size with this pretest: a correlation with a fallible pretest cannot exceed the square root of its within-group reliability (${fmt(rhoC)} in the comparison group); got ${got}.`,
     });
   }
 
@@ -187,7 +191,7 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
   if (effect !== undefined && valueAt(input, 'outcome.effectScale') === 'sd' && Math.abs(effect) > PLAN_LIMITS.effectSDMax) {
     out.push({
       field: 'outcome.hypothesisedEffect',
-      message: `Hypothesised effect in posttest-SD units must be between -${PLAN_LIMITS.effectSDMax} and ${PLAN_LIMITS.effectSDMax}; got ${fmt(effect)}. If it is in posttest points, set the effect scale to "points".`,
+      message: `Hypothesised effect in posttest-SD units must be between -${PLAN_LIMITS.effectSDMax} and ${PLAN_LIMITS.effectSDMax}; got ${formatApart(-PLAN_LIMITS.effectSDMax, PLAN_LIMITS.effectSDMax, effect)[2]}. If it is in posttest points, set the effect scale to "points".`,
     });
   }
 
@@ -210,7 +214,7 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
   ) {
     out.push({
       field: 'matching.caliper',
-      message: `With a random partner within the caliper, the caliper must be at most ${PLAN_LIMITS.randomCaliperMax} SDs of the pretest, or partners are barely matched at all; got ${fmt(caliper)}.`,
+      message: `With a random partner within the caliper, the caliper must be at most ${PLAN_LIMITS.randomCaliperMax} SDs of the pretest, or partners are barely matched at all; got ${formatApart(PLAN_LIMITS.randomCaliperMax, caliper)[1]}.`,
     });
   }
 

@@ -183,18 +183,24 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       row('Verdict', (id) => VERDICT_LABEL[A[id].verdict]),
       row('Standard error (points)', (id) => formatPoints(A[id].se)),
       row('Sample sizes assumed (programme / comparison)', (id) => `${formatCount(A[id].nProgramme)} / ${formatCount(A[id].nComparison)}`),
-      row('Power', (id) => formatProbability(A[id].power)),
-      row('Power if there were no bias', (id) => formatProbability(A[id].powerWithoutBias)),
-      row('False-positive rate if the programme does nothing', (id) => formatProbability(A[id].falsePositiveRate)),
-      row('Wrong-sign rate (significant, opposite sign)', (id) => (A[id].wrongSignRate === null ? 'no effect hoped for' : formatProbability(A[id].wrongSignRate))),
+      row('Power', (id) => (A[id].feasible ? formatProbability(A[id].power) : 'not feasible')),
+      row('Power if there were no bias', (id) => (A[id].feasible ? formatProbability(A[id].powerWithoutBias) : 'not feasible')),
+      row('False-positive rate if the programme does nothing', (id) => (A[id].feasible ? formatProbability(A[id].falsePositiveRate) : 'not feasible')),
+      row('Wrong-sign rate (significant, opposite sign)', (id) =>
+        !A[id].feasible ? 'not feasible' : A[id].wrongSignRate === null ? 'no effect hoped for' : formatProbability(A[id].wrongSignRate),
+      ),
       row(`Per-group n for ${formatShare(plan.analysis.targetPower ?? 0.8)} power`, (id) =>
-        A[id].requiredNPerGroup === null ? 'not reachable' : formatCount(A[id].requiredNPerGroup),
+        !A[id].feasible ? 'not feasible' : A[id].requiredNPerGroup === null ? 'not reachable' : formatCount(A[id].requiredNPerGroup),
       ),
     ],
     { boldRows: [2], boldFirstColumn: true },
   );
   for (const id of ANALYSIS_IDS) {
     w.paragraph(`${A[id].name}, assumption: ${A[id].assumption}`, { size: 8.5, muted: true, after: 2 });
+  }
+  for (const id of ANALYSIS_IDS) {
+    const reason = A[id].infeasibleReason;
+    if (!A[id].feasible && reason !== null) w.note(`${A[id].name}, not feasible: ${reason}`);
   }
   w.gap(6);
   writeUnmeasuredPart(w, plan, analytic);

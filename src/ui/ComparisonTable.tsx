@@ -92,6 +92,11 @@ export function ComparisonTable() {
                     {a.name}
                     <span className="row-verdict">{verdictWords(a.verdict).short}</span>
                     <span className="assumption">{a.assumption}</span>
+                    {!a.feasible && (
+                      <span className="infeasible-reason" data-testid={`infeasible-${a.id}`}>
+                        Not feasible: {a.infeasibleReason}
+                      </span>
+                    )}
                   </th>
                   <td>
                     {fmtSigned(a.bias)}
@@ -115,7 +120,7 @@ export function ComparisonTable() {
                     )}
                   </td>
                   <td>
-                    {a.wrongSignRate === null ? 'n/a (no effect)' : fmtPct(a.power, 0)}
+                    {!a.feasible ? '—' : a.wrongSignRate === null ? 'n/a (no effect)' : fmtPct(a.power, 0)}
                     {s && !tauZero && (
                       <>
                         <br />
@@ -124,7 +129,7 @@ export function ComparisonTable() {
                     )}
                   </td>
                   <td>
-                    {a.wrongSignRate === null ? 'n/a' : fmtPct(a.wrongSignRate)}
+                    {!a.feasible ? '—' : a.wrongSignRate === null ? 'n/a' : fmtPct(a.wrongSignRate)}
                     {s && !tauZero && (
                       <>
                         <br />

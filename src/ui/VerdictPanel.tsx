@@ -118,18 +118,26 @@ export function VerdictPanel() {
           )}
           .
         </li>
-        <li>
-          If the programme did nothing, a matched comparison would be significant in <strong data-testid="verdict-fpr">{fmtPct(m.falsePositiveRate)}</strong>{' '}
-          of studies (the nominal rate is {alphaPct}).
-        </li>
-        {!tauZero && (
-          <li>
-            Power to detect the hoped-for effect: <strong data-testid="verdict-power">{fmtPct(m.power, 0)}</strong> with the artefact,{' '}
-            {fmtPct(m.powerWithoutBias, 0)} without it
-            {m.wrongSignRate !== null && m.wrongSignRate >= 0.001 && (
-              <>; chance of a significant result in the wrong direction {fmtPct(m.wrongSignRate)}</>
+        {m.feasible ? (
+          <>
+            <li>
+              If the programme did nothing, a matched comparison would be significant in <strong data-testid="verdict-fpr">{fmtPct(m.falsePositiveRate)}</strong>{' '}
+              of studies (the nominal rate is {alphaPct}).
+            </li>
+            {!tauZero && (
+              <li>
+                Power to detect the hoped-for effect: <strong data-testid="verdict-power">{fmtPct(m.power, 0)}</strong> with the artefact,{' '}
+                {fmtPct(m.powerWithoutBias, 0)} without it
+                {m.wrongSignRate !== null && m.wrongSignRate >= 0.001 && (
+                  <>; chance of a significant result in the wrong direction {fmtPct(m.wrongSignRate)}</>
+                )}
+                .
+              </li>
             )}
-            .
+          </>
+        ) : (
+          <li data-testid="verdict-infeasible">
+            <strong>The planned matching is not feasible.</strong> {m.infeasibleReason}
           </li>
         )}
         <li>

@@ -17,6 +17,11 @@ const variants: [string, (p: Plan) => void][] = [
     p.outcome.effectScale = 'sd';
     p.outcome.hypothesisedEffect = 0.3;
   }],
+  ['groups 6 SDs apart, caliper 0.05: the matched difference is not feasible (no SE, so no range)', (p) => {
+    p.groups.programme.pretestMean = 20;
+    p.groups.comparison.pretestMean = 80;
+    p.matching.caliper = 0.05;
+  }],
   ['1:3 matching with replacement, tiny comparison pool', (p) => {
     p.matching = { ...p.matching, ratio: 3, replacement: true };
     p.groups.comparison.poolSize = 20;

@@ -15,8 +15,9 @@ describe('estimatesChartData', () => {
     for (const r of d.rows) {
       const a = input.analytic.analyses[r.id];
       expect(r.expected).toBe(a.expectedEstimate);
-      expect(r.interval.lower).toBeCloseTo(a.expectedEstimate - z * a.se, 9);
-      expect(r.interval.upper).toBeCloseTo(a.expectedEstimate + z * a.se, 9);
+      expect(a.se).not.toBeNull();
+      expect(r.interval?.lower).toBeCloseTo(a.expectedEstimate - z * a.se!, 9);
+      expect(r.interval?.upper).toBeCloseTo(a.expectedEstimate + z * a.se!, 9);
       expect(r.bins).toBeNull();
     }
     // The drawn range shows zero and the hoped-for effect (2.5 in the invented demo plan).

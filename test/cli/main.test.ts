@@ -58,7 +58,7 @@ describe('meanward run (table)', () => {
         fmtPoints(a.bias),
         fmtSD(a.biasSD),
         fmtPercent(a.biasShare),
-        fmtPoints(a.se),
+        fmtPoints(a.se!),
         fmtPercent(a.power),
         fmtPercent(a.falsePositiveRate),
         a.nProgramme.toFixed(0),
@@ -193,5 +193,44 @@ describe('the installed entry point', () => {
     expect(bad.status).toBe(2);
     expect(bad.stdout).toBe('');
     expect(bad.stderr).toContain('Unknown command "frobnicate"');
+  });
+});
+
+describe('a plan whose matching nobody survives (invented: groups 6 SDs apart, caliper 0.05)', () => {
+  const unmatchableFile = (): string => {
+    const p = demoPlan();
+    p.groups.programme.pretestMean = 20;
+    p.groups.comparison.pretestMean = 80;
+    p.matching.caliper = 0.05;
+    const file = join(dir, 'unmatchable.json');
+    writeFileSync(file, serializePlan(p));
+    return file;
+  };
+  it('node bin/meanward.mjs run plan.json --no-sim --json exits 0; the matched difference is not feasible, the others finite', () => {
+    const file = unmatchableFile();
+    const r = spawnSync(process.execPath, [join(root, 'bin', 'meanward.mjs'), 'run', file, '--no-sim', '--json'], { cwd: root, encoding: 'utf8' });
+    expect(r.status).toBe(0);
+    const out = JSON.parse(r.stdout);
+    const md = out.analytic.analyses.matchedDifference;
+    expect(md.feasible).toBe(false);
+    expect(md.infeasibleReason).toMatch(/widen the caliper/);
+    expect(md.power).toBeNull();
+    expect(md.falsePositiveRate).toBeNull();
+    expect(md.requiredNPerGroup).toBeNull();
+    for (const id of ['ancova', 'gainScore', 'correctedAncova']) {
+      const a = out.analytic.analyses[id];
+      expect(a.feasible).toBe(true);
+      for (const key of ['se', 'df', 'power', 'falsePositiveRate']) expect(Number.isFinite(a[key]), `${id}.${key}`).toBe(true);
+    }
+  });
+  it('the table shows a dash for its power and false-positive rate and prints the reason', async () => {
+    const file = unmatchableFile();
+    const r = await run(['run', file, '--no-sim']);
+    expect(r.code).toBe(0);
+    const name = analysePlannedProcedure(demoPlan()).analyses.matchedDifference.name;
+    const row = r.stdout.split('\n').find((l) => l.startsWith(name))!;
+    // SE, power and false-positive rate are dashes; the last column is the expected programme n.
+    expect(row.trim().split(/\s{2,}/).slice(-4, -1)).toEqual(['—', '—', '—']);
+    expect(r.stdout).toContain(`  ${name}: not feasible. `);
   });
 });

@@ -270,3 +270,19 @@ describe('PDF summary of a plan with values from a pilot file', () => {
     expect(all).not.toContain('Pretest reliability (as published)');
   });
 });
+
+describe('PDF summary of a plan whose matching nobody survives (invented: groups 6 SDs apart, caliper 0.05)', () => {
+  it('says the matched difference is not feasible and gives its reason instead of power', async () => {
+    const plan = demoPlan();
+    plan.groups.programme.pretestMean = 20;
+    plan.groups.comparison.pretestMean = 80;
+    plan.matching.caliper = 0.05;
+    const analytic = analysePlan(plan);
+    const text = await readPdfText(
+      await buildReportPdf({ plan, analytic, simulation: null, charts: reportCharts(plan, analytic, null), appVersion: '0.1.0', generatedAt: GENERATED, fonts: TEST_FONTS }),
+    );
+    const all = flat(text);
+    expect(all).toContain('not feasible');
+    expect(all).toContain(`${analytic.analyses.matchedDifference.name}, not feasible: About 0.3 of the 180 programme members`);
+  });
+});

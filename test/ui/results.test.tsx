@@ -2,6 +2,7 @@
 import { act, fireEvent, screen, waitFor, within } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it, vi } from 'vitest';
+import { demoPlan } from '../../src/io/demoPlan';
 import { controlledRunner } from '../state/helpers';
 import { renderApp } from './renderApp';
 
@@ -120,5 +121,23 @@ describe('auto-run', () => {
     } finally {
       vi.useRealTimers();
     }
+  });
+});
+
+describe('results panel with a matching nobody survives', () => {
+  it('shows the reason in the verdict and dashes for the matched difference in the table (invented plan: groups 6 SDs apart, caliper 0.05)', () => {
+    const { store, container } = renderApp();
+    const plan = demoPlan();
+    plan.groups.programme.pretestMean = 20;
+    plan.groups.comparison.pretestMean = 80;
+    plan.matching.caliper = 0.05;
+    act(() => store.getState().replacePlan(plan));
+    expect(screen.getByTestId('verdict-infeasible')).toHaveTextContent(/not feasible.*widen the caliper/);
+    expect(screen.queryByTestId('verdict-power')).toBeNull();
+    const row = container.querySelector('tr[data-analysis="matchedDifference"]') as HTMLElement;
+    expect(within(row).getByTestId('infeasible-matchedDifference')).toHaveTextContent(/^Not feasible: /);
+    const cells = row.querySelectorAll('td');
+    // False-positive rate, power and wrong-sign rate columns (the last three) show a dash.
+    expect([...cells].slice(-3).map((c) => c.textContent)).toEqual(['—', '—', '—']);
   });
 });

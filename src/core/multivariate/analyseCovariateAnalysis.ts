@@ -2,6 +2,7 @@ import type { AnalyticAnalysis } from '../analyticResults';
 import type { AnalysisSettings } from '../analyseAnalysis';
 import type { AnalysisId, MatchingDistance } from '../plan';
 import { analyticAnalysisRecord } from '../analyticAnalysisRecord';
+import { matchedDifferenceFeasibility } from '../matchedDifferenceFeasibility';
 import type { CovariateModel } from './covariateModel';
 import { covariateAnalysisDescription } from './covariateAnalysisDescription';
 import { covariateExpectedEstimate } from './covariateExpectedEstimate';
@@ -16,7 +17,10 @@ import { covariateStandardError } from './covariateStandardError';
  * ANCOVA on all measured variables.
  *
  * Reference: covariateExpectedEstimate and covariateStandardError (computed);
- * power — Cohen (1988), ch. 2.
+ * power — Cohen (1988), ch. 2. The required n uses the same SE forms at n per
+ * group. As analyseAnalysis, the matched difference is not feasible (null SE,
+ * power, error rates, required n; a reason) when fewer than 2 programme
+ * members are expected to be matched; its SE ignores partner reuse.
  *
  * @param id analysis. @param cm covariate model. @param distance matching distance.
  * @param s settings (see AnalysisSettings; matchedProgramme from covariateMatchedShare).
@@ -33,6 +37,18 @@ export function analyseCovariateAnalysis(
   const tau = cm.effect;
   const estimate = covariateExpectedEstimate(id, cm, distance, s.assumedReliability);
   const options = { assumedReliability: s.assumedReliability, ratio: s.ratio };
+  const { name, assumption } = covariateAnalysisDescription(id, distance);
+  const common = { id, name, assumption, estimate, tau, posttestSD: cm.posttestSD.comparison };
+  if (id === 'matchedDifference') {
+    const reason = matchedDifferenceFeasibility(s.matchedProgramme, cm.n.programme, s);
+    if (reason !== null) {
+      const matched = Math.max(0, s.matchedProgramme);
+      return analyticAnalysisRecord(
+        { ...common, precision: null, infeasibleReason: reason, nProgramme: matched, nComparison: matched * s.ratio },
+        s,
+      );
+    }
+  }
   const sizes =
     id === 'matchedDifference'
       ? { programme: s.matchedProgramme, comparison: s.matchedProgramme * s.ratio }
@@ -42,7 +58,5 @@ export function analyseCovariateAnalysis(
   const minN = id === 'matchedDifference' || id === 'gainScore' ? 2 : Math.ceil((cm.measuredIndices.length + 3) / 2);
   const design = (n: number) =>
     covariateStandardError(id, cm, distance, { programme: Math.max(n, minN), comparison: Math.max(n, minN) }, options);
-  const { name, assumption } = covariateAnalysisDescription(id, distance);
-  const inputs = { id, name, assumption, estimate, tau, posttestSD: cm.posttestSD.comparison, se, df, nProgramme, nComparison, design };
-  return analyticAnalysisRecord(inputs, s);
+  return analyticAnalysisRecord({ ...common, precision: { se, df, design }, infeasibleReason: null, nProgramme, nComparison }, s);
 }

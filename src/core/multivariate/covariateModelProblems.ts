@@ -1,7 +1,7 @@
 import type { ModelParameters } from '../modelParameters';
 import type { Plan } from '../plan';
 import type { PlanProblem } from '../validatePlan';
-import { formatNumber } from '../inputChecks';
+import { formatApart, formatNumber } from '../inputChecks';
 import { block, dot, isPositiveDefinite, pick, range, solvePositiveDefinite } from './linearAlgebra';
 
 /**
@@ -104,7 +104,7 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
     if (c.exact === true && c.measured !== false && c.reliability !== undefined && c.reliability < 1) {
       out.push({
         field: `covariates.${j}.reliability`,
-        message: `${label} is matched exactly, so it must be recorded without error: its reliability must be 1; got ${fmt(c.reliability)}.`,
+        message: `${label} is matched exactly, so it must be recorded without error: its reliability must be 1; got ${formatApart(1, c.reliability)[1]}.`,
       });
     }
     if (c.name !== undefined) {
@@ -166,7 +166,7 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
       entriesOk = false;
       out.push({
         field: `covariateCorrelations.${i}.${i}`,
-        message: `The correlation of ${name(i)} with itself (row ${i + 1}, column ${i + 1}) must be 1; got ${fmt(d)}.`,
+        message: `The correlation of ${name(i)} with itself (row ${i + 1}, column ${i + 1}) must be 1; got ${formatApart(1, d)[1]}.`,
       });
     }
     for (let j = i + 1; j < p; j++) {
@@ -176,7 +176,7 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
         entriesOk = false;
         out.push({
           field: `covariateCorrelations.${i}.${j}`,
-          message: `The correlation between ${name(i)} and ${name(j)} must be the same in row ${i + 1}, column ${j + 1} and in row ${j + 1}, column ${i + 1}; got ${fmt(a)} and ${fmt(b)}.`,
+          message: `The correlation between ${name(i)} and ${name(j)} must be the same in row ${i + 1}, column ${j + 1} and in row ${j + 1}, column ${i + 1}; got ${formatApart(a, b).join(' and ')}.`,
         });
       }
     }
@@ -299,7 +299,7 @@ function impossibleObservedMessage(s: number[], R: number[][], name: (i: number)
   if (s.length === 2) {
     const [a, b] = s as [number, number];
     return (
-      `The correlation between ${name(a)} and ${name(b)} is ${fmt(R[a]![b]!)}: two different variables cannot be perfectly ` +
+      `The correlation between ${name(a)} and ${name(b)} is ${formatApart(1, Math.abs(R[a]![b]!), R[a]![b]!)[2]}: two different variables cannot be perfectly ` +
       'correlated within groups (one would merely repeat the other). Drop one of them or check the value.'
     );
   }
@@ -311,9 +311,10 @@ function impossibleObservedMessage(s: number[], R: number[][], name: (i: number)
     const rab = R[a]![b]!;
     const rac = R[a]![c]!;
     const half = Math.sqrt((1 - rab * rab) * (1 - rac * rac));
+    const [low, high, got] = formatApart(rab * rac - half, rab * rac + half, R[b]![c]!);
     return (
       `${head} Given the other two, the correlation between ${name(b)} and ${name(c)} must lie between ` +
-      `${fmt(rab * rac - half)} and ${fmt(rab * rac + half)}; got ${fmt(R[b]![c]!)}.`
+      `${low} and ${high}; got ${got}.`
     );
   }
   return `${head} Every smaller set of them is possible, so check these correlations together.`;
@@ -333,7 +334,7 @@ function tooUnreliableMessage(
     const r = R[a]![b]!;
     return (
       `The observed correlation between ${name(a)} and ${name(b)} (${fmt(r)}) is too high for their reliabilities ` +
-      `(${reliabilities}): corrected for measurement error it would be ${fmt(r / Math.sqrt(rel[a]! * rel[b]!))}, beyond 1 in size. ` +
+      `(${reliabilities}): corrected for measurement error it would be ${formatApart(1, Math.abs(r / Math.sqrt(rel[a]! * rel[b]!)), r / Math.sqrt(rel[a]! * rel[b]!))[2]}, beyond 1 in size. ` +
       'Raise the reliabilities or check the correlation.'
     );
   }
@@ -355,9 +356,10 @@ function outcomeTooHighMessage(
 ): string {
   if (s.length === 1) {
     const i = s[0]!;
+    const [got, , limit] = formatApart(r[i]!, Math.abs(r[i]!), Math.sqrt(rel[i]!));
     return (
-      `${Name(i)}'s correlation with the outcome (${fmt(r[i]!)}) is too high for its reliability (${fmt(rel[i]!)}): ` +
-      `an observed correlation cannot exceed the square root of the reliability (${fmt(Math.sqrt(rel[i]!))}) in size.`
+      `${Name(i)}'s correlation with the outcome (${got}) is too high for its reliability (${fmt(rel[i]!)}): ` +
+      `an observed correlation cannot exceed the square root of the reliability (${limit}) in size.`
     );
   }
   return (

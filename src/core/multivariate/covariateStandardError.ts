@@ -3,6 +3,8 @@ import type { StandardErrorOptions, StandardErrorResult } from '../analysisStand
 import { formatNumber, requireReliability } from '../inputChecks';
 import type { CovariateModel } from './covariateModel';
 import { matchingScoreWeights } from './covariateMatchedEstimate';
+import { adjustedDifferenceStandardError } from '../adjustedDifferenceStandardError';
+import { welchSatterthwaiteDf } from '../welchSatterthwaiteDf';
 import { block, dot, multiplyVector, pick, solvePositiveDefinite, subtract } from './linearAlgebra';
 
 /**
@@ -19,17 +21,23 @@ import { block, dot, multiplyVector, pick, solvePositiveDefinite, subtract } fro
  *   and s = (B_P − B_C)(A Sigma_X,P A')(B_P − B_C)' with B_g = beta'Sigma_T,g A'(A Sigma_X,g A')^-1
  *   (the spread of the pairs' expected differences when the groups' regressions
  *   on Z differ). Ignores the caliper's leftover differences and partner
- *   re-use with replacement. With the pretest only it is the one-pretest formula.
- * - ancova (all measured m): W = Σ_g (n_g − 1) Sigma_X,g[m, m], pooled slopes
- *   b = W^-1 Σ_g (n_g − 1) Sigma_T,g[m, :] beta, σ² the pooled residual variance
- *   about b; SE² = σ²(1/n_P + 1/n_C + ΔX[m]' W^-1 ΔX[m]), df = n_P + n_C − 2 − |m|
- *   (the variance of an adjusted mean difference with several covariates;
- *   Cochran 1957, from memory).
- * - gainScore: as the one-pretest formula, with var(Y) and cov(X_0, Y) from the covariate model.
+ *   re-use with replacement (reused partners make pair differences
+ *   correlated, so the SE is too small when reuse is common; Abadie & Imbens 2006). With the pretest only it is the one-pretest formula.
+ * - ancova (all measured m): the delta-method variance of ΔȲ − b̂'ΔX̄[m] with
+ *   b̂ the pooled within-group slopes (weights n_g − 1), each group's own
+ *   residual variance about the pooled slopes over its own n, plus
+ *   ΔX[m]'Var(b̂)ΔX[m]; df Welch–Satterthwaite on the two group terms minus |m|
+ *   (adjustedDifferenceStandardError with M = I). With the same covariance
+ *   matrices in both groups it is the pooled σ²(1/n_P + 1/n_C + ΔX[m]' W^-1 ΔX[m])
+ *   (Cochran 1957, from memory).
+ * - gainScore: Welch (1947), v_P/n_P + v_C/n_C with v_g = var(Y − X_0) from the
+ *   covariate model and the Welch–Satterthwaite df.
  * - correctedAncova: slopes b~ = M b with M = Sigma_T'^-1 S_X (S_X the pooled
  *   observed covariance, Sigma_T' = S_X with its diagonal times the assumed
- *   reliabilities); SE² = σ_c²(1/n_P + 1/n_C) + σ² (M'ΔX)' W^-1 (M'ΔX),
- *   σ_c² the pooled residual variance of Y − b~'(X[m] − X̄_g[m]); df as ANCOVA.
+ *   reliabilities); the same delta-method variance with that M, so the group
+ *   means the correction multiplies by M are included. M is treated as known
+ *   (its own sampling variation through S_X is ignored; with the pretest alone
+ *   M = 1/rho' exactly). Estimator: Porter (1967).
  *
  * @param id analysis. @param cm covariate model. @param distance matching distance.
  * @param sizes programme and comparison sample sizes (matched programme members
@@ -81,39 +89,30 @@ export function covariateStandardError(
         `Each group needs at least 2 people, and together more than the ${m.length} adjusted variable${m.length === 1 ? '' : 's'} plus 2, for this analysis; got ${formatNumber(nP)} and ${formatNumber(nC)}.`,
       );
     }
-    const wP = nP - 1;
-    const wC = nC - 1;
-    const pool = (x: number, y: number): number => (wP * x + wC * y) / (wP + wC);
-    const sxm = { P: block(sX.P, m, m), C: block(sX.C, m, m) };
-    const cxy = { P: pick(tb.P, m), C: pick(tb.C, m) }; // cov(X[m], Y) per group
-    const W = sxm.P.map((row, i) => row.map((x, j) => wP * x + wC * (sxm.C[i]![j] as number)));
-    const wxy = cxy.P.map((x, i) => wP * x + wC * (cxy.C[i] as number));
-    const b = solvePositiveDefinite(W, wxy);
-    const resAbout = (slope: number[]): number =>
-      pool(
-        varY.P - 2 * dot(slope, cxy.P) + dot(slope, multiplyVector(sxm.P, slope)),
-        varY.C - 2 * dot(slope, cxy.C) + dot(slope, multiplyVector(sxm.C, slope)),
-      );
-    const sigma2 = resAbout(b);
-    const inv = 1 / nP + 1 / nC;
+    const group = (g: 'P' | 'C', n: number) => ({ n, varY: varY[g], covXY: pick(tb[g], m), covX: block(sX[g], m, m) });
+    const moments = { P: group('P', nP), C: group('C', nC) };
     const dx = pick(cm.gap, m);
-    const df = nP + nC - 2 - m.length;
-    if (id === 'ancova') {
-      const lever = dot(dx, solvePositiveDefinite(W, dx));
-      result = { se: Math.sqrt(sigma2 * (inv + lever)), df, nProgramme: nP, nComparison: nC };
-    } else if (id === 'gainScore') {
-      const v = pool(varY.P + (sX.P[0]![0] as number) - 2 * (tb.P[0] as number), varY.C + (sX.C[0]![0] as number) - 2 * (tb.C[0] as number));
-      result = { se: Math.sqrt(v * inv), df: nP + nC - 2, nProgramme: nP, nComparison: nC };
+    if (id === 'gainScore') {
+      // Welch (1947): each group's own var(Y − X_0) over its own n, Welch–Satterthwaite df.
+      const vP = (varY.P + (sX.P[0]![0] as number) - 2 * (tb.P[0] as number)) / nP;
+      const vC = (varY.C + (sX.C[0]![0] as number) - 2 * (tb.C[0] as number)) / nC;
+      const df = vP + vC > 0 ? welchSatterthwaiteDf([{ variance: vP, df: nP - 1 }, { variance: vC, df: nC - 1 }]) : nP + nC - 2;
+      result = { se: Math.sqrt(vP + vC), df, nProgramme: nP, nComparison: nC };
+    } else if (id === 'ancova') {
+      const identity = m.map((_, i) => m.map((__, j) => (i === j ? 1 : 0)));
+      const { se, df } = adjustedDifferenceStandardError(moments.P, moments.C, dx, identity);
+      result = { se, df, nProgramme: nP, nComparison: nC };
     } else {
       const rhoA = requireReliability(options.assumedReliability, 'The assumed reliability for the corrected ANCOVA');
-      const sPooled = W.map((row) => row.map((x) => x / (wP + wC)));
+      const wP = nP - 1;
+      const wC = nC - 1;
+      // S_X: pooled observed covariance of X[m]; Sigma_T': S_X with its diagonal times the assumed reliabilities.
+      const sPooled = moments.P.covX.map((row, i) => row.map((x, j) => (wP * x + wC * (moments.C.covX[i]![j] as number)) / (wP + wC)));
       const rel = m.map((j) => (j === 0 ? rhoA : (cm.reliability.pooled[j] as number)));
       const assumed = sPooled.map((row, i) => row.map((x, j) => (i === j ? x * (rel[i] as number) : x)));
-      // b~ = Sigma_T'^-1 S_X b ; M' dx = S_X Sigma_T'^-1 dx (both symmetric).
-      const bt = solvePositiveDefinite(assumed, multiplyVector(sPooled, b));
-      const mdx = multiplyVector(sPooled, solvePositiveDefinite(assumed, dx));
-      const sigma2c = resAbout(bt);
-      const se = Math.sqrt(sigma2c * inv + sigma2 * dot(mdx, solvePositiveDefinite(W, mdx)));
+      // M = Sigma_T'^-1 S_X, so that the corrected slopes are M b.
+      const M = solvePositiveDefinite(assumed, sPooled);
+      const { se, df } = adjustedDifferenceStandardError(moments.P, moments.C, dx, M);
       result = { se, df, nProgramme: nP, nComparison: nC };
     }
   }
