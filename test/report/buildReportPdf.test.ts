@@ -23,6 +23,8 @@ import { simulatePlan } from '../../src/sim/simulatePlan';
 import type { SimulationResult } from '../../src/sim/types';
 import { TEST_FONTS } from './fontsFromDisk';
 import { readPdfText, type PdfText } from './readPdfText';
+import { feasible } from '../sim/feasible';
+import type { SimAnalysisSummary } from '../../src/sim/types';
 
 const GENERATED = new Date('2026-12-01T09:30:00Z');
 const MARKUP_TITLE = '<script>alert("x")</script> & <b>bold</b> trial';
@@ -89,9 +91,9 @@ describe('PDF summary of the invented demo plan, with a simulation', () => {
   });
 
   it('shows the simulated figures exactly as simulatePlan gives them, with their Monte Carlo SEs', () => {
-    const row = (f: (s: SimulationResult['analyses'][keyof SimulationResult['analyses']]) => string) => [
-      ...ANALYSIS_IDS.map((id) => f(sim.analyses[id])),
-      f(sim.ancovaMatchedSample),
+    const row = (f: (s: SimAnalysisSummary) => string) => [
+      ...ANALYSIS_IDS.map((id) => f(feasible(sim.analyses[id]))),
+      f(feasible(sim.ancovaMatchedSample)),
     ];
     const find = (values: string[]) => text.body.find((l) => l.includes(values.join(' ')));
     expect(find(row((s) => withMcse(formatSignedPoints(s.bias), s.biasMCSE, (x) => formatPoints(x))))).toMatch(/^Simulated bias/);
