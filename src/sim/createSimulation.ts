@@ -55,12 +55,15 @@ const M_COUNT = 10;
  *     replication's observed pretest (Cochran & Rubin 1973's unit); match with
  *     matchOnPretest (O(n log n)).
  *  3. Estimate tau five ways, each with model SE, 95% CI and a two-sided t
- *     test at plan.analysis.alpha (critical values cached per df):
- *     matched difference (matched sets; SE = sd(D)/sqrt(m), df m - 1),
- *     ANCOVA (full sample, df n - 3), gain score (full sample, pooled-variance
- *     t, df n - 2), Porter's corrected ANCOVA (full sample, rho' =
- *     plan.analysis.assumedReliability), ANCOVA in the matched sample (stacked
- *     rows: a comparison member used by two programme members appears twice).
+ *     test at plan.analysis.alpha (critical values cached per df), each SE the
+ *     one that holds for the estimator (docs/simulation.md, "Standard errors"):
+ *     matched difference (matched sets; matching-weights SE, Abadie & Imbens
+ *     2006, df m - 1), ANCOVA (full sample; group-wise delta-method SE,
+ *     Welch–Satterthwaite df), gain score (full sample; Welch 1947), Porter's
+ *     corrected ANCOVA (full sample, rho' = plan.analysis.assumedReliability;
+ *     delta-method SE counting the group means the correction multiplies),
+ *     ANCOVA in the matched sample (stacked rows: a comparison member used by
+ *     two programme members appears twice; its use count enters the SE).
  *
  * Replication i draws from its own stream xoshiro128**(seed, i), so results
  * are bit-identical however replications are chunked or ordered.

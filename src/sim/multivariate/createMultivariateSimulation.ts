@@ -61,8 +61,12 @@ const B_COUNT = 7;
  *       exactly, with this replication's pooled within-group covariance matrix of
  *       those covariates, caliper in distance units.
  *     Unmeasured covariates are never used.
- *  4. Matched difference, ANCOVA on all measured covariates in the stacked
- *     matched sample, balance of every variable (observed and true) before and after.
+ *  4. Matched difference (matching-weights SE, Abadie & Imbens 2006), ANCOVA on
+ *     all measured covariates in the stacked matched sample (use counts in the
+ *     SE), balance of every variable (observed and true) before and after, the
+ *     variance ratio by matching weights as in the one-pretest engine.
+ *  SEs and df as in docs/simulation.md, "Standard errors" (the same functions
+ *  as the one-pretest engine).
  *
  * @param plan a validated plan (covariates optional).
  * @param options replications (2..1,000,000) and seed (defaults: plan.simulation).
