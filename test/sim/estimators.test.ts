@@ -75,6 +75,18 @@ describe('t critical values', () => {
     expect(new TCriticalValues(0.01).get(30)).toBeCloseTo(2.75, 2); // t table: 2.750
     expect(() => new TCriticalValues(1.2)).toThrow(/between 0 and 1/);
   });
+
+  it('fractional df (Welch–Satterthwaite) are interpolated in 1/df within 1e-7 relative of @stdlib', () => {
+    // Reference: @stdlib's t quantile (an independent implementation). Tolerance 1e-7 relative: the grid's
+    // interpolation error (step 1/8192 in 1/df) plus jStat's inversion error, far below any decision's resolution.
+    for (const alpha of [0.05, 0.01, 0.2]) {
+      const t = new TCriticalValues(alpha);
+      for (const df of [0.5, 1.0001, 1.37, 2.5, 3.3, 7.77, 19.478, 42.5, 123.4, 999.9, 123456.7]) {
+        const ref = tQuantile(1 - alpha / 2, df);
+        expect(Math.abs(t.get(df) - ref), `alpha ${alpha}, df ${df}`).toBeLessThan(1e-7 * ref);
+      }
+    }
+  });
 });
 
 describe('Monte Carlo summaries (Morris, White & Crowther 2019, Table 6)', () => {
