@@ -52,6 +52,15 @@ describe('the three measured plans: nominal coverage and false-positive rate', (
     check(r.ancovaMatchedSample);
   });
 
+  it('the same plan through the several-covariate engine (its own matching code, the shared SE functions)', () => {
+    const plan = testPlan({ nP: 150, nC: 200, meanP: 40, meanC: 50, reliability: 0.999, effect: 0, matching: { caliper: 0.02, replacement: true }, replications: reps, seed: 14 });
+    const run = createMultivariateSimulation(plan);
+    run.runChunk(0, run.total);
+    const r = run.finish();
+    check(r.analyses.matchedDifference);
+    check(r.ancovaMatchedSample);
+  });
+
   it("gain score and ANCOVA with Welch's SE and df (Welch 1947): 20 vs 400, pretest SDs 20 vs 10, tau 0", () => {
     // Equal pretest means and no growth gap: every analysis is unbiased. With pretest SD 20 the programme's gain
     // (Y − X) varies far more than the comparison group's, and the small group's variance is the one that matters:

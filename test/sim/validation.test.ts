@@ -48,6 +48,21 @@ describe('clear messages for bad simulation settings', () => {
     }
   });
 
+  it('an analysis computed in only some replications is summarised over those, and the others over all', () => {
+    // Pools 2.5 SD apart, 10 programme members, caliper 0.05 SD: two or more matched sets in only some
+    // replications (94 of 200 with this seed); the full-pool analyses are computed in all of them.
+    const plan = testPlan({ nP: 10, nC: 40, meanP: 25, meanC: 50, replications: 200, seed: 3, matching: { caliper: 0.05 } });
+    const r = simulatePlan(plan);
+    const md = r.analyses.matchedDifference;
+    expect(isFeasible(md) && md.replications > 1 && md.replications < 200).toBe(true);
+    expect(isFeasible(md) && Number.isFinite(md.coverage)).toBe(true);
+    expect(r.estimates.matchedDifference.length).toBe(md.replications);
+    for (const id of ['ancova', 'gainScore', 'correctedAncova'] as const) {
+      expect(r.analyses[id].replications).toBe(200);
+      expect(isFeasible(r.analyses[id])).toBe(true);
+    }
+  });
+
   it('refuses to summarise before every replication has run', () => {
     const run = createSimulation(base);
     run.runChunk(0, 3);
