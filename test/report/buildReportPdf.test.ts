@@ -272,3 +272,28 @@ describe('PDF summary of a plan with values from a pilot file', () => {
     expect(all).not.toContain('Pretest reliability (as published)');
   });
 });
+
+describe('PDF summary when nobody can be matched', () => {
+  it('prints "not computed" and the reason for the matched analyses, and the other analyses as usual', async () => {
+    // No numbers checked: the report must carry the engine's reason instead of figures (docs/simulation.md).
+    const plan = demoPlan();
+    plan.matching.caliper = 0.0001;
+    plan.groups.comparison.pretestMean = 150; // 10 SD away: no one is ever matched
+    const sim = simulatePlan(plan, { replications: 20, seed: 1 });
+    const analytic = analysePlan(plan);
+    const bytes = await buildReportPdf({
+      plan,
+      analytic,
+      simulation: sim,
+      charts: reportCharts(plan, analytic, sim),
+      appVersion: '0.1.0',
+      generatedAt: GENERATED,
+      fonts: TEST_FONTS,
+    });
+    const all = flat(await readPdfText(bytes));
+    expect(all).toContain('not computed');
+    expect(all).toMatch(/could be computed in only 0 of 20 simulated studies/);
+    const ancova = feasible(sim.analyses.ancova);
+    expect(all).toContain(withMcse(formatSignedPoints(ancova.bias), ancova.biasMCSE, (x) => formatPoints(x)));
+  });
+});
