@@ -25,17 +25,19 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
   const rejection = sim.tau === 0 ? 'False-positive rate' : 'Power';
   const header = ['Analysis', 'Mean estimate', '(MC SE)', 'Bias', 'Empirical SE', 'RMSE', '95% CI coverage', rejection, 'Wrong sign'];
   const row = (name: string, s: SimAnalysisResult): string[] =>
-    isFeasible(s) ? [
-    name,
-    fmtPoints(s.meanEstimate),
-    `(${fmtPoints(s.meanEstimateMCSE)})`,
-    fmtPoints(s.bias),
-    fmtPoints(s.empiricalSE),
-    fmtPoints(s.rmse),
-    fmtPercent(s.coverage),
-    fmtPercent(s.rejectionRate),
-    fmtPercent(s.wrongSignRate),
-  ] : [name, 'not computed', '', '', '', '', '', '', ''];
+    isFeasible(s)
+      ? [
+          name,
+          fmtPoints(s.meanEstimate),
+          `(${fmtPoints(s.meanEstimateMCSE)})`,
+          fmtPoints(s.bias),
+          fmtPoints(s.empiricalSE),
+          fmtPoints(s.rmse),
+          fmtPercent(s.coverage),
+          fmtPercent(s.rejectionRate),
+          fmtPercent(s.wrongSignRate),
+        ]
+      : [name, 'not computed', '', '', '', '', '', '', ''];
   const rows = ANALYSIS_IDS.map((id) => row(analytic.analyses[id].name, sim.analyses[id]));
   rows.push(row(`${analytic.analyses.ancova.name} (matched sample)`, sim.ancovaMatchedSample));
   const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => (r[c] ?? '').length)));
