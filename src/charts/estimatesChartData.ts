@@ -1,6 +1,7 @@
 import * as d3 from 'd3';
 import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
 import { expectedEstimateInterval } from '../core/expectedEstimateInterval';
+import { isFeasible } from '../sim/types';
 import type { ChartInput } from './chartTypes';
 
 /** One histogram bin of per-replication estimates (posttest points). */
@@ -56,6 +57,8 @@ export function estimatesChartData({ analytic, simulation }: ChartInput): Estima
   const rows: EstimatesRow[] = ANALYSIS_IDS.map((id) => {
     const a = analytic.analyses[id];
     const iv = a.se === null ? null : expectedEstimateInterval(a.expectedEstimate, a.se);
+    const s = simulation ? simulation.analyses[id] : null;
+    const sim = s && isFeasible(s) ? s : null; // an infeasible analysis has no simulated mean
     return {
       id,
       name: a.name,
@@ -63,8 +66,8 @@ export function estimatesChartData({ analytic, simulation }: ChartInput): Estima
       interval: iv && { lower: iv.lower, upper: iv.upper },
       bins: null,
       drawn: 0,
-      simulatedMean: simulation ? simulation.analyses[id].meanEstimate : null,
-      simulatedMeanMCSE: simulation ? simulation.analyses[id].meanEstimateMCSE : null,
+      simulatedMean: sim ? sim.meanEstimate : null,
+      simulatedMeanMCSE: sim ? sim.meanEstimateMCSE : null,
     };
   });
   const values: number[] = [0, tau];

@@ -1,6 +1,6 @@
 import type { AnalyticResults } from '../core/analyticResults';
 import { ANALYSIS_IDS } from '../core/plan';
-import type { SimAnalysisSummary, SimulationResult } from '../sim/types';
+import { isFeasible, type SimAnalysisResult, type SimulationResult } from '../sim/types';
 import { fmtPercent, fmtPoints, fmtSD } from './formatResultsTable';
 
 /**
@@ -8,7 +8,14 @@ import { fmtPercent, fmtPoints, fmtSD } from './formatResultsTable';
  * its Monte Carlo SE), bias, empirical SE, RMSE, 95% CI coverage, rejection
  * rate (power, or the false-positive rate when the effect is zero) and the
  * wrong-sign rate; then the matching summary, observed balance beside the
- * hidden true-score imbalance. Formatting only: every figure comes from src/sim.
+ * hidden true-score imbalance. An analysis the simulation could not
+ * summarise (computed in fewer than two replications) shows "not computed"
+ * and its reason below the table; the others are reported as usual.
+ * Formatting only: every figure comes from src/sim.
+ *
+ * Reference: none (formatting). @param sim the simulation result. @param analytic the closed-form
+ * results (for the analyses' names). @returns the text, ending in a newline. @throws never.
+ * @example formatSimulationTable(simulatePlan(plan), analysePlan(plan)).startsWith('Simulated results') // true
  */
 export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticResults): string {
   const lines: string[] = [];
@@ -17,17 +24,20 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
   );
   const rejection = sim.tau === 0 ? 'False-positive rate' : 'Power';
   const header = ['Analysis', 'Mean estimate', '(MC SE)', 'Bias', 'Empirical SE', 'RMSE', '95% CI coverage', rejection, 'Wrong sign'];
-  const row = (name: string, s: SimAnalysisSummary): string[] => [
-    name,
-    fmtPoints(s.meanEstimate),
-    `(${fmtPoints(s.meanEstimateMCSE)})`,
-    fmtPoints(s.bias),
-    fmtPoints(s.empiricalSE),
-    fmtPoints(s.rmse),
-    fmtPercent(s.coverage),
-    fmtPercent(s.rejectionRate),
-    fmtPercent(s.wrongSignRate),
-  ];
+  const row = (name: string, s: SimAnalysisResult): string[] =>
+    isFeasible(s)
+      ? [
+          name,
+          fmtPoints(s.meanEstimate),
+          `(${fmtPoints(s.meanEstimateMCSE)})`,
+          fmtPoints(s.bias),
+          fmtPoints(s.empiricalSE),
+          fmtPoints(s.rmse),
+          fmtPercent(s.coverage),
+          fmtPercent(s.rejectionRate),
+          fmtPercent(s.wrongSignRate),
+        ]
+      : [name, 'not computed', '', '', '', '', '', '', ''];
   const rows = ANALYSIS_IDS.map((id) => row(analytic.analyses[id].name, sim.analyses[id]));
   rows.push(row(`${analytic.analyses.ancova.name} (matched sample)`, sim.ancovaMatchedSample));
   const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => (r[c] ?? '').length)));
@@ -36,11 +46,15 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
   lines.push(line(header));
   lines.push(widths.map((w) => '-'.repeat(w)).join('  '));
   for (const r of rows) lines.push(line(r));
-  const skipped = ANALYSIS_IDS.filter((id) => sim.analyses[id].replications < sim.replications);
-  for (const id of skipped) {
-    lines.push(
-      `  ${analytic.analyses[id].name}: computed in ${sim.analyses[id].replications} of ${sim.replications} replications (too few matched sets in the others).`,
-    );
+  const named: [string, SimAnalysisResult][] = [
+    ...ANALYSIS_IDS.map((id): [string, SimAnalysisResult] => [analytic.analyses[id].name, sim.analyses[id]]),
+    [`${analytic.analyses.ancova.name} (matched sample)`, sim.ancovaMatchedSample],
+  ];
+  for (const [name, s] of named) {
+    if (!isFeasible(s)) lines.push(`  ${name}: not computed. ${s.reason}`);
+    else if (s.replications < sim.replications) {
+      lines.push(`  ${name}: computed in ${s.replications} of ${sim.replications} replications (too few matched sets in the others).`);
+    }
   }
   const m = sim.matching;
   const nP = sim.plan.groups.programme.poolSize;

@@ -7,7 +7,9 @@ export type SimulationJson = Omit<SimulationResult, 'plan' | 'estimates' | 'exam
 /**
  * Select what `--json` prints from a simulation result: the per-analysis
  * summaries (analyses.*: meanEstimate, bias, empiricalSE, rmse, coverage,
- * rejectionRate, wrongSignRate, each with its Monte Carlo SE), the matched-sample
+ * rejectionRate, wrongSignRate, each with its Monte Carlo SE, and `feasible: true`;
+ * an analysis computed in fewer than two replications is instead
+ * `{ id, sample, feasible: false, reason, replications }`), the matched-sample
  * ANCOVA and the matching summary (raw points and SMDs), and, for plans with
  * covariates or a propensity / Mahalanobis distance, `balance[]`: per variable
  * (pretest first) {name, measured, exact, observedSMDBefore, observedSMDAfter,

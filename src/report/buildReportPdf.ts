@@ -2,7 +2,7 @@ import { jsPDF } from 'jspdf';
 import type { AnalyticResults } from '../core/analyticResults';
 import { ANALYSIS_IDS, type Plan } from '../core/plan';
 import { serializePlan } from '../io/planFile';
-import type { SimAnalysisSummary, SimulationResult } from '../sim/types';
+import { isFeasible, type SimAnalysisResult, type SimAnalysisSummary, type SimulationResult } from '../sim/types';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { procedureBasisNote } from '../core/procedureBasisNote';
 import { drawSvgChart, parseChartSvg, svgSize } from './drawSvgChart';
@@ -217,11 +217,15 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       `${formatCount(sim.replications)} simulated studies (seed ${sim.seed}). “± x” gives each figure’s Monte Carlo standard error. The matched difference and “ANCOVA in the matched sample” use the matched people only; the other analyses use everyone available.`,
       { size: 9, muted: true },
     );
-    const simCols: (SimAnalysisSummary & { label: string })[] = [
-      ...ANALYSIS_IDS.map((id) => ({ ...sim.analyses[id], label: A[id].name })),
-      { ...sim.ancovaMatchedSample, label: 'ANCOVA in the matched sample' },
+    const simCols: { s: SimAnalysisResult; label: string }[] = [
+      ...ANALYSIS_IDS.map((id) => ({ s: sim.analyses[id], label: A[id].name })),
+      { s: sim.ancovaMatchedSample, label: 'ANCOVA in the matched sample' },
     ];
-    const srow = (label: string, f: (s: SimAnalysisSummary) => string) => [label, ...simCols.map(f)];
+    // An analysis the simulation could not summarise has no figures: "not computed", its reason below.
+    const srow = (label: string, f: (s: SimAnalysisSummary) => string) => [
+      label,
+      ...simCols.map(({ s }) => (isFeasible(s) ? f(s) : 'not computed')),
+    ];
     const rejectionLabel = sim.tau === 0 ? 'False-positive rate (share significant)' : 'Power (share significant)';
     w.table(
       [{ header: '', width: 22 }, ...simCols.map((s) => ({ header: s.label, width: 15.6, align: 'right' as const }))],
@@ -238,6 +242,9 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       ],
       { boldRows: [1], boldFirstColumn: true, fontSize: 8 },
     );
+    for (const { s, label } of simCols) {
+      if (!isFeasible(s)) w.paragraph(`${label}: not computed. ${s.reason}`, { size: 9, muted: true });
+    }
     for (const d of quickFiguresAgreement(analytic, sim)) w.note(d.note);
     const mt = sim.matching;
     w.heading('Matching and balance (simulated)', 3);

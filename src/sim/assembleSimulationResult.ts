@@ -18,7 +18,8 @@ import type { CovariateBalance, SimMatchingSummary, SimulationResult } from './t
  * @param example replication 0's matched sets, or null when it has not been kept (then empty lists).
  * @param balance per-variable balance (several-covariate engine only; omitted when undefined).
  * @returns the SimulationResult.
- * @throws Error (from summariseAnalysis) when an analysis could be computed in fewer than two replications.
+ * @throws never: an analysis computed in fewer than two replications is reported as
+ *   `{ feasible: false, reason }` and every other analysis is summarised as usual.
  * @example assembleSimulationResult(plan, 1, 200, records, matching, null).example // { pairs: [], discarded: [] }
  */
 export function assembleSimulationResult(

@@ -2,6 +2,10 @@ import type { Plan } from '../core/plan';
 import { deriveModelParameters } from '../core/deriveModelParameters';
 import type { ModelParameters } from '../core/modelParameters';
 import { ancovaEstimate } from './ancovaEstimate';
+import { gainScoreEstimate } from './gainScoreEstimate';
+import { matchedDifferenceEstimate } from './matchedDifferenceEstimate';
+import { MatchingWeights } from './matchingWeights';
+import type { StackedComparison } from './multivariate/ancovaOnCovariates';
 import { assembleSimulationResult } from './assembleSimulationResult';
 import { AnalysisRecords, SLOT_ANCOVA, SLOT_ANCOVA_MATCHED, SLOT_CORRECTED, SLOT_GAIN, SLOT_MATCHED } from './analysisRecords';
 import { exampleReplication } from './exampleReplication';
@@ -51,12 +55,15 @@ const M_COUNT = 10;
  *     replication's observed pretest (Cochran & Rubin 1973's unit); match with
  *     matchOnPretest (O(n log n)).
  *  3. Estimate tau five ways, each with model SE, 95% CI and a two-sided t
- *     test at plan.analysis.alpha (critical values cached per df):
- *     matched difference (matched sets; SE = sd(D)/sqrt(m), df m - 1),
- *     ANCOVA (full sample, df n - 3), gain score (full sample, pooled-variance
- *     t, df n - 2), Porter's corrected ANCOVA (full sample, rho' =
- *     plan.analysis.assumedReliability), ANCOVA in the matched sample (stacked
- *     rows: a comparison member used by two programme members appears twice).
+ *     test at plan.analysis.alpha (critical values cached per df), each SE the
+ *     one that holds for the estimator (docs/simulation.md, "Standard errors"):
+ *     matched difference (matched sets; matching-weights SE, Abadie & Imbens
+ *     2006, df m - 1), ANCOVA (full sample; group-wise delta-method SE,
+ *     Welch–Satterthwaite df), gain score (full sample; Welch 1947), Porter's
+ *     corrected ANCOVA (full sample, rho' = plan.analysis.assumedReliability;
+ *     delta-method SE counting the group means the correction multiplies),
+ *     ANCOVA in the matched sample (stacked rows: a comparison member used by
+ *     two programme members appears twice; its use count enters the SE).
  *
  * Replication i draws from its own stream xoshiro128**(seed, i), so results
  * are bit-identical however replications are chunked or ordered.
@@ -145,6 +152,10 @@ class ReplicationRunner {
   readonly ws: MatchingWorkspace;
   readonly moments = new Float64Array(12);
   readonly out = new Float64Array(3);
+  /** Per-comparison-member use counts and matching weights of this replication's matched sets. */
+  readonly weights: MatchingWeights;
+  /** The stacked matched comparison rows for the matched-sample ANCOVA (sigma2 set per replication). */
+  readonly stacked: { weights: MatchingWeights; columns: Float64Array[]; from: number; sigma2: number };
   /** Per-replication estimates, SEs and flags of the five estimators. */
   readonly records: AnalysisRecords;
   readonly rec: Float64Array[] = [];
@@ -195,6 +206,8 @@ class ReplicationRunner {
     this.rng = new Xoshiro128StarStar();
     this.normal = new NormalSampler(this.rng);
     this.ws = createMatchingWorkspace(nP, nC, this.k);
+    this.weights = new MatchingWeights(nC);
+    this.stacked = { weights: this.weights, columns: [this.xc], from: 0, sigma2: 0 };
     this.records = new AnalysisRecords(total, this.tau, plan.analysis.alpha);
     for (let r = 0; r < M_COUNT; r++) this.rec.push(new Float64Array(total));
     this.recOk = new Uint8Array(total);
@@ -262,14 +275,12 @@ class ReplicationRunner {
     if (ancovaEstimate(moments, this.rhoAssumed, out)) {
       this.records.record(SLOT_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
     }
-    {
-      // Gain score Y - X: pooled-variance two-sample t (Student 1908), df n - 2.
-      const dfG = nP + nC - 2;
-      const ss = syyP - 2 * sxyP + sxxP + (syyC - 2 * sxyC + sxxC);
-      const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
-      const e = myP - mxP - (myC - mxC);
-      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.records.record(SLOT_GAIN, i, e, s, dfG);
+    // Gain score Y - X: Welch's unequal-variance t (Welch 1947).
+    if (gainScoreEstimate(nP, myP - mxP, syyP - 2 * sxyP + sxxP, nC, myC - mxC, syyC - 2 * sxyC + sxxC, out)) {
+      this.records.record(SLOT_GAIN, i, out[0] as number, out[1] as number, out[2] as number);
     }
+    // The comparison group's conditional variance of Y given X (full pool): the reuse terms' sigma².
+    const sigma2C = sxxC > 0 ? Math.max(0, syyC - (sxyC * sxyC) / sxxC) / (nC - 2) : 0;
 
     const obsPooledSD = Math.sqrt((sxxP / (nP - 1) + sxxC / (nC - 1)) / 2);
     const truePooledSD = Math.sqrt((sttP / (nP - 1) + sttC / (nC - 1)) / 2);
@@ -285,14 +296,16 @@ class ReplicationRunner {
     let rN = 0, rSx = 0, rSxx = 0, rSy = 0, rSyy = 0, rSxy = 0; // stacked partner rows (centred at muC)
     // Balance after matching weights each matched set once (its partners' mean), like the
     // matched difference does; with 1:1 this equals the stacked rows exactly.
-    let wSx = 0, wSt = 0;
+    let wSx = 0, wSxx = 0, wSt = 0;
+    const weights = this.weights;
+    weights.reset();
     for (let j = 0; j < nP; j++) {
       const cnt = counts[j] as number;
       if (cnt === 0) continue;
       const dx = (xp[j] as number) - muP;
       const dy = (yp[j] as number) - yCentreP;
       qSx += dx; qSxx += dx * dx; qSy += dy; qSyy += dy * dy; qSxy += dx * dy; qSt += (tp[j] as number) - muP;
-      let ySum = 0, setX = 0, setT = 0;
+      let ySum = 0, setX = 0, setXX = 0, setT = 0;
       const base = j * k;
       for (let q = 0; q < cnt; q++) {
         const c = partners[base + q] as number;
@@ -306,25 +319,29 @@ class ReplicationRunner {
         ySum += y;
         const cy = y - yCentreC;
         rSx += cx; rSxx += cx * cx; rSy += cy; rSyy += cy * cy; rSxy += cx * cy;
-        setX += cx; setT += t - muC;
+        setX += cx; setXX += cx * cx; setT += t - muC;
+        weights.add(c, cnt);
       }
       rN += cnt;
       wSx += setX / cnt;
+      wSxx += setXX / cnt;
       wSt += setT / cnt;
       const d = (yp[j] as number) - ySum / cnt;
       dS += d;
       dSS += d * d;
     }
     if (m >= 2) {
-      const mean = dS / m;
-      const v = (dSS - dS * mean) / (m - 1);
-      const s = Math.sqrt(v / m);
-      if (s > 0 && Number.isFinite(s)) this.records.record(SLOT_MATCHED, i, mean, s, m - 1);
+      // Matching-weights SE (Abadie & Imbens 2006): the reuse term is 0 without replacement.
+      const excess = this.replacement ? weights.reuseExcess() : 0;
+      if (matchedDifferenceEstimate(m, dS, dSS, sigma2C, excess, out)) {
+        this.records.record(SLOT_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+      }
       moments[0] = m; moments[1] = muP + qSx / m; moments[2] = yCentreP + qSy / m;
       moments[3] = qSxx - (qSx * qSx) / m; moments[4] = qSxy - (qSx * qSy) / m; moments[5] = qSyy - (qSy * qSy) / m;
       moments[6] = rN; moments[7] = muC + rSx / rN; moments[8] = yCentreC + rSy / rN;
       moments[9] = rSxx - (rSx * rSx) / rN; moments[10] = rSxy - (rSx * rSy) / rN; moments[11] = rSyy - (rSy * rSy) / rN;
-      if (ancovaEstimate(moments, 1, out)) {
+      this.stacked.sigma2 = sigma2C;
+      if (ancovaEstimate(moments, 1, out, this.stacked as StackedComparison)) {
         this.records.record(SLOT_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
       }
     }
@@ -347,9 +364,11 @@ class ReplicationRunner {
       // SMDs after matching use the before-matching pooled SD (Stuart 2010), so the change shows mean shift only.
       (rec[M_OBS_SMD_AFTER] as Float64Array)[i] = obsAfter / obsPooledSD;
       (rec[M_TRUE_SMD_AFTER] as Float64Array)[i] = truePooledSD > 0 ? trueAfter / truePooledSD : 0;
-      if (m >= 2 && rN >= 2) {
+      if (m >= 2) {
+        // Matching weights: each matched set once, its partners 1/cnt each (total weight m), as in the
+        // balance means above and in the several-covariate engine.
         const vP = (qSxx - (qSx * qSx) / m) / (m - 1);
-        const vC = (rSxx - (rSx * rSx) / rN) / (rN - 1);
+        const vC = (wSxx - (wSx * wSx) / m) / (m - 1);
         if (vC > 0 && Number.isFinite(vP / vC)) {
           (rec[M_VAR_RATIO] as Float64Array)[i] = vP / vC;
           ok |= VAR_RATIO_OK;

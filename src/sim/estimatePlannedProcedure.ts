@@ -2,6 +2,7 @@ import { usesCovariateModel } from '../core/multivariate/covariateModel';
 import type { Plan } from '../core/plan';
 import type { PlannedProcedureEstimates } from '../core/plannedProcedure';
 import { createPlanSimulation } from './multivariate/createPlanSimulation';
+import { isFeasible } from './types';
 
 /** Fewest quick replications: the quick mean's MC error is then at most 1/sqrt(32) ≈ 0.18 empirical SEs. */
 export const QUICK_MIN_REPLICATIONS = 32;
@@ -62,14 +63,9 @@ export function estimatePlannedProcedure(plan: Plan): PlannedProcedureEstimates 
   const seed = quickSeed(plan.simulation.seed);
   const run = createPlanSimulation(plan, { replications, seed });
   run.runChunk(0, replications);
-  let result;
-  try {
-    result = run.finish();
-  } catch (err) {
-    const reason = err instanceof Error ? err.message : String(err);
-    return { replications, seed, analyses: { matchedDifference: { infeasible: true, reason } } };
-  }
+  const result = run.finish();
   const md = result.analyses.matchedDifference;
+  if (!isFeasible(md)) return { replications, seed, analyses: { matchedDifference: { infeasible: true, reason: md.reason } } };
   const matched = result.matching.meanMatchedProgramme;
   return {
     replications,

@@ -1,6 +1,6 @@
 import type { AnalyticResults } from '../core/analyticResults';
 import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
-import type { SimulationResult } from './types';
+import { isFeasible, type SimulationResult } from './types';
 
 /** How far a figure shown before simulation lies from the full simulation's. */
 export interface QuickFigureDisagreement {
@@ -36,7 +36,8 @@ export function quickFiguresAgreement(analytic: AnalyticResults, simulation: Sim
   const out: QuickFigureDisagreement[] = [];
   for (const id of ANALYSIS_IDS) {
     const a = analytic.analyses[id];
-    const s = simulation.analyses[id] as SimulationResult['analyses'][AnalysisId] | undefined;
+    const r = simulation.analyses[id] as SimulationResult['analyses'][AnalysisId] | undefined;
+    const s = r && isFeasible(r) ? r : null;
     if (!a || !s || !Number.isFinite(s.meanEstimate) || !Number.isFinite(a.expectedEstimate)) continue;
     const combined = Math.hypot(a.expectedEstimateMCSE ?? 0, s.meanEstimateMCSE);
     if (!(combined > 0)) continue;

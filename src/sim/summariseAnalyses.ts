@@ -14,7 +14,8 @@ import type { SimulationResult } from './types';
  * @param records the records both engines fill (AnalysisRecords; tau is taken from them).
  * @param total number of replications run (≥ 2; a prefix of the records).
  * @returns analyses, ancovaMatchedSample and estimates of a SimulationResult.
- * @throws Error (from summariseAnalysis) when an analysis could be computed in fewer than two replications.
+ * @throws never: an analysis computed in fewer than two replications is reported as
+ *   `{ feasible: false, reason }` and every other analysis is summarised as usual.
  * @example
  *   // gain-score estimates 1, 2, 3 with tau 2 → analyses.gainScore.bias 0, estimates.gainScore [1, 2, 3] (hand-worked).
  */

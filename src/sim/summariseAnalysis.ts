@@ -1,5 +1,5 @@
 import type { AnalysisId } from '../core/plan';
-import type { SimAnalysisSummary } from './types';
+import type { SimAnalysisResult } from './types';
 
 /** Per-replication flags stored for one analysis (bit set). */
 export const FLAG_COMPUTED = 1;
@@ -27,7 +27,10 @@ export const FLAG_WRONG_SIGN = 8;
  * @param count number of replications stored (prefix of the arrays).
  * @param tau true programme effect, points.
  * @param sample which sample the analysis used (only 'ancova' is run in both).
- * @throws Error when fewer than two replications could be computed (nothing to summarise).
+ * @returns the summary, or `{ feasible: false, reason }` (no figures) when fewer than two
+ *   replications could be computed: there is nothing to summarise, and the
+ *   other analyses are reported regardless.
+ * @throws never.
  * @example
  *   // estimates 1, 2, 3 with tau 2: bias 0, EmpSE 1, MCSE of bias 1/sqrt(3) ≈ 0.577 (hand-worked).
  */
@@ -39,7 +42,7 @@ export function summariseAnalysis(
   count: number,
   tau: number,
   sample: 'full' | 'matched' = id === 'matchedDifference' ? 'matched' : 'full',
-): SimAnalysisSummary {
+): SimAnalysisResult {
   let n = 0;
   let sum = 0;
   let sumSE2 = 0;
@@ -58,10 +61,17 @@ export function summariseAnalysis(
     if (f & FLAG_WRONG_SIGN) wrong++;
   }
   if (n < 2) {
-    throw new Error(
-      `The ${describe(id, sample)} could be computed in only ${n} of ${count} replications, too few to summarise. ` +
-        'This usually means almost no programme member finds a comparison partner within the caliper: widen the caliper or enlarge the comparison pool.',
-    );
+    const why =
+      sample === 'matched'
+        ? 'Almost no programme member found a comparison partner within the caliper (it needs at least two matched sets per replication): widen the caliper, allow matching with replacement or enlarge the comparison pool.'
+        : 'The pools are too small, or the pretest has no spread, for this analysis.';
+    return {
+      id,
+      sample,
+      feasible: false,
+      reason: `The ${describe(id, sample)} could be computed in only ${n} of ${count} simulated studies, too few to summarise. ${why}`,
+      replications: n,
+    };
   }
   const mean = sum / n;
   const modVar = sumSE2 / n;
@@ -98,6 +108,7 @@ export function summariseAnalysis(
   return {
     id,
     sample,
+    feasible: true,
     meanEstimate: mean,
     meanEstimateMCSE: empSE / Math.sqrt(n),
     bias: mean - tau,

@@ -5,6 +5,8 @@ export interface SimAnalysisSummary {
   id: AnalysisId;
   /** Sample the analysis was run in: the full unmatched pools or the matched sample (added; optional for older readers). */
   sample?: 'full' | 'matched';
+  /** true: the analysis could be computed in at least two replications and every figure below is filled (added; optional for older readers). */
+  feasible?: true;
   meanEstimate: number;
   meanEstimateMCSE: number;
   /** meanEstimate - tau. */
@@ -27,6 +29,34 @@ export interface SimAnalysisSummary {
   wrongSignRateMCSE: number;
   /** Replications in which this analysis could be computed. */
   replications: number;
+}
+
+/**
+ * An analysis the simulation could not summarise: it could be computed in
+ * fewer than two replications (typically almost nobody matched within the
+ * caliper), so there are no figures, only the reason in plain English.
+ * Every other analysis of the same result is still reported.
+ */
+export interface SimAnalysisInfeasible {
+  id: AnalysisId;
+  sample?: 'full' | 'matched';
+  feasible: false;
+  /** Why, and what to change, for the researcher. */
+  reason: string;
+  /** Replications in which it could be computed (0 or 1). */
+  replications: number;
+}
+
+/** One analysis in a simulation result: its summary, or why it has none. */
+export type SimAnalysisResult = SimAnalysisSummary | SimAnalysisInfeasible;
+
+/**
+ * Whether a simulated analysis has figures (narrows the type).
+ * Reference: none (a type guard). @param s the analysis' result. @returns false for an infeasible one.
+ * @throws never. @example isFeasible({ id: 'ancova', feasible: false, reason: '…', replications: 0 }) // false
+ */
+export function isFeasible(s: SimAnalysisResult): s is SimAnalysisSummary {
+  return s.feasible !== false;
 }
 
 export interface SimMatchingSummary {
@@ -100,11 +130,12 @@ export interface SimulationResult {
   /**
    * The four analyses: matchedDifference in the matched sample; ancova,
    * gainScore and correctedAncova in the full unmatched sample (as in the
-   * closed forms they are checked against).
+   * closed forms they are checked against). An analysis computed in fewer
+   * than two replications is `{ feasible: false, reason }` (isFeasible).
    */
-  analyses: Record<AnalysisId, SimAnalysisSummary>;
+  analyses: Record<AnalysisId, SimAnalysisResult>;
   /** ANCOVA on the observed pretest within the matched sample. */
-  ancovaMatchedSample: SimAnalysisSummary;
+  ancovaMatchedSample: SimAnalysisResult;
   matching: SimMatchingSummary;
   /** Per-replication estimates per analysis (histogram-ready), in replication order. */
   estimates: Record<AnalysisId, number[]>;

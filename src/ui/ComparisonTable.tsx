@@ -1,6 +1,6 @@
 import { ANALYSIS_STYLES } from '../charts/palette';
 import type { AnalysisId } from '../core/plan';
-import type { SimAnalysisSummary } from '../sim/types';
+import { isFeasible, type SimAnalysisResult } from '../sim/types';
 import { procedureBasisNote } from '../core/procedureBasisNote';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { selectAnalysesInOrder, selectAnalytic, selectAnalyticStale, selectHighlight, selectSetHighlight } from '../state/selectors';
@@ -36,7 +36,7 @@ export function ComparisonTable() {
   const tauZero = simResult ? simResult.tau === 0 : false;
   if (rows.length === 0 || !analytic) return null;
   const disagreements = simResult && !simStale && !stale ? quickFiguresAgreement(analytic, simResult) : [];
-  const simFor = (id: AnalysisId): SimAnalysisSummary | null => simResult?.analyses[id] ?? null;
+  const simAll = (id: AnalysisId): SimAnalysisResult | null => simResult?.analyses[id] ?? null;
   return (
     <section className="comparison" aria-labelledby="comparison-heading">
       <h2 id="comparison-heading">The four analyses compared</h2>
@@ -72,7 +72,10 @@ export function ComparisonTable() {
           </thead>
           <tbody>
             {rows.map((a) => {
-              const s = simFor(a.id);
+              const all = simAll(a.id);
+              // An analysis the simulation could not summarise shows its reason instead of figures.
+              const s = all && isFeasible(all) ? all : null;
+              const infeasible = all && !isFeasible(all) ? all.reason : null;
               const style = ANALYSIS_STYLES[a.id];
               const on = highlight === a.id;
               return (
@@ -107,7 +110,9 @@ export function ComparisonTable() {
                       </span>
                     )}
                   </td>
-                  <td>{s ? <SimFigure value={s.bias} mcse={s.biasMCSE} signed /> : '—'}</td>
+                  <td>
+                    {s ? <SimFigure value={s.bias} mcse={s.biasMCSE} signed /> : infeasible ? <span className="sim-infeasible">Not computed: {infeasible}</span> : '—'}
+                  </td>
                   <td>{s ? <SimFigure value={s.rmse} mcse={s.rmseMCSE} /> : '—'}</td>
                   <td>{s ? <SimFigure value={s.coverage} mcse={s.coverageMCSE} pct /> : '—'}</td>
                   <td>

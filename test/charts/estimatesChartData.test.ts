@@ -61,4 +61,14 @@ describe('estimatesChartData', () => {
       expect(Math.abs(r.simulatedMean! - r.expected)).toBeLessThan(4 * r.simulatedMeanMCSE!);
     }
   });
+  it('an analysis the simulation could not summarise has no simulated mean; the others keep theirs', () => {
+    // No numbers computed here: the infeasible analysis must not be read as figures (docs/simulation.md).
+    const input = simulatedInput();
+    const sim = input.simulation;
+    const infeasible = { id: 'matchedDifference' as const, sample: 'matched' as const, feasible: false as const, reason: 'nobody matched', replications: 0 };
+    const d = estimatesChartData({ ...input, simulation: { ...sim, analyses: { ...sim.analyses, matchedDifference: infeasible }, estimates: { ...sim.estimates, matchedDifference: [] } } });
+    const md = d.rows.find((r) => r.id === 'matchedDifference')!;
+    expect(md.simulatedMean).toBeNull();
+    expect(d.rows.find((r) => r.id === 'ancova')!.simulatedMean).not.toBeNull();
+  });
 });

@@ -1,3 +1,4 @@
+import { spawnSync } from 'node:child_process';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -100,15 +101,45 @@ describe('meanward run: simulated figures', () => {
     expect(out.simulation).toBeNull();
   });
 
-  it('a simulation the engine cannot run exits 2 with its message on stderr', async () => {
+  it('a plan in which nobody can be matched still runs: exit 0, the matched analyses marked not computed with a reason, the rest reported', async () => {
     const bad = demoPlan();
     bad.matching.caliper = 0.0001;
     bad.groups.comparison.pretestMean = 150; // 10 SD away: no one is ever matched
     const file = join(dir, 'unmatchable.json');
     writeFileSync(file, serializePlan(bad));
-    const r = await run(['run', file, '--reps', '3']);
-    expect(r.code).toBe(2);
-    expect(r.stdout).toBe('');
-    expect(r.stderr).toMatch(/matched post-test difference could be computed in only 0 of 3 replications/);
+    const text = await run(['run', file, '--reps', '3']);
+    expect(text.code).toBe(0);
+    expect(text.stdout).toMatch(/not computed\. The matched post-test difference could be computed in only 0 of 3 simulated studies/);
+    const json = await run(['run', file, '--json', '--reps', '3']);
+    expect(json.code).toBe(0);
+    const sim = JSON.parse(json.stdout).simulation;
+    expect(sim.analyses.matchedDifference).toEqual({
+      id: 'matchedDifference',
+      sample: 'matched',
+      feasible: false,
+      reason: expect.stringMatching(/only 0 of 3 simulated studies.*widen the caliper/),
+      replications: 0,
+    });
+    expect(sim.ancovaMatchedSample.feasible).toBe(false);
+    for (const id of ['ancova', 'gainScore', 'correctedAncova']) {
+      expect(sim.analyses[id].feasible).toBe(true);
+      expect(sim.analyses[id].replications).toBe(3);
+      for (const k of ANALYSIS_KEYS) expect(Number.isFinite(sim.analyses[id][k])).toBe(true);
+    }
   });
+
+  it('the same through the installed command (node bin/meanward.mjs run plan.json --json): exit 0', () => {
+    const bad = demoPlan();
+    bad.matching.caliper = 0.0001;
+    bad.groups.comparison.pretestMean = 150;
+    const file = join(dir, 'unmatchable-bin.json');
+    writeFileSync(file, serializePlan(bad));
+    const root = join(__dirname, '..', '..');
+    const r = spawnSync(process.execPath, [join(root, 'bin', 'meanward.mjs'), 'run', file, '--json', '--reps', '3'], { cwd: root, encoding: 'utf8' });
+    expect(r.status).toBe(0);
+    const sim = JSON.parse(r.stdout).simulation;
+    expect(sim.analyses.matchedDifference.feasible).toBe(false);
+    expect(sim.analyses.matchedDifference.reason).toMatch(/caliper/);
+    expect(sim.analyses.ancova.feasible).toBe(true);
+  }, 60_000);
 });

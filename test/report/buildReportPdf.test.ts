@@ -23,6 +23,8 @@ import { simulatePlan } from '../../src/sim/simulatePlan';
 import type { SimulationResult } from '../../src/sim/types';
 import { TEST_FONTS } from './fontsFromDisk';
 import { readPdfText, type PdfText } from './readPdfText';
+import { feasible } from '../sim/feasible';
+import type { SimAnalysisSummary } from '../../src/sim/types';
 
 const GENERATED = new Date('2026-12-01T09:30:00Z');
 const MARKUP_TITLE = '<script>alert("x")</script> & <b>bold</b> trial';
@@ -89,9 +91,9 @@ describe('PDF summary of the invented demo plan, with a simulation', () => {
   });
 
   it('shows the simulated figures exactly as simulatePlan gives them, with their Monte Carlo SEs', () => {
-    const row = (f: (s: SimulationResult['analyses'][keyof SimulationResult['analyses']]) => string) => [
-      ...ANALYSIS_IDS.map((id) => f(sim.analyses[id])),
-      f(sim.ancovaMatchedSample),
+    const row = (f: (s: SimAnalysisSummary) => string) => [
+      ...ANALYSIS_IDS.map((id) => f(feasible(sim.analyses[id]))),
+      f(feasible(sim.ancovaMatchedSample)),
     ];
     const find = (values: string[]) => text.body.find((l) => l.includes(values.join(' ')));
     expect(find(row((s) => withMcse(formatSignedPoints(s.bias), s.biasMCSE, (x) => formatPoints(x))))).toMatch(/^Simulated bias/);
@@ -284,5 +286,30 @@ describe('PDF summary of a plan whose matching nobody survives (invented: groups
     const all = flat(text);
     expect(all).toContain('not feasible');
     expect(all).toContain(`${analytic.analyses.matchedDifference.name}, not feasible: About 0.3 of the 180 programme members`);
+  });
+});
+
+describe('PDF summary when nobody can be matched', () => {
+  it('prints "not computed" and the reason for the matched analyses, and the other analyses as usual', async () => {
+    // No numbers checked: the report must carry the engine's reason instead of figures (docs/simulation.md).
+    const plan = demoPlan();
+    plan.matching.caliper = 0.0001;
+    plan.groups.comparison.pretestMean = 150; // 10 SD away: no one is ever matched
+    const sim = simulatePlan(plan, { replications: 20, seed: 1 });
+    const analytic = analysePlan(plan);
+    const bytes = await buildReportPdf({
+      plan,
+      analytic,
+      simulation: sim,
+      charts: reportCharts(plan, analytic, sim),
+      appVersion: '0.1.0',
+      generatedAt: GENERATED,
+      fonts: TEST_FONTS,
+    });
+    const all = flat(await readPdfText(bytes));
+    expect(all).toContain('not computed');
+    expect(all).toMatch(/could be computed in only 0 of 20 simulated studies/);
+    const ancova = feasible(sim.analyses.ancova);
+    expect(all).toContain(withMcse(formatSignedPoints(ancova.bias), ancova.biasMCSE, (x) => formatPoints(x)));
   });
 });

@@ -78,7 +78,7 @@ describe('ANCOVA on several covariates (normal equations)', () => {
       const C = createGroupMoments(p);
       groupMoments(cols, y, 0, nC, stacked ? weight : null, C);
       groupMoments(cols, y, nC, N, stacked ? flag : null, P);
-      const out = new Float64Array(3);
+      const out = new Float64Array(5);
       expect(ancovaOnCovariates(P, C, null, out)).toBe(true);
       const rows: number[][] = [];
       const ys: number[] = [];
@@ -91,8 +91,10 @@ describe('ANCOVA on several covariates (normal equations)', () => {
       }
       const ref = olsGroupEffect(rows, ys);
       expect(Math.abs(out[0]! - ref.estimate)).toBeLessThan(1e-9 * Math.max(1, Math.abs(ref.estimate)));
-      expect(Math.abs(out[1]! - ref.se)).toBeLessThan(1e-9 * ref.se);
-      expect(out[2]).toBe(rows.length - 2 - p);
+      // The OLS SE is what a naive analysis would report (out[3]); the engine's SE (out[1]) is the
+      // group-wise delta-method one, checked by the coverage tests.
+      expect(Math.abs(out[3]! - ref.se)).toBeLessThan(1e-9 * ref.se);
+      expect(out[4]).toBe(rows.length - 2 - p);
     }
   });
 
@@ -108,7 +110,7 @@ describe('ANCOVA on several covariates (normal equations)', () => {
     const C = createGroupMoments(p);
     groupMoments(cols, y, 0, nC, null, C);
     groupMoments(cols, y, nC, N, null, P);
-    const out = new Float64Array(3);
+    const out = new Float64Array(5);
     expect(ancovaOnCovariates(P, C, lambda, out)).toBe(true);
     const rows: number[][] = [];
     for (let i = 0; i < N; i++) {
@@ -119,7 +121,7 @@ describe('ANCOVA on several covariates (normal equations)', () => {
     }
     const ref = olsGroupEffect(rows, [...y]);
     expect(Math.abs(out[0]! - ref.estimate)).toBeLessThan(1e-9 * Math.max(1, Math.abs(ref.estimate)));
-    expect(Math.abs(out[1]! - ref.se)).toBeLessThan(1e-9 * ref.se);
+    expect(Math.abs(out[3]! - ref.se)).toBeLessThan(1e-9 * ref.se); // naive OLS SE (rho' treated as known)
   });
 
   it('reports "cannot compute" for collinear covariates or too few rows (never NaN)', () => {
@@ -134,11 +136,12 @@ describe('ANCOVA on several covariates (normal equations)', () => {
     expect([...out]).toEqual([-1, -1, -1]);
     const P1 = createGroupMoments(1);
     const C1 = createGroupMoments(1);
-    groupMoments([cols[0]!], y, 0, 2, null, C1);
-    groupMoments([cols[0]!], y, 50, 51, null, P1);
-    expect(ancovaOnCovariates(P1, C1, null, out)).toBe(false); // 3 rows: df = 3 − 2 − 1 = 0
+    // The group-wise SE needs each group's own residual variance: at least p + 2 = 3 rows per group.
+    groupMoments([cols[0]!], y, 0, 3, null, C1);
     groupMoments([cols[0]!], y, 50, 52, null, P1);
-    expect(ancovaOnCovariates(P1, C1, null, out)).toBe(true); // 4 rows: df 1
+    expect(ancovaOnCovariates(P1, C1, null, out)).toBe(false); // 2 programme rows: no residual variance of its own
+    groupMoments([cols[0]!], y, 50, 53, null, P1);
+    expect(ancovaOnCovariates(P1, C1, null, out)).toBe(true); // 3 and 3 rows: 1 df each
   });
 });
 

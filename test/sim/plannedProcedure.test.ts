@@ -12,6 +12,7 @@ import {
 } from '../../src/sim/estimatePlannedProcedure';
 import { quickFiguresAgreement } from '../../src/sim/quickFiguresAgreement';
 import { simulatePlan } from '../../src/sim/simulatePlan';
+import { isFeasible } from '../../src/sim/types';
 
 /**
  * The figures shown before a full simulation must be those of the procedure as
@@ -66,6 +67,7 @@ describe('expected figures for the planned procedure (quick simulation)', () => 
       const quick = analysePlan(plan, estimatePlannedProcedure(plan)).analyses.matchedDifference;
       const full = simulatePlan(plan, { replications: 2000, seed: 424242 });
       const s = full.analyses.matchedDifference;
+      if (!isFeasible(s)) throw new Error(s.reason);
       expect(quick.basis).toBe('planned-procedure');
       expect(Math.abs(quick.expectedEstimate - s.meanEstimate)).toBeLessThan(0.5 * s.empiricalSE);
       expect(Math.abs(quick.nProgramme / full.matching.meanMatchedProgramme - 1)).toBeLessThan(0.05);

@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { simulatePlan } from '../../src/sim/simulatePlan';
 import { createSimulation } from '../../src/sim/createSimulation';
 import { testPlan } from './planFixtures';
+import { isFeasible } from '../../src/sim/types';
 
 // Bad input gets a specific message naming the field, the valid range and the value given (DESIGN.md).
 describe('clear messages for bad simulation settings', () => {
@@ -31,10 +32,35 @@ describe('clear messages for bad simulation settings', () => {
     expect(() => simulatePlan(testPlan({ reliability: 0.5, r: 0.8 }))).toThrow(/cannot exceed the square root of its reliability/);
   });
 
-  it('explains when almost no one can be matched instead of returning NaN', () => {
+  it('explains when almost no one can be matched instead of returning NaN, and still reports the other analyses', () => {
     // Pools 10 SD apart with a 0.01 SD caliper: no programme member finds a partner.
     const plan = testPlan({ nP: 20, nC: 50, meanP: 0, meanC: 100, replications: 5, matching: { caliper: 0.01 } });
-    expect(() => simulatePlan(plan)).toThrow(/matched post-test difference could be computed in only 0 of 5 replications/);
+    const r = simulatePlan(plan);
+    const md = r.analyses.matchedDifference;
+    expect(isFeasible(md)).toBe(false);
+    expect(md).not.toHaveProperty('meanEstimate');
+    expect(!isFeasible(md) && md.reason).toMatch(/matched post-test difference could be computed in only 0 of 5 simulated studies/);
+    expect(isFeasible(r.ancovaMatchedSample)).toBe(false);
+    for (const id of ['ancova', 'gainScore', 'correctedAncova'] as const) {
+      const s = r.analyses[id];
+      expect(isFeasible(s) && s.replications).toBe(5);
+      expect(isFeasible(s) && Number.isFinite(s.meanEstimate)).toBe(true);
+    }
+  });
+
+  it('an analysis computed in only some replications is summarised over those, and the others over all', () => {
+    // Pools 2.5 SD apart, 10 programme members, caliper 0.05 SD: two or more matched sets in only some
+    // replications (94 of 200 with this seed); the full-pool analyses are computed in all of them.
+    const plan = testPlan({ nP: 10, nC: 40, meanP: 25, meanC: 50, replications: 200, seed: 3, matching: { caliper: 0.05 } });
+    const r = simulatePlan(plan);
+    const md = r.analyses.matchedDifference;
+    expect(isFeasible(md) && md.replications > 1 && md.replications < 200).toBe(true);
+    expect(isFeasible(md) && Number.isFinite(md.coverage)).toBe(true);
+    expect(r.estimates.matchedDifference.length).toBe(md.replications);
+    for (const id of ['ancova', 'gainScore', 'correctedAncova'] as const) {
+      expect(r.analyses[id].replications).toBe(200);
+      expect(isFeasible(r.analyses[id])).toBe(true);
+    }
   });
 
   it('refuses to summarise before every replication has run', () => {

@@ -62,6 +62,25 @@ describe('results panel', () => {
     expect(screen.getByTestId('sim-status')).toHaveTextContent(/out of date/);
   });
 
+  it('shows the reason for an analysis the simulation could not summarise, and the others as usual', async () => {
+    const user = userEvent.setup();
+    const c = controlledRunner();
+    const { store, container } = renderApp({ simulation: c.runner });
+    await user.click(screen.getByRole('button', { name: /Run the simulation/ }));
+    const plan = store.getState().validPlan;
+    const result = fakeResult(plan);
+    const reason = 'The matched post-test difference could be computed in only 0 of 500 simulated studies, too few to summarise.';
+    const infeasible = { id: 'matchedDifference' as const, sample: 'matched' as const, feasible: false as const, reason, replications: 0 };
+    await act(async () => {
+      c.runs[0]!.resolve({ ...result, analyses: { ...result.analyses, matchedDifference: infeasible }, ancovaMatchedSample: { ...infeasible, id: 'ancova' } });
+    });
+    const row = container.querySelector('tr[data-analysis="matchedDifference"]') as HTMLElement;
+    expect(row).toHaveTextContent(/Not computed: The matched post-test difference could be computed in only 0 of 500/);
+    const other = container.querySelector('tr[data-analysis="ancova"]') as HTMLElement;
+    expect(other).not.toHaveTextContent(/Not computed/);
+    expect(other.querySelectorAll('.sim-figure').length).toBeGreaterThan(0);
+  });
+
   it('explains a bad plan file and keeps the current plan', async () => {
     const user = userEvent.setup();
     const { store } = renderApp();

@@ -1,3 +1,5 @@
+import type { MatchingWeights } from '../matchingWeights';
+import { welchSatterthwaite } from '../welchSatterthwaite';
 import { choleskyInPlace, choleskySolveInPlace } from './smallCholesky';
 
 /**
@@ -29,6 +31,11 @@ export interface GroupMoments {
     c: Float64Array;
     LW: Float64Array;
     x: Float64Array;
+    G: Float64Array;
+    g: Float64Array;
+    h: Float64Array;
+    b: Float64Array;
+    dx: Float64Array;
   };
 }
 
@@ -54,6 +61,11 @@ export function createGroupMoments(p: number): GroupMoments {
       c: new Float64Array(p),
       LW: new Float64Array(p * p),
       x: new Float64Array(p),
+      G: new Float64Array(p * p),
+      g: new Float64Array(p),
+      h: new Float64Array(p),
+      b: new Float64Array(p),
+      dx: new Float64Array(p),
     },
   };
 }
@@ -134,85 +146,203 @@ export function groupMoments(
 }
 
 /**
+ * A group's own residual variance of Y given its covariates,
+ * (S_yy − s_xy' S_xx⁻¹ s_xy) / (n − 1 − p): the conditional variance
+ * Var(Y | X) in that group under a linear model (any regression text;
+ * common practice). Uses G.work.G and G.work.g as scratch.
+ *
+ * @param G the group's moments (n > p + 1 for a value).
+ * @returns the variance (points², ≥ 0), or NaN when n ≤ p + 1 or the group's
+ *   covariates are collinear within it (S_xx not positive definite).
+ * @throws never.
+ * @example rows x = 1, 2, 3, 4 and y = 1, 3, 2, 4 → (5 − 4²/5)/(4 − 2) = 0.9 (hand-worked).
+ */
+export function residualVariance(G: GroupMoments): number {
+  const p = G.p;
+  const df = G.n - 1 - p;
+  if (!(df > 0)) return NaN;
+  const { G: S, g } = G.work;
+  S.set(G.sxx);
+  g.set(G.sxy);
+  if (!choleskyInPlace(S, p)) return NaN;
+  choleskySolveInPlace(S, p, g);
+  let fit = 0;
+  for (let a = 0; a < p; a++) fit += (g[a] as number) * (G.sxy[a] as number);
+  return Math.max(0, G.syy - fit) / df;
+}
+
+/**
+ * Stacked comparison rows of a matched sample (a member used n_j times
+ * appears n_j times): its use counts, its covariate columns (comparison rows
+ * at positions from + j) and σ²_C, the comparison group's conditional
+ * variance of Y given the covariates (from the full pool).
+ */
+export interface StackedComparison {
+  readonly weights: MatchingWeights;
+  readonly columns: readonly Float64Array[];
+  readonly from: number;
+  readonly sigma2: number;
+}
+
+/**
  * The two-group ANCOVA estimate of the programme effect with several
  * covariates and common slopes, by the normal equations on pooled
  * within-group moments (Huitema 2011, "The Analysis of Covariance and
  * Alternatives", 2nd ed., ch. 10, multiple ANCOVA; Searle 1971 for the OLS
- * algebra; from memory). With a correction matrix Λ it is the multivariate
+ * algebra; from memory), with the group-wise delta-method SE of
+ * ancovaEstimate. With a correction matrix Λ it is the multivariate
  * reliability-corrected ANCOVA: each member's covariates are replaced by
  * X̄_g + Λ (X − X̄_g) (own group's means; Λ = Σ_T'[m, m] Σ_X[m, m]^-1, the
- * several-variable Kelley estimate; Porter 1967 in one variable), then ordinary
- * ANCOVA. With W, w the pooled within-group products:
+ * several-variable Kelley estimate; Porter 1967 in one variable), then
+ * ordinary ANCOVA. With W, w the pooled within-group products:
  *
- *   A = Λ W Λ',  c = Λ w,  b = A^-1 c
- *   estimate = (Ȳ_P − Ȳ_C) − b'(X̄_P − X̄_C)
- *   s² = (S_yy − b'c) / (n_P + n_C − 2 − p)
- *   SE = s · sqrt(1/n_P + 1/n_C + (X̄_P − X̄_C)' A^-1 (X̄_P − X̄_C))
+ *   A = Λ W Λ',  c = Λ w,  b = A^-1 c   (= Λ'^-1 b0, b0 = W^-1 w, when Λ is invertible)
+ *   estimate θ̂ = (Ȳ_P − Ȳ_C) − b'(X̄_P − X̄_C)
  *
- * (the replacement keeps group means and residuals' form; Λ is treated as
- * known, as the one-covariate engine treats rho'). With p = 1 and Λ = rho'
- * this is exactly ancovaEstimate.
+ * SE (delta method; docs/simulation.md): b moves with b0 through
+ * ∂b/∂b0 = A^-1 Λ W, so with h = Λ' A^-1 ΔX̄ (h = W^-1 ΔX̄ without Λ) and
+ * Var(b0) = W^-1 (Σ_g σ̂²_g W_g) W^-1,
  *
- * @param P programme moments. @param C comparison moments (same p).
+ *   Var(θ̂) ≈ Σ_g [ s²_{D,g} / n_g + σ̂²_g h' W_g h ],
+ *   s²_{D,g} = (S_yy,g − 2 b' w_g + b' W_g b) / (n_g − 1)   (variance of Y − b'X in group g),
+ *
+ * σ̂²_g group g's own residual variance (residualVariance; the pooled OLS
+ * residual variance if its covariates are collinear within it). df:
+ * Welch–Satterthwaite over the two groups' shares, each on n_g − 1 − p df
+ * (Welch 1947). With `stacked` the comparison share is
+ * s²_{D,C} Σn_j²/N² + σ²_C Σ_j n_j² (h'(x_j − x̄_C))², s²_{D,C} with divisor
+ * N − Σn_j²/N, df N²/Σn_j² − 1 − p (Kish 1965's effective size). With p = 1
+ * and Λ = rho' this is exactly ancovaEstimate.
+ *
+ * What a naive analysis would report (out[3], out[4] when `out` has room):
+ * the OLS SE s·sqrt(1/n_P + 1/n_C + ΔX̄' A^-1 ΔX̄), s² = (S_yy − b'c)/(n − 2 − p).
+ *
+ * @param P programme moments. @param C comparison moments (same p; over the stacked rows when `stacked`).
  * @param correction Λ, p × p row-major, or null for ordinary ANCOVA.
- * @param out receives [estimate, SE, df].
- * @returns false when it cannot be computed (df < 1, singular covariates, zero
- *   residual variance); `out` is then untouched.
+ * @param out receives [estimate, SE, df] (and [naive OLS SE, its df] when length ≥ 5).
+ * @param stacked the comparison rows' reuse, or null when each row is a distinct person.
+ * @returns false when it cannot be computed (a group with ≤ p + 1 rows (effective rows when
+ *   stacked), singular covariates, zero residual variance); `out` is then untouched.
  * @throws never.
- * @example p = 1, no correction: the same numbers as ancovaEstimate (tested).
+ * @example p = 1, Λ = [0.8]: the same numbers as ancovaEstimate(m, 0.8, out) (tested).
  */
-export function ancovaOnCovariates(P: GroupMoments, C: GroupMoments, correction: Float64Array | null, out: Float64Array): boolean {
+export function ancovaOnCovariates(
+  P: GroupMoments,
+  C: GroupMoments,
+  correction: Float64Array | null,
+  out: Float64Array,
+  stacked: StackedComparison | null = null,
+): boolean {
   const p = P.p;
   const df = P.n + C.n - 2 - p;
-  if (!(df >= 1)) return false;
-  const { W, w, A, c, LW, x } = P.work;
+  if (!(df >= 1) || !(P.n > p + 1) || !(C.n > p + 1)) return false;
+  const { W, w, A, c, LW, x, h, b, dx } = P.work;
   for (let a = 0; a < p * p; a++) W[a] = (P.sxx[a] as number) + (C.sxx[a] as number);
   for (let a = 0; a < p; a++) w[a] = (P.sxy[a] as number) + (C.sxy[a] as number);
   if (correction) {
     const L = correction;
     for (let a = 0; a < p; a++) {
-      for (let b = 0; b < p; b++) {
+      for (let bb = 0; bb < p; bb++) {
         let s = 0;
-        for (let t = 0; t < p; t++) s += (L[a * p + t] as number) * (W[t * p + b] as number);
-        LW[a * p + b] = s;
+        for (let t = 0; t < p; t++) s += (L[a * p + t] as number) * (W[t * p + bb] as number);
+        LW[a * p + bb] = s;
       }
     }
     for (let a = 0; a < p; a++) {
       let s = 0;
       for (let t = 0; t < p; t++) s += (L[a * p + t] as number) * (w[t] as number);
       c[a] = s;
-      for (let b = 0; b <= a; b++) {
+      for (let bb = 0; bb <= a; bb++) {
         let v = 0;
-        for (let t = 0; t < p; t++) v += (LW[a * p + t] as number) * (L[b * p + t] as number);
-        A[a * p + b] = v;
+        for (let t = 0; t < p; t++) v += (LW[a * p + t] as number) * (L[bb * p + t] as number);
+        A[a * p + bb] = v;
       }
     }
   } else {
     A.set(W);
     c.set(w);
   }
-  const sumsOfProducts = c.slice(); // c is needed after A is factored
+  b.set(c); // c is needed after A is factored
   if (!choleskyInPlace(A, p)) return false;
-  // b = A^-1 c (in c); A^-1 ΔX̄ (in x).
-  choleskySolveInPlace(A, p, c);
+  // b = A^-1 c; x = A^-1 ΔX̄.
+  choleskySolveInPlace(A, p, b);
   for (let a = 0; a < p; a++) x[a] = (P.means[a] as number) - (C.means[a] as number);
+  dx.set(x);
   let bc = 0;
   let bdx = 0;
   for (let a = 0; a < p; a++) {
-    bc += (c[a] as number) * (sumsOfProducts[a] as number);
-    bdx += (c[a] as number) * (x[a] as number);
+    bc += (b[a] as number) * (c[a] as number);
+    bdx += (b[a] as number) * (dx[a] as number);
   }
-  const dx = x.slice();
   choleskySolveInPlace(A, p, x);
   let quad = 0;
   for (let a = 0; a < p; a++) quad += (dx[a] as number) * (x[a] as number);
   const rss = P.syy + C.syy - bc;
   if (!(rss > 0)) return false;
   const estimate = P.meanY - C.meanY - bdx;
-  const se = Math.sqrt((rss / df) * (1 / P.n + 1 / C.n + quad));
-  if (!Number.isFinite(estimate) || !(se > 0) || !Number.isFinite(se)) return false;
+  if (!Number.isFinite(estimate)) return false;
+  // h = Λ' A^-1 ΔX̄ (how the slope's noise reaches the estimate).
+  if (correction) {
+    const L = correction;
+    for (let a = 0; a < p; a++) {
+      let s = 0;
+      for (let t = 0; t < p; t++) s += (L[t * p + a] as number) * (x[t] as number);
+      h[a] = s;
+    }
+  } else {
+    h.set(x);
+  }
+  const pooled2 = rss / df;
+  const sigma2P = residualVariance(P);
+  const uP = varianceOfYMinusBX(P, b) / (P.n - 1) / P.n + (Number.isNaN(sigma2P) ? pooled2 : sigma2P) * quadraticForm(P.sxx, h, p);
+  let uC: number;
+  let dfC: number;
+  if (stacked === null) {
+    const sigma2C = residualVariance(C);
+    uC = varianceOfYMinusBX(C, b) / (C.n - 1) / C.n + (Number.isNaN(sigma2C) ? pooled2 : sigma2C) * quadraticForm(C.sxx, h, p);
+    dfC = C.n - 1 - p;
+  } else {
+    const { weights, columns, from, sigma2 } = stacked;
+    const n2 = weights.sumUses2();
+    const N = C.n;
+    const effective = (N * N) / n2;
+    if (!(effective > p + 1)) return false;
+    const { uses, touched } = weights;
+    let q = 0;
+    for (let t = 0; t < weights.touchedCount; t++) {
+      const j = touched[t] as number;
+      let z = 0;
+      for (let a = 0; a < p; a++) z += (h[a] as number) * (((columns[a] as Float64Array)[from + j] as number) - (C.means[a] as number));
+      const u = uses[j] as number;
+      q += u * u * z * z;
+    }
+    uC = (varianceOfYMinusBX(C, b) / (N - n2 / N)) * (n2 / (N * N)) + Math.max(0, sigma2) * q;
+    dfC = effective - 1 - p;
+  }
+  if (!welchSatterthwaite(Math.max(0, uP), P.n - 1 - p, Math.max(0, uC), dfC, out)) return false;
   out[0] = estimate;
-  out[1] = se;
-  out[2] = df;
+  if (out.length >= 5) {
+    out[3] = Math.sqrt(pooled2 * (1 / P.n + 1 / C.n + quad));
+    out[4] = df;
+  }
   return true;
+}
+
+/** Σ (Y − b'X − mean)² over a group's rows: S_yy − 2 b'w + b'W b (≥ 0). */
+function varianceOfYMinusBX(G: GroupMoments, b: Float64Array): number {
+  const p = G.p;
+  let bw = 0;
+  for (let a = 0; a < p; a++) bw += (b[a] as number) * (G.sxy[a] as number);
+  return Math.max(0, G.syy - 2 * bw + quadraticForm(G.sxx, b, p));
+}
+
+/** v' S v for a p × p row-major S. */
+function quadraticForm(S: Float64Array, v: Float64Array, p: number): number {
+  let s = 0;
+  for (let a = 0; a < p; a++) {
+    let r = 0;
+    for (let t = 0; t < p; t++) r += (S[a * p + t] as number) * (v[t] as number);
+    s += (v[a] as number) * r;
+  }
+  return s;
 }

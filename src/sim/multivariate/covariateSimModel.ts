@@ -7,7 +7,7 @@ import type { CovariateModel } from '../../core/multivariate/covariateModel';
  * takes the core's model (simulation and closed forms describe the same world).
  *
  * Variables are indexed pretest first (0), then the plan's covariates in order.
- * Model in group g (Lord & Novick 1968 ch. 3; DESIGN.md):
+ * Model in group g (Lord & Novick 1968 ch. 3; docs/covariates.md):
  *   T ~ N(mean_g, sigmaT_g),  X = T + E,  E_j ~ N(0, sem_j²) independent,
  *   Y = d_g + beta'T + tau [g = P] + e,  e ~ N(0, residualSD²),  d_P − d_C = growthGap.
  */

@@ -12,7 +12,10 @@ import { steppedSimulationRun } from '../steppedSimulationRun';
 import { MATCHED_SETS_OK as AFTER_OK, summariseMatching, VARIANCE_RATIO_OK as VAR_RATIO_OK } from '../summariseMatching';
 import type { CovariateBalance, SimMatchingSummary, SimulationOptions, SimulationResult, SimulationRun } from '../types';
 import { Xoshiro128StarStar } from '../xoshiro128StarStar';
-import { ancovaOnCovariates, createGroupMoments, groupMoments, type GroupMoments } from './ancovaOnCovariates';
+import { gainScoreEstimate } from '../gainScoreEstimate';
+import { matchedDifferenceEstimate } from '../matchedDifferenceEstimate';
+import { MatchingWeights } from '../matchingWeights';
+import { ancovaOnCovariates, createGroupMoments, groupMoments, residualVariance, type GroupMoments, type StackedComparison } from './ancovaOnCovariates';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { createCovariatePools, drawCovariatePools, type CovariatePools } from './drawCovariatePools';
 import { exactStrata } from './exactStrata';
@@ -58,8 +61,12 @@ const B_COUNT = 7;
  *       exactly, with this replication's pooled within-group covariance matrix of
  *       those covariates, caliper in distance units.
  *     Unmeasured covariates are never used.
- *  4. Matched difference, ANCOVA on all measured covariates in the stacked
- *     matched sample, balance of every variable (observed and true) before and after.
+ *  4. Matched difference (matching-weights SE, Abadie & Imbens 2006), ANCOVA on
+ *     all measured covariates in the stacked matched sample (use counts in the
+ *     SE), balance of every variable (observed and true) before and after, the
+ *     variance ratio by matching weights as in the one-pretest engine.
+ *  SEs and df as in docs/simulation.md, "Standard errors" (the same functions
+ *  as the one-pretest engine).
  *
  * @param plan a validated plan (covariates optional).
  * @param options replications (2..1,000,000) and seed (defaults: plan.simulation).
@@ -161,9 +168,13 @@ class MultivariateRunner {
   readonly scoreWs: ScoreMatchingWorkspace | null;
   readonly mahalanobisWs: MahalanobisMatchingWorkspace | null;
   readonly matchedFlag: Uint8Array;
-  readonly useCount: Int32Array;
-  /** Matching weight per comparison member: Σ over the sets using it of 1 / (partners in that set). */
-  readonly setWeight: Float64Array;
+  /**
+   * Per comparison member: uses n_j (stacked rows), matching weight K_j (Σ over the sets using it
+   * of 1 / (partners in that set)) and K'_j, reset through a touched list each replication.
+   */
+  readonly weights: MatchingWeights;
+  /** The stacked matched comparison rows for the matched-sample ANCOVA (sigma2 set per replication). */
+  readonly stacked: { weights: MatchingWeights; columns: readonly Float64Array[]; from: number; sigma2: number };
   readonly pooledSxx: Float64Array;
   /** Per-replication estimates, SEs and flags of the five estimators. */
   readonly records: AnalysisRecords;
@@ -222,8 +233,8 @@ class MultivariateRunner {
     this.scoreWs = distance === 'mahalanobis' ? null : createScoreMatchingWorkspace(this.nP, this.nC, this.k);
     this.mahalanobisWs = distance === 'mahalanobis' ? createMahalanobisMatchingWorkspace(this.nP, this.nC, this.k) : null;
     this.matchedFlag = new Uint8Array(this.nP);
-    this.useCount = new Int32Array(this.nC);
-    this.setWeight = new Float64Array(this.nC);
+    this.weights = new MatchingWeights(this.nC);
+    this.stacked = { weights: this.weights, columns: this.measuredObserved, from: 0, sigma2: 0 };
     this.records = new AnalysisRecords(total, model.effect, plan.analysis.alpha);
     this.matchedCount = new Float64Array(total);
     for (let r = 0; r < this.variables * B_COUNT; r++) this.bal.push(new Float64Array(total));
@@ -245,13 +256,11 @@ class MultivariateRunner {
     groupMoments(cols, y, nC, N, null, P);
     if (ancovaOnCovariates(P, C, null, out)) this.records.record(SLOT_ANCOVA, i, out[0] as number, out[1] as number, out[2] as number);
     if (ancovaOnCovariates(P, C, this.correction, out)) this.records.record(SLOT_CORRECTED, i, out[0] as number, out[1] as number, out[2] as number);
-    {
-      // Gain score Y − pretest: pooled-variance two-sample t (Student 1908), df n − 2. The pretest is measured variable 0.
-      const dfG = nP + nC - 2;
-      const ss = P.syy - 2 * (P.sxy[0] as number) + (P.sxx[0] as number) + (C.syy - 2 * (C.sxy[0] as number) + (C.sxx[0] as number));
-      const s = Math.sqrt((ss / dfG) * (1 / nP + 1 / nC));
-      const e = P.meanY - (P.means[0] as number) - (C.meanY - (C.means[0] as number));
-      if (s > 0 && Number.isFinite(s) && Number.isFinite(e)) this.records.record(SLOT_GAIN, i, e, s, dfG);
+    // Gain score Y − pretest: Welch's unequal-variance t (Welch 1947). The pretest is measured variable 0.
+    const ssP = P.syy - 2 * (P.sxy[0] as number) + (P.sxx[0] as number);
+    const ssC = C.syy - 2 * (C.sxy[0] as number) + (C.sxx[0] as number);
+    if (gainScoreEstimate(nP, P.meanY - (P.means[0] as number), ssP, nC, C.meanY - (C.means[0] as number), ssC, out)) {
+      this.records.record(SLOT_GAIN, i, out[0] as number, out[1] as number, out[2] as number);
     }
 
     // Match.
@@ -288,7 +297,7 @@ class MultivariateRunner {
         const sums = this.sums;
         subsetSums(score, nC, N, this.matchedFlag, 0, sums);
         vP = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
-        subsetSums(score, 0, nC, this.setWeight, 0, sums);
+        subsetSums(score, 0, nC, this.weights.weight, 0, sums);
         vC = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
       } else {
         score = pools.observed[0] as Float64Array;
@@ -305,10 +314,8 @@ class MultivariateRunner {
     // Matched sets: D_j = Y_j − mean of its partners' Y; stacked partner rows weighted by use.
     const { partners, partnerCount } = matching;
     const matchedFlag = this.matchedFlag;
-    const useCount = this.useCount;
-    const setWeight = this.setWeight;
-    useCount.fill(0);
-    setWeight.fill(0);
+    const weights = this.weights;
+    weights.reset();
     let dS = 0;
     let dSS = 0;
     for (let j = 0; j < nP; j++) {
@@ -318,8 +325,7 @@ class MultivariateRunner {
       let ySum = 0;
       for (let q = 0; q < cnt; q++) {
         const c = partners[j * k + q] as number;
-        useCount[c] = (useCount[c] as number) + 1;
-        setWeight[c] = (setWeight[c] as number) + 1 / cnt;
+        weights.add(c, cnt);
         ySum += y[c] as number;
       }
       const d = (y[nC + j] as number) - ySum / cnt;
@@ -327,13 +333,19 @@ class MultivariateRunner {
       dSS += d * d;
     }
     if (m >= 2) {
-      const mean = dS / m;
-      const v = (dSS - dS * mean) / (m - 1);
-      const s = Math.sqrt(v / m);
-      if (s > 0 && Number.isFinite(s)) this.records.record(SLOT_MATCHED, i, mean, s, m - 1);
+      // σ²_C: the comparison pool's residual variance of Y on all measured covariates (the model is
+      // linear-normal, so Var(Y | X) is constant); 0 when it cannot be computed (then no reuse term).
+      const s2 = residualVariance(C);
+      const sigma2C = Number.isFinite(s2) ? s2 : 0;
+      // Matching-weights SE (Abadie & Imbens 2006): the reuse term is 0 without replacement.
+      const excess = settings.replacement ? weights.reuseExcess() : 0;
+      if (matchedDifferenceEstimate(m, dS, dSS, sigma2C, excess, out)) {
+        this.records.record(SLOT_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+      }
       groupMoments(cols, y, nC, N, matchedFlag, MP);
-      groupMoments(cols, y, 0, nC, useCount, MC);
-      if (ancovaOnCovariates(MP, MC, null, out)) this.records.record(SLOT_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
+      groupMoments(cols, y, 0, nC, weights.uses, MC);
+      this.stacked.sigma2 = sigma2C;
+      if (ancovaOnCovariates(MP, MC, null, out, this.stacked as StackedComparison)) this.records.record(SLOT_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
     }
     this.matchedCount[i] = m;
     this.recordBalance(i, m);
@@ -363,7 +375,8 @@ class MultivariateRunner {
 
   /** Observed and true differences of every variable before and after matching (replication i). */
   private recordBalance(i: number, m: number): void {
-    const { nP, nC, pools, sums, bal, matchedFlag, setWeight } = this;
+    const { nP, nC, pools, sums, bal, matchedFlag } = this;
+    const setWeight = this.weights.weight;
     const N = nP + nC;
     const p = this.variables;
     for (let v = 0; v < p; v++) {
