@@ -2,6 +2,9 @@ import { describe, expect, it } from 'vitest';
 import { createSimulation } from '../../src/sim/createSimulation';
 import { createMultivariateSimulation } from '../../src/sim/multivariate/createMultivariateSimulation';
 import { simulatePlan } from '../../src/sim/simulatePlan';
+import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
+import type { AnalyticAnalysis } from '../../src/core/analyticResults';
+import type { Plan } from '../../src/core/plan';
 import { isFeasible, type SimAnalysisResult, type SimulationResult } from '../../src/sim/types';
 import { feasible } from './feasible';
 import { testPlan } from './planFixtures';
@@ -17,6 +20,8 @@ import { seGridPlans } from './seGrid';
  */
 
 const nominal = 0.95;
+/** The per-analysis figures the planner shows before a full simulation (CLI, screen and PDF alike). */
+const shownFor = (plan: Plan) => analysePlannedProcedure(plan).analyses;
 const mcse = (p: number, n: number) => Math.sqrt((p * (1 - p)) / n);
 
 describe('the three measured plans: nominal coverage and false-positive rate', () => {
@@ -24,8 +29,11 @@ describe('the three measured plans: nominal coverage and false-positive rate', (
   // 0.0034. Tolerance: 0.02 either side (the target), which is 5.8 MCSEs, so a correct SE passes with near
   // certainty while each SE this replaced (coverage .915, .895 and .845 on these plans, measured) fails.
   const reps = 4000;
-  const check = (s: SimAnalysisResult) => {
+  const check = (s: SimAnalysisResult, shown?: AnalyticAnalysis) => {
     const a = feasible(s);
+    // The false-positive rate shown before simulation (closed form, or the quick planned-procedure figure for
+    // the matched difference) is within 0.02 of the simulated rejection rate at tau = 0 (the brief's target).
+    if (shown) expect(Math.abs(shown.falsePositiveRate! - a.rejectionRate), `${shown.id}: shown ${shown.falsePositiveRate}, simulated ${a.rejectionRate}`).toBeLessThanOrEqual(0.02);
     expect(a.replications).toBe(reps);
     expect(Math.abs(a.coverage - nominal), `coverage ${a.coverage} (MCSE ${a.coverageMCSE})`).toBeLessThanOrEqual(0.02);
     expect(Math.abs(a.rejectionRate - 0.05), `rejection ${a.rejectionRate} (MCSE ${a.rejectionRateMCSE})`).toBeLessThanOrEqual(0.02);
@@ -37,18 +45,19 @@ describe('the three measured plans: nominal coverage and false-positive rate', (
     // Porter's correction is unbiased here (equal within-group reliabilities, rho' = rho; Porter 1967, from memory).
     // The OLS SE on the corrected pretest omits the sampling variance of the group means the correction
     // multiplies (measured before, 4,000 replications: empirical SE 1.84 vs OLS 1.62, coverage .915).
-    const r = simulatePlan(testPlan({ nP: 100, nC: 100, meanP: 40, meanC: 50, reliability: 0.5, assumedReliability: 0.5, effect: 0, replications: reps, seed: 11 }));
-    check(r.analyses.correctedAncova);
+    const plan = testPlan({ nP: 100, nC: 100, meanP: 40, meanC: 50, reliability: 0.5, assumedReliability: 0.5, effect: 0, replications: reps, seed: 11 });
+    const r = simulatePlan(plan);
+    check(r.analyses.correctedAncova, shownFor(plan).correctedAncova);
   });
 
   it('matching with replacement (Abadie & Imbens 2006): caliper .02, 1:1, 150 vs 200, 1 SD apart, tau 0', () => {
     // Reliability .999: no regression artefact, so the matched difference and the matched-sample ANCOVA are
     // unbiased; reuse is heavy (the programme sits in the comparison pool's lower tail). Measured before
     // (4,000 replications): model SE 1.10 vs empirical 1.34, coverage .895, false-positive rate .104.
-    const r = simulatePlan(
-      testPlan({ nP: 150, nC: 200, meanP: 40, meanC: 50, reliability: 0.999, effect: 0, matching: { caliper: 0.02, replacement: true }, replications: reps, seed: 12 }),
-    );
-    check(r.analyses.matchedDifference);
+    const plan = testPlan({ nP: 150, nC: 200, meanP: 40, meanC: 50, reliability: 0.999, effect: 0, matching: { caliper: 0.02, replacement: true }, replications: reps, seed: 12 });
+    const r = simulatePlan(plan);
+    // The figure shown before simulation counts the expected reuse too (quick simulation of the planned procedure).
+    check(r.analyses.matchedDifference, shownFor(plan).matchedDifference);
     check(r.ancovaMatchedSample);
   });
 
@@ -68,9 +77,10 @@ describe('the three measured plans: nominal coverage and false-positive rate', (
     const plan = testPlan({ nP: 20, nC: 400, meanP: 50, meanC: 50, effect: 0, r: 0.2, reliability: 0.8, replications: reps, seed: 13, matching: { caliper: 0.2 } });
     plan.groups.programme.pretestSD = 20;
     const r = simulatePlan(plan);
-    check(r.analyses.gainScore);
-    check(r.analyses.ancova);
-    check(r.analyses.correctedAncova);
+    const shown = shownFor(plan);
+    check(r.analyses.gainScore, shown.gainScore);
+    check(r.analyses.ancova, shown.ancova);
+    check(r.analyses.correctedAncova, shown.correctedAncova);
   });
 });
 
@@ -88,6 +98,16 @@ describe('a seeded grid of invented plans: every analysis covers at 0.95 ± 0.02
         const a = feasible(s);
         expect(a.replications).toBe(reps);
         expect(Math.abs(a.coverage - nominal), `${id}: coverage ${a.coverage}`).toBeLessThanOrEqual(0.02 + 3 * mcse(nominal, reps));
+      }
+      // The rejection rate shown before simulation (power here: every analysis is unbiased, tau ≠ 0) is within
+      // 0.02 + 3 MCSE of the simulated one (closed forms; the matched difference from the quick simulation).
+      const shown = shownFor(plan);
+      for (const [id, s] of Object.entries(r.analyses)) {
+        const a = feasible(s);
+        const expected = shown[id as keyof typeof shown].power!;
+        expect(Math.abs(expected - a.rejectionRate), `${id}: shown power ${expected}, simulated ${a.rejectionRate}`).toBeLessThanOrEqual(
+          0.02 + 3 * mcse(a.rejectionRate, reps),
+        );
       }
     });
   }
