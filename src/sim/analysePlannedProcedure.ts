@@ -16,11 +16,6 @@ import { estimatePlannedProcedure } from './estimatePlannedProcedure';
  * @example analysePlannedProcedure(demoPlan()).procedure.basis // 'planned-procedure'
  */
 export function analysePlannedProcedure(plan: Plan): AnalyticResults {
-  const formula = analysePlan(plan); // checks the inputs before any simulation
-  try {
-    return analysePlan(plan, estimatePlannedProcedure(plan));
-  } catch {
-    // The quick run cannot fail where the closed forms succeed except on engine limits; keep the formula figures then.
-    return formula;
-  }
+  analysePlan(plan); // checks the inputs (researcher-readable messages) before any simulation
+  return analysePlan(plan, estimatePlannedProcedure(plan));
 }

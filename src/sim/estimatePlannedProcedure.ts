@@ -52,7 +52,7 @@ export function quickReplications(plan: Plan): number {
  * @param plan a validated plan.
  * @returns estimates for analysePlan(plan, estimates). The matched difference
  *   is marked infeasible (with the reason) when it could not be computed in
- *   at least two replications.
+ *   at least two replications or fewer than 2 programme members are matched on average.
  * @throws Error with a researcher-readable message for contradictory inputs (from the engine).
  * @example
  *   analysePlan(plan, estimatePlannedProcedure(plan)).analyses.matchedDifference.expectedEstimate
@@ -67,6 +67,13 @@ export function estimatePlannedProcedure(plan: Plan): PlannedProcedureEstimates 
   const md = result.analyses.matchedDifference;
   if (!isFeasible(md)) return { replications, seed, analyses: { matchedDifference: { infeasible: true, reason: md.reason } } };
   const matched = result.matching.meanMatchedProgramme;
+  if (!(matched >= 2)) {
+    const reason =
+      `In a quick simulation of the planned procedure about ${matched.toFixed(1)} of the ${plan.groups.programme.poolSize} programme members ` +
+      'find a comparison partner on average, and a matched comparison needs at least 2. Widen the caliper, enlarge the comparison pool, ' +
+      'recruit a comparison group closer to the programme group on the pretest, or allow comparison members to be reused.';
+    return { replications, seed, analyses: { matchedDifference: { infeasible: true, reason } } };
+  }
   return {
     replications,
     seed,

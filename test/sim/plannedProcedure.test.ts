@@ -133,6 +133,33 @@ describe('expected figures for the planned procedure (quick simulation)', () => 
   });
 });
 
+describe('when (almost) nobody can be matched', () => {
+  it('the quick simulation marks the matched difference not feasible with a reason; the others stay reported', () => {
+    // Invented: groups 6 SDs apart, caliper 0.05 — about 0.3 of 180 programme members find a partner (closed form).
+    const plan = demoPlan();
+    plan.groups.programme.pretestMean = 20;
+    plan.groups.comparison.pretestMean = 80;
+    plan.matching.caliper = 0.05;
+    const est = estimatePlannedProcedure(plan);
+    const md = est.analyses.matchedDifference!;
+    expect('infeasible' in md && md.infeasible).toBe(true);
+    const r = analysePlannedProcedure(plan);
+    expect(r.analyses.matchedDifference.feasible).toBe(false);
+    expect(r.analyses.matchedDifference.power).toBeNull();
+    expect(r.analyses.ancova.feasible).toBe(true);
+    expect(Number.isFinite(r.analyses.ancova.power)).toBe(true);
+  });
+
+  it('a quick-simulation verdict of "not feasible" overrides a closed form that expected enough matches', () => {
+    const plan = demoPlan(); // the closed form expects about 174 matched
+    const r = analysePlan(plan, { replications: 40, seed: 1, analyses: { matchedDifference: { infeasible: true, reason: 'Nobody matched in the quick run.' } } });
+    expect(r.analyses.matchedDifference.feasible).toBe(false);
+    expect(r.analyses.matchedDifference.infeasibleReason).toBe('Nobody matched in the quick run.');
+    expect(r.analyses.matchedDifference.falsePositiveRate).toBeNull();
+    expect(r.analyses.matchedDifference.requiredNPerGroup).toBeNull();
+  });
+});
+
 describe('quickFiguresAgreement', () => {
   it('flags a figure more than 3 combined MC SEs from the simulation and names the simulation as the one to trust', () => {
     const plan = tightPlan();
