@@ -102,12 +102,14 @@ export function ComparisonTable() {
                     )}
                   </th>
                   <td>
-                    {fmtSigned(a.bias)}
-                    {a.basis === 'planned-procedure' && <span className="mcse"> ± {fmt(a.expectedEstimateMCSE)}</span>} / {fmtSigned(a.biasSD)}
+                    <span className="nowrap">
+                      {fmtSigned(a.bias)} / {fmtSigned(a.biasSD)}
+                    </span>
                     {a.basis === 'planned-procedure' && (
-                      <span className="formula-figure">
-                        quick simulation of this plan; formula for unlimited pools: {fmtSigned(a.formulaEstimate - analytic.tau)}
-                      </span>
+                      <>
+                        <span className="formula-figure">quick simulation, MC SE {fmt(a.expectedEstimateMCSE)}</span>
+                        <span className="formula-figure">formula, unlimited pools: {fmtSigned(a.formulaEstimate - analytic.tau)}</span>
+                      </>
                     )}
                   </td>
                   <td>
