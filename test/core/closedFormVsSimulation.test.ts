@@ -2,6 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { ancovaEstimate, correctedAncovaEstimate, gainScoreEstimate, matchedDifferenceEstimate } from '../../src/core/expectedEstimate';
 import { analysisStandardError } from '../../src/core/analysisStandardError';
 import { modelFixture } from './modelFixture';
+import { normalSource, mean, sd } from './independentNormals';
 
 // A small self-contained Monte Carlo of the DESIGN.md model, written here from the model's
 // definition (T ~ N, X = T + E, Y = d_g + beta T + tau[P] + e) without any core code, to test
@@ -9,36 +10,6 @@ import { modelFixture } from './modelFixture';
 // Tolerance: 4 Monte Carlo SEs for means (false alarm ≈ 6e-5 per check), and for SDs
 // 4 MCSEs (MCSE of an SD ≈ SD/sqrt(2(R − 1))) plus 3% for the SE approximations' own error.
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-function normalSource(seed: number): () => number {
-  const u = mulberry32(seed);
-  let spare: number | null = null;
-  return () => {
-    if (spare !== null) {
-      const s = spare;
-      spare = null;
-      return s;
-    }
-    const r = Math.sqrt(-2 * Math.log(1 - u()));
-    const th = 2 * Math.PI * u();
-    spare = r * Math.sin(th);
-    return r * Math.cos(th);
-  };
-}
-const mean = (a: number[]) => a.reduce((s, x) => s + x, 0) / a.length;
-const sd = (a: number[]) => {
-  const m = mean(a);
-  return Math.sqrt(a.reduce((s, x) => s + (x - m) ** 2, 0) / (a.length - 1));
-};
 
 // Invented scenario: pretest SD 10, reliability .75 in both groups (SEM 5), programme 10 points lower,
 // beta .8, residual SD sqrt(52), effect 2.5, growth gap 0.5.

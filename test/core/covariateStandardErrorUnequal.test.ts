@@ -3,6 +3,7 @@ import { deriveCovariateModel } from '../../src/core/multivariate/covariateModel
 import { covariateStandardError } from '../../src/core/multivariate/covariateStandardError';
 import { validatePlan } from '../../src/core/validatePlan';
 import { afterSchoolMaths } from './multivariateFixture';
+import { normalSource } from './independentNormals';
 
 // The covariate path's closed-form SEs (delta method for ANCOVA and the corrected ANCOVA of
 // Porter 1967 generalised to several variables; Welch 1947 for the gain score) when the groups
@@ -12,31 +13,6 @@ import { afterSchoolMaths } from './multivariateFixture';
 // computed here. Tolerance: 3% of the closed form. With R = 10,000 the Monte Carlo SE of an SD
 // is about 0.7% (SD/sqrt(2(R − 1)), common practice), so 3% is about 4 MCSEs.
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-function normalSource(seed: number): () => number {
-  const u = mulberry32(seed);
-  let spare: number | null = null;
-  return () => {
-    if (spare !== null) {
-      const s = spare;
-      spare = null;
-      return s;
-    }
-    const r = Math.sqrt(-2 * Math.log(1 - u()));
-    const th = 2 * Math.PI * u();
-    spare = r * Math.sin(th);
-    return r * Math.cos(th);
-  };
-}
 /** Lower Cholesky factor of a positive semi-definite matrix (zero columns where a pivot is 0). */
 function cholesky(a: number[][]): number[][] {
   const n = a.length;

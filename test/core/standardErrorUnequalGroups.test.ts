@@ -8,6 +8,7 @@ import { studentTQuantile } from '../../src/core/distributions';
 import type { ModelParameters } from '../../src/core/modelParameters';
 import { welchSatterthwaiteDf } from '../../src/core/welchSatterthwaiteDf';
 import { modelFixture } from './modelFixture';
+import { normalSource, mean, sd } from './independentNormals';
 
 // The closed-form SEs of the gain score (Welch 1947), ANCOVA and the corrected ANCOVA
 // (delta method; Porter 1967 for the estimator) when the groups differ in size and spread,
@@ -15,36 +16,6 @@ import { modelFixture } from './modelFixture';
 // (T ~ N(mu_g, trueSD_g²), X = T + E, Y = beta T + e) with plain arithmetic and a
 // Box–Muller normal generator; no core code draws or estimates anything.
 
-function mulberry32(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
-function normalSource(seed: number): () => number {
-  const u = mulberry32(seed);
-  let spare: number | null = null;
-  return () => {
-    if (spare !== null) {
-      const s = spare;
-      spare = null;
-      return s;
-    }
-    const r = Math.sqrt(-2 * Math.log(1 - u()));
-    const th = 2 * Math.PI * u();
-    spare = r * Math.sin(th);
-    return r * Math.cos(th);
-  };
-}
-const mean = (a: number[]) => a.reduce((s, x) => s + x, 0) / a.length;
-const sd = (a: number[]) => {
-  const m = mean(a);
-  return Math.sqrt(a.reduce((s, x) => s + (x - m) ** 2, 0) / (a.length - 1));
-};
 
 /** Invented: pretest SDs 20 (programme) and 10 (comparison), SEM 5 in both, beta .5, residual SD 5. */
 function unequalSpread(nP: number, nC: number, gap: number): ModelParameters {
