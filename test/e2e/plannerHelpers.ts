@@ -49,6 +49,8 @@ export async function openFreshPlanner(page: Page): Promise<void> {
   });
   await page.goto('/');
   await expect(page.getByTestId('verdict-bias')).toBeVisible();
+  // Let the page settle: the quick figures of the planned procedure arrive from their worker and re-render once.
+  await waitForPlannedFigures(page);
 }
 
 /** A long task the browser reported (PerformanceObserver 'longtask': over 50 ms on the main thread). */
