@@ -60,8 +60,8 @@ export const PLAN_LIMITS = {
   sdMin: 0.000_001,
   /** Smallest significance level: one in a million (normal quantiles stay accurate far beyond it). */
   alphaMin: 0.000_001,
-  /** Narrowest caliper, in SDs: a thousandth of an SD (far tighter than any matching in practice). */
-  caliperMin: 0.001,
+  /** Narrowest caliper, in SDs: a ten-thousandth of an SD (far tighter than any matching in practice). */
+  caliperMin: 0.0001,
   /** Lowest reliability the corrected ANCOVA may assume: it divides by it. */
   assumedReliabilityMin: 0.01,
 } as const;

@@ -149,7 +149,7 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
       out.push({
         field: 'pretest',
         message:
-          'Give the pretest either a reliability (a number between 0 and 1, exclusive) or an SEM (in test points, greater than 0); neither was given.',
+          'Give the pretest either a reliability (a number between 0 and 1, exclusive) or an SEM (in test points, from 0.000001 to 1000000); neither was given.',
       });
     }
   }

@@ -26,11 +26,12 @@ export const CONTROL_CHARACTERS = /[\u0000-\u001f\u007f-\u009f\u200e\u200f\u2028
  * @returns the text with those characters escaped; other text unchanged.
  * @throws never.
  * @example showControlCharacters('Reading\u001b[2J club') // "Reading\\x1b[2J club"
- * @example showControlCharacters('a\u0000b', 'json') // "a\\u0000b"
+ * @example showControlCharacters('"a\u009bb"', 'json') // '"a\\u009bb"'
  */
 export function showControlCharacters(text: string, notation: 'x' | 'json' = 'x'): string {
   return text.replace(CONTROL_CHARACTERS, (ch) => {
     const code = ch.charCodeAt(0);
+    if (notation === 'json' && code < 0x20) return ch;
     if (notation === 'x' && code <= 0xff) return `\\x${code.toString(16).padStart(2, '0')}`;
     return `\\u${code.toString(16).padStart(4, '0')}`;
   });
