@@ -115,7 +115,7 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
   const read = await readInputFile(cmd.file, 'plan');
   if (!read.ok) return failWith(io, [read.problem]);
   const checked = parsePlanText(read.text);
-  if (!checked.ok) return failWith(io, capProblemList(checked.problems.map((p) => problemLine(cmd.file, p))));
+  if (!checked.ok) return failWith(io, checked.problems.map((p) => problemLine(cmd.file, p)));
   const plan: Plan = structuredClone(checked.plan);
   if (cmd.replications !== undefined) plan.simulation.replications = cmd.replications;
   if (cmd.seed !== undefined) plan.simulation.seed = cmd.seed;
