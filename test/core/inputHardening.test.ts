@@ -124,6 +124,14 @@ describe('1. huge values: every numeric field has a documented range, refused wi
     expect(s.problems.map((q) => q.message).join(' ')).toContain('Covariate 1 SD must be a number from 0.000001 to 1000000');
     expect(s.analytic).not.toBeNull(); // the demo's results underneath, marked stale
   });
+  it('typing 1e308 as a covariate SD in the form shows the range beside the field and keeps the text', () => {
+    const store = makeStore();
+    store.getState().loadExample('after-school-maths');
+    expect(() => store.getState().setField('covariates.0.sd', '1e308')).not.toThrow();
+    const s = store.getState();
+    expect(s.problems).toContainEqual({ field: 'covariates.0.sd', message: 'Covariate 1 SD must be a number from 0.000001 to 1000000; got 1e+308.' });
+    expect(JSON.stringify(s.draft)).toContain('1e308'); // the text as typed is kept
+  });
   it('the store turns an unexpected failure into one plain problem (evaluateDraftSafely)', () => {
     const draft = planToDraft(demoPlan());
     const throwing = { validatePlan, analysePlan: () => { throw new Error('Matrix is not symmetric'); } };
