@@ -1,6 +1,7 @@
 import type { AnalyticResults } from '../core/analyticResults';
 import { ANALYSIS_IDS, type Plan } from '../core/plan';
 import { procedureBasisNote } from '../core/procedureBasisNote';
+import { showControlCharacters as visible } from '../core/visibleText';
 
 /** The caution printed under every result. */
 export const PLANNING_CAUTION =
@@ -24,10 +25,10 @@ export const fmtPercent = (x: number | null): string => (x === null ? 'n/a' : `$
  */
 export function formatResultsTable(plan: Plan, results: AnalyticResults): string {
   const lines: string[] = [];
-  lines.push(plan.title === '' ? 'Untitled plan' : plan.title);
+  lines.push(plan.title === '' ? 'Untitled plan' : visible(plan.title));
   lines.push('');
   lines.push(
-    `Hypothesised effect: ${fmtPoints(results.tau)} posttest points. Programme: ${plan.groups.programme.label} (${plan.groups.programme.poolSize}); comparison: ${plan.groups.comparison.label} (${plan.groups.comparison.poolSize}).`,
+    `Hypothesised effect: ${fmtPoints(results.tau)} posttest points. Programme: ${visible(plan.groups.programme.label)} (${plan.groups.programme.poolSize}); comparison: ${visible(plan.groups.comparison.label)} (${plan.groups.comparison.poolSize}).`,
   );
   lines.push('');
   lines.push('Expected results for the procedure as planned');
@@ -91,7 +92,7 @@ function covariateLines(results: AnalyticResults): string[] {
   const yesNo = (x: boolean): string => (x ? 'yes' : 'no');
   const header = ['Variable', 'Measured', 'Exact', 'Reliability', 'SMD before', 'Observed SMD after', 'True SMD after'];
   const rows = balance.map((b, j) => [
-    b.name,
+    visible(b.name),
     yesNo(b.measured),
     yesNo(b.exact),
     fmtReliability(cm.reliability.comparison[j] as number),
@@ -108,7 +109,7 @@ function covariateLines(results: AnalyticResults): string[] {
   out.push(
     hidden.covariates.length === 0
       ? 'Unmeasured part of the bias: none (every covariate in the plan is measured).'
-      : `Unmeasured part of the bias (${hidden.covariates.join(', ')}): ${fmtPoints(hidden.points)} points (${fmtSD(hidden.sd)} SD), ` +
+      : `Unmeasured part of the bias (${hidden.covariates.map((c) => visible(c)).join(', ')}): ${fmtPoints(hidden.points)} points (${fmtSD(hidden.sd)} SD), ` +
           `${fmtPercent(hidden.share)} of the effect. No analysis of the measured covariates removes it.`,
   );
   return out;

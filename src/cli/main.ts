@@ -14,6 +14,9 @@ import { createProgressBar, type ProgressStream } from './progressBar';
 import { simulationJson, type SimulationJson } from './simulationJson';
 import { runPilotCommand } from './pilotCommand';
 import { readInputFile } from './readInputFile';
+import { capProblemList } from '../core/capProblemList';
+import { plainErrorMessage } from '../core/plainErrorMessage';
+import { showControlCharacters } from '../core/visibleText';
 
 /** Where the command line writes (process.stdout / process.stderr, or a test double). */
 export interface CliIO {
@@ -66,12 +69,28 @@ Exit status: 0 done, 2 bad command line, unreadable file or invalid plan
 The plan file format is described in docs/plan-file.md.
 `;
 
+/** The line printed when something fails that no input should make fail (exit 1). */
+const FAULT_LINE =
+  'Meanward stopped because of a fault of its own, not because of anything in your input. Please report it with the command and the file you used.';
+
 /**
  * The command line: "meanward run | demo | --help". Every figure printed comes
  * from analysePlannedProcedure (src/core closed forms with the quick simulation of the planned procedure from src/sim) and the simulation; this file only reads, checks and formats.
- * @returns the exit code. Never throws.
+ * Text from the plan or the pilot file is printed with control characters
+ * escaped (showControlCharacters); lists of problems stop after 50 (capProblemList).
+ * @returns the exit code. Never throws: an unexpected failure prints one plain
+ *   line (never a stack trace) and exits 1.
  */
 export async function main(argv: string[], io: CliIO): Promise<number> {
+  try {
+    return await runCommand(argv, io);
+  } catch (err) {
+    const detail = plainErrorMessage(err, '');
+    return failWith(io, [detail === '' ? FAULT_LINE : `${FAULT_LINE} (${detail})`], EXIT_INTERNAL);
+  }
+}
+
+async function runCommand(argv: string[], io: CliIO): Promise<number> {
   const parsed = parseCommandLine(argv);
   if (!parsed.ok) return failWith(io, parsed.problems);
   const cmd = parsed.value;
@@ -88,8 +107,8 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
     const pilot = await runPilotCommand(cmd);
     if (!pilot.ok) return failWith(io, pilot.problems, pilot.internal ? EXIT_INTERNAL : EXIT_USAGE);
     const bad = firstNonFinite(pilot.estimates, 'estimates');
-    if (bad !== null) return failWith(io, [`Internal fault: ${bad} is not a finite number. Please report this with the file's layout.`], EXIT_INTERNAL);
-    io.stdout.write(pilot.output);
+    if (bad !== null) return failWith(io, [`${FAULT_LINE} (The pilot estimate ${bad} is not a finite number.)`], EXIT_INTERNAL);
+    io.stdout.write(visibleOutput(pilot.output, cmd.json));
     return EXIT_OK;
   }
 
@@ -106,11 +125,11 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
     analytic = analysePlannedProcedure(plan);
   } catch (err) {
     // analysePlannedProcedure (via analysePlan) throws researcher-readable messages for inputs validation cannot foresee.
-    return failWith(io, [`${cmd.file}: ${err instanceof Error ? err.message : String(err)}`]);
+    return failWith(io, [`${cmd.file}: ${plainErrorMessage(err, ANALYSIS_FAILED)}`]);
   }
   const bad = firstNonFinite(analytic, 'analytic');
   if (bad !== null) {
-    return failWith(io, [`Internal fault: ${bad} is not a finite number. Please report this with your plan file.`], EXIT_INTERNAL);
+    return failWith(io, [`${FAULT_LINE} (The figure ${bad} is not a finite number.)`], EXIT_INTERNAL);
   }
 
   // ── SIMULATION ─────────────────────────────────────────────────────────
@@ -124,13 +143,13 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
       result = simulatePlan(plan, { onProgress: bar ? (done, total) => bar.update(done, total) : undefined });
     } catch (err) {
       bar?.done();
-      return failWith(io, [`${cmd.file}: ${err instanceof Error ? err.message : String(err)}`]);
+      return failWith(io, [`${cmd.file}: ${plainErrorMessage(err, ANALYSIS_FAILED)}`]);
     }
     bar?.done();
     simulation = simulationJson(result, cmd.estimates === true);
     const badSim = firstNonFinite(simulation, 'simulation');
     if (badSim !== null) {
-      return failWith(io, [`Internal fault: ${badSim} is not a finite number. Please report this with your plan file.`], EXIT_INTERNAL);
+      return failWith(io, [`${FAULT_LINE} (The simulated figure ${badSim} is not a finite number.)`], EXIT_INTERNAL);
     }
     simulationText = formatSimulationTable(result, analytic);
     const disagreements = quickFiguresAgreement(analytic, result);
@@ -139,16 +158,26 @@ export async function main(argv: string[], io: CliIO): Promise<number> {
   // ───────────────────────────────────────────────────────────────────────
 
   if (cmd.json) {
-    io.stdout.write(`${JSON.stringify({ plan, analytic, simulation, caution: PLANNING_CAUTION }, null, 2)}\n`);
+    io.stdout.write(visibleOutput(`${JSON.stringify({ plan, analytic, simulation, caution: PLANNING_CAUTION }, null, 2)}\n`, true));
   } else {
-    io.stdout.write(`${formatResultsTable(plan, analytic)}\n${simulationText}\n${PLANNING_CAUTION}\n`);
+    io.stdout.write(visibleOutput(`${formatResultsTable(plan, analytic)}\n${simulationText}\n${PLANNING_CAUTION}\n`, false));
   }
   return EXIT_OK;
 }
 
+/** A plan the analysis could not finish, in plain words (when its own message is program text). */
+const ANALYSIS_FAILED =
+  'The figures for this plan could not be computed. Check the values near the ends of their ranges (docs/plan-file.md lists them); if the plan looks sensible, please report it.';
+
+/** Problems on stderr, one per line: at most 50 of them, control characters escaped. */
 function failWith(io: CliIO, lines: string[], code: number = EXIT_USAGE): number {
-  for (const l of lines) io.stderr.write(`meanward: ${l}\n`);
+  for (const l of capProblemList(lines)) io.stderr.write(`meanward: ${showControlCharacters(l)}\n`);
   return code;
+}
+
+/** Output text with control characters escaped: line by line for a table, as JSON escapes for JSON. */
+function visibleOutput(text: string, json: boolean): string {
+  return json ? showControlCharacters(text, 'json') : text.split('\n').map((line) => showControlCharacters(line)).join('\n');
 }
 
 function problemLine(file: string, p: PlanProblem): string {

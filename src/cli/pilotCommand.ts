@@ -6,6 +6,7 @@ import type { PilotCommandLine } from './pilotCommandLine';
 import { formatPilotTable, PILOT_NOTE } from './pilotTable';
 import { PLANNING_CAUTION } from './formatResultsTable';
 import { readInputFile } from './readInputFile';
+import { plainErrorMessage } from '../core/plainErrorMessage';
 
 export type PilotCommandResult =
   | { ok: true; estimates: PilotEstimates; output: string }
@@ -26,7 +27,12 @@ export async function runPilotCommand(cmd: PilotCommandLine): Promise<PilotComma
   } catch (err) {
     // A PilotDataError is bad input (exit 2); anything else is a fault of ours (exit 1).
     if (err instanceof PilotDataError) return { ok: false, problems: [`${cmd.file}: ${err.message}`] };
-    return { ok: false, internal: true, problems: [`Internal fault: ${err instanceof Error ? err.message : String(err)}`] };
+    const detail = plainErrorMessage(err, '');
+    return {
+      ok: false,
+      internal: true,
+      problems: [`The pilot file could not be read because of a fault in Meanward, not in your file${detail === '' ? '' : ` (${detail})`}. Please report it with the file's layout.`],
+    };
   }
   const output = cmd.json
     ? `${JSON.stringify({ ...estimates, note: PILOT_NOTE, caution: PLANNING_CAUTION }, null, 2)}\n`

@@ -1,5 +1,6 @@
 import type { PilotEstimates } from '../pilot/types';
 import { fmtPoints, fmtReliability, PLANNING_CAUTION } from './formatResultsTable';
+import { showControlCharacters as visible } from '../core/visibleText';
 
 /** What the pilot estimates are and are not (shown under the table and in --json). */
 export const PILOT_NOTE =
@@ -18,7 +19,7 @@ export function formatPilotTable(est: PilotEstimates): string {
   const programmeValue = est.mapping?.programmeValue;
   const lines: string[] = [];
   lines.push(
-    `Pilot file: ${est.fileName ?? '(unnamed)'}: ${est.rowsRead} rows read, ${est.rowsUsed} used, ${est.rowsDropped} left out.`,
+    `Pilot file: ${est.fileName === undefined ? '(unnamed)' : visible(est.fileName)}: ${est.rowsRead} rows read, ${est.rowsUsed} used, ${est.rowsDropped} left out.`,
     `  ${est.droppedReason}`,
     '',
   );
@@ -41,7 +42,7 @@ export function formatPilotTable(est: PilotEstimates): string {
   lines.push(
     ...alignColumns([
       head,
-      row(`Programme${programmeValue === undefined ? '' : ` (${programmeValue})`}`, programme),
+      row(`Programme${programmeValue === undefined ? '' : ` (${visible(programmeValue)})`}`, programme),
       row(`Comparison (${est.groups.comparisonValue})`, comparison),
     ]),
   );
@@ -79,7 +80,7 @@ export function formatPilotTable(est: PilotEstimates): string {
 
   if (est.itemTotal && est.itemTotal.length > 0) {
     lines.push('', 'Corrected item–total correlations (within groups)');
-    lines.push(...alignColumns(est.itemTotal.map((x) => [x.column, fmtReliability(x.correctedCorrelation)])).map((l) => `  ${l}`));
+    lines.push(...alignColumns(est.itemTotal.map((x) => [visible(x.column), fmtReliability(x.correctedCorrelation)])).map((l) => `  ${l}`));
   }
   if (est.warnings.length > 0) {
     lines.push('', 'Warnings');

@@ -11,7 +11,11 @@ import { z } from 'zod';
  *
  * Ranges are those a researcher would accept (common practice): SDs > 0,
  * reliabilities in (0, 1), |correlation| < 1, alpha in (0, 0.5),
- * caliper in (0, 5] SDs, pools of 2 to 100000 people.
+ * caliper in (0, 5] SDs, pools of 2 to 100000 people. Quantities in test or
+ * posttest points (means, SDs, SEM, gaps, effects) are kept within
+ * PLAN_LIMITS.pointsMax in size and SDs at least PLAN_LIMITS.sdMin, so that
+ * squares and products of them (variances, covariances) stay far inside the
+ * range of double-precision numbers and every analysis can be computed.
  */
 
 /** Plain-language name of a field and the rule it must meet (sentence fragments). */
@@ -45,7 +49,27 @@ export const PLAN_LIMITS = {
   covariatesMax: 8,
   covariateNameMaxLength: 60,
   provenanceNoteMaxLength: 300,
+  /**
+   * Largest size of a mean, gap or effect in test (or posttest, or covariate)
+   * units, and largest SD or SEM. A million points covers every real scale
+   * (IQ-type scores, percentages, reaction times in ms, incomes in thousands);
+   * squares of it (1e12) and their products stay exact to many digits.
+   */
+  pointsMax: 1_000_000,
+  /** Smallest SD or SEM: a millionth of a point (rescale the units when a scale is finer). */
+  sdMin: 0.000_001,
+  /** Smallest significance level: one in a million (normal quantiles stay accurate far beyond it). */
+  alphaMin: 0.000_001,
+  /** Narrowest caliper, in SDs: a ten-thousandth of an SD (far tighter than any matching in practice). */
+  caliperMin: 0.0001,
+  /** Lowest reliability the corrected ANCOVA may assume: it divides by it. */
+  assumedReliabilityMin: 0.01,
 } as const;
+
+/** Bounds of a mean, gap or effect in points: within ±PLAN_LIMITS.pointsMax. */
+const POINTS = { gte: -PLAN_LIMITS.pointsMax, lte: PLAN_LIMITS.pointsMax } as const;
+/** Bounds of an SD or SEM in points: PLAN_LIMITS.sdMin to PLAN_LIMITS.pointsMax. */
+const SD = { gte: PLAN_LIMITS.sdMin, lte: PLAN_LIMITS.pointsMax } as const;
 
 /** Defaults filled in when a plan file leaves optional fields out. */
 export const PLAN_DEFAULTS = {
@@ -123,8 +147,8 @@ function group(who: 'programme' | 'comparison') {
       gte: PLAN_LIMITS.poolSizeMin,
       lte: PLAN_LIMITS.poolSizeMax,
     }),
-    pretestMean: num(`${p}.pretestMean`, `${Who} pretest mean`, 'Mean of the observed pretest in this group, in test points.'),
-    pretestSD: num(`${p}.pretestSD`, `${Who} pretest SD`, 'Within-group SD of the observed pretest, in test points.', { gt: 0 }),
+    pretestMean: num(`${p}.pretestMean`, `${Who} pretest mean`, 'Mean of the observed pretest in this group, in test points.', POINTS),
+    pretestSD: num(`${p}.pretestSD`, `${Who} pretest SD`, 'Within-group SD of the observed pretest, in test points.', SD),
   });
 }
 
@@ -153,15 +177,13 @@ export const planSchema = z
           'pretest.referenceSD',
           'Reference SD of the pretest',
           'SD of the population the reliability was estimated in, test points (default: the comparison group pretest SD).',
-          { gt: 0 },
+          SD,
         ).optional(),
-        sem: num('pretest.sem', 'Pretest SEM', 'Standard error of measurement of the pretest, test points.', { gt: 0 }).optional(),
+        sem: num('pretest.sem', 'Pretest SEM', 'Standard error of measurement of the pretest, test points.', SD).optional(),
       },
     ),
     outcome: section('outcome', 'The outcome section', 'The posttest (outcome) and the hoped-for effect.', {
-      posttestSD: num('outcome.posttestSD', 'Posttest SD', 'Within-group SD of the posttest (comparison group), posttest points.', {
-        gt: 0,
-      }),
+      posttestSD: num('outcome.posttestSD', 'Posttest SD', 'Within-group SD of the posttest (comparison group), posttest points.', SD),
       prePostCorrelation: num(
         'outcome.prePostCorrelation',
         'Pre–post correlation',
@@ -172,8 +194,9 @@ export const planSchema = z
         'outcome.growthGap',
         'Growth gap',
         'Programme-minus-comparison growth that is not the programme effect, posttest points.',
+        POINTS,
       ),
-      hypothesisedEffect: num('outcome.hypothesisedEffect', 'Hypothesised effect', 'The programme effect the study hopes to detect.'),
+      hypothesisedEffect: num('outcome.hypothesisedEffect', 'Hypothesised effect', 'The programme effect the study hopes to detect.', POINTS),
       effectScale: oneOf('outcome.effectScale', 'Effect scale', 'Whether the effect is in posttest points or posttest-SD units.', [
         'points',
         'sd',
@@ -185,7 +208,7 @@ export const planSchema = z
         'random-within-caliper',
       ] as const),
       caliper: num('matching.caliper', 'Caliper', 'Caliper width in SDs of the pooled observed pretest.', {
-        gt: 0,
+        gte: PLAN_LIMITS.caliperMin,
         lte: PLAN_LIMITS.caliperMax,
       }),
       ratio: num('matching.ratio', 'Matching ratio', 'Comparison partners per programme member.', {
@@ -210,12 +233,12 @@ export const planSchema = z
       ).optional(),
     }),
     analysis: section('analysis', 'The analysis section', 'Significance level, assumed reliability, tolerance and target power.', {
-      alpha: num('analysis.alpha', 'Significance level (alpha)', 'Two-sided significance level.', { gt: 0, lt: 0.5 }),
+      alpha: num('analysis.alpha', 'Significance level (alpha)', 'Two-sided significance level.', { gte: PLAN_LIMITS.alphaMin, lt: 0.5 }),
       assumedReliability: num(
         'analysis.assumedReliability',
         'Assumed reliability for the corrected ANCOVA',
         'Reliability assumed by the reliability-corrected (Porter) ANCOVA.',
-        { gt: 0, lte: 1 },
+        { gte: PLAN_LIMITS.assumedReliabilityMin, lte: 1 },
       ),
       tolerableBiasShare: num(
         'analysis.tolerableBiasShare',
@@ -249,9 +272,9 @@ export const planSchema = z
           z
             .object({
               name: text(`${c}.name`, 'Covariate {n} name', 'Plain-language name of the covariate.', 1, PLAN_LIMITS.covariateNameMaxLength),
-              programmeMean: num(`${c}.programmeMean`, 'Covariate {n} programme mean', 'Mean of the observed covariate in the programme group.'),
-              comparisonMean: num(`${c}.comparisonMean`, 'Covariate {n} comparison mean', 'Mean of the observed covariate in the comparison group.'),
-              sd: num(`${c}.sd`, 'Covariate {n} SD', 'Within-group SD of the observed covariate (both groups).', { gt: 0 }),
+              programmeMean: num(`${c}.programmeMean`, 'Covariate {n} programme mean', 'Mean of the observed covariate in the programme group.', POINTS),
+              comparisonMean: num(`${c}.comparisonMean`, 'Covariate {n} comparison mean', 'Mean of the observed covariate in the comparison group.', POINTS),
+              sd: num(`${c}.sd`, 'Covariate {n} SD', 'Within-group SD of the observed covariate (both groups).', SD),
               reliability: num(`${c}.reliability`, 'Covariate {n} reliability', 'Within-group reliability; 1 for an error-free variable.', {
                 gt: 0,
                 lte: 1,

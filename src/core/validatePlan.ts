@@ -2,6 +2,7 @@ import type { Plan } from './plan';
 import { FIELD_RULES, type FieldRule, PLAN_FORMAT, PLAN_LIMITS, PLAN_VERSION, planSchema } from './planSchema';
 import { type CovariateCheckInput, covariateModelProblems } from './multivariate/covariateModelProblems';
 import { formatApart } from './inputChecks';
+import { showControlCharacters } from './visibleText';
 
 /** One thing wrong with a plan: the field (dotted path) and a message a researcher understands. */
 export interface PlanProblem {
@@ -28,12 +29,25 @@ export type PlanCheck = { ok: true; plan: Plan } | { ok: false; problems: PlanPr
  *
  * @param input parsed JSON (any value).
  * @returns { ok: true, plan } with defaults filled, or { ok: false, problems }.
- *   Never throws.
+ *   Never throws: should a check itself fail unexpectedly, the plan is
+ *   refused with one plain message (no program text).
  * @example
  *   validatePlan({ ...demo, pretest: { reliability: 1.4 } }).problems[0].message
  *   // "Pretest reliability must be a number between 0 and 1 (exclusive); got 1.4."
  */
 export function validatePlan(input: unknown): PlanCheck {
+  try {
+    return checkPlan(input);
+  } catch {
+    // Last resort: every value is range-checked first, so this is a fault of ours, not the plan's.
+    return fail(
+      '',
+      'This plan could not be checked: one of its values made a check fail unexpectedly. Check values near the ends of their ranges (docs/plan-file.md lists them), and please report this plan.',
+    );
+  }
+}
+
+function checkPlan(input: unknown): PlanCheck {
   if (!isRecord(input)) {
     return fail('', `This is not a Meanward plan: a plan is a set of named fields, but this is ${describeKind(input)}.`);
   }
@@ -135,7 +149,7 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
       out.push({
         field: 'pretest',
         message:
-          'Give the pretest either a reliability (a number between 0 and 1, exclusive) or an SEM (in test points, greater than 0); neither was given.',
+          'Give the pretest either a reliability (a number between 0 and 1, exclusive) or an SEM (in test points, from 0.000001 to 1000000); neither was given.',
       });
     }
   }
@@ -295,7 +309,7 @@ function describeKind(x: unknown): string {
 
 /** A received value, shown as the user typed it (text quoted, long text cut). */
 function show(x: unknown): string {
-  if (typeof x === 'string') return JSON.stringify(x.length > 40 ? `${x.slice(0, 40)}…` : x);
+  if (typeof x === 'string') return showControlCharacters(JSON.stringify(x.length > 40 ? `${x.slice(0, 40)}…` : x), 'json');
   if (typeof x === 'number') return Number.isFinite(x) ? String(x) : String(x);
   if (x === null) return 'null';
   if (x === undefined) return 'nothing';

@@ -3,7 +3,7 @@ import { cronbachAlpha } from './cronbachAlpha';
 import { feldtInterval } from './feldtInterval';
 import { fisherZInterval } from './fisherZInterval';
 import { formatCoefficient, formatScore } from './formatPilotNumber';
-import { parsePilotNumber } from './parsePilotNumber';
+import { LARGEST_SCORE_TEXT, parsePilotNumber, pilotNumberBeyondLimit } from './parsePilotNumber';
 import {
   type GroupEstimates,
   type ParsedTable,
@@ -159,6 +159,8 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
       );
     }
   }
+  const preWhat = cols.total === undefined ? 'pretest total' : `pretest column "${cols.totalName}"`;
+  for (const g of [PROGRAMME, COMPARISON]) requireSpread(pre.ss[g]!, n[g]!, `The ${preWhat}`, `the ${whoName(g)}`, cols.totalName);
   const pooledWithinSD = Math.sqrt((pre.ss[0]! + pre.ss[1]!) / (N - 2));
   const groupEstimates = (g: number): GroupEstimates => ({
     n: n[g]!,
@@ -184,6 +186,9 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
         { column: constantItems[0]! },
       );
     }
+    cols.itemNames.forEach((column, j) =>
+      requireSpread(it.ssItem[j]! + it.ssItem[k + j]!, N - 1, `Item column "${column}"`, 'both groups together', column),
+    );
     const ssItemsPooled = sumOf(Array.from({ length: k }, (_, j) => it.ssItem[j]! + it.ssItem[k + j]!));
     const ssSumPooled = it.ssSum[0]! + it.ssSum[1]!;
     const alphaPooled = Math.min(1, cronbachAlpha(k, ssItemsPooled, ssSumPooled));
@@ -207,11 +212,11 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
           { column },
         );
       }
-      return { column, correctedCorrelation: clampCorrelation((cpj - ssj) / Math.sqrt(ssj * ssRest)) };
+      return { column, correctedCorrelation: clampCorrelation((cpj - ssj) / (Math.sqrt(ssj) * Math.sqrt(ssRest))) };
     });
 
     if (it.ssOdd > 0 && it.ssEven > 0) {
-      const half = clampCorrelation(it.cpOddEven / Math.sqrt(it.ssOdd * it.ssEven));
+      const half = clampCorrelation(it.cpOddEven / (Math.sqrt(it.ssOdd) * Math.sqrt(it.ssEven)));
       if (half > 0) reliability.splitHalf = { halfCorrelation: half, spearmanBrown: spearmanBrown(half, 2), n: N };
       else {
         warnings.push({
@@ -237,7 +242,7 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
     const ssx = pr.ssx[0]! + pr.ssx[1]!;
     const ssy = pr.ssy[0]! + pr.ssy[1]!;
     if (rowsRetest >= 5 && ssx > 0 && ssy > 0) {
-      const r = clampCorrelation((pr.cp[0]! + pr.cp[1]!) / Math.sqrt(ssx * ssy));
+      const r = clampCorrelation((pr.cp[0]! + pr.cp[1]!) / (Math.sqrt(ssx) * Math.sqrt(ssy)));
       reliability.testRetest = fisherZInterval(r, rowsRetest, 1, PILOT_CONFIDENCE_LEVEL);
     } else {
       warnings.push({
@@ -267,7 +272,7 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
       est.nPrePost = pp.n[g]!;
       if (pp.n[g]! >= 3 && pp.ssx[g]! > 0 && pp.ssy[g]! > 0) {
         est.posttestSD = Math.sqrt(pp.ssy[g]! / (pp.n[g]! - 1));
-        est.prePostCorrelation = clampCorrelation(pp.cp[g]! / Math.sqrt(pp.ssx[g]! * pp.ssy[g]!));
+        est.prePostCorrelation = clampCorrelation(pp.cp[g]! / (Math.sqrt(pp.ssx[g]!) * Math.sqrt(pp.ssy[g]!)));
       } else {
         warnings.push({
           code: 'posttest-too-few',
@@ -278,7 +283,7 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
     const ssx = pp.ssx[0]! + pp.ssx[1]!;
     const ssy = pp.ssy[0]! + pp.ssy[1]!;
     if (rowsPost >= 4 && ssx > 0 && ssy > 0) {
-      prePostCorrelation = { value: clampCorrelation((pp.cp[0]! + pp.cp[1]!) / Math.sqrt(ssx * ssy)), n: rowsPost };
+      prePostCorrelation = { value: clampCorrelation((pp.cp[0]! + pp.cp[1]!) / (Math.sqrt(ssx) * Math.sqrt(ssy))), n: rowsPost };
     }
   }
 
@@ -407,19 +412,19 @@ function resolveColumns(table: ParsedTable, mapping: PilotMapping): ResolvedColu
     if (before !== undefined) {
       throw new PilotDataError(
         'bad-mapping',
-        `The column "${name}" is mapped both as the ${before} and as the ${role}; each column can have one role only.`,
+        `The column "${name}" is mapped both as ${before} and as ${role}; each column can have one role only.`,
         { column: name },
       );
     }
     used.set(name, role);
   };
   const out: ResolvedColumns = { group: find(mapping.group, 'group'), items: [], itemNames: [] };
-  claim(mapping.group, 'group column');
+  claim(mapping.group, 'the group column');
   const p = mapping.pretest;
   if (p.kind === 'total') {
     out.total = find(p.column, 'pretest');
     out.totalName = p.column;
-    claim(p.column, 'pretest');
+    claim(p.column, 'the pretest');
   } else if (p.kind === 'items') {
     if (p.combine !== 'sum' && p.combine !== 'mean') {
       throw new PilotDataError('bad-mapping', `The items are combined by "sum" or "mean"; got ${JSON.stringify(p.combine)}.`);
@@ -431,22 +436,22 @@ function resolveColumns(table: ParsedTable, mapping: PilotMapping): ResolvedColu
         p.columns.length === 1 ? { column: p.columns[0]! } : {},
       );
     }
-    for (const c of p.columns) {
+    p.columns.forEach((c, j) => {
       out.items.push(find(c, 'item'));
       out.itemNames.push(c);
-      claim(c, 'item');
-    }
+      claim(c, `item ${j + 1} of ${p.columns.length}`);
+    });
   } else {
     throw new PilotDataError('bad-mapping', 'The pretest must be a total-score column or a list of item columns.');
   }
   // An empty retest or posttest name means "not mapped" (a form's "none" choice).
   if (mapping.retest !== undefined && mapping.retest !== '') {
     out.retest = find(mapping.retest, 'retest');
-    claim(mapping.retest, 'retest');
+    claim(mapping.retest, 'the retest');
   }
   if (mapping.posttest !== undefined && mapping.posttest !== '') {
     out.posttest = find(mapping.posttest, 'posttest');
-    claim(mapping.posttest, 'posttest');
+    claim(mapping.posttest, 'the posttest');
   }
   return out;
 }
@@ -474,6 +479,13 @@ function readNumericColumn(
     const cell = (rows[firstBad]![c] ?? '').trim();
     const row = rowNumber(firstBad);
     const more = bad > 1 ? ` (and ${bad - 1} more row${bad === 2 ? '' : 's'} in this column)` : '';
+    if (pilotNumberBeyondLimit(cell, decimalComma)) {
+      throw new PilotDataError(
+        'non-numeric',
+        `Column "${name}" must hold scores of at most ${LARGEST_SCORE_TEXT} in size (larger ones cannot be added up exactly), but row ${row} holds ${JSON.stringify(cell.length > 40 ? `${cell.slice(0, 40)}…` : cell)}${more}. Rescale the column (for example, thousands instead of units).`,
+        { column: name, row },
+      );
+    }
     const hint =
       !decimalComma && /^[+-]?\d*,\d+$/.test(cell)
         ? ' It looks like a decimal comma: use a decimal point, or save the file with semicolons between columns.'
@@ -635,6 +647,22 @@ function pairMoments(x: Float64Array, y: Float64Array, group: Int8Array) {
   }
   // A group without pairs contributes nothing (its means are NaN but never used).
   return { n, ssx, ssy, cp, constantY };
+}
+
+/** Smallest SD of a column that varies: below it, squares of deviations underflow double precision. */
+const SMALLEST_SPREAD = 1e-100;
+
+/**
+ * Refuse scores that vary but by so little that their sums of squares cannot
+ * be computed (they underflow to 0), with a message that says what to do.
+ */
+function requireSpread(ss: number, df: number, what: string, where: string, column?: string): void {
+  if (df >= 1 && Math.sqrt(ss / df) >= SMALLEST_SPREAD) return;
+  throw new PilotDataError(
+    'tiny-spread',
+    `${what} varies by too little to compute with in ${where}: its SD is below 10^-100 (the scores differ only far beyond the 15th significant digit, or are around 10^-100 or smaller). Rescale the scores (for example, multiply them by 10^6) and read the file again.`,
+    column === undefined ? {} : { column },
+  );
 }
 
 function clampCorrelation(r: number): number {

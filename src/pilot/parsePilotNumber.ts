@@ -16,6 +16,9 @@ const DECIMAL_COMMA = /^[+-]?(?:\d+,?\d*|,\d+)(?:[eE][+-]?\d+)?$/;
 /** Largest magnitude accepted as a score; beyond it sums of squares could overflow. */
 export const LARGEST_SCORE = 1e15;
 
+/** LARGEST_SCORE as messages write it. */
+export const LARGEST_SCORE_TEXT = '1,000,000,000,000,000 (10^15)';
+
 /**
  * Read one cell as a number.
  *
@@ -39,4 +42,20 @@ export function parsePilotNumber(cell: string, decimalComma: boolean): number | 
   else if (decimalComma && DECIMAL_COMMA.test(s)) x = Number(s.replace(',', '.'));
   else return undefined;
   return Number.isFinite(x) && Math.abs(x) <= LARGEST_SCORE ? x : undefined;
+}
+
+/**
+ * Whether a cell is a number in plain notation that parsePilotNumber refuses
+ * only for its size (beyond LARGEST_SCORE), so the message can state the limit
+ * rather than say the cell is not a number.
+ * @param cell the cell's text. @param decimalComma as for parsePilotNumber.
+ * @returns true for e.g. "2e15" or "1e400"; false otherwise. Never throws.
+ * @example pilotNumberBeyondLimit('1000000000000001', false) // true
+ */
+export function pilotNumberBeyondLimit(cell: string, decimalComma: boolean): boolean {
+  const s = cell.trim();
+  const text = DECIMAL_POINT.test(s) ? s : decimalComma && DECIMAL_COMMA.test(s) ? s.replace(',', '.') : undefined;
+  if (text === undefined) return false;
+  const x = Number(text);
+  return !(Math.abs(x) <= LARGEST_SCORE);
 }

@@ -1,3 +1,4 @@
+import { showControlCharacters } from '../core/visibleText';
 /**
  * Types of the pilot-data module: reading a pilot (or earlier-wave) file,
  * estimating the plan's inputs from it, and writing them into a plan.
@@ -154,6 +155,7 @@ export type PilotDataErrorCode =
   | 'too-few-items'
   | 'constant-item'
   | 'constant-column'
+  | 'tiny-spread'
   | 'too-few-rows'
   | 'bad-mapping';
 
@@ -165,7 +167,8 @@ export class PilotDataError extends Error {
   readonly row?: number;
 
   constructor(code: PilotDataErrorCode, message: string, where: { column?: string; row?: number } = {}) {
-    super(message);
+    // Column names and cells are quoted from the file: control characters are shown escaped.
+    super(showControlCharacters(message));
     this.name = 'PilotDataError';
     this.code = code;
     if (where.column !== undefined) this.column = where.column;

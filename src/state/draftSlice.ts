@@ -5,6 +5,7 @@ import { draftToCandidate, planToDraft, setDraftField, type FieldProblem, type P
 import { canonicalField } from './covariateDraft';
 import type { MeanwardDeps } from './deps';
 import type { MeanwardState } from './store';
+import { plainErrorMessage } from '../core/plainErrorMessage';
 
 /**
  * The plan being edited: the raw draft, the last valid plan, the problems
@@ -57,8 +58,28 @@ export function evaluateDraft(
   } catch (e) {
     // Inputs can be valid one by one and still contradict each other
     // (e.g. a pre–post correlation above the square root of the reliability).
-    const message = e instanceof Error ? e.message : String(e);
+    const message = plainErrorMessage(e, ANALYSIS_FAILED);
     return { problems: [{ field: fieldForMessage(message), message }] };
+  }
+}
+
+/** Shown when checking or analysing the draft fails with program text rather than a plain message. */
+const ANALYSIS_FAILED =
+  'The figures for this plan could not be computed. Check the values near the ends of their ranges; the last results stay shown and nothing you typed is lost.';
+
+/**
+ * evaluateDraft, never throwing: an unexpected failure (a fault of ours, not of
+ * the draft) becomes one plain problem, so a bad autosave, link or keystroke
+ * can never blank the page; the draft itself is kept as typed.
+ */
+export function evaluateDraftSafely(
+  draft: PlanDraft,
+  deps: Pick<MeanwardDeps, 'validatePlan' | 'analysePlan'>,
+): ReturnType<typeof evaluateDraft> {
+  try {
+    return evaluateDraft(draft, deps);
+  } catch (e) {
+    return { problems: [{ field: '', message: plainErrorMessage(e, ANALYSIS_FAILED) }] };
   }
 }
 
@@ -100,15 +121,15 @@ export const createDraftSlice =
   (deps: MeanwardDeps, initial: PlanDraft, fallback: Plan): StateCreator<MeanwardState, [], [], DraftSlice> =>
   (set, get) => {
     const apply = (draft: PlanDraft): Partial<MeanwardState> => {
-      const r = evaluateDraft(draft, deps);
+      const r = evaluateDraftSafely(draft, deps);
       if ('problems' in r) {
         return { draft, problems: r.problems, analyticStale: get()?.analytic != null };
       }
       return { draft, problems: [], validPlan: r.plan, analytic: r.analytic, analyticStale: false };
     };
     // First evaluation: the initial draft, else the fallback plan's results underneath.
-    const first = evaluateDraft(initial, deps);
-    const base = evaluateDraft(planToDraft(fallback), deps);
+    const first = evaluateDraftSafely(initial, deps);
+    const base = evaluateDraftSafely(planToDraft(fallback), deps);
     const baseOk = 'plan' in base ? base : null;
     const initialState: Pick<DraftSlice, 'draft' | 'validPlan' | 'problems' | 'analytic' | 'analyticStale'> =
       'plan' in first

@@ -5,6 +5,7 @@ import { selectAnalytic, selectAnalyticStale, selectProblems } from '../state/se
 import { useMeanwardStore } from '../state/store';
 import { CovariateEditor } from './CovariateEditor';
 import { CheckField, ChoiceField, NumberField, TextField } from './fields';
+import { moreProblemsLine, PROBLEMS_SHOWN } from '../core/capProblemList';
 import { fmt, fmtR } from './format';
 
 /** Move keyboard focus to a field by its plan path (from the problem list). */
@@ -32,7 +33,7 @@ export function PlanForm() {
           </strong>
           ; the results on the right belong to the last complete plan until it is fixed.
           <ul>
-            {problems.map((p) =>
+            {problems.slice(0, PROBLEMS_SHOWN).map((p) =>
               fieldName(p.field) === undefined ? (
                 <li key={p.field + p.message}>{p.message}</li>
               ) : (
@@ -43,6 +44,7 @@ export function PlanForm() {
                 </li>
               ),
             )}
+            {problems.length > PROBLEMS_SHOWN && <li>{moreProblemsLine(problems.length - PROBLEMS_SHOWN)}</li>}
           </ul>
         </div>
       )}

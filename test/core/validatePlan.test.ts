@@ -59,26 +59,26 @@ describe('one message per bad field', () => {
     ['empty group name', (p) => (p.groups.programme.label = ''), 'groups.programme.label', 'Programme group name must be text of 1 to 80 characters; got 0 characters.'],
     ['fractional pool', (p) => (p.groups.programme.poolSize = 12.5), 'groups.programme.poolSize', 'Programme group pool size must be a whole number from 2 to 100000; got 12.5.'],
     ['pool of one', (p) => (p.groups.comparison.poolSize = 1), 'groups.comparison.poolSize', 'Comparison group pool size must be a whole number from 2 to 100000; got 1.'],
-    ['mean infinite', (p) => (p.groups.programme.pretestMean = Number.POSITIVE_INFINITY), 'groups.programme.pretestMean', 'Programme group pretest mean must be a number; got Infinity.'],
-    ['mean as text', (p) => (p.groups.comparison.pretestMean = '54'), 'groups.comparison.pretestMean', 'Comparison group pretest mean must be a number; got "54".'],
-    ['negative SD', (p) => (p.groups.programme.pretestSD = -3), 'groups.programme.pretestSD', 'Programme group pretest SD must be a number greater than 0; got -3.'],
+    ['mean infinite', (p) => (p.groups.programme.pretestMean = Number.POSITIVE_INFINITY), 'groups.programme.pretestMean', 'Programme group pretest mean must be a number from -1000000 to 1000000; got Infinity.'],
+    ['mean as text', (p) => (p.groups.comparison.pretestMean = '54'), 'groups.comparison.pretestMean', 'Comparison group pretest mean must be a number from -1000000 to 1000000; got "54".'],
+    ['negative SD', (p) => (p.groups.programme.pretestSD = -3), 'groups.programme.pretestSD', 'Programme group pretest SD must be a number from 0.000001 to 1000000; got -3.'],
     ['reliability 1.4', (p) => (p.pretest.reliability = 1.4), 'pretest.reliability', 'Pretest reliability must be a number between 0 and 1 (exclusive); got 1.4.'],
     ['reliability 0', (p) => (p.pretest.reliability = 0), 'pretest.reliability', 'Pretest reliability must be a number between 0 and 1 (exclusive); got 0.'],
-    ['reference SD 0', (p) => (p.pretest.referenceSD = 0), 'pretest.referenceSD', 'Reference SD of the pretest must be a number greater than 0; got 0.'],
-    ['SEM negative', (p) => (p.pretest = { sem: -1 }), 'pretest.sem', 'Pretest SEM must be a number greater than 0; got -1.'],
-    ['posttest SD 0', (p) => (p.outcome.posttestSD = 0), 'outcome.posttestSD', 'Posttest SD must be a number greater than 0; got 0.'],
+    ['reference SD 0', (p) => (p.pretest.referenceSD = 0), 'pretest.referenceSD', 'Reference SD of the pretest must be a number from 0.000001 to 1000000; got 0.'],
+    ['SEM negative', (p) => (p.pretest = { sem: -1 }), 'pretest.sem', 'Pretest SEM must be a number from 0.000001 to 1000000; got -1.'],
+    ['posttest SD 0', (p) => (p.outcome.posttestSD = 0), 'outcome.posttestSD', 'Posttest SD must be a number from 0.000001 to 1000000; got 0.'],
     ['correlation 1', (p) => (p.outcome.prePostCorrelation = 1), 'outcome.prePostCorrelation', 'Pre–post correlation must be a number between -1 and 1 (exclusive); got 1.'],
-    ['growth gap missing', (p) => delete p.outcome.growthGap, 'outcome.growthGap', 'Growth gap is missing; it must be a number.'],
-    ['effect null', (p) => (p.outcome.hypothesisedEffect = null), 'outcome.hypothesisedEffect', 'Hypothesised effect must be a number; got null.'],
+    ['growth gap missing', (p) => delete p.outcome.growthGap, 'outcome.growthGap', 'Growth gap is missing; it must be a number from -1000000 to 1000000.'],
+    ['effect null', (p) => (p.outcome.hypothesisedEffect = null), 'outcome.hypothesisedEffect', 'Hypothesised effect must be a number from -1000000 to 1000000; got null.'],
     ['effect scale', (p) => (p.outcome.effectScale = 'percent'), 'outcome.effectScale', 'Effect scale must be "points" or "sd"; got "percent".'],
     ['method', (p) => (p.matching.method = 'closest'), 'matching.method', 'Matching method must be "nearest" or "random-within-caliper"; got "closest".'],
-    ['caliper 6', (p) => (p.matching.caliper = 6), 'matching.caliper', 'Caliper must be a number greater than 0 and at most 5; got 6.'],
+    ['caliper 6', (p) => (p.matching.caliper = 6), 'matching.caliper', 'Caliper must be a number from 0.0001 to 5; got 6.'],
     ['ratio 6', (p) => (p.matching.ratio = 6), 'matching.ratio', 'Matching ratio must be a whole number from 1 to 5; got 6.'],
     ['replacement text', (p) => (p.matching.replacement = 'no'), 'matching.replacement', 'Matching with replacement must be true or false; got "no".'],
     ['order', (p) => (p.matching.order = 'alphabetical'), 'matching.order', 'Matching order must be one of "random", "lowest-first", "highest-first"; got "alphabetical".'],
-    ['alpha 0.5', (p) => (p.analysis.alpha = 0.5), 'analysis.alpha', 'Significance level (alpha) must be a number between 0 and 0.5 (exclusive); got 0.5.'],
-    ['assumed reliability 1.2', (p) => (p.analysis.assumedReliability = 1.2), 'analysis.assumedReliability', 'Assumed reliability for the corrected ANCOVA must be a number greater than 0 and at most 1; got 1.2.'],
-    ['assumed reliability 0', (p) => (p.analysis.assumedReliability = 0), 'analysis.assumedReliability', 'Assumed reliability for the corrected ANCOVA must be a number greater than 0 and at most 1; got 0.'],
+    ['alpha 0.5', (p) => (p.analysis.alpha = 0.5), 'analysis.alpha', 'Significance level (alpha) must be a number at least 0.000001 and less than 0.5; got 0.5.'],
+    ['assumed reliability 1.2', (p) => (p.analysis.assumedReliability = 1.2), 'analysis.assumedReliability', 'Assumed reliability for the corrected ANCOVA must be a number from 0.01 to 1; got 1.2.'],
+    ['assumed reliability 0', (p) => (p.analysis.assumedReliability = 0), 'analysis.assumedReliability', 'Assumed reliability for the corrected ANCOVA must be a number from 0.01 to 1; got 0.'],
     ['tolerable share 0', (p) => (p.analysis.tolerableBiasShare = 0), 'analysis.tolerableBiasShare', 'Tolerable bias share must be a number greater than 0 and at most 1; got 0.'],
     ['target power 0.3', (p) => (p.analysis.targetPower = 0.3), 'analysis.targetPower', 'Target power must be a number from 0.5 to 0.99; got 0.3.'],
     ['replications 0', (p) => (p.simulation.replications = 0), 'simulation.replications', 'Number of simulated replications must be a whole number from 2 to 100000; got 0.'],
@@ -112,7 +112,7 @@ describe('cross-field problems', () => {
     expect(only(p)).toEqual({
       field: 'pretest',
       message:
-        'Give the pretest either a reliability (a number between 0 and 1, exclusive) or an SEM (in test points, greater than 0); neither was given.',
+        'Give the pretest either a reliability (a number between 0 and 1, exclusive) or an SEM (in test points, from 0.000001 to 1000000); neither was given.',
     });
   });
   it('SEM not smaller than a group SD (one message per group that fails)', () => {
@@ -263,7 +263,7 @@ describe('optional covariate and provenance fields (messages name the item)', ()
     const r = validatePlan({ ...demo(), covariates: [covariate, { ...covariate, sd: -2 }] });
     expect(r.ok).toBe(false);
     if (r.ok) return;
-    expect(r.problems).toContainEqual({ field: 'covariates.1.sd', message: 'Covariate 2 SD must be a number greater than 0; got -2.' });
+    expect(r.problems).toContainEqual({ field: 'covariates.1.sd', message: 'Covariate 2 SD must be a number from 0.000001 to 1000000; got -2.' });
   });
   it('a bad provenance source is reported with the rule', () => {
     const r = validatePlan({ ...demo(), provenance: { 'pretest.reliability': { source: 'guess', note: 'x' } } });

@@ -236,7 +236,7 @@ describe('estimatePilot: bad files and mappings (each message names the column o
   });
   it('a column mapped twice, and no programme value', () => {
     expect(errorOf(() => estimatePilot(base(), { ...mapping, posttest: 'q2' })).message).toBe(
-      'The column "q2" is mapped both as the item and as the posttest; each column can have one role only.',
+      'The column "q2" is mapped both as item 2 of 3 and as the posttest; each column can have one role only.',
     );
     expect(errorOf(() => estimatePilot(base(), { ...mapping, programmeValue: ' ' })).code).toBe('bad-mapping');
     expect(errorOf(() => estimatePilot(base(), { ...mapping, group: '' })).message).toBe('Choose the group column; none was given.');

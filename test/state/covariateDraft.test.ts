@@ -221,7 +221,7 @@ describe('covariate editing on a plain store', () => {
     store.getState().setField('covariates.1.sd', '-2');
     store.getState().setField('covariates.0.reliability', '');
     const byField = Object.fromEntries(store.getState().problems.map((p) => [p.field, p.message]));
-    expect(byField['covariates.1.sd']).toMatch(/^Covariate 2 SD must be a number greater than 0; got -2\./);
+    expect(byField['covariates.1.sd']).toMatch(/^Covariate 2 SD must be a number from 0\.000001 to 1000000; got -2\./);
     expect(byField['covariates.0.reliability']).toBe('Covariate 1 reliability is required.');
     // The typed text is still there after an unrelated structural edit.
     store.getState().moveCovariate(1, -1);

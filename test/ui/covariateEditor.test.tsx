@@ -97,7 +97,7 @@ describe('covariate editor', () => {
     expect(sd).toHaveValue('-4');
     expect(sd).toHaveAttribute('aria-invalid', 'true');
     const field = sd.closest('.field') as HTMLElement;
-    expect(within(field).getByRole('alert')).toHaveTextContent('Covariate 1 SD must be a number greater than 0; got -4.');
+    expect(within(field).getByRole('alert')).toHaveTextContent('Covariate 1 SD must be a number from 0.000001 to 1000000; got -4.');
   });
 
   it('reorders and removes covariates with the keyboard; correlations move with their covariate', async () => {

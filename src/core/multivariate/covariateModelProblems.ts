@@ -2,6 +2,7 @@ import type { ModelParameters } from '../modelParameters';
 import type { Plan } from '../plan';
 import type { PlanProblem } from '../validatePlan';
 import { formatApart, formatNumber } from '../inputChecks';
+import { showControlCharacters } from '../visibleText';
 import { block, dot, isPositiveDefinite, pick, range, solvePositiveDefinite } from './linearAlgebra';
 
 /**
@@ -87,14 +88,17 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
   const covs = input.covariates;
   const k = covs.length;
   const p = k + 1;
-  const name = (i: number): string => (i === 0 ? 'the pretest' : (covs[i - 1]?.name ?? `covariate ${i}`));
+  const name = (i: number): string => {
+    const given = i === 0 ? undefined : covs[i - 1]?.name;
+    return i === 0 ? 'the pretest' : given === undefined ? `covariate ${i}` : showControlCharacters(given);
+  };
   const Name = (i: number): string => capitalise(name(i));
   const list = (idx: number[]): string => joinNames(idx.map(name));
 
   // Each covariate on its own terms: exact needs measured and error-free; names distinct.
   const seen = new Map<string, number>();
   covs.forEach((c, j) => {
-    const label = `Covariate ${j + 1}${c.name !== undefined ? ` (${c.name})` : ''}`;
+    const label = `Covariate ${j + 1}${c.name !== undefined ? ` (${showControlCharacters(c.name)})` : ''}`;
     if (c.exact === true && c.measured === false) {
       out.push({
         field: `covariates.${j}.exact`,
@@ -112,14 +116,14 @@ export function covariateModelProblems(input: CovariateCheckInput): PlanProblem[
       if (key === 'pretest') {
         out.push({
           field: `covariates.${j}.name`,
-          message: `Covariate ${j + 1} name must differ from "Pretest", the name Meanward gives the pretest; got ${JSON.stringify(c.name)}.`,
+          message: `Covariate ${j + 1} name must differ from "Pretest", the name Meanward gives the pretest; got ${showControlCharacters(JSON.stringify(c.name), 'json')}.`,
         });
       }
       const first = seen.get(key);
       if (first !== undefined) {
         out.push({
           field: `covariates.${j}.name`,
-          message: `Covariate names must differ: covariates ${first + 1} and ${j + 1} are both called ${JSON.stringify(c.name)}.`,
+          message: `Covariate names must differ: covariates ${first + 1} and ${j + 1} are both called ${showControlCharacters(JSON.stringify(c.name), 'json')}.`,
         });
       } else seen.set(key, j);
     }

@@ -84,7 +84,8 @@ export function covariateStandardError(
     const nP = sizes.programme;
     const nC = sizes.comparison;
     const m = cm.measuredIndices;
-    if (!(nP >= 2 && nC >= 2 && nP + nC - 2 - m.length >= 1)) {
+    // The gain score adjusts for nothing, so only the adjusting analyses need df for the covariates.
+    if (!(nP >= 2 && nC >= 2 && (id === 'gainScore' || nP + nC - 2 - m.length >= 1))) {
       throw new Error(
         `Each group needs at least 2 people, and together more than the ${m.length} adjusted variable${m.length === 1 ? '' : 's'} plus 2, for this analysis; got ${formatNumber(nP)} and ${formatNumber(nC)}.`,
       );
