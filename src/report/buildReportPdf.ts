@@ -5,6 +5,7 @@ import { serializePlan } from '../io/planFile';
 import { isFeasible, type SimAnalysisResult, type SimAnalysisSummary, type SimulationResult } from '../sim/types';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { procedureBasisNote } from '../core/procedureBasisNote';
+import { showControlCharacters } from '../core/visibleText';
 import { drawSvgChart, parseChartSvg, svgSize } from './drawSvgChart';
 import {
   formatCount,
@@ -89,7 +90,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   const doc = new jsPDF({ unit: 'pt', format: 'a4', compress: true });
   registerReportFonts(doc, fonts);
   doc.setProperties({
-    title: `${REPORT_HEADING}: ${plan.title}`,
+    title: `${REPORT_HEADING}: ${showControlCharacters(plan.title)}`,
     subject: 'Study plan: expected regression-toward-the-mean artefact, power and cautions',
     creator: `Meanward ${appVersion}`,
   });
@@ -101,7 +102,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
 
   // ---- Title, date, caution -------------------------------------------------
   w.heading(REPORT_HEADING, 1);
-  w.paragraph(plan.title, { size: 13, bold: true, after: 2 });
+  w.paragraph(showControlCharacters(plan.title), { size: 13, bold: true, after: 2 });
   w.paragraph(`Generated ${formatDateTime(generatedAt)} by Meanward ${appVersion}.`, { size: 9, muted: true, after: 8 });
   w.note(`Caution: ${CAUTION_LINE}`);
 
@@ -111,7 +112,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   const gap = analytic.model.pretestGap;
   const best = analytic.remedies[0];
   const summary = [
-    `This plan compares “${P.label}” (${formatCount(P.poolSize)} people available) with “${C.label}” (${formatCount(C.poolSize)} available).`,
+    `This plan compares “${showControlCharacters(P.label)}” (${formatCount(P.poolSize)} people available) with “${showControlCharacters(C.label)}” (${formatCount(C.poolSize)} available).`,
     gap === 0
       ? `The two groups have the same pretest mean; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`
       : `On the pretest the programme group’s mean is ${formatPoints(Math.abs(gap))} points ${gap < 0 ? 'below' : 'above'} the comparison group’s; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`,
