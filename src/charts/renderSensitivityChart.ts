@@ -98,8 +98,11 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
     placed.push(boxAt(xv, yy, label, anchor, bold));
     return yy;
   };
+  // Narrow charts label inside the plot: a white halo keeps those labels legible over lines (screen only;
+  // the PDF and exports are drawn wide, with labels beside the plot).
+  const halo: Record<string, string | number> = compact ? { stroke: '#ffffff', 'stroke-width': 3, 'paint-order': 'stroke', 'stroke-linejoin': 'round' } : {};
   const side = (yv: number, label: string, fill = '#222222') => {
-    if (compact) text(root, width - right - 2, placeFree(width - right - 2, yv - 4, -14, label, 'end', false), label, { 'text-anchor': 'end', fill });
+    if (compact) text(root, width - right - 2, placeFree(width - right - 2, yv - 4, -14, label, 'end', false), label, { 'text-anchor': 'end', fill, ...halo });
     else text(root, width - right + 6, placeFree(width - right + 6, yv + 4, 14, label, 'start', false), label, { fill });
   };
 
@@ -140,12 +143,12 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
     add(root, 'line', { x1: x(be), x2: x(be), y1: top, y2: height - bottom, stroke: '#2f6b3a', 'stroke-width': 1.5, 'stroke-dasharray': '6 2' });
     const label = `Break-even ${fmt(be, digits)}`;
     const p = inPlot(x(be), 'end', label);
-    text(root, p.x, placeFree(p.x, top + 12, 14, label, p.anchor, true), label, { 'text-anchor': p.anchor, fill: '#2f6b3a', 'font-weight': 'bold' });
+    text(root, p.x, placeFree(p.x, top + 12, 14, label, p.anchor, true), label, { 'text-anchor': p.anchor, fill: '#2f6b3a', 'font-weight': 'bold', ...halo });
   }
   add(root, 'line', { x1: x(data.current), x2: x(data.current), y1: top, y2: height - bottom, stroke: '#111111', 'stroke-width': 1.5 });
   const planLabel = `This plan ${fmt(data.current, digits)}`;
   const p = inPlot(x(data.current), 'start', planLabel);
-  text(root, p.x, placeFree(p.x, height - bottom - 8, -14, planLabel, p.anchor, true), planLabel, { 'font-weight': 'bold', 'text-anchor': p.anchor });
+  text(root, p.x, placeFree(p.x, height - bottom - 8, -14, planLabel, p.anchor, true), planLabel, { 'font-weight': 'bold', 'text-anchor': p.anchor, ...halo });
 
   const line = d3
     .line<{ x: number; bias: number }>()
