@@ -45,6 +45,7 @@ interface PretestLayout {
 
 const HEADING = 'Matched members';
 const MIN_DENSITY_H = 100;
+const NOTE_ROOM = 1.15;
 
 function legendLabels(data: PretestChartData): { label: string; w: number }[] {
   const items = (['programme', 'comparison'] as GroupKey[]).map((g) => {
@@ -101,7 +102,8 @@ function layoutPretest(data: PretestChartData, width: number): PretestLayout {
   });
   // The matched-members panel: its heading and the hidden-gap note share a line when they fit.
   const note = hiddenGapNote(data);
-  const noteOnHeadingLine = labelWidth(HEADING, FONT.label, true) + 24 + labelWidth(note, FONT.note, true) <= width - 12 - right;
+  // Room for the note is judged generously (+15%): the PDF's bold font runs wider than the estimate.
+  const noteOnHeadingLine = labelWidth(HEADING, FONT.label, true) + 24 + NOTE_ROOM * labelWidth(note, FONT.note, true) <= width - 12 - right;
   const noteLines = noteOnHeadingLine ? [note] : wrapLabel(note, width - 24, FONT.note, true);
   const gap = 26 + (noteOnHeadingLine ? 0 : noteLines.length * lineHeight(FONT.note));
   const rowStep = compact ? 40 : 24;
@@ -196,7 +198,10 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
   const headingY = rowsTop - 6 - (L.noteOnHeadingLine ? 0 : L.noteLines.length * lineHeight(FONT.note));
   text(panel, 12, headingY, HEADING, { 'font-size': FONT.label, 'font-weight': 'bold' });
   if (L.noteOnHeadingLine) {
-    text(panel, width - right, headingY, L.noteLines[0]!, { 'text-anchor': 'end', 'font-weight': 'bold' });
+    // Start-anchored at a point left of the right edge: svg2pdf places end-anchored bold text with the
+    // regular font's widths, which pushed this label past the chart's right edge in the PDF.
+    const note = L.noteLines[0]!;
+    text(panel, width - right - NOTE_ROOM * labelWidth(note, FONT.note, true), headingY, note, { 'font-weight': 'bold' });
   } else {
     L.noteLines.forEach((l, i) => text(panel, 12, headingY + (i + 1) * lineHeight(FONT.note), l, { 'font-weight': 'bold' }));
   }
