@@ -1,10 +1,42 @@
 /// <reference types="vitest/config" />
-import { defineConfig } from 'vite';
+import { defineConfig, type Plugin } from 'vite';
 import react from '@vitejs/plugin-react';
+
+/**
+ * The built page's Content-Security-Policy. Scripts, workers, styles, fonts and data only from the
+ * page's own origin: no inline script and no eval (zod runs jitless, see src/core/planSchema.ts).
+ * Styles: the stylesheet is a file, and React/d3 set styles through the CSSOM (element.style),
+ * which CSP allows, so no 'unsafe-inline' is needed. Images also from blob: and data: (a chart
+ * drawn to PNG goes through a blob: image). Nothing may be framed, posted or used as <base>.
+ * Only the build gets it: the dev server injects inline scripts for hot reload.
+ */
+export const CONTENT_SECURITY_POLICY = [
+  "default-src 'self'",
+  "script-src 'self'",
+  "worker-src 'self'",
+  "style-src 'self'",
+  "img-src 'self' blob: data:",
+  "font-src 'self'",
+  "connect-src 'self'",
+  "object-src 'none'",
+  "base-uri 'none'",
+  "form-action 'none'",
+].join('; ');
+
+/** Adds the Content-Security-Policy meta tag to the built page. */
+function contentSecurityPolicy(): Plugin {
+  return {
+    name: 'meanward-content-security-policy',
+    apply: 'build',
+    // Right after <meta charset> (which must come first), before any script or stylesheet.
+    transformIndexHtml: (html) =>
+      html.replace(/(<meta charset="UTF-8" \/>)/, `$1\n    <meta http-equiv="Content-Security-Policy" content="${CONTENT_SECURITY_POLICY}" />`),
+  };
+}
 
 // One config for the app build, `vite preview` and Vitest.
 export default defineConfig({
-  plugins: [react()],
+  plugins: [react(), contentSecurityPolicy()],
   base: './',
   worker: { format: 'es' },
   // The app chunk holds React, d3, jstat and zod (~520 kB); the PDF builder and its fonts load

@@ -3,7 +3,65 @@ import type { RenderOptions } from './chartTypes';
 import type { BalanceChartData } from './balanceChartData';
 import { balanceChartText } from './balanceChartText';
 import { ANALYSIS_STYLES, DIMMED_OPACITY, GROUP_COLOURS } from './palette';
-import { FONT, add, axisBottom, fmt, linkSeries, prepareSvg, text } from './svgHelpers';
+import {
+  COMPACT_WIDTH,
+  FONT,
+  add,
+  axisBottom,
+  axisLabelLines,
+  fmt,
+  labelWidth,
+  lineHeight,
+  linkSeries,
+  prepareSvg,
+  text,
+  wrapLabel,
+} from './svgHelpers';
+
+interface BalanceLayout {
+  compact: boolean;
+  left: number;
+  right: number;
+  bottom: number;
+  titleLines: string[];
+  subLines: string[];
+  subY: number;
+  legendY: number;
+  thresholds: { value: number; label: string; y: number }[];
+  top: number;
+  minHeight: number;
+}
+
+function subtitle(data: BalanceChartData): string {
+  return data.source === 'simulation' ? 'From the simulated studies (mean over replications)' : 'Closed form: exact matching from an unlimited comparison pool';
+}
+
+function layoutBalance(data: BalanceChartData, width: number): BalanceLayout {
+  const compact = width < COMPACT_WIDTH;
+  const left = compact ? 20 : 150;
+  const right = 28;
+  const titleLines = wrapLabel(data.title, width - 24, FONT.title, true);
+  const subLines = wrapLabel(subtitle(data), width - 24);
+  const subY = 18 + (titleLines.length - 1) * lineHeight(FONT.title) + 18;
+  const legendY = subY + (subLines.length - 1) * lineHeight(FONT.tick) + 18;
+  // Threshold labels beside their lines; the second on a row above when they would collide.
+  const x = d3.scaleLinear().domain([0, data.xMax]).range([left, width - right]);
+  const labels = [
+    { value: data.thresholds[0], label: `${fmt(data.thresholds[0], 2)} strict` },
+    { value: data.thresholds[1], label: `${fmt(data.thresholds[1], 2)} lenient` },
+  ];
+  const collide = x(labels[0]!.value) + 3 + labelWidth(labels[0]!.label) + 6 > x(labels[1]!.value) + 3;
+  const top = legendY + 24 + (collide ? 14 : 0);
+  const thresholds = labels.map((l, i) => ({ ...l, y: top - 8 - (collide && i === 1 ? 14 : 0) }));
+  const bottom = 56 + (axisLabelLines(data.xLabel, width).length - 1) * lineHeight(FONT.label);
+  const minHeight = Math.ceil(top + (compact ? 76 : 60) * data.rows.length + bottom);
+  return { compact, left, right, bottom, titleLines, subLines, subY, legendY, thresholds, top, minHeight };
+}
+
+/** The least height (px) the balance chart needs at a width so its rows and labels never overlap. */
+export function balanceChartMinHeight(data: BalanceChartData, width: number): number {
+  return layoutBalance(data, width).minHeight;
+}
 
 /**
  * Draw the balance chart into `svg`: for the observed pretest and the true
@@ -11,42 +69,42 @@ import { FONT, add, axisBottom, fmt, linkSeries, prepareSvg, text } from './svgH
  * joined by an arrow, with threshold lines at 0.1 and 0.25.
  * Matching concerns the matched-difference analysis, so that analysis'
  * highlight emphasises this chart and other highlights dim it a little.
+ * Narrow charts put each row's name above it.
  */
 export function renderBalanceChart(svg: SVGSVGElement, data: BalanceChartData, opts: RenderOptions): void {
   const alt = balanceChartText(data);
-  const root = prepareSvg(svg, opts, data.title, alt.sentences.join(' '));
-  const { width, height } = opts;
-  const left = 150;
-  const right = 28;
-  const top = 76;
-  const bottom = 56;
+  const { width } = opts;
+  const L = layoutBalance(data, width);
+  const height = Math.max(opts.height, L.minHeight);
+  const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
+  const { left, right, top, bottom, legendY } = L;
   const x = d3.scaleLinear().domain([0, data.xMax]).range([left, width - right]);
-  text(root, 12, 18, data.title, { 'font-size': FONT.title, 'font-weight': 'bold' });
-  text(root, 12, 36, data.source === 'simulation' ? 'From the simulated studies (mean over replications)' : 'Closed form: exact matching from an unlimited comparison pool', {
-    fill: GROUP_COLOURS.muted,
-  });
+  L.titleLines.forEach((l, i) => text(root, 12, 18 + i * lineHeight(FONT.title), l, { 'font-size': FONT.title, 'font-weight': 'bold' }));
+  L.subLines.forEach((l, i) => text(root, 12, L.subY + i * lineHeight(FONT.tick), l, { fill: GROUP_COLOURS.muted }));
   // Legend.
-  add(root, 'circle', { cx: 18, cy: 54, r: 5, fill: '#ffffff', stroke: '#222222', 'stroke-width': 1.5 });
-  text(root, 28, 58, 'Before matching');
-  add(root, 'circle', { cx: 138, cy: 54, r: 5, fill: '#222222' });
-  text(root, 148, 58, 'After matching');
+  add(root, 'circle', { cx: 18, cy: legendY, r: 5, fill: '#ffffff', stroke: '#222222', 'stroke-width': 1.5 });
+  text(root, 28, legendY + 4, 'Before matching');
+  add(root, 'circle', { cx: 138, cy: legendY, r: 5, fill: '#222222' });
+  text(root, 148, legendY + 4, 'After matching');
 
-  for (const [t, label] of [
-    [data.thresholds[0], `${fmt(data.thresholds[0], 2)} strict`],
-    [data.thresholds[1], `${fmt(data.thresholds[1], 2)} lenient`],
-  ] as [number, string][]) {
-    add(root, 'line', { x1: x(t), x2: x(t), y1: top - 6, y2: height - bottom, stroke: GROUP_COLOURS.threshold, 'stroke-dasharray': '4 3' });
-    text(root, x(t) + 3, top - 8, label, { fill: GROUP_COLOURS.muted });
+  for (const t of L.thresholds) {
+    add(root, 'line', { x1: x(t.value), x2: x(t.value), y1: t.y + 2, y2: height - bottom, stroke: GROUP_COLOURS.threshold, 'stroke-dasharray': '4 3' });
+    text(root, x(t.value) + 3, t.y, t.label, { fill: GROUP_COLOURS.muted });
   }
 
   const emph = opts.highlight === null || opts.highlight === 'matchedDifference';
   const plot = add(root, 'g', { opacity: emph ? 1 : DIMMED_OPACITY + 0.4 });
   linkSeries(plot, 'matchedDifference', opts, false);
   const rowH = (height - top - bottom) / data.rows.length;
+  // A value label centred on its marker, kept inside the chart.
+  const centred = (xv: number, label: string, bold: boolean) => {
+    const w = labelWidth(label, FONT.tick, bold);
+    return Math.min(Math.max(xv, 4 + w / 2), width - 4 - w / 2);
+  };
   data.rows.forEach((r, i) => {
-    const yy = top + rowH * (i + 0.5);
+    const yy = top + rowH * (i + 0.5) + (L.compact ? 10 : 0);
     const colour = r.measure === 'observed' ? GROUP_COLOURS.comparison : ANALYSIS_STYLES.matchedDifference.colour;
-    text(plot, 12, yy + 4, r.label, { 'font-size': FONT.label, 'font-weight': 'bold', fill: colour });
+    text(plot, 12, L.compact ? yy - 28 : yy + 4, r.label, { 'font-size': FONT.label, 'font-weight': 'bold', fill: colour });
     add(plot, 'line', { x1: left, x2: width - right, y1: yy, y2: yy, stroke: '#e3e3e3' });
     const xb = x(Math.min(Math.abs(r.before), data.xMax));
     const xa = x(Math.min(Math.abs(r.after), data.xMax));
@@ -57,8 +115,10 @@ export function renderBalanceChart(svg: SVGSVGElement, data: BalanceChartData, o
     }
     add(plot, 'circle', { cx: xb, cy: yy, r: 6, fill: '#ffffff', stroke: colour, 'stroke-width': 2 });
     add(plot, 'circle', { cx: xa, cy: yy, r: 6, fill: colour });
-    text(plot, xb, yy - 12, `before ${fmt(r.before, 2)}`, { 'text-anchor': 'middle', fill: colour });
-    text(plot, xa, yy + 22, `after ${fmt(r.after, 2)}`, { 'text-anchor': 'middle', fill: colour, 'font-weight': 'bold' });
+    const before = `before ${fmt(r.before, 2)}`;
+    const after = `after ${fmt(r.after, 2)}`;
+    text(plot, centred(xb, before, false), yy - 12, before, { 'text-anchor': 'middle', fill: colour });
+    text(plot, centred(xa, after, true), yy + 22, after, { 'text-anchor': 'middle', fill: colour, 'font-weight': 'bold' });
   });
   axisBottom(root, x, height - bottom + 4, data.xLabel, 6);
 }

@@ -66,13 +66,42 @@ export function axisBottom(
 ): void {
   const [r0, r1] = scale.range() as [number, number];
   add(g, 'line', { x1: r0, x2: r1, y1: y, y2: y, stroke: '#444444', 'stroke-width': 1 });
-  const fmt = format ?? tickFormat(scale, count);
-  for (const t of scale.ticks(count)) {
+  // Fewer ticks when their labels would not fit side by side (narrow charts).
+  let n = count;
+  let ticks = scale.ticks(n);
+  let fmt = format ?? tickFormat(scale, n);
+  while (n > 2 && ticks.length > 1) {
+    const widest = Math.max(...ticks.map((t) => labelWidth(fmt(t))));
+    if (Math.abs(r1 - r0) / (ticks.length - 1) >= widest + 8) break;
+    n -= 1;
+    ticks = scale.ticks(n);
+    fmt = format ?? tickFormat(scale, n);
+  }
+  for (const t of ticks) {
     const x = scale(t);
     add(g, 'line', { x1: x, x2: x, y1: y, y2: y + 4, stroke: '#444444', 'stroke-width': 1 });
     text(g, x, y + 16, fmt(t), { 'text-anchor': 'middle' });
   }
-  text(g, (r0 + r1) / 2, y + 34, label, { 'text-anchor': 'middle', 'font-size': FONT.label });
+  // The axis title: centred under the plot, wrapped and kept inside the chart.
+  const width = svgWidthOf(g) ?? r1 + 24;
+  axisLabelLines(label, width).forEach((line, i) => {
+    const w = labelWidth(line, FONT.label);
+    const cx = Math.min(Math.max((r0 + r1) / 2, 4 + w / 2), width - 4 - w / 2);
+    text(g, cx, y + 34 + i * lineHeight(FONT.label), line, { 'text-anchor': 'middle', 'font-size': FONT.label });
+  });
+}
+
+/** The lines a bottom axis title takes in a chart `width` px wide (for layouts: each extra line needs lineHeight(FONT.label) px). */
+export function axisLabelLines(label: string, width: number): string[] {
+  return wrapLabel(label, width - 8, FONT.label);
+}
+
+/** The width attribute of the svg a selection belongs to. */
+function svgWidthOf(g: Sel): number | null {
+  const node = g.node() as SVGElement | null;
+  const svg = node?.localName === 'svg' ? node : node?.ownerSVGElement;
+  const w = Number.parseFloat(svg?.getAttribute('width') ?? '');
+  return Number.isFinite(w) && w > 0 ? w : null;
 }
 
 /** Draw a left axis with inline styling and a rotated label (with units), labelOffset px left of the axis. */
@@ -87,8 +116,10 @@ export function axisLeft(
 ): void {
   const [r0, r1] = scale.range() as [number, number];
   add(g, 'line', { x1: x, x2: x, y1: r0, y2: r1, stroke: '#444444', 'stroke-width': 1 });
-  const fmt = format ?? tickFormat(scale, count);
-  for (const t of scale.ticks(count)) {
+  // Ticks at least 18 px apart (short plots get fewer).
+  const n = Math.max(2, Math.min(count, Math.floor(Math.abs(r1 - r0) / 18)));
+  const fmt = format ?? tickFormat(scale, n);
+  for (const t of scale.ticks(n)) {
     const y = scale(t);
     add(g, 'line', { x1: x - 4, x2: x, y1: y, y2: y, stroke: '#444444', 'stroke-width': 1 });
     text(g, x - 7, y + 4, fmt(t), { 'text-anchor': 'end' });
@@ -205,4 +236,72 @@ export function analysisLegend(
 export function fmt(v: number, digits = 2): string {
   const s = v.toFixed(digits);
   return s === `-${(0).toFixed(digits)}` ? (0).toFixed(digits) : s;
+}
+
+/** Charts narrower than this (CSS px) stack their row labels above the rows instead of beside them. */
+export const COMPACT_WIDTH = 560;
+
+/**
+ * Estimated width of a label in px: characters × font size × 0.6 (0.65 bold),
+ * a little wider than typical sans-serif advance widths, so layouts leave room.
+ */
+export function labelWidth(content: string, size: number = FONT.tick, bold = false): number {
+  return content.length * size * (bold ? 0.65 : 0.6);
+}
+
+/** Split a label into lines at spaces so each fits `maxWidth` px (a single long word stays whole). */
+export function wrapLabel(content: string, maxWidth: number, size: number = FONT.tick, bold = false): string[] {
+  const lines: string[] = [];
+  let line = '';
+  for (const word of content.split(/\s+/).filter(Boolean)) {
+    const next = line ? `${line} ${word}` : word;
+    if (line && labelWidth(next, size, bold) > maxWidth) {
+      lines.push(line);
+      line = word;
+    } else {
+      line = next;
+    }
+  }
+  if (line) lines.push(line);
+  return lines.length > 0 ? lines : [''];
+}
+
+/** Line height in px for a font size. */
+export function lineHeight(size: number = FONT.tick): number {
+  return Math.round(size * 1.35);
+}
+
+/**
+ * Draw a label wrapped to `maxWidth` px, first baseline at y, one text element
+ * per line. Returns the number of lines drawn.
+ */
+export function wrappedText(parent: Sel, x: number, y: number, content: string, maxWidth: number, attrs: Record<string, string | number> = {}): number {
+  const size = Number(attrs['font-size'] ?? FONT.tick);
+  const lines = wrapLabel(content, maxWidth, size, attrs['font-weight'] === 'bold');
+  lines.forEach((l, i) => text(parent, x, y + i * lineHeight(size), l, attrs));
+  return lines.length;
+}
+
+/**
+ * A label's x and anchor so it stays within [pad, width − pad]: preferably at
+ * `x` with `anchor`, else flipped to the other side of x, else pushed inside.
+ */
+export function fitLabel(
+  x: number,
+  anchor: 'start' | 'end',
+  content: string,
+  width: number,
+  { size = FONT.tick as number, bold = false, pad = 4, gap = 0 } = {},
+): { x: number; anchor: 'start' | 'end' } {
+  const w = labelWidth(content, size, bold);
+  const fitsStart = x + gap + w <= width - pad;
+  const fitsEnd = x - gap - w >= pad;
+  if (anchor === 'start' ? fitsStart : !fitsEnd && fitsStart) return { x: x + gap, anchor: 'start' };
+  if (fitsEnd) return { x: x - gap, anchor: 'end' };
+  return { x: pad, anchor: 'start' };
+}
+
+/** How many ticks fit along `length` px when each label is about `chars` characters wide. */
+export function tickCountFor(length: number, wanted: number, chars = 4): number {
+  return Math.max(2, Math.min(wanted, Math.floor(length / (labelWidth('0'.repeat(chars)) + 14))));
 }

@@ -18,6 +18,11 @@ import { z } from 'zod';
  * range of double-precision numbers and every analysis can be computed.
  */
 
+// No generated code: zod's fast path compiles parsers with `new Function`, and even its probe for
+// whether that is allowed is reported as a violation under the page's Content-Security-Policy
+// (script-src 'self', no 'unsafe-eval'). Validation speed is not a concern at plan size.
+z.config({ jitless: true });
+
 /** Plain-language name of a field and the rule it must meet (sentence fragments). */
 export interface FieldRule {
   /** What the field is, e.g. "Pretest reliability". */

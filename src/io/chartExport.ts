@@ -9,7 +9,7 @@ const SVG_NS = 'http://www.w3.org/2000/svg';
 /**
  * A chart's SVG markup made into a standalone file: XML declaration, the SVG
  * namespace, explicit width/height (from the viewBox when missing), scripts
- * and event handlers removed, and a white background so it reads in any viewer.
+ * and event handlers removed, and a white background (a rectangle) so it reads in any viewer.
  * @throws Error when the markup is not well-formed SVG, or no DOMParser exists.
  */
 export function standaloneSvg(svgText: string): string {
@@ -31,8 +31,13 @@ export function standaloneSvg(svgText: string): string {
   const vb = (root.getAttribute('viewBox') ?? '').split(/[\s,]+/).map(Number);
   if (!root.getAttribute('width') && vb.length === 4 && Number.isFinite(vb[2])) root.setAttribute('width', String(vb[2]));
   if (!root.getAttribute('height') && vb.length === 4 && Number.isFinite(vb[3])) root.setAttribute('height', String(vb[3]));
-  if (!root.getAttribute('style')?.includes('background')) {
-    root.setAttribute('style', `${root.getAttribute('style') ?? ''}${root.getAttribute('style') ? ';' : ''}background:#ffffff`);
+  // A white background as a drawn rectangle, not a style attribute: the page's Content-Security-Policy
+  // (style-src 'self') also covers documents it parses, and a rect reads the same in every viewer.
+  if (!root.querySelector(':scope > rect[data-background]')) {
+    const bg = doc.createElementNS(SVG_NS, 'rect');
+    for (const [k, v] of [['data-background', 'true'], ['x', '0'], ['y', '0'], ['width', '100%'], ['height', '100%'], ['fill', '#ffffff']]) bg.setAttribute(k!, v!);
+    const firstDrawn = Array.from(root.children).find((c) => c.localName !== 'title' && c.localName !== 'desc' && c.localName !== 'defs');
+    root.insertBefore(bg, firstDrawn ?? null);
   }
   return `<?xml version="1.0" encoding="UTF-8"?>\n${new XMLSerializer().serializeToString(root)}\n`;
 }

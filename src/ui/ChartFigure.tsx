@@ -1,4 +1,5 @@
-import { useEffect, useId, useRef, useState } from 'react';
+import { useCallback, useEffect, useId, useRef, useState } from 'react';
+import type { AnalysisId } from '../core/plan';
 import type { ChartText, RenderOptions } from '../charts/chartTypes';
 import { selectHighlight, selectSetHighlight } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
@@ -12,6 +13,29 @@ export type ChartLink = Pick<RenderOptions, 'highlight' | 'onHighlight'>;
  * draws the chart again.
  */
 export type DrawChart<D> = (svg: SVGSVGElement, data: D, width: number, link: ChartLink) => void;
+
+/**
+ * Which of a chart's focusable controls has the keyboard focus, as a key that
+ * survives a redraw: its analysis (data-analysis) and its position among the
+ * controls for that analysis; null when the focus is elsewhere.
+ */
+export function focusedControlKey(svg: SVGSVGElement): string | null {
+  const active = svg.ownerDocument.activeElement;
+  if (!active || active === svg || !svg.contains(active)) return null;
+  const analysis = active.getAttribute('data-analysis') ?? '';
+  const same = Array.from(svg.querySelectorAll('[tabindex]')).filter((el) => (el.getAttribute('data-analysis') ?? '') === analysis);
+  return `${analysis}#${Math.max(0, same.indexOf(active))}`;
+}
+
+/** Focus the control a redrawn chart has for a key from focusedControlKey (no scrolling); false when it has none. */
+export function restoreFocus(svg: SVGSVGElement, key: string): boolean {
+  const [analysis, index] = key.split('#');
+  const same = Array.from(svg.querySelectorAll<SVGElement>('[tabindex]')).filter((el) => (el.getAttribute('data-analysis') ?? '') === analysis);
+  const target = same[Number(index)] ?? same[0];
+  if (!target) return false;
+  target.focus({ preventScroll: true });
+  return true;
+}
 
 /** A chart's data and text alternative, or the message of the error that stopped them. */
 export interface BuiltChart<D> {
@@ -68,22 +92,38 @@ export function ChartFigure<D>({ chart, data, text, error, draw, fallbackTitle, 
     ro.observe(el);
     return () => ro.disconnect();
   }, [width]);
+  // True while a redraw replaces the chart's elements: a blur from the removed
+  // element must not clear the highlight the redraw is showing.
+  const redrawing = useRef(false);
+  const onHighlight = useCallback(
+    (id: AnalysisId | null) => {
+      if (!redrawing.current) setHighlight(id);
+    },
+    [setHighlight],
+  );
   useEffect(() => {
     const svg = ref.current;
     if (!svg || !data) return;
     const timer = setTimeout(() => {
+      // A redraw replaces every element: remember which control had the keyboard
+      // focus so focus stays on the same logical control (never drops to the page).
+      const focusKey = focusedControlKey(svg);
+      redrawing.current = true;
       try {
-        draw(svg, data, width, { highlight, onHighlight: setHighlight });
+        draw(svg, data, width, { highlight, onHighlight });
         // On screen, legend entries are focusable buttons; an image may not contain
         // controls, so the live chart is a labelled group (exports stay role=img).
         if (svg.querySelector('[tabindex]')) svg.setAttribute('role', 'group');
+        if (focusKey !== null) restoreFocus(svg, focusKey);
         setDrawError(null);
       } catch (e) {
         setDrawError(e instanceof Error ? e.message : String(e));
+      } finally {
+        redrawing.current = false;
       }
     }, 0);
     return () => clearTimeout(timer);
-  }, [draw, data, highlight, setHighlight, width]);
+  }, [draw, data, highlight, onHighlight, width]);
   const problem = error ?? drawError;
   return (
     <figure className="chart-card" data-chart={chart} aria-labelledby={headingId}>

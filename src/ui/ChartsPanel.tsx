@@ -1,6 +1,7 @@
 import { useCallback, useId, useMemo, useState } from 'react';
 import { balanceChartData } from '../charts/balanceChartData';
 import { balanceChartText } from '../charts/balanceChartText';
+import { chartSize } from '../charts/chartSize';
 import type { ChartId, ChartInput } from '../charts/chartTypes';
 import { estimatesChartData } from '../charts/estimatesChartData';
 import { estimatesChartText } from '../charts/estimatesChartText';
@@ -16,12 +17,6 @@ import { useMeanwardStore } from '../state/store';
 import { ChartFigure, buildChart, type BuiltChart, type DrawChart } from './ChartFigure';
 import { CovariateBalanceCard } from './CovariateBalanceCard';
 
-/** Chart size for a container width: drawn at the size shown, so text stays at its designed size. */
-function sizeFor(width: number): { width: number; height: number } {
-  const w = Math.max(320, Math.min(900, Math.round(width)));
-  return { width: w, height: Math.round(Math.max(300, Math.min(420, w * 0.55))) };
-}
-
 interface ChartCardProps<K extends ChartId> extends BuiltChart<ChartDataById[K]> {
   chartId: K;
   controls?: React.ReactNode;
@@ -30,7 +25,7 @@ interface ChartCardProps<K extends ChartId> extends BuiltChart<ChartDataById[K]>
 /** One of the four charts (drawn by src/charts' renderChart at the size shown), with its text and table alternative. */
 function ChartCard<K extends ChartId>({ chartId, controls, ...built }: ChartCardProps<K>) {
   const draw = useCallback<DrawChart<ChartDataById[K]>>(
-    (svg, data, width, link) => renderChart(chartId, svg, data, { ...sizeFor(width), ...link }),
+    (svg, data, width, link) => renderChart(chartId, svg, data, { ...chartSize(chartId, data, width), ...link }),
     [chartId],
   );
   return <ChartFigure chart={chartId} {...built} draw={draw} fallbackTitle="Chart" controls={controls} />;

@@ -1,13 +1,14 @@
 import { useMemo } from 'react';
+import { CHART_WIDTH_RANGE } from '../charts/chartSize';
 import type { ChartInput } from '../charts/chartTypes';
 import { covariateBalanceChartData, hasCovariateBalance, type CovariateBalanceChartData } from '../charts/covariateBalanceChartData';
 import { covariateBalanceChartSize, renderCovariateBalanceChart } from '../charts/covariateBalanceChartRender';
 import { covariateBalanceChartText } from '../charts/covariateBalanceChartText';
 import { ChartFigure, buildChart, type BuiltChart, type DrawChart } from './ChartFigure';
 
-/** Draw the balance chart at the width shown (420 to 900 px; its height grows with the rows). */
+/** Draw the balance chart at the width shown (320 to 900 px; its height grows with the rows). */
 const drawCovariateBalance: DrawChart<CovariateBalanceChartData> = (svg, data, width, link) => {
-  const w = Math.max(420, Math.min(900, Math.round(width)));
+  const w = Math.max(CHART_WIDTH_RANGE[0], Math.min(CHART_WIDTH_RANGE[1], Math.round(width)));
   renderCovariateBalanceChart(svg, data, { ...covariateBalanceChartSize(data, w), ...link });
 };
 

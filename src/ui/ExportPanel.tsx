@@ -6,6 +6,7 @@ import { serializePlan } from '../io/planFile';
 import type { ReportChart } from '../report/buildReportPdf';
 import { CAUTION_LINE } from '../report/reportText';
 import { useMeanwardStore } from '../state/store';
+import { exportableBalanceChart } from './exportableCharts';
 
 type Status = { kind: 'idle' } | { kind: 'busy'; text: string } | { kind: 'done'; text: string } | { kind: 'error'; text: string };
 
@@ -45,6 +46,8 @@ export function ExportPanel() {
   const currentCharts = chartsFor === chartsKey ? charts : null;
 
   const run = async (label: string, job: () => Promise<string>) => {
+    // Buttons stay focusable while a job runs (aria-disabled): a second press waits for the first.
+    if (status.kind === 'busy') return;
     setStatus({ kind: 'busy', text: `${label}…` });
     try {
       setStatus({ kind: 'done', text: await job() });
@@ -109,7 +112,7 @@ export function ExportPanel() {
     { id: 'pretest', name: 'Pretest distributions' },
     { id: 'estimates', name: 'Estimates by analysis' },
     { id: 'sensitivity', name: 'Sensitivity' },
-    ...(sim ? [{ id: 'balance', name: 'Balance after matching' }] : []),
+    ...exportableBalanceChart(plan, analytic, sim),
   ];
 
   return (
@@ -124,13 +127,13 @@ export function ExportPanel() {
         </p>
       )}
       <div className="export-buttons" role="group" aria-label="Download" style={{ display: 'flex', flexWrap: 'wrap', gap: '0.5rem', margin: '0.4rem 0' }}>
-        <button type="button" className="primary" onClick={() => void onPdf()} disabled={planReason !== null || busy} aria-describedby={planReason ? reasonId : undefined}>
+        <button type="button" className="primary" onClick={() => void onPdf()} disabled={planReason !== null} aria-disabled={busy || undefined} aria-describedby={planReason ? reasonId : undefined}>
           Download PDF summary
         </button>
-        <button type="button" onClick={() => void onPlan()} disabled={planReason !== null || busy} aria-describedby={planReason ? reasonId : undefined}>
+        <button type="button" onClick={() => void onPlan()} disabled={planReason !== null} aria-disabled={busy || undefined} aria-describedby={planReason ? reasonId : undefined}>
           Plan file (JSON)
         </button>
-        <button type="button" onClick={() => void onCsv()} disabled={simReason !== null || busy} aria-describedby={planReason ? reasonId : simReason ? simReasonId : undefined}>
+        <button type="button" onClick={() => void onCsv()} disabled={simReason !== null} aria-disabled={busy || undefined} aria-describedby={planReason ? reasonId : simReason ? simReasonId : undefined}>
           Estimates CSV
         </button>
       </div>
@@ -147,10 +150,10 @@ export function ExportPanel() {
         {chartIds.map((c) => (
           <li key={c.id}>
             <span>{c.name}</span>{' '}
-            <button type="button" onClick={() => void onChart(c.id, 'svg')} disabled={planReason !== null || busy} aria-label={`${c.name} chart as SVG`} aria-describedby={planReason ? reasonId : undefined}>
+            <button type="button" onClick={() => void onChart(c.id, 'svg')} disabled={planReason !== null} aria-disabled={busy || undefined} aria-label={`${c.name} chart as SVG`} aria-describedby={planReason ? reasonId : undefined}>
               SVG
             </button>{' '}
-            <button type="button" onClick={() => void onChart(c.id, 'png')} disabled={planReason !== null || busy} aria-label={`${c.name} chart as PNG`} aria-describedby={planReason ? reasonId : undefined}>
+            <button type="button" onClick={() => void onChart(c.id, 'png')} disabled={planReason !== null} aria-disabled={busy || undefined} aria-label={`${c.name} chart as PNG`} aria-describedby={planReason ? reasonId : undefined}>
               PNG
             </button>
           </li>

@@ -30,10 +30,25 @@ export function SimulationPanel() {
     <section className="simulation" aria-labelledby="simulation-heading">
       <h2 id="simulation-heading">Check by simulation</h2>
       <div className="sim-controls">
-        <button type="button" className="primary" onClick={() => void run()} disabled={running || !valid}>
+        {/* While a run starts or ends, the button pressed stays focusable (aria-disabled, not
+            disabled): a disabled focused button would drop the keyboard focus to the page. */}
+        <button
+          type="button"
+          className="primary"
+          onClick={() => {
+            if (!running && valid) void run();
+          }}
+          aria-disabled={running || !valid}
+        >
           {sim.result ? 'Run the simulation again' : 'Run the simulation'}
         </button>
-        <button type="button" onClick={cancel} disabled={!running}>
+        <button
+          type="button"
+          onClick={() => {
+            if (running) cancel();
+          }}
+          aria-disabled={!running}
+        >
           Cancel
         </button>
         <span className="sim-size">

@@ -139,7 +139,7 @@ describe('covariateBalanceChartData', () => {
     expect(covariateBalanceChartSvgString(covariateBalanceChartData(closedForm()), 760)).toBe(text);
     const svg = new DOMParser().parseFromString(text, 'image/svg+xml').documentElement;
     expect(svg.getAttribute('xmlns')).toBe('http://www.w3.org/2000/svg');
-    expect(svg.getAttribute('viewBox')).toBe(`0 0 760 ${covariateBalanceChartHeight(d)}`);
+    expect(svg.getAttribute('viewBox')).toBe(`0 0 760 ${covariateBalanceChartHeight(d, 760)}`);
     expect(svg.getAttribute('role')).toBe('img');
     expect(svg.querySelector('desc')!.textContent).toContain('Motivation');
     expect(svg.querySelectorAll('[data-covariate]')).toHaveLength(3);
