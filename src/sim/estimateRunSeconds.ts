@@ -1,0 +1,87 @@
+import type { SimulationRun } from './types';
+
+/**
+ * The longest run the planner starts in the browser without asking: 10 minutes, estimated.
+ * Longer runs need the researcher's go-ahead (or the command line, which can stop at a time
+ * limit with `--max-seconds` and summarise what it has).
+ */
+export const BROWSER_RUN_LIMIT_SECONDS = 600;
+
+/** How long a run will take, from a short timed pilot of the run itself (estimateRunSeconds). */
+export interface RunTimeEstimate {
+  /** Estimated seconds for the whole run: the pilot's time plus the rest at the pilot's pace. */
+  seconds: number;
+  /** Estimated seconds per replication (the pilot's pace, first replication left out when there are 3 or more). */
+  secondsPerReplication: number;
+  /** Replications timed (they are the run's first ones and count towards it). */
+  pilotReplications: number;
+  /** Seconds the pilot took. */
+  pilotSeconds: number;
+  /** Replications the run is to do in all. */
+  replications: number;
+  /** One sentence saying how the estimate was made (shown beside it). */
+  method: string;
+}
+
+/** Limits of the pilot: it stops at whichever comes first (with at least one replication). */
+export interface PilotLimits {
+  /** Milliseconds of pilot work to aim for (default 300). */
+  targetMs?: number;
+  /** Most replications to time (default 40). */
+  maxReplications?: number;
+}
+
+/**
+ * Estimate a run's time from a timed pilot: run its first replications (1, then 1, 2, 4, …
+ * at a time) until about `targetMs` of work or `maxReplications` are done, and scale the
+ * pace to the planned count. Replication i always draws from its own stream, so the pilot's
+ * replications are simply the run's first ones: they count towards it and change no number.
+ * Time per replication is nearly constant within a plan (the pools and every step have fixed
+ * sizes), so the scaled pace is a fair guide; the first replication also pays for compiling
+ * the engine and is left out of the pace when 3 or more are timed (common practice for
+ * timing: discard the warm-up). Expect the estimate within a factor of about 1.5 on a
+ * machine that is not otherwise busy (measured: test/sim/estimateRunSeconds.test.ts checks
+ * the arithmetic with a fake clock; docs/simulation.md, "How long a run takes").
+ *
+ * @param run a fresh run (createPlanSimulation), none of its replications done yet.
+ * @param now a clock in milliseconds (performance.now or a fake).
+ * @param limits pilot size limits (targetMs > 0, maxReplications ≥ 1).
+ * @returns the estimate; run.completed = its pilotReplications afterwards.
+ * @throws Error when the run already has replications done or a limit is out of range
+ *   (and whatever the engine throws for the plan).
+ * @example
+ *   // a fake clock advancing 50 ms per replication, 1,000 planned, limit 300 ms:
+ *   // 1 + 1 + 2 + 4 = 8 timed (400 ms), pace 50 ms → seconds = 0.4 + 992 × 0.05 = 50
+ */
+export function estimateRunSeconds(run: SimulationRun, now: () => number, limits: PilotLimits = {}): RunTimeEstimate {
+  const targetMs = limits.targetMs ?? 300;
+  const maxReps = limits.maxReplications ?? 40;
+  if (!(targetMs > 0) || !Number.isFinite(targetMs)) throw new Error(`The pilot's time target must be a positive number of milliseconds; got ${String(targetMs)}.`);
+  if (!Number.isInteger(maxReps) || maxReps < 1) throw new Error(`The pilot's replication limit must be a whole number of at least 1; got ${String(maxReps)}.`);
+  if (run.completed !== 0) throw new Error(`The run time can only be estimated before a run starts; ${run.completed} replications have already run.`);
+  const total = run.total;
+  const limit = Math.min(total, maxReps);
+  const start = now();
+  run.runChunk(0, 1);
+  const firstMs = now() - start;
+  let done = 1;
+  let step = 1;
+  while (done < limit && now() - start < targetMs) {
+    const to = Math.min(limit, done + step);
+    run.runChunk(done, to);
+    done = to;
+    step *= 2;
+  }
+  const pilotMs = Math.max(0, now() - start);
+  const paceMs = done >= 3 ? (pilotMs - firstMs) / (done - 1) : pilotMs / done;
+  const perRep = Math.max(0, paceMs) / 1000;
+  const seconds = pilotMs / 1000 + (total - done) * perRep;
+  return {
+    seconds,
+    secondsPerReplication: perRep,
+    pilotReplications: done,
+    pilotSeconds: pilotMs / 1000,
+    replications: total,
+    method: `timed the first ${done} of ${total} replications on this device and scaled their pace to the rest`,
+  };
+}
