@@ -178,7 +178,7 @@ function runWithTimeLimit(
     maxSeconds !== undefined && estimate.seconds > maxSeconds
       ? ` The --max-seconds ${maxSeconds} limit will stop it early; the summary will cover the replications done by then, labelled partial.`
       : '';
-  io.stderr.write(`meanward: estimated simulation time about ${fmtDuration(estimate.seconds)} (${estimate.method}).${limitNote}\n`);
+  io.stderr.write(`meanward: estimated simulation time ${fmtDuration(estimate.seconds)} (${estimate.method}).${limitNote}\n`);
   const bar = createProgressBar(io.stderr, 'Simulating');
   onBar(bar);
   const total = run.total;

@@ -347,3 +347,17 @@ describe('matchOnMahalanobis: the k-d tree search', () => {
     }
   });
 });
+
+describe('the engine with Mahalanobis matching and a comparison pretest mean of 1e20', () => {
+  it('finishes (it once searched grid rings for minutes) and says nobody could be matched', async () => {
+    const { demoPlan } = await import('../../src/io/demoPlan');
+    const { simulatePlan } = await import('../../src/sim/simulatePlan');
+    const plan = demoPlan();
+    plan.matching = { ...plan.matching, distance: 'mahalanobis', caliper: 0.5 };
+    plan.groups.comparison.pretestMean = 1e20;
+    const r = simulatePlan(plan, { replications: 2, seed: 1 });
+    // Every programme member is about 1e19 whitened units from every comparison member (definition).
+    expect(r.matching.discardedProgrammeShare).toBe(1);
+    expect(r.analyses.matchedDifference.feasible).toBe(false);
+  });
+});
