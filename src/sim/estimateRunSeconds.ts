@@ -29,11 +29,17 @@ export interface PilotLimits {
   targetMs?: number;
   /** Most replications to time (default 40). */
   maxReplications?: number;
+  /**
+   * Time at least 3 replications (so the warm-up can be left out of the pace) unless the pilot has
+   * already taken this many milliseconds (default 2,000).
+   */
+  warmUpCapMs?: number;
 }
 
 /**
  * Estimate a run's time from a timed pilot: run its first replications (1, then 1, 2, 4, …
- * at a time) until about `targetMs` of work or `maxReplications` are done, and scale the
+ * at a time) until about `targetMs` of work or `maxReplications` are done (and at least 3,
+ * unless the pilot has already taken `warmUpCapMs`), and scale the
  * pace to the planned count. Replication i always draws from its own stream, so the pilot's
  * replications are simply the run's first ones: they count towards it and change no number.
  * Time per replication is nearly constant within a plan (the pools and every step have fixed
@@ -56,6 +62,7 @@ export interface PilotLimits {
 export function estimateRunSeconds(run: SimulationRun, now: () => number, limits: PilotLimits = {}): RunTimeEstimate {
   const targetMs = limits.targetMs ?? 300;
   const maxReps = limits.maxReplications ?? 40;
+  const warmUpCapMs = limits.warmUpCapMs ?? 2000;
   if (!(targetMs > 0) || !Number.isFinite(targetMs)) throw new Error(`The pilot's time target must be a positive number of milliseconds; got ${String(targetMs)}.`);
   if (!Number.isInteger(maxReps) || maxReps < 1) throw new Error(`The pilot's replication limit must be a whole number of at least 1; got ${String(maxReps)}.`);
   if (run.completed !== 0) throw new Error(`The run time can only be estimated before a run starts; ${run.completed} replications have already run.`);
@@ -66,7 +73,9 @@ export function estimateRunSeconds(run: SimulationRun, now: () => number, limits
   const firstMs = now() - start;
   let done = 1;
   let step = 1;
-  while (done < limit && now() - start < targetMs) {
+  for (;;) {
+    const elapsed = now() - start;
+    if (done >= limit || (elapsed >= targetMs && (done >= 3 || elapsed >= warmUpCapMs))) break;
     const to = Math.min(limit, done + step);
     run.runChunk(done, to);
     done = to;
@@ -82,6 +91,11 @@ export function estimateRunSeconds(run: SimulationRun, now: () => number, limits
     pilotReplications: done,
     pilotSeconds: pilotMs / 1000,
     replications: total,
-    method: `timed the first ${done} of ${total} replications on this device and scaled their pace to the rest`,
+    method: `timed the first ${grouped(done)} of ${grouped(total)} replications on this device and scaled their pace to the rest`,
   };
+}
+
+/** A whole number with thousands separators ("100,000"), for the method sentence. */
+function grouped(n: number): string {
+  return n.toLocaleString('en-GB');
 }

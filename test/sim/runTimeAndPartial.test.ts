@@ -25,7 +25,7 @@ describe('estimateRunSeconds: a timed pilot of the run itself', () => {
     expect(est.secondsPerReplication).toBeCloseTo(0.05, 12);
     expect(est.seconds).toBeCloseTo(50, 12);
     expect(est.replications).toBe(1000);
-    expect(est.method).toBe('timed the first 8 of 1000 replications on this device and scaled their pace to the rest');
+    expect(est.method).toBe('timed the first 8 of 1,000 replications on this device and scaled their pace to the rest');
   });
 
   it('leaves the slow first replication (warm-up) out of the pace, and stops at the replication limit', () => {
@@ -35,6 +35,21 @@ describe('estimateRunSeconds: a timed pilot of the run itself', () => {
     expect(est.pilotReplications).toBe(40);
     expect(est.secondsPerReplication).toBeCloseTo(0.001, 12); // (240 − 201) / 39 ms, hand-worked
     expect(est.seconds).toBeCloseTo(0.24 + 460 * 0.001, 12);
+  });
+
+  it('times at least 3 replications when the first is slow, unless the pilot has passed 2 s (warm-up cap)', () => {
+    const slow = createPlanSimulation(demoPlan(), { replications: 100 });
+    // First replication 1,000 ms (over the 300 ms target), then 20 ms each: chunks of 1, 1, 2 →
+    // 4 timed, pace (1,060 − 1,000) / 3 = 20 ms (hand-worked).
+    const est = estimateRunSeconds(slow, fakeClock(slow, 20, 980));
+    expect(est.pilotReplications).toBe(4);
+    expect(est.secondsPerReplication).toBeCloseTo(0.02, 12);
+    const slower = createPlanSimulation(demoPlan(), { replications: 100 });
+    // First replication 3,000 ms: past the 2,000 ms cap, so 1 timed and its time is the pace.
+    const est2 = estimateRunSeconds(slower, fakeClock(slower, 3000));
+    expect(est2.pilotReplications).toBe(1);
+    expect(est2.seconds).toBeCloseTo(300, 12);
+    expect(est2.method).toBe('timed the first 1 of 100 replications on this device and scaled their pace to the rest');
   });
 
   it('rejects a run already under way and bad limits with clear messages', () => {
