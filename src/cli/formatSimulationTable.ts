@@ -21,7 +21,7 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
   const lines: string[] = [];
   lines.push(
     sim.partial
-      ? `Simulated results, PARTIAL: stopped at the time limit after ${sim.replications} of ${sim.replicationsPlanned ?? '?'} planned replications (seed ${sim.seed}; the planned pools, caliper, ratio and matching order). Monte Carlo SEs reflect the replications done.`
+      ? `Simulated results, PARTIAL: stopped at the time limit after ${sim.replications.toLocaleString('en-GB')} of ${(sim.replicationsPlanned ?? sim.replications).toLocaleString('en-GB')} planned replications (seed ${sim.seed}; the planned pools, caliper, ratio and matching order). Monte Carlo SEs reflect the replications done.`
       : `Simulated results (${sim.replications} replications, seed ${sim.seed}; the planned pools, caliper, ratio and matching order)`,
   );
   const rejection = sim.tau === 0 ? 'False-positive rate' : 'Power';

@@ -7,7 +7,7 @@ import { formatResultsTable, PLANNING_CAUTION } from './formatResultsTable';
 import { parseCommandLine } from './parseCommandLine';
 import { createPlanSimulation } from '../sim/multivariate/createPlanSimulation';
 import { estimateRunSeconds } from '../sim/estimateRunSeconds';
-import { fmtDuration } from '../ui/format';
+import { fmtDuration, fmtInt } from '../ui/format';
 import type { SimulationResult } from '../sim/types';
 import { analysePlannedProcedure } from '../sim/analysePlannedProcedure';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
@@ -198,7 +198,7 @@ function runWithTimeLimit(
   }
   bar?.done();
   if (stopped) {
-    io.stderr.write(`meanward: stopped at the ${maxSeconds} s limit after ${from} of ${total} replications; the simulated figures below are partial.\n`);
+    io.stderr.write(`meanward: stopped at the ${maxSeconds} s limit after ${fmtInt(from)} of ${fmtInt(total)} replications; the simulated figures below are partial.\n`);
     return run.finishPartial();
   }
   return run.finish();
