@@ -105,6 +105,29 @@ function selectKth(idx: Int32Array, key: Float64Array, lo: number, hi: number, k
   }
 }
 
+/** Put the k-th smallest of values[lo..hi] (inclusive) at position k (Hoare's FIND, as selectKth). */
+function selectKthValue(values: Int32Array, lo: number, hi: number, k: number): void {
+  while (hi > lo) {
+    const pivot = values[(lo + hi) >>> 1] as number;
+    let i = lo;
+    let j = hi;
+    while (i <= j) {
+      while ((values[i] as number) < pivot) i++;
+      while ((values[j] as number) > pivot) j--;
+      if (i <= j) {
+        const t = values[i] as number;
+        values[i] = values[j] as number;
+        values[j] = t;
+        i++;
+        j--;
+      }
+    }
+    if (k <= j) hi = j;
+    else if (k >= i) lo = i;
+    else return;
+  }
+}
+
 /** Build the k-d tree over orderC[lo, hi): the median of the widest coordinate at the middle, halves either side. */
 function buildTree(coords: readonly Float64Array[], ws: MahalanobisMatchingWorkspace, lo: number, hi: number): void {
   const n = hi - lo;
@@ -384,6 +407,13 @@ export function matchOnMahalanobis(
       let taken = 0;
       if (nearest) {
         for (; taken < got; taken++) partners[base + taken] = bestIndex[taken] as number;
+      } else if (got === 1 || (got > 1 && k === 1)) {
+        // One pick: the floor(U × got)-th smallest comparison index, found by selection (O(got))
+        // rather than sorting the list: the same member the sorted list would give.
+        const pick = Math.floor(rng.nextFloat() * got);
+        selectKthValue(candidates, 0, got - 1, pick);
+        partners[base] = candidates[pick] as number;
+        taken = 1;
       } else if (got > 0) {
         const list = candidates.subarray(0, got);
         list.sort();
