@@ -33,9 +33,10 @@ test('a very large plan is estimated first and waits for a go-ahead', async ({ p
 });
 
 test('an ordinary run shows its estimated time while it runs', async ({ page }) => {
-  await retype(page, /^Replications/, '40000');
+  // The demo with 100,000 replications: long enough to read the estimate, well under the bound.
+  await retype(page, /^Replications/, '100000');
   await page.getByRole('button', { name: /^Run the simulation/ }).click();
-  await expect(page.getByTestId('sim-status')).toContainText(/Estimated time: (about \d+ (s|min)|under 1 s) in all \(timed the first \d+ of 40000 replications/, {
+  await expect(page.getByTestId('sim-status')).toContainText(/Estimated time: (about \d+ (s|min)|under 1 s) in all \(timed the first \d+ of 100,000 replications/, {
     timeout: 30_000,
   });
   await page.getByRole('button', { name: 'Cancel' }).click();
@@ -50,11 +51,22 @@ test('a simulation worker that ends without a word is reported, and can be run a
     route.fulfill({ contentType: 'text/javascript', body: 'self.onmessage = () => { self.close(); };' }),
   );
   await openFreshPlanner(page);
+  // The client is loaded on first use: wait until it has asked for the worker (its silence timer
+  // starts in the same step), then move the clock on in steps until the allowance has passed.
+  const workerRequested = page.waitForRequest(/\/assets\/worker-[^/]*\.js$/);
   await page.getByRole('button', { name: /^Run the simulation/ }).click();
   const status = page.getByTestId('sim-status');
   await expect(status).toHaveAttribute('data-status', 'running');
-  await page.clock.runFor(125_000);
-  await expect(status).toHaveAttribute('data-status', 'error');
+  await workerRequested;
+  await expect
+    .poll(
+      async () => {
+        await page.clock.runFor(10_000);
+        return status.getAttribute('data-status');
+      },
+      { timeout: 30_000 },
+    )
+    .toBe('error');
   await expect(status).toContainText('The simulation stopped responding: nothing was heard from it for 120 s');
   await expect(page.getByRole('button', { name: 'Run it again' })).toBeVisible();
   await page.locator('section.simulation').screenshot({ path: `${SHOTS}/simulation-stalled.png` });
