@@ -17,30 +17,30 @@ describe('estimateRunSeconds: a timed pilot of the run itself', () => {
     const plan = demoPlan();
     const run = createPlanSimulation(plan, { replications: 1000 });
     const est = estimateRunSeconds(run, fakeClock(run, 50));
-    // Chunks of 1, 1, 2, 4 replications: 8 timed, 400 ms ≥ the 300 ms target; pace 50 ms;
-    // 0.4 s + 992 × 0.05 s = 50 s (hand-worked).
-    expect(est.pilotReplications).toBe(8);
-    expect(run.completed).toBe(8);
-    expect(est.pilotSeconds).toBeCloseTo(0.4, 12);
+    // Chunks of 1, 1, 2, 4, 8 replications: 16 timed, 800 ms ≥ the 500 ms target; pace of the last
+    // chunk 400 / 8 = 50 ms; 0.8 s + 984 × 0.05 s = 50 s (hand-worked).
+    expect(est.pilotReplications).toBe(16);
+    expect(run.completed).toBe(16);
+    expect(est.pilotSeconds).toBeCloseTo(0.8, 12);
     expect(est.secondsPerReplication).toBeCloseTo(0.05, 12);
     expect(est.seconds).toBeCloseTo(50, 12);
     expect(est.replications).toBe(1000);
-    expect(est.method).toBe('timed the first 8 of 1,000 replications on this device and scaled their pace to the rest');
+    expect(est.method).toBe('timed the first 16 of 1,000 replications on this device and scaled their pace to the rest');
   });
 
   it('leaves the slow first replication (warm-up) out of the pace, and stops at the replication limit', () => {
     const run = createPlanSimulation(demoPlan(), { replications: 500 });
-    // 1 ms per replication plus 200 ms once: never reaches 300 ms before the 40-replication limit.
+    // 1 ms per replication plus 200 ms once: never reaches 500 ms before the 40-replication limit.
     const est = estimateRunSeconds(run, fakeClock(run, 1, 200));
     expect(est.pilotReplications).toBe(40);
-    expect(est.secondsPerReplication).toBeCloseTo(0.001, 12); // (240 − 201) / 39 ms, hand-worked
+    expect(est.secondsPerReplication).toBeCloseTo(0.001, 12); // last chunk 32 → 40: 8 ms / 8, hand-worked
     expect(est.seconds).toBeCloseTo(0.24 + 460 * 0.001, 12);
   });
 
-  it('times at least 3 replications when the first is slow, unless the pilot has passed 2 s (warm-up cap)', () => {
+  it('times at least 4 replications when the first is slow, unless the pilot has passed 2 s (warm-up cap)', () => {
     const slow = createPlanSimulation(demoPlan(), { replications: 100 });
-    // First replication 1,000 ms (over the 300 ms target), then 20 ms each: chunks of 1, 1, 2 →
-    // 4 timed, pace (1,060 − 1,000) / 3 = 20 ms (hand-worked).
+    // First replication 1,000 ms (over the 500 ms target), then 20 ms each: chunks of 1, 1, 2 →
+    // 4 timed, pace of the last chunk 40 / 2 = 20 ms (hand-worked).
     const est = estimateRunSeconds(slow, fakeClock(slow, 20, 980));
     expect(est.pilotReplications).toBe(4);
     expect(est.secondsPerReplication).toBeCloseTo(0.02, 12);
