@@ -30,15 +30,15 @@ export interface PilotLimits {
   /** Most replications to time (default 40). */
   maxReplications?: number;
   /**
-   * Time at least 4 replications (so the warm-up can be left out of the pace) unless the pilot has
-   * already taken this many milliseconds (default 2,000).
+   * Time at least 8 replications (so the warm-up can be left out of the pace) unless the pilot has
+   * already taken this many milliseconds (default 4,000).
    */
   warmUpCapMs?: number;
 }
 
 /**
  * Estimate a run's time from a timed pilot: run its first replications (1, then 1, 2, 4, …
- * at a time) until about `targetMs` of work or `maxReplications` are done (and at least 4,
+ * at a time) until about `targetMs` of work or `maxReplications` are done (and at least 8,
  * unless the pilot has already taken `warmUpCapMs`), and scale the
  * pace to the planned count. Replication i always draws from its own stream, so the pilot's
  * replications are simply the run's first ones: they count towards it and change no number.
@@ -46,8 +46,9 @@ export interface PilotLimits {
  * sizes), so the scaled pace is a fair guide; the first replications also pay for compiling
  * the engine and for the first garbage collections of large pools, so the pace is taken from
  * the latest chunk alone, about the second half of the pilot (common practice for timing:
- * discard the warm-up). Measured on a shared machine: a browser pilot of 4 replications with
- * the whole first one in the pace overstated a 100,000-person plan 2–4-fold. Expect the estimate within a factor of about 1.5 on a
+ * discard the warm-up). Measured on a shared machine (pools of 100,000, 1:5): a browser pilot
+ * of 4 replications with the first in the pace overstated the run 2–4-fold; 8 with the latest
+ * chunk's pace, 1.5–2-fold in a worker that had run before. Expect the estimate within a factor of about 1.5 on a
  * machine that is not otherwise busy (measured: test/sim/estimateRunSeconds.test.ts checks
  * the arithmetic with a fake clock; docs/simulation.md, "How long a run takes").
  *
@@ -64,7 +65,7 @@ export interface PilotLimits {
 export function estimateRunSeconds(run: SimulationRun, now: () => number, limits: PilotLimits = {}): RunTimeEstimate {
   const targetMs = limits.targetMs ?? 500;
   const maxReps = limits.maxReplications ?? 40;
-  const warmUpCapMs = limits.warmUpCapMs ?? 2000;
+  const warmUpCapMs = limits.warmUpCapMs ?? 4000;
   if (!(targetMs > 0) || !Number.isFinite(targetMs)) throw new Error(`The pilot's time target must be a positive number of milliseconds; got ${String(targetMs)}.`);
   if (!Number.isInteger(maxReps) || maxReps < 1) throw new Error(`The pilot's replication limit must be a whole number of at least 1; got ${String(maxReps)}.`);
   if (run.completed !== 0) throw new Error(`The run time can only be estimated before a run starts; ${run.completed} replications have already run.`);
@@ -78,7 +79,7 @@ export function estimateRunSeconds(run: SimulationRun, now: () => number, limits
   let lastReps = 1;
   for (;;) {
     const elapsed = now() - start;
-    if (done >= limit || (elapsed >= targetMs && (done >= 4 || elapsed >= warmUpCapMs))) break;
+    if (done >= limit || (elapsed >= targetMs && (done >= 8 || elapsed >= warmUpCapMs))) break;
     const to = Math.min(limit, done + step);
     const t0 = now();
     run.runChunk(done, to);

@@ -37,19 +37,20 @@ describe('estimateRunSeconds: a timed pilot of the run itself', () => {
     expect(est.seconds).toBeCloseTo(0.24 + 460 * 0.001, 12);
   });
 
-  it('times at least 4 replications when the first is slow, unless the pilot has passed 2 s (warm-up cap)', () => {
+  it('times at least 8 replications when the first is slow, unless the pilot has passed 4 s (warm-up cap)', () => {
     const slow = createPlanSimulation(demoPlan(), { replications: 100 });
-    // First replication 1,000 ms (over the 500 ms target), then 20 ms each: chunks of 1, 1, 2 →
-    // 4 timed, pace of the last chunk 40 / 2 = 20 ms (hand-worked).
+    // First replication 1,000 ms (over the 500 ms target), then 20 ms each: chunks of 1, 1, 2, 4 →
+    // 8 timed, pace of the last chunk 80 / 4 = 20 ms (hand-worked).
     const est = estimateRunSeconds(slow, fakeClock(slow, 20, 980));
-    expect(est.pilotReplications).toBe(4);
+    expect(est.pilotReplications).toBe(8);
     expect(est.secondsPerReplication).toBeCloseTo(0.02, 12);
     const slower = createPlanSimulation(demoPlan(), { replications: 100 });
-    // First replication 3,000 ms: past the 2,000 ms cap, so 1 timed and its time is the pace.
+    // 3,000 ms per replication: after 2 the pilot has passed the 4,000 ms cap; pace 3 s;
+    // 6 s + 98 × 3 s = 300 s (hand-worked).
     const est2 = estimateRunSeconds(slower, fakeClock(slower, 3000));
-    expect(est2.pilotReplications).toBe(1);
+    expect(est2.pilotReplications).toBe(2);
     expect(est2.seconds).toBeCloseTo(300, 12);
-    expect(est2.method).toBe('timed the first 1 of 100 replications on this device and scaled their pace to the rest');
+    expect(est2.method).toBe('timed the first 2 of 100 replications on this device and scaled their pace to the rest');
   });
 
   it('rejects a run already under way and bad limits with clear messages', () => {
