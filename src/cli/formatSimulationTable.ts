@@ -20,7 +20,9 @@ import { fmtPercent, fmtPoints, fmtSD } from './formatResultsTable';
 export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticResults): string {
   const lines: string[] = [];
   lines.push(
-    `Simulated results (${sim.replications} replications, seed ${sim.seed}; the planned pools, caliper, ratio and matching order)`,
+    sim.partial
+      ? `Simulated results, PARTIAL: stopped at the time limit after ${sim.replications.toLocaleString('en-GB')} of ${(sim.replicationsPlanned ?? sim.replications).toLocaleString('en-GB')} planned replications (seed ${sim.seed}; the planned pools, caliper, ratio and matching order). Monte Carlo SEs reflect the replications done.`
+      : `Simulated results (${sim.replications} replications, seed ${sim.seed}; the planned pools, caliper, ratio and matching order)`,
   );
   const rejection = sim.tau === 0 ? 'False-positive rate' : 'Power';
   const header = ['Analysis', 'Mean estimate', '(MC SE)', 'Bias', 'Empirical SE', 'RMSE', '95% CI coverage', rejection, 'Wrong sign'];

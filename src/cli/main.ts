@@ -5,7 +5,9 @@ import { demoPlan } from '../io/demoPlan';
 import { parsePlanText, serializePlan } from '../io/planFile';
 import { formatResultsTable, PLANNING_CAUTION } from './formatResultsTable';
 import { parseCommandLine } from './parseCommandLine';
-import { simulatePlan } from '../sim/simulatePlan';
+import { createPlanSimulation } from '../sim/multivariate/createPlanSimulation';
+import { estimateRunSeconds } from '../sim/estimateRunSeconds';
+import { fmtDuration, fmtInt } from '../ui/format';
 import type { SimulationResult } from '../sim/types';
 import { analysePlannedProcedure } from '../sim/analysePlannedProcedure';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
@@ -22,6 +24,8 @@ import { showControlCharacters } from '../core/visibleText';
 export interface CliIO {
   stdout: { write(s: string): unknown };
   stderr: ProgressStream;
+  /** Clock in milliseconds for the run-time estimate and --max-seconds (default performance.now; a fake in tests). */
+  now?: () => number;
 }
 
 /** Exit codes: 0 done; 1 an internal fault; 2 bad command line, unreadable file or invalid plan. */
@@ -35,6 +39,7 @@ before any data are collected.
 
 Usage:
   meanward run <plan.json> [--json] [--reps N] [--seed S] [--no-sim] [--estimates]
+               [--max-seconds N]
   meanward pilot <file.csv> --group COLUMN --programme VALUE
                  (--pretest COLUMN | --items COL,COL,...) [--combine sum|mean]
                  [--retest COLUMN] [--posttest COLUMN] [--delimiter ,|tab|;]
@@ -49,6 +54,13 @@ run options:
   --no-sim    closed-form results only
   --estimates with --json, also print every replication's estimates and the
               first replication's matched sets (large)
+  --max-seconds N  stop the simulation after about N seconds and summarise the
+              replications done by then, labelled partial (at least 2 run);
+              --json: simulation.partial true, simulation.replications done,
+              simulation.replicationsPlanned
+
+Before simulating, "run" times its first replications and prints the
+estimated time on stderr.
 
 pilot: estimate plan inputs from a pilot (or earlier-wave) CSV/TSV file: group
   means and SDs, the gap, Cronbach's alpha (within groups and per group) with
@@ -137,15 +149,15 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
   let simulation: SimulationJson | null = null;
   let simulationText = 'Monte Carlo simulation: skipped (--no-sim).\n';
   if (cmd.simulate) {
-    const bar = createProgressBar(io.stderr, 'Simulating');
+    const now = io.now ?? (() => performance.now());
     let result: SimulationResult;
+    let bar: ReturnType<typeof createProgressBar> = null;
     try {
-      result = simulatePlan(plan, { onProgress: bar ? (done, total) => bar.update(done, total) : undefined });
+      result = runWithTimeLimit(plan, now, cmd.maxSeconds, io, (made) => (bar = made));
     } catch (err) {
-      bar?.done();
+      (bar as ReturnType<typeof createProgressBar>)?.done();
       return failWith(io, [`${cmd.file}: ${plainErrorMessage(err, ANALYSIS_FAILED)}`]);
     }
-    bar?.done();
     simulation = simulationJson(result, cmd.estimates === true);
     const badSim = firstNonFinite(simulation, 'simulation');
     if (badSim !== null) {
@@ -163,6 +175,52 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
     io.stdout.write(visibleOutput(`${formatResultsTable(plan, analytic)}\n${simulationText}\n${PLANNING_CAUTION}\n`, false));
   }
   return EXIT_OK;
+}
+
+/**
+ * Simulate a plan for the command line: time a pilot of the first replications (estimateRunSeconds)
+ * and print the estimate on stderr, then run the rest in chunks of about 0.2 s, stopping once
+ * `maxSeconds` have passed (after at least 2 replications) with a summary of those done, marked
+ * partial (SimulationRun.finishPartial). Chunking never changes the numbers.
+ */
+function runWithTimeLimit(
+  plan: Plan,
+  now: () => number,
+  maxSeconds: number | undefined,
+  io: CliIO,
+  onBar: (bar: ReturnType<typeof createProgressBar>) => void,
+): SimulationResult {
+  const run = createPlanSimulation(plan);
+  const start = now();
+  const estimate = estimateRunSeconds(run, now);
+  const limitNote =
+    maxSeconds !== undefined && estimate.seconds > maxSeconds
+      ? ` The --max-seconds ${maxSeconds} limit will stop it early; the summary will cover the replications done by then, labelled partial.`
+      : '';
+  io.stderr.write(`meanward: estimated simulation time ${fmtDuration(estimate.seconds)} (${estimate.method}).${limitNote}\n`);
+  const bar = createProgressBar(io.stderr, 'Simulating');
+  onBar(bar);
+  const total = run.total;
+  const chunk = Math.max(1, Math.min(1000, Math.floor(0.2 / Math.max(estimate.secondsPerReplication, 1e-6))));
+  let from = run.completed;
+  bar?.update(from, total);
+  let stopped = false;
+  while (from < total) {
+    if (maxSeconds !== undefined && from >= 2 && (now() - start) / 1000 >= maxSeconds) {
+      stopped = true;
+      break;
+    }
+    const to = Math.min(total, from + chunk);
+    run.runChunk(from, to);
+    from = to;
+    bar?.update(from, total);
+  }
+  bar?.done();
+  if (stopped) {
+    io.stderr.write(`meanward: stopped at the ${maxSeconds} s limit after ${fmtInt(from)} of ${fmtInt(total)} replications; the simulated figures below are partial.\n`);
+    return run.finishPartial();
+  }
+  return run.finish();
 }
 
 /** A plan the analysis could not finish, in plain words (when its own message is program text). */

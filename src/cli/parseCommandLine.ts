@@ -17,6 +17,8 @@ export type CommandLine =
       seed?: number;
       /** --estimates: include per-replication estimates and the example replication in --json. */
       estimates?: boolean;
+      /** --max-seconds N: stop the simulation after about N seconds and summarise what has run (labelled partial). */
+      maxSeconds?: number;
     }
   | PilotCommandLine;
 
@@ -24,7 +26,7 @@ export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; 
 
 /**
  * Read the arguments after "meanward": `run <plan.json> [--json] [--reps N]
- * [--seed S] [--no-sim]`, `demo`, or `--help`. Reports every problem at once.
+ * [--seed S] [--no-sim] [--estimates] [--max-seconds N]`, `demo`, or `--help`. Reports every problem at once.
  */
 export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   const args = [...argv];
@@ -46,6 +48,7 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   let estimates = false;
   let replications: number | undefined;
   let seed: number | undefined;
+  let maxSeconds: number | undefined;
   for (let i = 0; i < rest.length; i++) {
     const a = rest[i]!;
     const eq = a.indexOf('=');
@@ -84,16 +87,30 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
         } else seed = n;
         break;
       }
+      case '--max-seconds': {
+        const v = takeValue();
+        const n = v !== undefined && /^\d+(\.\d+)?$/.test(v) ? Number(v) : Number.NaN;
+        if (!(n > 0 && n <= MAX_SECONDS_LIMIT)) {
+          problems.push(`--max-seconds (time limit for the simulation) must be a number of seconds above 0 and at most ${MAX_SECONDS_LIMIT} (a year); got ${v === undefined ? 'nothing' : quote(v)}.`);
+        } else maxSeconds = n;
+        break;
+      }
       default:
-        if (a.startsWith('-') && a !== '-') problems.push(`Unknown option ${quote(a)}. "meanward run" takes --json, --reps N, --seed S, --no-sim and --estimates.`);
+        if (a.startsWith('-') && a !== '-') problems.push(`Unknown option ${quote(a)}. "meanward run" takes --json, --reps N, --seed S, --no-sim, --estimates and --max-seconds N.`);
         else files.push(a);
     }
   }
   if (files.length === 0) problems.push('"meanward run" needs a plan file, e.g. "meanward run plan.json".');
   if (files.length > 1) problems.push(`"meanward run" takes one plan file; got ${files.length}: ${files.map(quote).join(', ')}.`);
   if (problems.length > 0) return { ok: false, problems };
-  return { ok: true, value: { command: 'run', file: files[0]!, json, simulate, replications, seed, estimates } };
+  return {
+    ok: true,
+    value: { command: 'run', file: files[0]!, json, simulate, replications, seed, estimates, ...(maxSeconds !== undefined ? { maxSeconds } : {}) },
+  };
 }
+
+/** The largest --max-seconds accepted: a year. */
+const MAX_SECONDS_LIMIT = 31_536_000;
 
 function wholeNumber(v: string | undefined, min: number, max: number): number | undefined {
   if (v === undefined || !/^\d+$/.test(v)) return undefined;

@@ -82,7 +82,7 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
   const model = deriveModelParameters(plan);
   const runner = new ReplicationRunner(plan, model, total, seed);
   const { nP, rec, recOk } = runner;
-  const matching = (): SimMatchingSummary =>
+  const matching = (count: number): SimMatchingSummary =>
     summariseMatching(
       {
         matched: rec[M_MATCHED] as Float64Array,
@@ -99,11 +99,11 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
         stride: 1,
         offset: 0,
       },
-      total,
+      count,
       nP,
     );
-  return steppedSimulationRun(total, seed, runner, () =>
-    assembleSimulationResult(plan, seed, total, runner.records, matching(), runner.example),
+  return steppedSimulationRun(total, seed, runner, (count) =>
+    assembleSimulationResult(plan, seed, count, runner.records, matching(count), runner.example),
   );
 }
 

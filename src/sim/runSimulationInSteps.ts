@@ -1,6 +1,7 @@
 import type { Plan } from '../core/plan';
 import type { SimulationOptions } from './createSimulation';
 import { createPlanSimulation } from './multivariate/createPlanSimulation';
+import { estimateRunSeconds, type RunTimeEstimate } from './estimateRunSeconds';
 import type { SimulationResult } from './types';
 
 /** What the stepping driver needs from its host (the worker, or a test). */
@@ -13,12 +14,20 @@ export interface StepHost {
   cancelled(): boolean;
   /** Clock in ms (injected so the driver has no hidden timing). */
   now(): number;
+  /**
+   * Optional: given the run-time estimate from a timed pilot of the run's first replications
+   * (estimateRunSeconds), return false to stop before the rest (the driver then returns null).
+   * Without it no pilot is timed.
+   */
+  estimate?(estimate: RunTimeEstimate): boolean;
 }
 
 /**
  * Run a simulation asynchronously in small chunks, yielding between chunks so
  * cancel messages get through, and reporting progress at least every 5% of
- * the replications or every 100 ms. Chunks are sized adaptively (about 20 ms
+ * the replications or every 100 ms. When the host asks for an estimate, the
+ * first replications are a timed pilot (estimateRunSeconds) whose estimate the
+ * host may refuse. Chunks are sized adaptively (about 20 ms
  * of work each); chunking never changes the numbers, since replication i
  * always uses stream (seed, i).
  *
@@ -42,6 +51,15 @@ export async function runSimulationInSteps(
   let lastReportedDone = 0;
   host.progress(0, total);
   let from = 0;
+  if (host.estimate) {
+    const estimate = estimateRunSeconds(run, () => host.now());
+    if (!host.estimate(estimate)) return null;
+    from = run.completed;
+    host.progress(from, total);
+    lastReport = host.now();
+    lastReportedDone = from;
+    await host.yieldTick();
+  }
   while (from < total) {
     if (host.cancelled()) return null;
     // Never run past the next 5% mark without reporting.

@@ -9,19 +9,20 @@ import type { SimulationResult, SimulationRun } from './types';
  * @param total number of replications (whole number ≥ 1; already validated).
  * @param seed the run's seed (reported back only).
  * @param runner runs replication i (0 ≤ i < total), storing its results at index i.
- * @param summarise builds the result once all replications have run.
+ * @param summarise builds the result over the first `count` replications (count = total once all have run).
  * @returns a SimulationRun over runner and summarise.
  * @throws never itself; runChunk throws an Error for a range outside 0..total, and
  *   finish one naming how many replications have run when some have not.
  * @example
  *   const run = steppedSimulationRun(4, 1, { run: () => {} }, summarise);
  *   run.runChunk(0, 2); run.completed // 2; run.finish() throws "Only 2 of 4 replications have run; …"
+ *   run.finishPartial() // summarise(2) with partial: true, replicationsPlanned: 4
  */
 export function steppedSimulationRun(
   total: number,
   seed: number,
   runner: { run(i: number): void },
-  summarise: () => SimulationResult,
+  summarise: (count: number) => SimulationResult,
 ): SimulationRun {
   const done = new Uint8Array(total);
   let completed = 0;
@@ -43,7 +44,17 @@ export function steppedSimulationRun(
     if (completed < total) {
       throw new Error(`Only ${completed} of ${total} replications have run; cannot summarise yet.`);
     }
-    return summarise();
+    return summarise(total);
+  };
+
+  const finishPartial = (): SimulationResult => {
+    let prefix = 0;
+    while (prefix < total && done[prefix]) prefix++;
+    if (prefix === total) return summarise(total);
+    if (prefix < 2) {
+      throw new Error(`Only ${prefix} of ${total} replications finished before the run was stopped; at least 2 are needed for a summary.`);
+    }
+    return { ...summarise(prefix), partial: true, replicationsPlanned: total };
   };
 
   return {
@@ -54,5 +65,6 @@ export function steppedSimulationRun(
     },
     runChunk,
     finish,
+    finishPartial,
   };
 }

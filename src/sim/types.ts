@@ -146,6 +146,13 @@ export interface SimulationResult {
    * ran (plan.covariates non-empty or matching.distance not 'pretest').
    */
   balance?: CovariateBalance[];
+  /**
+   * Present (true) only when the run was stopped early, at a time limit, and summarised over the
+   * replications that had finished (`replications`, always the first ones: 0 … replications − 1).
+   */
+  partial?: true;
+  /** With `partial`: the number of replications the plan asked for. */
+  replicationsPlanned?: number;
 }
 
 /** Options for a simulation run; each defaults to the plan's `simulation` block. */
@@ -166,4 +173,10 @@ export interface SimulationRun {
   runChunk(from: number, to: number): void;
   /** Summaries over all replications. @throws Error if some replications have not run. */
   finish(): SimulationResult;
+  /**
+   * Summaries over the replications finished so far from the first on (0 … m − 1), marked
+   * `partial` when m is less than total: the same numbers as a run planned with m replications.
+   * @throws Error when fewer than 2 have finished.
+   */
+  finishPartial(): SimulationResult;
 }

@@ -1,6 +1,7 @@
 /// <reference lib="webworker" />
 // The simulation worker only passes messages; the engine is runSimulationInSteps.
 import type { FromWorker, ToWorker } from './protocol';
+import type { RunTimeEstimate } from './estimateRunSeconds';
 import { runSimulationInSteps } from './runSimulationInSteps';
 
 const scope = self as unknown as DedicatedWorkerGlobalScope;
@@ -30,6 +31,7 @@ scope.onmessage = async (event: MessageEvent<ToWorker>) => {
   if (currentRunId !== null && currentRunId !== runId) cancelledIds.add(currentRunId); // newer run supersedes
   currentRunId = runId;
   const stop = (): boolean => cancelledIds.has(runId) || currentRunId !== runId;
+  let tooLong: RunTimeEstimate | null = null;
   try {
     const result = await runSimulationInSteps(
       msg.plan,
@@ -41,9 +43,19 @@ scope.onmessage = async (event: MessageEvent<ToWorker>) => {
         yieldTick,
         cancelled: stop,
         now: () => performance.now(),
+        estimate: (estimate) => {
+          if (stop()) return false;
+          post({ type: 'estimate', runId, estimate });
+          if (msg.maxSeconds !== undefined && estimate.seconds > msg.maxSeconds) {
+            tooLong = estimate;
+            return false;
+          }
+          return true;
+        },
       },
     );
-    if (result && !stop()) post({ type: 'result', runId, result });
+    if (tooLong && !stop()) post({ type: 'too-long', runId, estimate: tooLong });
+    else if (result && !stop()) post({ type: 'result', runId, result });
     else post({ type: 'cancelled', runId });
   } catch (err) {
     if (!stop()) post({ type: 'error', runId, message: err instanceof Error ? err.message : String(err) });

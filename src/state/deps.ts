@@ -1,6 +1,7 @@
 import type { AnalyticResults } from '../core/analyticResults';
 import type { Plan } from '../core/plan';
 import type { SimulationResult } from '../sim/types';
+import type { RunTimeEstimate } from '../sim/estimateRunSeconds';
 import type { PlanCheck } from '../core/validatePlan';
 import type { PlannedProcedureEstimates } from '../core/plannedProcedure';
 
@@ -15,8 +16,17 @@ export type { PlanCheck };
 
 /** Runs the Monte Carlo simulation off the main thread (src/sim/simulationClient). */
 export interface SimulationRunner {
-  /** Resolves with the result; rejects when cancelled or on failure. progress is in [0, 1]. */
-  run(plan: Plan, onProgress: (progress: number) => void): Promise<SimulationResult>;
+  /**
+   * Resolves with the result; rejects when cancelled or on failure. progress is in [0, 1].
+   * options.maxSeconds: stop after the timed pilot when its estimate exceeds this, rejecting with an
+   * error whose `reason` is 'too-long' and whose `estimate` is the estimate; options.onEstimate receives
+   * the estimate early in every run. A rejection with reason 'stalled' means the worker went silent.
+   */
+  run(
+    plan: Plan,
+    onProgress: (progress: number) => void,
+    options?: { maxSeconds?: number; onEstimate?: (estimate: RunTimeEstimate) => void },
+  ): Promise<SimulationResult>;
   cancel(): void;
 }
 

@@ -17,7 +17,8 @@ export function createSimulationRunner(): SimulationRunner {
     return client;
   };
   return {
-    run: async (plan, onProgress) => (await get()).run(plan, (done, total) => onProgress(total > 0 ? done / total : 0)),
+    run: async (plan, onProgress, options = {}) =>
+      (await get()).run(plan, (done, total) => onProgress(total > 0 ? done / total : 0), options),
     cancel: () => client?.cancel(),
   };
 }

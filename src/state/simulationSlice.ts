@@ -1,10 +1,12 @@
 import type { StateCreator } from 'zustand';
 import type { SimulationResult } from '../sim/types';
+import { BROWSER_RUN_LIMIT_SECONDS, type RunTimeEstimate } from '../sim/estimateRunSeconds';
 import type { MeanwardDeps } from './deps';
 import { samePlan } from './samePlan';
 import type { MeanwardState } from './store';
 
-export type SimulationStatus = 'idle' | 'running' | 'done' | 'error' | 'cancelled';
+/** 'too-long': the timed pilot estimated more than BROWSER_RUN_LIMIT_SECONDS; waiting for the go-ahead. */
+export type SimulationStatus = 'idle' | 'running' | 'done' | 'error' | 'cancelled' | 'too-long';
 
 export interface SimulationState {
   status: SimulationStatus;
@@ -17,11 +19,19 @@ export interface SimulationState {
   stale: boolean;
   /** Start a run automatically a moment after the plan stops changing. */
   autoRun: boolean;
+  /** The latest run's time estimate (from its timed pilot), or null before it arrives. */
+  estimate: RunTimeEstimate | null;
+  /** With status 'error': 'stalled' when the background process went silent, else 'failed'. */
+  errorKind: 'failed' | 'stalled' | null;
 }
 
 export interface SimulationSlice {
   simulation: SimulationState;
-  runSimulation(): Promise<void>;
+  /**
+   * Start a run. Runs whose timed pilot estimates more than BROWSER_RUN_LIMIT_SECONDS stop at
+   * status 'too-long' unless `confirmed` (the researcher's go-ahead) is true.
+   */
+  runSimulation(options?: { confirmed?: boolean }): Promise<void>;
   cancelSimulation(): void;
   setAutoRun(on: boolean): void;
   /** Re-check whether the result still matches the plan (called after every plan change). */
@@ -38,16 +48,17 @@ export const createSimulationSlice =
       return result !== null && (s.problems.length > 0 || !samePlan(result.plan, s.validPlan));
     };
     return {
-      simulation: { status: 'idle', progress: 0, result: null, error: null, stale: false, autoRun: false },
-      runSimulation: async () => {
+      simulation: { status: 'idle', progress: 0, result: null, error: null, stale: false, autoRun: false, estimate: null, errorKind: null },
+      runSimulation: async (options = {}) => {
         const s = get();
         if (!deps.simulation) {
-          patch({ status: 'error', error: 'The simulation is not available in this browser (Web Workers are needed).' });
+          patch({ status: 'error', errorKind: 'failed', error: 'The simulation is not available in this browser (Web Workers are needed).' });
           return;
         }
         if (s.problems.length > 0) {
           patch({
             status: 'error',
+            errorKind: 'failed',
             error: `The plan has ${s.problems.length === 1 ? 'a problem' : `${s.problems.length} problems`} to fix before a simulation can run (see the marked fields).`,
           });
           return;
@@ -55,23 +66,46 @@ export const createSimulationSlice =
         if (s.simulation.status === 'running') deps.simulation.cancel();
         const id = ++runId;
         const plan = s.validPlan;
-        patch({ status: 'running', progress: 0, error: null });
+        patch({ status: 'running', progress: 0, error: null, errorKind: null, estimate: null });
         try {
-          const result = await deps.simulation.run(plan, (progress) => {
-            if (id === runId && get().simulation.status === 'running') {
-              patch({ progress: Math.min(1, Math.max(0, Number.isFinite(progress) ? progress : 0)) });
-            }
-          });
+          const result = await deps.simulation.run(
+            plan,
+            (progress) => {
+              if (id === runId && get().simulation.status === 'running') {
+                patch({ progress: Math.min(1, Math.max(0, Number.isFinite(progress) ? progress : 0)) });
+              }
+            },
+            {
+              maxSeconds: options.confirmed ? undefined : BROWSER_RUN_LIMIT_SECONDS,
+              onEstimate: (estimate) => {
+                if (id === runId && get().simulation.status === 'running') patch({ estimate });
+              },
+            },
+          );
           if (id !== runId) return;
           patch({ status: 'done', progress: 1, result, error: null, stale: isStale(result) });
         } catch (e) {
           if (id !== runId) return;
           if (get().simulation.status === 'cancelled') return;
+          const reason = (e as { reason?: unknown } | null)?.reason;
+          const estimate = (e as { estimate?: RunTimeEstimate } | null)?.estimate;
+          if (reason === 'too-long' && estimate) {
+            patch({ status: 'too-long', progress: 0, estimate, error: null, errorKind: null });
+            return;
+          }
           const message = e instanceof Error ? e.message : String(e);
-          patch({ status: 'error', error: `The simulation stopped with an error: ${message}` });
+          if (reason === 'stalled') {
+            patch({ status: 'error', errorKind: 'stalled', error: message });
+            return;
+          }
+          patch({ status: 'error', errorKind: 'failed', error: `The simulation stopped with an error: ${message}` });
         }
       },
       cancelSimulation: () => {
+        if (get().simulation.status === 'too-long') {
+          patch({ status: 'cancelled', progress: 0 });
+          return;
+        }
         if (get().simulation.status !== 'running') return;
         runId++;
         deps.simulation?.cancel();

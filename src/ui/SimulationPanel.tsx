@@ -1,7 +1,8 @@
 import { useEffect, useRef } from 'react';
 import { selectIsValid, selectSimulation, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
-import { fmtInt, fmtPct, fmtSigned } from './format';
+import { BROWSER_RUN_LIMIT_SECONDS } from '../sim/estimateRunSeconds';
+import { fmtDuration, fmtInt, fmtPct, fmtSigned } from './format';
 
 /** Run, watch and cancel the Monte Carlo check; shows whether its figures are out of date. */
 export function SimulationPanel() {
@@ -74,11 +75,32 @@ export function SimulationPanel() {
       <p className="sim-status" role="status" data-testid="sim-status" data-status={sim.status} data-stale={sim.stale ? 'true' : 'false'}>
         {sim.status === 'idle' && 'Not run yet. The simulation draws finite pools, matches with your caliper, ratio and order, and analyses each simulated study four ways.'}
         {running && 'Running in the background; you can keep editing.'}
+        {running && sim.estimate && ` Estimated time: ${fmtDuration(sim.estimate.seconds)} in all (${sim.estimate.method}).`}
+        {sim.status === 'too-long' &&
+          sim.estimate &&
+          `This run would take ${fmtDuration(sim.estimate.seconds)} (${sim.estimate.method}), longer than the ${fmtDuration(BROWSER_RUN_LIMIT_SECONDS, true)} a run in the page may take without asking. Run it anyway (keep this tab open), use fewer replications, or run the plan from the command line with a time limit (meanward run plan.json --max-seconds N).`}
         {sim.status === 'done' && !sim.stale && sim.result && `Done: ${fmtInt(sim.result.replications)} replications.`}
         {sim.status === 'done' && sim.stale && 'The plan has changed since this run: the simulated figures are out of date. Run again to update them.'}
         {sim.status === 'cancelled' && `Cancelled.${sim.result ? ' The figures shown are from the previous run.' : ''}`}
         {sim.status === 'error' && sim.error}
       </p>
+      {sim.status === 'too-long' && (
+        <div className="sim-confirm">
+          <button type="button" className="primary" onClick={() => void run({ confirmed: true })}>
+            Run it anyway
+          </button>
+          <button type="button" onClick={cancel}>
+            Not now
+          </button>
+        </div>
+      )}
+      {sim.status === 'error' && sim.errorKind === 'stalled' && valid && (
+        <div className="sim-confirm">
+          <button type="button" className="primary" onClick={() => void run()}>
+            Run it again
+          </button>
+        </div>
+      )}
       {sim.result && sim.stale && sim.status !== 'done' && <p className="stale-note">The simulated figures shown are from an earlier plan.</p>}
       {sim.result && <MatchingFacts />}
     </section>

@@ -34,3 +34,20 @@ export function fmtInt(x: number | null | undefined): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '—';
   return Math.round(x).toLocaleString('en-GB');
 }
+
+/**
+ * An estimated duration in words, rounded for reading: 0.4 → "under 1 s", 42 → "about 42 s",
+ * 754 → "about 13 min", 37,000 → "about 10 h 17 min"; with `exact`, no "about" (600 → "10 min").
+ * Formatting only (the seconds come from src/sim).
+ */
+export function fmtDuration(seconds: number | null | undefined, exact = false): string {
+  if (seconds === null || seconds === undefined || !Number.isFinite(seconds) || seconds < 0) return '—';
+  if (seconds < 1) return 'under 1 s';
+  const about = exact ? '' : 'about ';
+  if (seconds < 90) return `${about}${Math.round(seconds)} s`;
+  const minutes = Math.round(seconds / 60);
+  if (minutes < 120) return `${about}${minutes} min`;
+  const h = Math.floor(minutes / 60);
+  const m = minutes - 60 * h;
+  return `${about}${m === 0 ? `${fmtInt(h)} h` : `${fmtInt(h)} h ${m} min`}`;
+}

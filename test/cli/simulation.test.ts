@@ -40,7 +40,8 @@ describe('meanward run: simulated figures', () => {
   it('--json adds simulation.analyses.* and simulation.matching.* exactly as the engine computes them', async () => {
     const r = await run(['run', demoFile, '--json', '--reps', '40', '--seed', '3']);
     expect(r.code).toBe(0);
-    expect(r.stderr).toBe('');
+    // stderr: only the run-time estimate (one line, before the run).
+    expect(r.stderr).toMatch(/^meanward: estimated simulation time [^\n]+\.\n$/);
     const out = JSON.parse(r.stdout);
     const plan = demoPlan();
     plan.simulation = { replications: 40, seed: 3 };
@@ -83,7 +84,8 @@ describe('meanward run: simulated figures', () => {
   it('the table gains a simulated section; no progress bar when stderr is not a terminal', async () => {
     const r = await run(['run', demoFile, '--reps', '20', '--seed', '5']);
     expect(r.code).toBe(0);
-    expect(r.stderr).toBe('');
+    // No progress bar: stderr holds only the run-time estimate line.
+    expect(r.stderr).toMatch(/^meanward: estimated simulation time [^\n]+\.\n$/);
     expect(r.stdout).toContain('Simulated results (20 replications, seed 5;');
     expect(r.stdout).toMatch(/True-score difference \(hidden imbalance\)/);
     expect(r.stdout).toMatch(/Caution: Meanward is a planning aid/);

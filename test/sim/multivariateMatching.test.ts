@@ -281,3 +281,83 @@ describe('matchOnMahalanobis equals a brute-force greedy matcher', () => {
     );
   });
 });
+
+describe('matchOnMahalanobis: the k-d tree search', () => {
+  const d2Of = (p: Pools) => (a: number, b: number): number => {
+    let s = 0;
+    for (const col of p.coords) s += (col[a]! - col[b]!) ** 2;
+    return s;
+  };
+
+  it('equals brute force with 4 and 5 coordinates, many tied distances, and coordinates shifted by 1e6', () => {
+    // Coordinates rounded to a grid of 0.25 make many distances equal, so the lower-index tie rule
+    // is exercised; the shift checks that only differences matter. Exact equality (definition).
+    for (const dims of [4, 5]) {
+      for (const c of combos) {
+        if (c.order === 'highest-first') continue;
+        for (const shift of [0, 1e6]) {
+          const p = randomPools(900 + dims, 40, 260, dims, dims === 5);
+          for (const col of p.coords) for (let i = 0; i < col.length; i++) col[i] = Math.round(col[i]! * 4) / 4 + shift;
+          const d2 = d2Of(p);
+          const caliper = 1.1;
+          const settings: MatchSettings = { caliper, method: c.method, replacement: c.replacement, order: c.order };
+          const { ids, count } = strataFor(p);
+          const ws = createMahalanobisMatchingWorkspace(p.nP, p.nC, c.k);
+          const m = matchOnMahalanobis(p.coords, ids, count, p.coords[0]!, settings, Xoshiro128StarStar.forReplication(3, 9), ws);
+          const ref = bruteForce(p, d2, (a, b) => d2(a, b) <= caliper * caliper, settings, c.k, Xoshiro128StarStar.forReplication(3, 9), p.coords[0]!, 'by-index', null);
+          expect(m).toBe(ref.matched);
+          for (let j = 0; j < p.nP; j++) expect([...ws.partners.subarray(j * c.k, j * c.k + ws.partnerCount[j]!)]).toEqual(ref.partners[j]);
+        }
+      }
+    }
+  });
+
+  it('does work that grows like log n per programme member, not with the pool (nearest, no replacement)', () => {
+    // Nodes examined is a deterministic count of the search's work (no timing). Doubling both pools
+    // of 3-coordinate data 0.4 SD apart with caliper 0.5: a grid or linear scan would double the
+    // work per member (quadratic in all); the tree adds about one level. Bound: per-member work
+    // grows by at most 1.35× per doubling (common practice for k-d tree search: Friedman, Bentley
+    // & Finkel 1977, O(log n) expected per query).
+    const perMember: number[] = [];
+    for (const n of [2000, 4000, 8000]) {
+      const p = randomPools(77, n, n, 3, false);
+      const ws = createMahalanobisMatchingWorkspace(p.nP, p.nC, 1);
+      const settings: MatchSettings = { caliper: 0.5, method: 'nearest', replacement: false, order: 'random' };
+      matchOnMahalanobis(p.coords, null, 1, p.coords[0]!, settings, Xoshiro128StarStar.forReplication(1, 1), ws);
+      perMember.push(ws.nodesVisited / n);
+    }
+    expect(perMember[1]! / perMember[0]!).toBeLessThan(1.35);
+    expect(perMember[2]! / perMember[1]!).toBeLessThan(1.35);
+  });
+
+  it('does not search further when the pools are 1e19 whitened units apart (the comparison pretest mean at 1e20)', () => {
+    // Every comparison member at 1e19 (the rounding at that size leaves them equal): nobody is within
+    // the caliper; each programme member's search should stop after about one root-to-leaf path.
+    // Bound: 2 × (log2 nC + 2) nodes per member (from the tree's depth; exact, no timing).
+    const nP = 3000;
+    const nC = 6000;
+    const p = randomPools(11, nP, nC, 3, false);
+    for (const col of p.coords) for (let i = 0; i < nC; i++) col[i] = col[i]! + 1e19;
+    const ws = createMahalanobisMatchingWorkspace(nP, nC, 2);
+    for (const method of ['nearest', 'random-within-caliper'] as const) {
+      const settings: MatchSettings = { caliper: 0.5, method, replacement: false, order: 'lowest-first' };
+      const m = matchOnMahalanobis(p.coords, null, 1, p.coords[0]!, settings, Xoshiro128StarStar.forReplication(1, 1), ws);
+      expect(m).toBe(0);
+      expect(ws.nodesVisited / nP).toBeLessThanOrEqual(2 * (Math.log2(nC) + 2));
+    }
+  });
+});
+
+describe('the engine with Mahalanobis matching and a comparison pretest mean of 1e20', () => {
+  it('finishes (it once searched grid rings for minutes) and says nobody could be matched', async () => {
+    const { demoPlan } = await import('../../src/io/demoPlan');
+    const { simulatePlan } = await import('../../src/sim/simulatePlan');
+    const plan = demoPlan();
+    plan.matching = { ...plan.matching, distance: 'mahalanobis', caliper: 0.5 };
+    plan.groups.comparison.pretestMean = 1e20;
+    const r = simulatePlan(plan, { replications: 2, seed: 1 });
+    // Every programme member is about 1e19 whitened units from every comparison member (definition).
+    expect(r.matching.discardedProgrammeShare).toBe(1);
+    expect(r.analyses.matchedDifference.feasible).toBe(false);
+  });
+});

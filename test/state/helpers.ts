@@ -26,12 +26,13 @@ export function controlledRunner() {
     progress: (p: number) => void;
     resolve: (r: SimulationResult) => void;
     reject: (e: Error) => void;
+    options: Parameters<SimulationRunner['run']>[2];
   }[] = [];
   let cancels = 0;
   const runner: SimulationRunner = {
-    run: (plan, progress) =>
+    run: (plan, progress, options) =>
       new Promise<SimulationResult>((resolve, reject) => {
-        runs.push({ plan, progress, resolve, reject });
+        runs.push({ plan, progress, resolve, reject, options });
       }),
     cancel: () => {
       cancels++;

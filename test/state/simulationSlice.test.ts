@@ -105,3 +105,57 @@ describe('highlight slice', () => {
     expect(store.getState().highlight).toBeNull();
   });
 });
+
+describe('simulation slice: run-time estimate, long runs and a silent worker', () => {
+  const estimate = {
+    seconds: 1500,
+    secondsPerReplication: 0.75,
+    pilotReplications: 4,
+    pilotSeconds: 3,
+    replications: 2000,
+    method: 'timed the first 4 of 2000 replications on this device and scaled their pace to the rest',
+  };
+  const withReason = (message: string, reason: string, est?: typeof estimate) => Object.assign(new Error(message), { reason, estimate: est });
+
+  it('asks the runner to stop past the browser limit (600 s), shows the estimate, and waits for the go-ahead', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    const first = store.getState().runSimulation();
+    expect(c.runs[0]!.options?.maxSeconds).toBe(600);
+    c.runs[0]!.options?.onEstimate?.(estimate);
+    expect(store.getState().simulation.estimate).toEqual(estimate);
+    c.runs[0]!.reject(withReason('too long', 'too-long', estimate));
+    await first;
+    expect(store.getState().simulation.status).toBe('too-long');
+    expect(store.getState().simulation.estimate?.seconds).toBe(1500);
+    // The go-ahead runs without a limit.
+    const second = store.getState().runSimulation({ confirmed: true });
+    expect(c.runs[1]!.options?.maxSeconds).toBeUndefined();
+    c.runs[1]!.resolve(resultFor(c.runs[1]!.plan));
+    await second;
+    expect(store.getState().simulation.status).toBe('done');
+  });
+
+  it('"Not now" leaves the prompt as cancelled', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    const first = store.getState().runSimulation();
+    c.runs[0]!.reject(withReason('too long', 'too-long', estimate));
+    await first;
+    store.getState().cancelSimulation();
+    expect(store.getState().simulation.status).toBe('cancelled');
+  });
+
+  it('says in plain words when the background process went silent, marked stalled (not "running" for ever)', async () => {
+    const c = controlledRunner();
+    const store = makeStore({ simulation: c.runner });
+    const run = store.getState().runSimulation();
+    c.runs[0]!.progress(0.01);
+    c.runs[0]!.reject(withReason('The simulation stopped responding: nothing was heard from it for 30 s.', 'stalled'));
+    await run;
+    const sim = store.getState().simulation;
+    expect(sim.status).toBe('error');
+    expect(sim.errorKind).toBe('stalled');
+    expect(sim.error).toBe('The simulation stopped responding: nothing was heard from it for 30 s.');
+  });
+});

@@ -86,8 +86,8 @@ export function createMultivariateSimulation(plan: Plan, options: SimulationOpti
   }
   const model = deriveCovariateModel(plan);
   const runner = new MultivariateRunner(plan, model, distance, total, seed);
-  return steppedSimulationRun(total, seed, runner, () =>
-    assembleSimulationResult(plan, seed, total, runner.records, runner.matchingSummary(), runner.example, runner.balanceSummary()),
+  return steppedSimulationRun(total, seed, runner, (count) =>
+    assembleSimulationResult(plan, seed, count, runner.records, runner.matchingSummary(count), runner.example, runner.balanceSummary(count)),
   );
 }
 
@@ -412,9 +412,9 @@ class MultivariateRunner {
     }
   }
 
-  /** Per-variable balance over all replications (pretest first). */
-  balanceSummary(): CovariateBalance[] {
-    const { total, variables: p, bal, balOk } = this;
+  /** Per-variable balance over the first `total` replications (pretest first). */
+  balanceSummary(total: number): CovariateBalance[] {
+    const { variables: p, bal, balOk } = this;
     const result: CovariateBalance[] = [];
     const smd = new Float64Array(total);
     for (let v = 0; v < p; v++) {
@@ -446,9 +446,9 @@ class MultivariateRunner {
     return result;
   }
 
-  /** The pretest's matching summary, in the one-covariate engine's shape. */
-  matchingSummary(): SimMatchingSummary {
-    const { total, nP, bal, balOk, variables: p } = this;
+  /** The pretest's matching summary over the first `total` replications, in the one-covariate engine's shape. */
+  matchingSummary(total: number): SimMatchingSummary {
+    const { nP, bal, balOk, variables: p } = this;
     const s = (metric: number) => bal[metric] as Float64Array; // pretest = variable 0
     const smd = (diff: number, sd: number) => scaled(s(diff), s(sd), new Float64Array(total), total);
     return summariseMatching(
