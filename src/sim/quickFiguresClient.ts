@@ -11,6 +11,9 @@ export type QuickWorkerFactory = () => Pick<Worker, 'postMessage' | 'terminate'>
 const defaultFactory: QuickWorkerFactory = () =>
   new Worker(new URL('./quickFiguresWorker.ts', import.meta.url), { type: 'module' }) as unknown as ReturnType<QuickWorkerFactory>;
 
+/** A quick run still going after this long is abandoned when a newer plan arrives (the worker is restarted). */
+export const STALE_AFTER_MS = 400;
+
 interface Waiter {
   plan: Plan;
   resolve: (e: PlannedProcedureEstimates | null) => void;
@@ -20,7 +23,9 @@ interface Waiter {
  * Main-thread handle on the quick-figures worker (a short seeded simulation
  * of the planned procedure, estimatePlannedProcedure). Latest wins: while one
  * plan is being estimated, newer requests replace each other and only the
- * newest is sent next; a replaced request resolves with null. The worker is
+ * newest is sent next; a replaced request resolves with null. A run older
+ * than STALE_AFTER_MS when a newer plan arrives is abandoned (the worker is
+ * restarted), so a slow quick run never holds up the plan being typed. The worker is
  * created on first use (jsdom has no Worker).
  *
  * @example
@@ -30,10 +35,13 @@ interface Waiter {
 export class QuickFiguresClient {
   private worker: ReturnType<QuickWorkerFactory> | null = null;
   private nextId = 1;
-  private inFlight: (Waiter & { id: number }) | null = null;
+  private inFlight: (Waiter & { id: number; sentAt: number }) | null = null;
   private queued: Waiter | null = null;
 
-  constructor(private readonly factory: QuickWorkerFactory = defaultFactory) {}
+  constructor(
+    private readonly factory: QuickWorkerFactory = defaultFactory,
+    private readonly now: () => number = () => performance.now(),
+  ) {}
 
   /**
    * Estimate the planned procedure's figures for `plan`.
@@ -43,6 +51,14 @@ export class QuickFiguresClient {
     return new Promise((resolve) => {
       this.queued?.resolve(null);
       this.queued = { plan, resolve };
+      if (this.inFlight && this.now() - this.inFlight.sentAt > STALE_AFTER_MS) {
+        // A slow quick run (huge pools, a wide random-within-caliper search) must not hold up the plan
+        // being typed now: drop it and start afresh.
+        this.inFlight.resolve(null);
+        this.inFlight = null;
+        this.worker?.terminate();
+        this.worker = null;
+      }
       if (!this.inFlight) this.sendNext();
     });
   }
@@ -63,7 +79,7 @@ export class QuickFiguresClient {
     if (!next) return;
     const worker = this.ensureWorker();
     const id = this.nextId++;
-    this.inFlight = { ...next, id };
+    this.inFlight = { ...next, id, sentAt: this.now() };
     const msg: ToQuickWorker = { type: 'estimate', id, plan: next.plan };
     worker.postMessage(msg);
   }

@@ -3,7 +3,7 @@ import type { Plan } from '../../src/core/plan';
 import type { PlannedProcedureEstimates } from '../../src/core/plannedProcedure';
 import { demoPlan } from '../../src/io/demoPlan';
 import { estimatePlannedProcedure } from '../../src/sim/estimatePlannedProcedure';
-import { QuickFiguresClient, type QuickWorkerFactory } from '../../src/sim/quickFiguresClient';
+import { QuickFiguresClient, STALE_AFTER_MS, type QuickWorkerFactory } from '../../src/sim/quickFiguresClient';
 import type { FromQuickWorker, ToQuickWorker } from '../../src/sim/quickFiguresProtocol';
 import { defaultDeps } from '../../src/state/defaultDeps';
 import type { PlannedProcedureRunner } from '../../src/state/deps';
@@ -86,5 +86,26 @@ describe('QuickFiguresClient', () => {
     expect(sent[1]!.plan.matching.caliper).toBe(0.25);
     reply(sent[1]!);
     expect((await third)?.analyses.matchedDifference).toBeDefined();
+  });
+
+  it('abandons a quick run that has taken longer than STALE_AFTER_MS when a newer plan arrives (fresh worker)', async () => {
+    let clock = 0;
+    let created = 0;
+    let terminated = 0;
+    const sent: ToQuickWorker[] = [];
+    const factory: QuickWorkerFactory = () => {
+      created++;
+      return { onmessage: null, onerror: null, terminate: () => void terminated++, postMessage: (m: ToQuickWorker) => void sent.push(m) };
+    };
+    const client = new QuickFiguresClient(factory, () => clock);
+    const slow = client.estimate(demoPlan());
+    clock = STALE_AFTER_MS + 1;
+    const p = demoPlan();
+    p.matching.caliper = 0.3;
+    void client.estimate(p);
+    expect(await slow).toBeNull();
+    expect(terminated).toBe(1);
+    expect(created).toBe(2);
+    expect(sent.map((m) => m.plan.matching.caliper)).toEqual([0.2, 0.3]);
   });
 });
