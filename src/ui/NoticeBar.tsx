@@ -23,7 +23,7 @@ function UnreadableDraftNotice() {
   const one = drafts.length === 1;
   return (
     <div className="notice-slot" role="alert">
-      <div className="notice notice-error" data-testid="unreadable-draft-notice" data-kind="error">
+      <div className="notice notice-error notice-stacked" data-testid="unreadable-draft-notice" data-kind="error">
         <p id={textId}>
           {one ? 'An autosaved draft' : `${drafts.length} autosaved drafts`} could not be read (the stored copy is damaged), so{' '}
           {one ? 'it was' : 'they were'} not restored; {STARTED_FROM[from ?? 'demo']}. {one ? 'It is' : 'They are'} kept on this computer until you
