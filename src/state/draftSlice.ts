@@ -119,6 +119,7 @@ function fieldForMessage(message: string): string {
   return '';
 }
 
+/** The draft slice, starting from `initial` (with `fallback`'s results underneath when `initial` is not valid). */
 export const createDraftSlice =
   (deps: MeanwardDeps, initial: PlanDraft, fallback: Plan): StateCreator<MeanwardState, [], [], DraftSlice> =>
   (set, get) => {

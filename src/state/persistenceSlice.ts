@@ -212,6 +212,7 @@ const REPLACED_BY: Record<ReplaceSource, string> = {
   pilot: 'the pilot values',
 };
 
+/** The persistence slice over the injected storage and parsers; `restored` is what restoreDrafts found at start-up. */
 export const createPersistenceSlice =
   (
     deps: MeanwardDeps,
