@@ -19,15 +19,24 @@ setAppStoreFactory(() =>
 );
 
 const store = getAppStore();
-// A shared link wins over the autosave; a bad link keeps the restored plan and says why.
-if (isShareFragment(location.hash)) store.getState().openShareFragment(location.hash);
-window.addEventListener('hashchange', () => {
-  if (isShareFragment(location.hash)) store.getState().openShareFragment(location.hash);
-});
-// Once the plan is edited, a "#plan=…" address no longer describes it: drop the
-// fragment so a reload restores the autosave rather than the older linked plan.
+// A shared link wins over the autosave (Undo brings the autosaved draft back);
+// a bad or malformed "#plan…" link keeps the restored plan and says why.
+let openingLink = false;
+const openLinkInAddress = () => {
+  if (!isShareFragment(location.hash)) return;
+  openingLink = true;
+  try {
+    store.getState().openShareFragment(location.hash);
+  } finally {
+    openingLink = false;
+  }
+};
+openLinkInAddress();
+window.addEventListener('hashchange', openLinkInAddress);
+// Once the plan is edited (or a replace is undone), a "#plan…" address no longer
+// describes it: drop the fragment so a reload restores the autosave rather than the link.
 store.subscribe((state, prev) => {
-  if (state.draft !== prev.draft && isShareFragment(location.hash) && state.shareFragment() !== location.hash) {
+  if (state.draft !== prev.draft && !openingLink && isShareFragment(location.hash)) {
     history.replaceState(null, '', `${location.pathname}${location.search}`);
   }
 });

@@ -29,6 +29,12 @@ export function decodePlanFromLink(hashOrUrl: string): PlanCheck {
   const params = fragment.split('&');
   const entry = params.find((p) => p.startsWith(`${LINK_KEY}=`));
   if (entry === undefined) {
+    const near = params.find((p) => looksLikePlanPart(p));
+    if (near !== undefined) {
+      return problem(
+        `This link is garbled: a plan link has "#${LINK_KEY}=" followed by the plan, but this one reads ${shortQuote(`#${near}`)}. Copy the whole link again.`,
+      );
+    }
     return problem(`This link holds no plan: its address has no "#${LINK_KEY}=" part.`);
   }
   let payload = entry.slice(LINK_KEY.length + 1);
@@ -60,6 +66,28 @@ export function decodePlanFromLink(hashOrUrl: string): PlanCheck {
     return problem(truncated);
   }
   return validatePlan(data);
+}
+
+/**
+ * Whether one fragment parameter was meant to carry a plan but is malformed:
+ * it starts with "plan" (any case, after stray spaces or percent-escapes),
+ * e.g. "plan", "plan:eyJ…", "PLAN=…", "plan%3DeyJ…".
+ * @example looksLikePlanPart("plan") // true; looksLikePlanPart("results") // false
+ */
+export function looksLikePlanPart(part: string): boolean {
+  let text = part;
+  try {
+    text = decodeURIComponent(part);
+  } catch {
+    // Keep the raw text: a broken escape is itself a sign of a garbled link.
+  }
+  return /^\s*plan/i.test(text);
+}
+
+/** At most 40 characters of untrusted text, quoted, control characters escaped. */
+function shortQuote(text: string): string {
+  const cut = text.length > 40 ? `${text.slice(0, 40)}…` : text;
+  return JSON.stringify(cut);
 }
 
 function toBase64Url(bytes: Uint8Array): string {

@@ -16,8 +16,11 @@ export interface CovariateSlice {
   removeCovariate(index: number): void;
   /** Move covariate `index` one place up (-1) or down (+1); its correlations move with it. */
   moveCovariate(index: number, step: -1 | 1): void;
-  /** Type into matrix cell (i, j) (0 = pretest); the mirror cell (j, i) gets the same text. */
-  setCorrelation(i: number, j: number, text: string): void;
+  /**
+   * Set matrix cell (i, j) (0 = pretest); the mirror cell (j, i) gets the same text.
+   * how = 'typing' for a keystroke: a valid result waits for a commit or a pause (see typeField).
+   */
+  setCorrelation(i: number, j: number, text: string, how?: 'commit' | 'typing'): void;
 }
 
 export const createCovariateSlice: StateCreator<MeanwardState, [], [], CovariateSlice> = (_set, get) => ({
@@ -28,5 +31,5 @@ export const createCovariateSlice: StateCreator<MeanwardState, [], [], Covariate
     const next = moveCovariate(d, index, step);
     if (next !== d) get().replaceDraft(next);
   },
-  setCorrelation: (i, j, text) => get().replaceDraft(setCorrelationText(get().draft, i, j, text)),
+  setCorrelation: (i, j, text, how = 'commit') => get().replaceDraft(setCorrelationText(get().draft, i, j, text), how),
 });

@@ -5,10 +5,10 @@ import { parsePlanText, serializePlan } from '../io/planFile';
 import { decodePlanFromLink, encodePlanForLink } from '../io/shareLink';
 import type { MeanwardDeps, PlannedProcedureRunner, SimulationRunner } from './deps';
 
-/** The browser's localStorage, or null when it is blocked (some private modes). */
-function browserStorage(): MeanwardDeps['storage'] {
+/** The browser's localStorage (or this tab's sessionStorage), or null when it is blocked (some private modes). */
+function browserStorage(which: 'localStorage' | 'sessionStorage' = 'localStorage'): MeanwardDeps['storage'] {
   try {
-    const s = globalThis.localStorage;
+    const s = globalThis[which];
     if (!s) return null;
     s.getItem('meanward.probe');
     return s;
@@ -28,6 +28,7 @@ export function defaultDeps(
     simulation,
     plannedProcedure,
     storage: browserStorage(),
+    session: browserStorage('sessionStorage'),
     examples: EXAMPLE_PLANS,
     parsePlanText,
     serializePlan,

@@ -53,7 +53,15 @@ export interface MeanwardDeps {
   simulation: SimulationRunner | null;
   /** The quick figures for the planned procedure; null shows the closed forms only (tests, no Worker). */
   plannedProcedure?: PlannedProcedureRunner | null;
+  /** Where the browser-wide "last draft" is kept (window.localStorage); null: not kept. */
   storage: DraftStorage | null;
+  /** Where this tab's own draft is kept (window.sessionStorage); null or absent: only the shared draft. */
+  session?: DraftStorage | null;
+  /**
+   * Run `fn` once after `ms` milliseconds and return a function that cancels it
+   * (default: setTimeout). Used for "typing has paused"; tests pass a manual clock.
+   */
+  schedule?: (fn: () => void, ms: number) => () => void;
   examples: readonly ExamplePlan[];
   /** Parse and check the text of a plan file. */
   parsePlanText(text: string): PlanCheck;

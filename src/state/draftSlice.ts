@@ -4,6 +4,7 @@ import type { FieldProvenance, Plan } from '../core/plan';
 import { draftToCandidate, planToDraft, setDraftField, type FieldProblem, type PlanDraft, type PretestMode } from './planDraft';
 import { canonicalField } from './covariateDraft';
 import type { MeanwardDeps } from './deps';
+import { samePlan } from './samePlan';
 import type { MeanwardState } from './store';
 import { plainErrorMessage } from '../core/plainErrorMessage';
 
@@ -22,15 +23,37 @@ export interface DraftSlice {
   analytic: AnalyticResults | null;
   /** True when the shown analytic results belong to an earlier plan than the draft. */
   analyticStale: boolean;
-  /** Set one field by dotted path (raw text for numbers, booleans and option strings as they are). */
+  /**
+   * True while the draft is valid but not yet adopted as the plan: the
+   * researcher is typing, and the results underneath still belong to
+   * `validPlan` until the field is committed or typing pauses.
+   */
+  draftPending: boolean;
+  /** Set one field by dotted path (raw text for numbers, booleans and option strings as they are); the plan follows at once. */
   setField(path: string, value: string | boolean): void;
+  /**
+   * One keystroke into a text field. The draft (and its problems) change at
+   * once; a valid result becomes the plan only when the field is committed
+   * (commitDraft: blur, Enter) or typing pauses for TYPING_PAUSE_MS, so a
+   * half-typed value ("0" on the way to "0.95") is never shown as the last
+   * complete plan, and the quick figures are not asked for on every keystroke.
+   */
+  typeField(path: string, value: string): void;
+  /** Adopt the typed draft as the plan now, if it is valid and waiting (blur, Enter). */
+  commitDraft(): void;
   /** Switch between entering a reliability and entering an SEM; both texts are kept. */
   setPretestMode(mode: PretestMode): void;
   /** Replace the whole plan (example, file, link, reset). */
   replacePlan(plan: Plan): void;
-  /** Replace the whole draft (restoring an autosave). */
-  replaceDraft(draft: PlanDraft): void;
+  /**
+   * Replace the whole draft (restoring an autosave, covariate edits, undo).
+   * With how = 'typing' (a keystroke in a matrix cell) a valid draft waits as in typeField.
+   */
+  replaceDraft(draft: PlanDraft, how?: 'commit' | 'typing'): void;
 }
+
+/** How long typing must pause before a valid typed draft becomes the plan (ms). */
+export const TYPING_PAUSE_MS = 700;
 
 /** Check a draft and, when valid, analyse it. Pure apart from the injected functions. */
 export function evaluateDraft(
@@ -117,44 +140,81 @@ function fieldForMessage(message: string): string {
   return '';
 }
 
+/** The draft slice, starting from `initial` (with `fallback`'s results underneath when `initial` is not valid). */
 export const createDraftSlice =
   (deps: MeanwardDeps, initial: PlanDraft, fallback: Plan): StateCreator<MeanwardState, [], [], DraftSlice> =>
   (set, get) => {
-    const apply = (draft: PlanDraft): Partial<MeanwardState> => {
+    const schedule =
+      deps.schedule ??
+      ((fn: () => void, ms: number) => {
+        const t = setTimeout(fn, ms);
+        return () => clearTimeout(t);
+      });
+    // A valid typed draft waiting to be adopted, with its results; and the pause timer's cancel.
+    let waiting: { draft: PlanDraft; plan: Plan; analytic: AnalyticResults } | null = null;
+    let cancelPause: (() => void) | null = null;
+    const stopWaiting = () => {
+      cancelPause?.();
+      cancelPause = null;
+      waiting = null;
+    };
+    /** The new plan and results, keeping the current objects when the plan is the same (no needless recomputation downstream). */
+    const adopt = (plan: Plan, analytic: AnalyticResults): Pick<DraftSlice, 'validPlan' | 'analytic'> => {
+      const s = get();
+      return s?.analytic && samePlan(plan, s.validPlan) ? { validPlan: s.validPlan, analytic: s.analytic } : { validPlan: plan, analytic };
+    };
+    const apply = (draft: PlanDraft, how: 'commit' | 'typing' = 'commit'): Partial<MeanwardState> => {
+      stopWaiting();
       const r = evaluateDraftSafely(draft, deps);
       if ('problems' in r) {
-        return { draft, problems: r.problems, analyticStale: get()?.analytic != null };
+        return { draft, problems: r.problems, analyticStale: get()?.analytic != null, draftPending: false };
       }
-      return { draft, problems: [], validPlan: r.plan, analytic: r.analytic, analyticStale: false };
+      const next = adopt(r.plan, r.analytic);
+      if (how === 'commit' || next.validPlan === get().validPlan) {
+        return { draft, problems: [], ...next, analyticStale: false, draftPending: false };
+      }
+      waiting = { draft, plan: r.plan, analytic: r.analytic };
+      cancelPause = schedule(() => get().commitDraft(), TYPING_PAUSE_MS);
+      return { draft, problems: [], analyticStale: false, draftPending: true };
     };
     // First evaluation: the initial draft, else the fallback plan's results underneath.
     const first = evaluateDraftSafely(initial, deps);
     const base = evaluateDraftSafely(planToDraft(fallback), deps);
     const baseOk = 'plan' in base ? base : null;
-    const initialState: Pick<DraftSlice, 'draft' | 'validPlan' | 'problems' | 'analytic' | 'analyticStale'> =
+    const initialState: Pick<DraftSlice, 'draft' | 'validPlan' | 'problems' | 'analytic' | 'analyticStale' | 'draftPending'> =
       'plan' in first
-        ? { draft: initial, validPlan: first.plan, problems: [], analytic: first.analytic, analyticStale: false }
+        ? { draft: initial, validPlan: first.plan, problems: [], analytic: first.analytic, analyticStale: false, draftPending: false }
         : {
             draft: initial,
             validPlan: baseOk ? baseOk.plan : fallback,
             problems: first.problems,
             analytic: baseOk ? baseOk.analytic : null,
             analyticStale: baseOk !== null,
+            draftPending: false,
           };
+    const edited = (path: string, value: string | boolean): PlanDraft => {
+      const next = setDraftField(get().draft, path, value);
+      const provenance = draftProvenance(next);
+      if (!provenance?.[path]) return next;
+      const { [path]: _typed, ...rest } = provenance;
+      return withDraftProvenance(next, rest);
+    };
     return {
       ...initialState,
-      setField: (path, value) => {
-        const next = setDraftField(get().draft, path, value);
-        const provenance = draftProvenance(next);
-        if (!provenance?.[path]) return set(apply(next));
-        const { [path]: _typed, ...rest } = provenance;
-        set(apply(withDraftProvenance(next, rest)));
+      setField: (path, value) => set(apply(edited(path, value))),
+      typeField: (path, value) => set(apply(edited(path, value), 'typing')),
+      commitDraft: () => {
+        const w = waiting;
+        if (!w) return;
+        stopWaiting();
+        if (get().draft !== w.draft) return; // the draft changed since; that change decided
+        set({ ...adopt(w.plan, w.analytic), analyticStale: false, draftPending: false });
       },
       setPretestMode: (mode) => {
         const d = get().draft;
         set(apply({ ...d, pretest: { ...d.pretest, mode } }));
       },
       replacePlan: (plan) => set(apply(withDraftProvenance(planToDraft(plan), plan.provenance))),
-      replaceDraft: (draft) => set(apply(draft)),
+      replaceDraft: (draft, how = 'commit') => set(apply(draft, how)),
     };
   };

@@ -325,6 +325,7 @@ export const createPilotSlice =
     };
 
     const apply = (pessimistic: boolean) => {
+      get().commitDraft(); // a value still being typed is part of the plan the estimates go into
       const s = get();
       const estimates = s.pilot.estimates;
       if (!estimates) return;
@@ -352,11 +353,14 @@ export const createPilotSlice =
           : update.applied;
         const n = applied.length;
         const skippedText = update.skipped.length > 0 ? ` ${update.skipped.length} left as they were (see why below).` : '';
+        const filled = `${n === 1 ? 'One plan field' : `${n} plan fields`} filled from “${estimates.fileName ?? s.pilot.fileName ?? 'the pilot file'}”${pessimistic ? ', with the reliability at the lower end of its confidence interval' : ''}.`;
         patch({
           lastApply: { applied, skipped: update.skipped, pessimistic },
           problem: null,
-          announcement: `${n === 1 ? 'One plan field' : `${n} plan fields`} filled from “${estimates.fileName ?? s.pilot.fileName ?? 'the pilot file'}”${pessimistic ? ', with the reliability at the lower end of its confidence interval' : ''}.${skippedText}`,
+          announcement: `${filled}${skippedText}`,
         });
+        // Like every replace, it can be undone: the draft before, exactly as typed.
+        get().offerUndo(s.draft, 'pilot', filled);
       } catch (err) {
         const problem = problemFrom('apply', err);
         patch({ problem, announcement: `The estimates could not be written into the plan; your plan is unchanged. ${problem.message}` });

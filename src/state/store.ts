@@ -6,7 +6,7 @@ import type { MeanwardDeps } from './deps';
 import { createCovariateSlice, type CovariateSlice } from './covariateSlice';
 import { createDraftSlice, type DraftSlice } from './draftSlice';
 import { createHighlightSlice, type HighlightSlice } from './highlightSlice';
-import { createPersistenceSlice, readAutosave, type PersistenceSlice } from './persistenceSlice';
+import { createPersistenceSlice, restoreDrafts, type PersistenceSlice } from './persistenceSlice';
 import { createPilotSlice, defaultPilotDeps, type PilotDeps, type PilotSlice } from './pilotSlice';
 import { planToDraft } from './planDraft';
 import { createSimulationSlice, type SimulationSlice } from './simulationSlice';
@@ -26,18 +26,21 @@ export interface CreateStoreOptions {
 }
 
 /**
- * A fresh planner store. Restores the autosaved draft when there is one,
- * otherwise starts from the demo plan; autosaves the draft after every change
- * and keeps the simulation's "stale" mark in step with the plan.
+ * A fresh planner store. Restores this tab's autosaved draft, else the
+ * browser's shared last draft, else starts from the demo plan (an unreadable
+ * autosave is kept and reported, see restoreDrafts); autosaves the draft after
+ * every change and keeps the simulation's "stale" mark in step with the plan.
+ * The quick figures are asked for only when a new plan is adopted (not on
+ * every keystroke: see DraftSlice.typeField).
  */
 export function createMeanwardStore({ deps, demo, restore = true, pilot }: CreateStoreOptions): MeanwardStore {
-  const saved = restore ? readAutosave(deps.storage) : null;
-  const initial = saved ?? planToDraft(demo());
+  const restored = restore ? restoreDrafts(deps) : { draft: null, from: null, unreadable: [] };
+  const initial = restored.draft ?? planToDraft(demo());
   const store = createStore<MeanwardState>()((...a) => ({
     ...createDraftSlice(deps, initial, demo())(...a),
     ...createSimulationSlice(deps)(...a),
     ...createHighlightSlice(...a),
-    ...createPersistenceSlice(deps, demo)(...a),
+    ...createPersistenceSlice(deps, demo, restored)(...a),
     ...createCovariateSlice(...a),
     ...createPilotSlice({ ...defaultPilotDeps(), ...pilot })(...a),
   }));

@@ -94,7 +94,7 @@ export function CorrelationMatrixEditor() {
                         aria-invalid={problem ? true : undefined}
                         aria-describedby={problem ? `${messageId(path)} ${hintId}` : hintId}
                         value={value}
-                        onChange={(e) => setCorrelation(i, j, e.target.value)}
+                        onChange={(e) => setCorrelation(i, j, e.target.value, 'typing')}
                         onKeyDown={onKeyDown(i, j, value)}
                       />
                     </td>

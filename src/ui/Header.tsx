@@ -1,5 +1,6 @@
 import { useId, useRef, useState, type ChangeEvent } from 'react';
 import { useMeanwardStore, useMeanwardStoreApi } from '../state/store';
+import { downloadText } from './downloadText';
 
 /** Make a file name from the plan title: letters, digits and dashes only. */
 export function planFileName(title: string): string {
@@ -10,18 +11,6 @@ export function planFileName(title: string): string {
     .replace(/^-+|-+$/g, '')
     .slice(0, 60);
   return `${slug || 'plan'}.meanward.json`;
-}
-
-function download(text: string, name: string) {
-  const blob = new Blob([text], { type: 'application/json' });
-  const url = URL.createObjectURL(blob);
-  const a = document.createElement('a');
-  a.href = url;
-  a.download = name;
-  document.body.appendChild(a);
-  a.click();
-  a.remove();
-  setTimeout(() => URL.revokeObjectURL(url), 1000);
 }
 
 interface HeaderProps {
@@ -54,8 +43,9 @@ export function Header({ exportsOpen, onToggleExports, exportsAvailable }: Heade
   };
 
   const onSave = () => {
+    api.getState().commitDraft(); // a value still being typed counts
     const s = api.getState();
-    download(s.planFileText(), planFileName(s.validPlan.title));
+    downloadText(s.planFileText(), planFileName(s.validPlan.title));
     api.setState({
       notice: {
         kind: 'info',
@@ -68,6 +58,7 @@ export function Header({ exportsOpen, onToggleExports, exportsAvailable }: Heade
   };
 
   const onShare = async () => {
+    api.getState().commitDraft(); // a value still being typed counts
     const s = api.getState();
     const fragment = s.shareFragment();
     const url = `${location.origin}${location.pathname}${location.search}${fragment}`;

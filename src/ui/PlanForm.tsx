@@ -19,11 +19,22 @@ function focusField(path: string) {
 export function PlanForm() {
   const problems = useMeanwardStore(selectProblems);
   const covariates = useMeanwardStore((s) => s.draft.covariates);
+  const commitDraft = useMeanwardStore((s) => s.commitDraft);
   // Covariate fields and matrix cells are named by number ("Covariate 2 SD"); whole-list problems stay as messages.
   const fieldName = (field: string) =>
     FIELD_NAMES[field] ?? (/^covariate(s\.\d+\.\w+|Correlations\.\d+\.\d+)$/.test(field) ? covariateFieldLabel(field, covariates) : undefined);
   return (
-    <form className="plan-form" aria-label="Study plan" onSubmit={(e) => e.preventDefault()} noValidate>
+    <form
+      className="plan-form"
+      aria-label="Study plan"
+      onSubmit={(e) => e.preventDefault()}
+      noValidate
+      // A typed value becomes the plan when its field is left or Enter is pressed (or typing pauses).
+      onBlur={commitDraft}
+      onKeyDown={(e) => {
+        if (e.key === 'Enter') commitDraft();
+      }}
+    >
       <h2 className="visually-hidden">Study plan</h2>
       <TextField path="title" label="Plan title" hint="A name for this plan; it appears on saved files and the PDF summary." />
       {problems.length > 0 && (

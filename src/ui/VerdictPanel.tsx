@@ -63,6 +63,8 @@ export function VerdictPanel() {
   const analytic = useMeanwardStore(selectAnalytic);
   const stale = useMeanwardStore(selectAnalyticStale);
   const plan = useMeanwardStore(selectValidPlan);
+  // A typed value waiting for the field to be left (or typing to pause): these figures are about to change.
+  const pending = useMeanwardStore((s) => s.draftPending);
   if (!analytic) {
     return (
       <section className="verdict" aria-labelledby="verdict-heading">
@@ -77,8 +79,10 @@ export function VerdictPanel() {
   const tauZero = analytic.tau === 0;
   return (
     <section
-      className={`verdict verdict-${m.verdict}${stale ? ' is-stale' : ''}`}
+      className={`verdict verdict-${m.verdict}${stale ? ' is-stale' : ''}${pending ? ' is-pending' : ''}`}
       aria-labelledby="verdict-heading"
+      aria-busy={pending || undefined}
+      data-pending={pending || undefined}
       data-testid="verdict"
       data-verdict={m.verdict}
       data-basis={m.basis}

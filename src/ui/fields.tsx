@@ -20,6 +20,7 @@ function useFieldBinding<V>(path: string) {
   const value = useMeanwardStore((s) => readPath(s.draft, path)) as V;
   const problem = useMeanwardStore(selectProblemFor(path));
   const setField = useMeanwardStore((s) => s.setField);
+  const typeField = useMeanwardStore((s) => s.typeField);
   // Where the value came from (e.g. a pilot file), when the plan records it.
   const recorded = useMeanwardStore((s) => draftProvenance(s.draft)?.[path]);
   const source = recorded?.source === 'pilot' ? recorded : undefined;
@@ -31,7 +32,7 @@ function useFieldBinding<V>(path: string) {
     'aria-invalid': problem ? true : undefined,
     'aria-describedby': described,
   } as const;
-  return { id, value, problem, setField, hintId, errId, inputAria, source, srcId };
+  return { id, value, problem, setField, typeField, hintId, errId, inputAria, source, srcId };
 }
 
 /** Where a value came from, under its field (recorded for values from a pilot file). */
@@ -86,7 +87,7 @@ interface NumberFieldProps {
  * Up and down arrow keys step the value.
  */
 export function NumberField({ path, label, unit, hint, step, min, max, after, inputMode = 'decimal', width = 'normal' }: NumberFieldProps) {
-  const { id, value, problem, setField, hintId, errId, inputAria, source, srcId } = useFieldBinding<string>(path);
+  const { id, value, problem, setField, typeField, hintId, errId, inputAria, source, srcId } = useFieldBinding<string>(path);
   const onKeyDown = (e: KeyboardEvent<HTMLInputElement>) => {
     if (e.key !== 'ArrowUp' && e.key !== 'ArrowDown') return;
     const current = Number(value.trim().replace(',', '.'));
@@ -118,7 +119,7 @@ export function NumberField({ path, label, unit, hint, step, min, max, after, in
           className={width === 'narrow' ? 'input-narrow' : undefined}
           value={value}
           {...inputAria}
-          onChange={(e) => setField(path, e.target.value)}
+          onChange={(e) => typeField(path, e.target.value)}
           onKeyDown={onKeyDown}
         />
         {unit && <span className="field-unit">{unit}</span>}
@@ -163,7 +164,7 @@ interface BasicFieldProps {
 
 /** A labelled free-text box (names and titles). */
 export function TextField({ path, label, hint }: BasicFieldProps) {
-  const { id, value, problem, setField, hintId, errId, inputAria } = useFieldBinding<string>(path);
+  const { id, value, problem, typeField, hintId, errId, inputAria } = useFieldBinding<string>(path);
   const notes = <FieldNotes hintId={hintId} errId={errId} hint={hint} problem={problem} />;
   return (
     <LabelledField path={path} id={id} label={label} problem={problem} notes={notes}>
@@ -174,7 +175,7 @@ export function TextField({ path, label, hint }: BasicFieldProps) {
         autoComplete="off"
         value={value}
         {...inputAria}
-        onChange={(e) => setField(path, e.target.value)}
+        onChange={(e) => typeField(path, e.target.value)}
       />
     </LabelledField>
   );

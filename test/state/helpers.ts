@@ -43,8 +43,48 @@ export function controlledRunner() {
   return { runner, runs, cancels: () => cancels };
 }
 
-/** A store over the real core and io, with injected storage and simulation. */
-export function makeStore(opts: { storage?: DraftStorage | null; simulation?: SimulationRunner | null } = {}) {
-  const deps = { ...defaultDeps(opts.simulation ?? null), storage: opts.storage ?? null };
+/**
+ * A manual clock for the store's "typing has paused" timer: `advance(ms)` runs
+ * every callback due by then; `pending()` counts those not yet run or cancelled.
+ */
+export function manualClock() {
+  let now = 0;
+  const timers: { at: number; fn: () => void; live: boolean }[] = [];
+  const schedule = (fn: () => void, ms: number) => {
+    const t = { at: now + ms, fn, live: true };
+    timers.push(t);
+    return () => void (t.live = false);
+  };
+  const advance = (ms: number) => {
+    now += ms;
+    for (const t of timers) {
+      if (t.live && t.at <= now) {
+        t.live = false;
+        t.fn();
+      }
+    }
+  };
+  return { schedule, advance, pending: () => timers.filter((t) => t.live).length };
+}
+
+/**
+ * A store over the real core and io, with injected storage (shared "last
+ * draft"), tab storage and simulation; both storages default to none, so
+ * tests never see each other's autosaves.
+ */
+export function makeStore(
+  opts: {
+    storage?: DraftStorage | null;
+    session?: DraftStorage | null;
+    simulation?: SimulationRunner | null;
+    schedule?: (fn: () => void, ms: number) => () => void;
+  } = {},
+) {
+  const deps = {
+    ...defaultDeps(opts.simulation ?? null),
+    storage: opts.storage ?? null,
+    session: opts.session ?? null,
+    ...(opts.schedule ? { schedule: opts.schedule } : {}),
+  };
   return createMeanwardStore({ deps, demo: demoPlan });
 }

@@ -70,6 +70,8 @@ describe('covariate editor', () => {
     await user.type(lower, '0.3');
     expect(upper).toHaveValue('0.3');
     expect(upper).not.toHaveAttribute('aria-invalid');
+    // The typed value becomes the plan when the cell is left (Tab).
+    await user.tab();
     expect(store.getState().validPlan.covariateCorrelations).toEqual([
       [1, 0.3],
       [0.3, 1],

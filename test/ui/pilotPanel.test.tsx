@@ -111,7 +111,7 @@ describe('pilot panel', () => {
 
     // Typing over a pilot value removes its note: the plan no longer credits the pilot.
     await user.clear(meanBox);
-    await user.type(meanBox, '45');
+    await user.type(meanBox, '45{Enter}'); // Enter commits the typed value to the plan
     expect(meanBox.closest('[data-field]')!.querySelector('[data-testid="field-source"]')).toBeNull();
     expect(store.getState().validPlan.provenance?.['groups.programme.pretestMean']).toBeUndefined();
   });

@@ -48,7 +48,7 @@ describe('plan form', () => {
     renderApp();
     const box = screen.getByRole('textbox', { name: /^Reliability/ });
     await user.clear(box);
-    await user.type(box, '0.9');
+    await user.type(box, '0.9{Enter}'); // Enter commits the typed value to the plan
     // rho .9: beta = .6·10/(10·.9) = 2/3; bias = (2/3)(.1)(−10) = −0.67 (same closed form, computed).
     expect(screen.getByTestId('verdict-bias')).toHaveTextContent('−0.67 points');
     expect(screen.queryByText(/Out of date/)).toBeNull();
@@ -72,7 +72,7 @@ describe('plan form', () => {
     renderApp();
     await user.click(screen.getByRole('radio', { name: /^SEM/ }));
     const sem = screen.getByRole('textbox', { name: /^SEM/ });
-    await user.type(sem, '3');
+    await user.type(sem, '3{Enter}');
     // rho = 1 − SEM²/SD² = 1 − 9/100 = .91 in both groups (SD 10); shown to 3 decimals.
     expect(screen.getByTestId('derived-reliability-programme')).toHaveTextContent('.910');
     expect(screen.getByTestId('derived-reliability-comparison')).toHaveTextContent('.910');

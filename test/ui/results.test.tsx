@@ -3,6 +3,7 @@ import { act, fireEvent, screen, waitFor, within } from '@testing-library/react'
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it, vi } from 'vitest';
 import { demoPlan } from '../../src/io/demoPlan';
+import { TYPING_PAUSE_MS } from '../../src/state/draftSlice';
 import { controlledRunner } from '../state/helpers';
 import { renderApp } from './renderApp';
 
@@ -58,6 +59,7 @@ describe('results panel', () => {
     expect(screen.getByTestId('sim-status')).toHaveAttribute('data-stale', 'false');
     const caliper = screen.getByRole('textbox', { name: /^Caliper/ });
     fireEvent.change(caliper, { target: { value: '0.1' } });
+    fireEvent.focusOut(caliper); // leaving the field commits the typed value to the plan
     expect(screen.getByTestId('sim-status')).toHaveAttribute('data-stale', 'true');
     expect(screen.getByTestId('sim-status')).toHaveTextContent(/out of date/);
   });
@@ -119,7 +121,7 @@ function fakeResult(plan: import('../../src/core/plan').Plan) {
 }
 
 describe('auto-run', () => {
-  it('starts a run two seconds after the plan stops changing, only when switched on', async () => {
+  it('starts a run two seconds after the plan stops changing, only when switched on (a typed value becomes the plan once typing pauses)', async () => {
     vi.useFakeTimers();
     try {
       const c = controlledRunner();
@@ -132,9 +134,12 @@ describe('auto-run', () => {
       fireEvent.change(caliper, { target: { value: '0.1' } });
       act(() => vi.advanceTimersByTime(1500));
       fireEvent.change(caliper, { target: { value: '0.12' } });
-      act(() => vi.advanceTimersByTime(1500));
-      expect(c.runs).toHaveLength(0); // still typing: the pause restarted
-      act(() => vi.advanceTimersByTime(600));
+      // 0.12 becomes the plan once typing has paused (TYPING_PAUSE_MS); the run starts 2 s after that,
+      // and the timer 0.1 started is gone (it would have fired 2 s after 0.1 became the plan).
+      act(() => vi.advanceTimersByTime(TYPING_PAUSE_MS));
+      act(() => vi.advanceTimersByTime(1999));
+      expect(c.runs).toHaveLength(0); // still waiting: the pause restarted
+      act(() => vi.advanceTimersByTime(1));
       expect(c.runs).toHaveLength(1);
       expect(c.runs[0]!.plan.matching.caliper).toBe(0.12);
     } finally {
