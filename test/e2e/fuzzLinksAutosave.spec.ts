@@ -15,18 +15,10 @@ import { decodePlanFromLink, encodePlanForLink } from '../../src/io/shareLink';
 import { AUTOSAVE_KEY, isShareFragment, restoreDrafts, TAB_DRAFT_KEY, UNREADABLE_KEY } from '../../src/state/persistenceSlice';
 import { planToDraft } from '../../src/state/planDraft';
 import { openFreshPlanner, trackForeignRequests } from './plannerHelpers';
+import { mulberry32 } from '../core/independentNormals';
 
 /** mulberry32 (common practice: a small seeded 32-bit generator), so every run tries the same cases. */
-function rng(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+const rng = mulberry32;
 
 const SCRIPTS = [
   '<script>fetch("http://198.51.100.7/x")</script>',
