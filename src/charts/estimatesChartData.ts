@@ -48,7 +48,7 @@ const BIN_TARGET = 36;
 
 /**
  * Transform plan + results into the estimates chart's data: per analysis the
- * closed-form expected estimate with its 95% range, and once a simulation
+ * expected estimate shown before simulation (closed form, or the quick planned-procedure figure for the matched difference) with its 95% range, and once a simulation
  * exists a histogram of the per-replication estimates on shared bin edges.
  * Pure and deterministic.
  */

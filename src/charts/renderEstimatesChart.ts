@@ -38,7 +38,7 @@ interface EstimatesLayout {
 
 function subtitle(data: EstimatesChartData): string {
   return data.mode === 'simulation'
-    ? `Histograms of ${data.replications} simulated studies; diamond = closed-form expected estimate`
+    ? `Histograms of ${data.replications} simulated studies; diamond = expected estimate shown before simulation`
     : 'Bars: where 95% of study estimates should fall; diamond = expected estimate';
 }
 
