@@ -1,4 +1,5 @@
 import type { AnalyticResults } from '../core/analyticResults';
+import { firstNonFinite as findNonFinite } from '../core/assertFiniteOutput';
 import type { Plan } from '../core/plan';
 import type { PlanProblem } from '../core/validatePlan';
 import { demoPlan } from '../io/demoPlan';
@@ -19,6 +20,9 @@ import { readInputFile } from './readInputFile';
 import { capProblemList } from '../core/capProblemList';
 import { plainErrorMessage } from '../core/plainErrorMessage';
 import { showControlCharacters } from '../core/visibleText';
+
+/** Dotted path of the first NaN or infinite number in a result, or null (the core's walk). */
+const firstNonFinite = (x: unknown, path: string): string | null => findNonFinite(x, path)?.path ?? null;
 
 /** Where the command line writes (process.stdout / process.stderr, or a test double). */
 export interface CliIO {
@@ -242,21 +246,3 @@ function problemLine(file: string, p: PlanProblem): string {
   return p.field === '' ? `${file}: ${p.message}` : `${file}: ${p.field}: ${p.message}`;
 }
 
-/** Dotted path of the first NaN or infinite number in a result, or null. */
-function firstNonFinite(x: unknown, path: string): string | null {
-  if (typeof x === 'number') return Number.isFinite(x) ? null : path;
-  if (Array.isArray(x)) {
-    for (let i = 0; i < x.length; i++) {
-      const r = firstNonFinite(x[i], `${path}[${i}]`);
-      if (r !== null) return r;
-    }
-    return null;
-  }
-  if (typeof x === 'object' && x !== null) {
-    for (const [k, v] of Object.entries(x)) {
-      const r = firstNonFinite(v, `${path}.${k}`);
-      if (r !== null) return r;
-    }
-  }
-  return null;
-}

@@ -1,5 +1,6 @@
 import fc from 'fast-check';
 import { EXAMPLE_PLANS } from '../../src/io/examplePlans';
+import { firstNonFinite as findNonFinite } from '../../src/core/assertFiniteOutput';
 
 /**
  * Seeded plan mutations for the fuzz suites: one of the invented example plans
@@ -85,21 +86,5 @@ export function planMutation(options: { maxPool?: number } = {}): fc.Arbitrary<M
     });
 }
 
-/** Dotted path of the first number in `x` that is NaN or infinite, or null. */
-export function firstNonFinite(x: unknown, path = 'result'): string | null {
-  if (typeof x === 'number') return Number.isFinite(x) ? null : path;
-  if (Array.isArray(x)) {
-    for (let i = 0; i < x.length; i++) {
-      const r = firstNonFinite(x[i], `${path}[${i}]`);
-      if (r !== null) return r;
-    }
-    return null;
-  }
-  if (x !== null && typeof x === 'object') {
-    for (const [k, v] of Object.entries(x)) {
-      const r = firstNonFinite(v, `${path}.${k}`);
-      if (r !== null) return r;
-    }
-  }
-  return null;
-}
+/** Dotted path of the first number in `x` that is NaN or infinite, or null (the core's walk). */
+export const firstNonFinite = (x: unknown, path = 'result'): string | null => findNonFinite(x, path)?.path ?? null;

@@ -88,3 +88,13 @@ export function makeStore(
   };
   return createMeanwardStore({ deps, demo: demoPlan });
 }
+
+/** An invented run-time estimate past the browser's 10-minute limit (1,500 s for 2,000 replications). */
+export const LONG_RUN_ESTIMATE = {
+  seconds: 1500,
+  secondsPerReplication: 0.75,
+  pilotReplications: 4,
+  pilotSeconds: 3,
+  replications: 2000,
+  method: 'timed the first 4 of 2000 replications on this device and scaled their pace to the rest',
+};

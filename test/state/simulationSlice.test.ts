@@ -1,7 +1,7 @@
 import { describe, expect, it } from 'vitest';
 import type { Plan } from '../../src/core/plan';
 import type { SimulationResult } from '../../src/sim/types';
-import { controlledRunner, makeStore } from './helpers';
+import { controlledRunner, LONG_RUN_ESTIMATE, makeStore } from './helpers';
 
 /** Only the fields the store reads; the figures themselves are not under test here. */
 function resultFor(plan: Plan): SimulationResult {
@@ -107,14 +107,7 @@ describe('highlight slice', () => {
 });
 
 describe('simulation slice: run-time estimate, long runs and a silent worker', () => {
-  const estimate = {
-    seconds: 1500,
-    secondsPerReplication: 0.75,
-    pilotReplications: 4,
-    pilotSeconds: 3,
-    replications: 2000,
-    method: 'timed the first 4 of 2000 replications on this device and scaled their pace to the rest',
-  };
+  const estimate = LONG_RUN_ESTIMATE;
   const withReason = (message: string, reason: string, est?: typeof estimate) => Object.assign(new Error(message), { reason, estimate: est });
 
   it('asks the runner to stop past the browser limit (600 s), shows the estimate, and waits for the go-ahead', async () => {

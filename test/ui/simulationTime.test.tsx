@@ -2,19 +2,12 @@
 import { act, screen } from '@testing-library/react';
 import userEvent from '@testing-library/user-event';
 import { describe, expect, it } from 'vitest';
-import { controlledRunner } from '../state/helpers';
+import { controlledRunner, LONG_RUN_ESTIMATE } from '../state/helpers';
 import { renderApp } from './renderApp';
 
 /** The simulation panel's run-time estimate, its prompt for long runs and its word on a silent worker. */
 describe('simulation panel: how long a run takes, and a run that went silent', () => {
-  const estimate = {
-    seconds: 1500,
-    secondsPerReplication: 0.75,
-    pilotReplications: 4,
-    pilotSeconds: 3,
-    replications: 2000,
-    method: 'timed the first 4 of 2000 replications on this device and scaled their pace to the rest',
-  };
+  const estimate = LONG_RUN_ESTIMATE;
 
   it('shows the estimate while running, then asks before a run past 10 minutes, and runs it on "Run it anyway"', async () => {
     const user = userEvent.setup();
