@@ -47,7 +47,7 @@ let sink = 0; // keeps results alive so nothing is optimised away
 function engine(plan: Plan, reps: number): void {
   const run = createSimulation(plan, { replications: reps });
   run.runChunk(0, reps);
-  sink += run.finish().analyses.ancova.replications;
+  sink += run.finish().analyses.ancova!.replications;
 }
 
 /**
@@ -258,7 +258,7 @@ const COVARIATE_REPS = 200;
 function covariateEngine(p: Plan): void {
   const run = createMultivariateSimulation(p, { replications: COVARIATE_REPS });
   run.runChunk(0, COVARIATE_REPS);
-  sink += run.finish().analyses.ancova.replications;
+  sink += run.finish().analyses.ancova!.replications;
 }
 const covariateTasks = {
   propensity: () => covariateEngine(demoWithCovariates('propensity', 1)),

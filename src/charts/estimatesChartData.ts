@@ -1,5 +1,6 @@
 import * as d3 from 'd3';
-import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
+import type { AnalysisId } from '../core/plan';
+import { presentAnalyses } from '../core/presentAnalyses';
 import { expectedEstimateInterval } from '../core/expectedEstimateInterval';
 import { isFeasible } from '../sim/types';
 import type { ChartInput } from './chartTypes';
@@ -54,10 +55,9 @@ const BIN_TARGET = 36;
  */
 export function estimatesChartData({ analytic, simulation }: ChartInput): EstimatesChartData {
   const tau = analytic.tau;
-  const rows: EstimatesRow[] = ANALYSIS_IDS.map((id) => {
-    const a = analytic.analyses[id];
+  const rows: EstimatesRow[] = presentAnalyses(analytic.analyses).map(([id, a]) => {
     const iv = a.se === null ? null : expectedEstimateInterval(a.expectedEstimate, a.se);
-    const s = simulation ? simulation.analyses[id] : null;
+    const s = simulation ? (simulation.analyses[id] ?? null) : null;
     const sim = s && isFeasible(s) ? s : null; // an infeasible analysis has no simulated mean
     return {
       id,
@@ -75,10 +75,10 @@ export function estimatesChartData({ analytic, simulation }: ChartInput): Estima
   let maxCount = 0;
   if (simulation) {
     const finite = Object.fromEntries(
-      ANALYSIS_IDS.map((id) => [id, simulation.estimates[id].filter((v) => Number.isFinite(v))]),
+      rows.map((r) => [r.id, (simulation.estimates[r.id] ?? []).filter((v) => Number.isFinite(v))]),
     ) as Record<AnalysisId, number[]>;
-    for (const id of ANALYSIS_IDS) {
-      const ext = d3.extent(finite[id]);
+    for (const r of rows) {
+      const ext = d3.extent(finite[r.id]);
       if (ext[0] !== undefined) values.push(ext[0], ext[1]!);
     }
     const [lo, hi] = d3.extent(values) as [number, number];

@@ -18,7 +18,7 @@ export interface AnalysisStyle {
 }
 
 /**
- * Meanward's analysis palette. The four hues differ in lightness as well as
+ * Meanward's analysis palette. The four two-group hues differ in lightness as well as
  * hue (rust, blue, ochre, plum), so they stay apart under the common forms of
  * colour-vision deficiency and in greyscale print; each also has its own dash
  * pattern and marker shape. UI and report code reuse this object so an
@@ -29,6 +29,10 @@ export const ANALYSIS_STYLES: Record<AnalysisId, AnalysisStyle> = {
   ancova: { colour: '#1f5c9e', tint: '#d3e1f1', dash: '7 3', marker: 'square', shortLabel: 'ANCOVA' },
   gainScore: { colour: '#8a6a00', tint: '#efe3bf', dash: '2 3', marker: 'triangle', shortLabel: 'Gain score' },
   correctedAncova: { colour: '#6a3d8f', tint: '#e3d6ee', dash: '9 3 2 3', marker: 'diamond', shortLabel: 'Corrected ANCOVA' },
+  // Only with a selection rule on an observed basis; a dark green apart from the groups' teal.
+  regressionDiscontinuity: { colour: '#3b6e1e', tint: '#dbe9d0', dash: '4 2 1 2', marker: 'square', shortLabel: 'Regression discontinuity' },
+  // Only in a one-group study (it is then the only analysis).
+  prePostChange: { colour: '#b5401a', tint: '#f3d9cf', dash: '', marker: 'circle', shortLabel: 'Pre–post change' },
 };
 
 /**

@@ -1,5 +1,4 @@
 import * as d3 from 'd3';
-import { ANALYSIS_IDS } from '../core/plan';
 import type { RenderOptions } from './chartTypes';
 import type { SensitivityChartData } from './sensitivityChartData';
 import { sensitivityChartText } from './sensitivityChartText';
@@ -71,7 +70,7 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
   const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
   const { left, right, bottom, compact } = L;
   L.titleLines.forEach((l, i) => text(root, 12, 18 + i * lineHeight(FONT.title), l, { 'font-size': FONT.title, 'font-weight': 'bold' }));
-  const legendH = analysisLegend(root, ANALYSIS_IDS, 12, L.legendY, width - 24, opts);
+  const legendH = analysisLegend(root, data.series.map((s) => s.id), 12, L.legendY, width - 24, opts);
   let top = L.legendY + legendH + 4;
   // Curves drawn exactly on top of each other would hide one analysis: say so.
   for (const line of L.noteLines) {

@@ -1,5 +1,6 @@
 import * as d3 from 'd3';
-import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
+import type { AnalysisId } from '../core/plan';
+import { presentAnalyses } from '../core/presentAnalyses';
 import { sensitivityCurve, type SensitivityVariable } from '../core/sensitivityCurve';
 import type { ChartInput } from './chartTypes';
 
@@ -45,13 +46,16 @@ export interface SensitivityChartData {
  */
 export function sensitivityChartData({ plan, analytic }: ChartInput, mode: SensitivityVariable = 'reliability'): SensitivityChartData {
   const curve = sensitivityCurve(plan, mode);
-  const series = ANALYSIS_IDS.map((id) => ({
-    id,
-    name: analytic.analyses[id].name,
-    points: curve.points.map((p) => ({ x: p.x, bias: p.bias[id] })),
-    // The curves are the formula for unlimited pools and exact matching: mark this plan on the same scale.
-    currentBias: analytic.analyses[id].formulaEstimate - analytic.tau,
-  }));
+  // One series per analysis the curve covers (the design's analyses).
+  const series = presentAnalyses(analytic.analyses)
+    .filter(([id]) => curve.points.every((p) => p.bias[id] !== undefined))
+    .map(([id, a]) => ({
+      id,
+      name: a.name,
+      points: curve.points.map((p) => ({ x: p.x, bias: p.bias[id] as number })),
+      // The curves are the formula for unlimited pools and exact matching: mark this plan on the same scale.
+      currentBias: a.formulaEstimate - analytic.tau,
+    }));
   const ys = [curve.tolerableBand.lower, curve.tolerableBand.upper, curve.effect, -curve.effect, 0];
   for (const s of series) for (const p of s.points) ys.push(p.bias);
   const [y0, y1] = d3.extent(ys) as [number, number];

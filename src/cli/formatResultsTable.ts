@@ -1,5 +1,6 @@
 import type { AnalyticResults } from '../core/analyticResults';
-import { ANALYSIS_IDS, type Plan } from '../core/plan';
+import { presentAnalyses } from '../core/presentAnalyses';
+import type { Plan } from '../core/plan';
 import { procedureBasisNote } from '../core/procedureBasisNote';
 import { showControlCharacters as visible } from '../core/visibleText';
 
@@ -34,8 +35,7 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   lines.push('Expected results for the procedure as planned');
   lines.push(procedureBasisNote(results));
   const header = ['Analysis', 'Expected estimate', '(MC SE)', 'Formula, unlimited pools', 'Bias (points)', 'Bias (SD)', 'Share of effect', 'SE', 'Power', 'False-positive rate', 'Programme n'];
-  const rows = ANALYSIS_IDS.map((id) => {
-    const a = results.analyses[id];
+  const rows = presentAnalyses(results.analyses).map(([, a]) => {
     const rate = (x: number | null): string => (a.feasible ? fmtPercent(x) : '—');
     return [
       a.name,
@@ -56,8 +56,7 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   lines.push(line(header));
   lines.push(widths.map((w) => '-'.repeat(w)).join('  '));
   for (const r of rows) lines.push(line(r));
-  for (const id of ANALYSIS_IDS) {
-    const a = results.analyses[id];
+  for (const [, a] of presentAnalyses(results.analyses)) {
     if (!a.feasible) lines.push(`  ${a.name}: not feasible. ${a.infeasibleReason ?? ''}`.trimEnd());
   }
   lines.push(...covariateLines(results));

@@ -1,5 +1,5 @@
 import type { AnalyticResults } from '../core/analyticResults';
-import { ANALYSIS_IDS } from '../core/plan';
+import { presentAnalyses } from '../core/presentAnalyses';
 import { isFeasible, type SimAnalysisResult, type SimulationResult } from '../sim/types';
 import { fmtPercent, fmtPoints, fmtSD } from './formatResultsTable';
 
@@ -40,18 +40,19 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
           fmtPercent(s.wrongSignRate),
         ]
       : [name, 'not computed', '', '', '', '', '', '', ''];
-  const rows = ANALYSIS_IDS.map((id) => row(analytic.analyses[id].name, sim.analyses[id]));
-  rows.push(row(`${analytic.analyses.ancova.name} (matched sample)`, sim.ancovaMatchedSample));
+  const named: [string, SimAnalysisResult][] = presentAnalyses(sim.analyses).map(([id, s]): [string, SimAnalysisResult] => [
+    analytic.analyses[id]?.name ?? id,
+    s,
+  ]);
+  // ANCOVA in the matched sample: only where the design matches (two groups).
+  if (analytic.analyses.ancova && analytic.analyses.matchedDifference) named.push([`${analytic.analyses.ancova.name} (matched sample)`, sim.ancovaMatchedSample]);
+  const rows = named.map(([name, s]) => row(name, s));
   const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => (r[c] ?? '').length)));
   const line = (cells: string[]) =>
     cells.map((cell, c) => (c === 0 ? cell.padEnd(widths[c] ?? 0) : cell.padStart(widths[c] ?? 0))).join('  ');
   lines.push(line(header));
   lines.push(widths.map((w) => '-'.repeat(w)).join('  '));
   for (const r of rows) lines.push(line(r));
-  const named: [string, SimAnalysisResult][] = [
-    ...ANALYSIS_IDS.map((id): [string, SimAnalysisResult] => [analytic.analyses[id].name, sim.analyses[id]]),
-    [`${analytic.analyses.ancova.name} (matched sample)`, sim.ancovaMatchedSample],
-  ];
   for (const [name, s] of named) {
     if (!isFeasible(s)) lines.push(`  ${name}: not computed. ${s.reason}`);
     else if (s.replications < sim.replications) {

@@ -1,5 +1,5 @@
 import type { AnalyticAnalysis } from './analyticResults';
-import type { AnalysisId } from './plan';
+import type { TwoGroupAnalysisId } from './plan';
 import type { ModelParameters } from './modelParameters';
 import { ANALYSIS_DESCRIPTIONS } from './analysisDescriptions';
 import { analysisStandardError } from './analysisStandardError';
@@ -44,7 +44,7 @@ export interface AnalysisSettings {
  * @throws Error when a setting is out of range.
  * @example demo plan, matchedDifference → bias −2 points (0.8·0.25·(−10)), verdict 'hides'
  */
-export function analyseAnalysis(id: AnalysisId, m: ModelParameters, s: AnalysisSettings): AnalyticAnalysis {
+export function analyseAnalysis(id: TwoGroupAnalysisId, m: ModelParameters, s: AnalysisSettings): AnalyticAnalysis {
   const tau = m.effect;
   const estimate = expectedEstimate(id, m, s.assumedReliability);
   const options = { assumedReliability: s.assumedReliability, ratio: s.ratio };

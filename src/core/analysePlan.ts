@@ -1,12 +1,13 @@
 import type { AnalyticAnalysis, AnalyticResults, BreakEven } from './analyticResults';
 import type { ModelParameters } from './modelParameters';
-import { ANALYSIS_IDS, type AnalysisId, type Plan } from './plan';
+import { TWO_GROUP_ANALYSIS_IDS, type AnalysisRecord, type Plan } from './plan';
 import { analyseAnalysis, type AnalysisSettings } from './analyseAnalysis';
 import { assertFiniteOutput } from './assertFiniteOutput';
 import { breakEvenReliability } from './breakEvenReliability';
 import { deriveModelParameters } from './deriveModelParameters';
 import { expectedMatchedShare } from './expectedMatchedShare';
 import { rankRemedies } from './rankRemedies';
+import { existingGroupsSummary } from './design/existingGroupsSummary';
 import { analyseCovariateAnalysis } from './multivariate/analyseCovariateAnalysis';
 import { covariateBreakEven } from './multivariate/covariateBreakEven';
 import { covariateMatchedShare } from './multivariate/covariateMatchedShare';
@@ -47,7 +48,7 @@ export function analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): An
   const share = expectedMatchedShare(m, plan.matching);
   const settings = analysisSettings(plan, m.n.programme * share);
   const analyses = withPlannedFigures(
-    Object.fromEntries(ANALYSIS_IDS.map((id) => [id, analyseAnalysis(id, m, settings)])) as Record<AnalysisId, AnalyticAnalysis>,
+    Object.fromEntries(TWO_GROUP_ANALYSIS_IDS.map((id) => [id, analyseAnalysis(id, m, settings)])) as AnalysisRecord<AnalyticAnalysis>,
     planned,
     m,
     settings,
@@ -65,19 +66,20 @@ export function analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): An
  * for the full samples as planned.
  */
 function withPlannedFigures(
-  analyses: Record<AnalysisId, AnalyticAnalysis>,
+  analyses: AnalysisRecord<AnalyticAnalysis>,
   planned: PlannedProcedureEstimates | undefined,
   m: ModelParameters,
   settings: AnalysisSettings,
-): Record<AnalysisId, AnalyticAnalysis> {
+): AnalysisRecord<AnalyticAnalysis> {
   if (!planned) return analyses;
   const out = { ...analyses };
-  for (const id of ANALYSIS_IDS) {
+  for (const id of TWO_GROUP_ANALYSIS_IDS) {
     const f = planned.analyses[id];
-    if (!f) continue;
+    const formula = analyses[id];
+    if (!f || !formula) continue;
     out[id] = isPlannedInfeasible(f)
-      ? plannedInfeasibleRecord(analyses[id], f.reason, m.effect, m.posttestSD.comparison, settings)
-      : plannedAnalysisRecord(analyses[id], f, m.effect, m.posttestSD.comparison, settings);
+      ? plannedInfeasibleRecord(formula, f.reason, m.effect, m.posttestSD.comparison, settings)
+      : plannedAnalysisRecord(formula, f, m.effect, m.posttestSD.comparison, settings);
   }
   return out;
 }
@@ -95,10 +97,7 @@ function analyseCovariatePlan(plan: Plan, planned: PlannedProcedureEstimates | u
   const share = covariateMatchedShare(cm, m, plan.matching, distance);
   const settings = analysisSettings(plan, m.n.programme * share);
   const analyses = withPlannedFigures(
-    Object.fromEntries(ANALYSIS_IDS.map((id) => [id, analyseCovariateAnalysis(id, cm, distance, settings)])) as Record<
-      AnalysisId,
-      AnalyticAnalysis
-    >,
+    Object.fromEntries(TWO_GROUP_ANALYSIS_IDS.map((id) => [id, analyseCovariateAnalysis(id, cm, distance, settings)])) as AnalysisRecord<AnalyticAnalysis>,
     planned,
     m,
     settings,
@@ -136,7 +135,7 @@ function analysisSettings(plan: Plan, matchedProgramme: number): AnalysisSetting
 function sharedResults(
   plan: Plan,
   m: ModelParameters,
-  analyses: Record<AnalysisId, AnalyticAnalysis>,
+  analyses: AnalysisRecord<AnalyticAnalysis>,
   breakEven: BreakEven,
   planned: PlannedProcedureEstimates | undefined,
 ): AnalyticResults {
@@ -150,5 +149,6 @@ function sharedResults(
     procedure: planned
       ? { basis: 'planned-procedure', replications: planned.replications, seed: planned.seed }
       : { basis: 'formula', replications: null, seed: null },
+    design: existingGroupsSummary(m),
   };
 }

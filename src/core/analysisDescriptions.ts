@@ -1,7 +1,7 @@
 import type { AnalysisId } from './plan';
 
 /**
- * Plain names of the four analyses and the one-line assumption under which
+ * Plain names of the analyses and the one-line assumption under which
  * each is unbiased (Lord 1960; Porter 1967; Campbell & Erlebacher 1970;
  * common practice). Shown on screen and in reports: use these, never retype them.
  */
@@ -25,5 +25,15 @@ export const ANALYSIS_DESCRIPTIONS: Record<AnalysisId, { name: string; assumptio
     name: 'Reliability-corrected ANCOVA',
     assumption:
       'Unbiased only if the assumed reliability equals the true within-group reliability and growth is parallel.',
+  },
+  regressionDiscontinuity: {
+    name: 'Regression discontinuity (outcome on group and the selection score)',
+    assumption:
+      'Unbiased only if the rule was applied as stated to the score adjusted for, the relation of outcome to that score is correctly specified (linear here), scores were not manipulated, and growth is parallel.',
+  },
+  prePostChange: {
+    name: 'Pre–post change of the selected group',
+    assumption:
+      'Unbiased only if people were not selected on the baseline measurement (or it is perfectly reliable) and nothing else changes the scores between the measurements.',
   },
 };

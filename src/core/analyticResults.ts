@@ -1,4 +1,4 @@
-import type { AnalysisId, MatchingDistance } from './plan';
+import type { AnalysisId, AnalysisRecord, MatchingDistance } from './plan';
 import type { ModelParameters } from './modelParameters';
 import type { CovariateModel } from './multivariate/covariateModel';
 import type { ExpectedCovariateBalance } from './multivariate/expectedCovariateBalance';
@@ -66,6 +66,38 @@ export interface AnalyticAnalysis {
   wrongSignRate: number | null;
   /** Per-group n for the plan's target power given tau + bias; null when unreachable or not feasible. */
   requiredNPerGroup: number | null;
+  /**
+   * Regression discontinuity only: the variance of its estimate relative to a
+   * randomised design of the same size and split (Goldberger 1972: 2.75 for
+   * a cut-off at the mean of a normal assignment variable).
+   */
+  varianceInflation?: number;
+}
+
+/**
+ * The study's design in plain words, for the verdict, the PDF and the CLI
+ * (src/core/design). Present for every plan.
+ */
+export interface DesignSummary {
+  kind: 'existing-groups' | 'selection';
+  shape: 'two-groups' | 'one-group';
+  /** How people got into the programme, one sentence (e.g. "People whose screener score was below 41 were selected (a sharp cut-off)."). */
+  rule: string;
+  /**
+   * What the rule means for the analyses, one or two sentences, e.g. "ANCOVA
+   * on the variable the rule used is unbiased here; matching and gain scores
+   * are not." or "Selection used something you did not measure: every analysis
+   * on the pretest is biased."
+   */
+  meaning: string;
+  /** Expected share of the population selected into the programme; null for existing groups. */
+  selectedShare: number | null;
+  /**
+   * One-group study only: the expected pre–post change of the selected people
+   * if the programme did nothing (regression toward the mean plus any growth
+   * the population shows), posttest points; null otherwise.
+   */
+  noProgrammeChange: number | null;
 }
 
 export interface BreakEven {
@@ -130,7 +162,7 @@ export interface AnalyticResults {
    * for the plan's matching distance and ANCOVA / corrected ANCOVA adjust for
    * all measured covariates.
    */
-  analyses: Record<AnalysisId, AnalyticAnalysis>;
+  analyses: AnalysisRecord<AnalyticAnalysis>;
   breakEven: BreakEven;
   remedies: Remedy[];
   /** The matching distance the matched difference refers to. Present only with the covariate model. */
@@ -147,6 +179,8 @@ export interface AnalyticResults {
    * short seeded simulation of the planned procedure).
    */
   procedure: ProcedureBasis;
+  /** How the groups were formed and what that means for the analyses. */
+  design: DesignSummary;
 }
 
 /** How the quick figures were obtained (see AnalyticResults.procedure). */

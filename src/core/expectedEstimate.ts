@@ -1,4 +1,4 @@
-import type { AnalysisId } from './plan';
+import type { TwoGroupAnalysisId } from './plan';
 import type { ModelParameters } from './modelParameters';
 import { requireReliability } from './inputChecks';
 
@@ -87,7 +87,7 @@ export function correctedAncovaEstimate(m: ModelParameters, assumedReliability: 
  * @throws Error when assumedReliability is out of range.
  * @example expectedEstimate('gainScore', m, 0.8) === gainScoreEstimate(m)
  */
-export function expectedEstimate(id: AnalysisId, m: ModelParameters, assumedReliability: number): number {
+export function expectedEstimate(id: TwoGroupAnalysisId, m: ModelParameters, assumedReliability: number): number {
   switch (id) {
     case 'matchedDifference':
       return matchedDifferenceEstimate(m);

@@ -134,11 +134,79 @@ export interface SimulationSpec {
   seed: number;
 }
 
+/**
+ * The study's shape: two groups compared ('two-groups', the default), or one
+ * group re-measured with no comparison group ('one-group': the pre–post
+ * change of the people the rule selected).
+ */
+export type StudyShape = 'two-groups' | 'one-group';
+
+/**
+ * How people got into the programme: 'existing-groups' (the default and the
+ * original model: two populations that already differ), 'cut-off' (everyone
+ * on one side of a cut-off on the basis), 'probability' (a chance that rises
+ * smoothly across the cut-off: P = Φ((cutOff − basis) / spread) for 'below').
+ */
+export type AssignmentRule = 'existing-groups' | 'cut-off' | 'probability';
+
+/**
+ * What the rule looked at: the observed pretest itself, a separate screener
+ * (the same true score with its own independent error), or the true score
+ * (staff judgement of real need, which no analysis can adjust for).
+ */
+export type AssignmentBasis = 'pretest' | 'screener' | 'true-score';
+
+/** Who is selected into the programme: those below the cut-off, or those above it. */
+export type SelectionSide = 'below' | 'above';
+
+/**
+ * How people got into the programme. With rule 'existing-groups' nothing
+ * else is read; with a selection rule, `basis`, `cutOff` and `side` are
+ * required, `spread` with 'probability', `screenerReliability` with basis 'screener'.
+ */
+export interface AssignmentSpec {
+  rule: AssignmentRule;
+  basis?: AssignmentBasis;
+  /** On the pretest's scale (the screener and the true score share the pretest's mean). */
+  cutOff?: number;
+  side?: SelectionSide;
+  /** 'probability' only: SD of the normal ogive, on the pretest's scale (> 0). */
+  spread?: number;
+  /** Basis 'screener' only: the screener's reliability in the population, in (0, 1). */
+  screenerReliability?: number;
+}
+
+/**
+ * The one population people are picked from, with a selection rule or a
+ * one-group design (instead of `groups`; the groups follow from the rule).
+ * `pretest.reliability` (its default reference SD is this pretestSD),
+ * `outcome.posttestSD` and `outcome.prePostCorrelation` then describe this
+ * whole population before selection.
+ */
+export interface PopulationSpec {
+  label: string;
+  /** People in the population (integer). */
+  poolSize: number;
+  pretestMean: number;
+  pretestSD: number;
+}
+
 export interface Plan {
   format: 'meanward-plan';
   version: 1;
   title: string;
+  /**
+   * The two pools. With a selection rule these are derived by validatePlan
+   * from `population` and the rule (expected sizes, means and SDs; only the
+   * labels are read from a file), so every part of the planner can name them.
+   */
   groups: { programme: GroupSpec; comparison: GroupSpec };
+  /** Default 'two-groups'. */
+  design?: StudyShape;
+  /** Default { rule: 'existing-groups' }. */
+  assignment?: AssignmentSpec;
+  /** Required with a selection rule (and with a one-group design). */
+  population?: PopulationSpec;
   pretest: PretestSpec;
   outcome: OutcomeSpec;
   matching: MatchingSpec;
@@ -156,6 +224,25 @@ export interface Plan {
   provenance?: Record<string, FieldProvenance>;
 }
 
-/** The four analyses Meanward compares, in display order. */
-export const ANALYSIS_IDS = ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova'] as const;
+/**
+ * Every analysis Meanward knows, in display order. Which of them a plan gets
+ * depends on its design (designAnalysisIds in src/core/design): the first
+ * four for two groups formed any way, regressionDiscontinuity as well when a
+ * rule used an observed basis, prePostChange alone for a one-group study.
+ */
+export const ANALYSIS_IDS = [
+  'matchedDifference',
+  'ancova',
+  'gainScore',
+  'correctedAncova',
+  'regressionDiscontinuity',
+  'prePostChange',
+] as const;
 export type AnalysisId = (typeof ANALYSIS_IDS)[number];
+
+/** The four analyses of two existing groups (the original model), in display order. */
+export const TWO_GROUP_ANALYSIS_IDS = ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova'] as const;
+export type TwoGroupAnalysisId = (typeof TWO_GROUP_ANALYSIS_IDS)[number];
+
+/** Analyses keyed by id, holding only those the plan's design has. */
+export type AnalysisRecord<T> = Partial<Record<AnalysisId, T>>;

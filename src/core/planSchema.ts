@@ -163,10 +163,48 @@ export const planSchema = z
     format: z.literal(PLAN_FORMAT).describe('Always "meanward-plan".'),
     version: z.literal(PLAN_VERSION).describe('Plan file version; this build reads version 1.'),
     title: text('title', 'Title', 'A short title for the study plan.', 0, PLAN_LIMITS.titleMaxLength),
-    groups: section('groups', 'The groups section', 'The two pools: programme (non-randomised treated group) and comparison.', {
-      programme: group('programme'),
-      comparison: group('comparison'),
-    }),
+    groups: section(
+      'groups',
+      'The groups section',
+      'The two pools: programme (non-randomised treated group) and comparison. Required unless a selection rule forms the groups from `population` (then only the labels are read).',
+      {
+        programme: group('programme'),
+        comparison: group('comparison'),
+      },
+    ).optional(),
+    design: oneOf('design', 'Study design', 'Two groups compared, or one group re-measured with no comparison group (default "two-groups").', [
+      'two-groups',
+      'one-group',
+    ] as const).optional(),
+    assignment: section('assignment', 'The assignment section', 'How people got into the programme (default: existing groups).', {
+      rule: oneOf('assignment.rule', 'Assignment rule', 'Existing groups, a sharp cut-off, or a probability that changes smoothly across the cut-off.', [
+        'existing-groups',
+        'cut-off',
+        'probability',
+      ] as const),
+      basis: oneOf('assignment.basis', 'What the rule looked at', 'The observed pretest, a separate screener, or the true score (judgement of real need).', [
+        'pretest',
+        'screener',
+        'true-score',
+      ] as const).optional(),
+      cutOff: num('assignment.cutOff', 'Cut-off', "The cut-off on the pretest's scale (the screener and the true score share the pretest's mean).", POINTS).optional(),
+      side: oneOf('assignment.side', 'Who is selected', 'Those below the cut-off, or those above it, go into the programme.', ['below', 'above'] as const).optional(),
+      spread: num('assignment.spread', 'Spread of the selection probability', 'For "probability": the SD of the normal ogive, on the pretest\u2019s scale.', SD).optional(),
+      screenerReliability: num('assignment.screenerReliability', 'Screener reliability', 'For basis "screener": its reliability in the population.', {
+        gt: 0,
+        lt: 1,
+      }).optional(),
+    }).optional(),
+    population: section('population', 'The population section', 'With a selection rule or a one-group design: the one population people are picked from.', {
+      label: text('population.label', 'Population name', 'Plain-language name of the population.', 1, PLAN_LIMITS.labelMaxLength),
+      poolSize: num('population.poolSize', 'Population size', 'People in the population the rule picks from.', {
+        integer: true,
+        gte: PLAN_LIMITS.poolSizeMin,
+        lte: PLAN_LIMITS.poolSizeMax,
+      }),
+      pretestMean: num('population.pretestMean', 'Population pretest mean', 'Mean of the observed pretest in the population, test points.', POINTS),
+      pretestSD: num('population.pretestSD', 'Population pretest SD', 'SD of the observed pretest in the population, test points.', SD),
+    }).optional(),
     pretest: section(
       'pretest',
       'The pretest section',

@@ -1,4 +1,4 @@
-import { ANALYSIS_IDS, type AnalysisId, type Plan } from './plan';
+import { TWO_GROUP_ANALYSIS_IDS, type AnalysisRecord, type Plan } from './plan';
 import type { ModelParameters } from './modelParameters';
 import { modelWithPretestGap, modelWithSem } from './adjustModel';
 import { assertFiniteOutput } from './assertFiniteOutput';
@@ -16,7 +16,7 @@ export type SensitivityVariable = 'reliability' | 'pretestGap';
 /** One point of a sensitivity curve: x and the expected bias (points) of each analysis. */
 export interface SensitivityPoint {
   x: number;
-  bias: Record<AnalysisId, number>;
+  bias: AnalysisRecord<number>;
 }
 
 export interface SensitivityCurve {
@@ -64,17 +64,14 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
   const tau = m.effect;
   const share = plan.analysis.tolerableBiasShare;
   const rhoA = plan.analysis.assumedReliability;
-  const biasOf = (mx: ModelParameters): Record<AnalysisId, number> =>
-    Object.fromEntries(ANALYSIS_IDS.map((id) => [id, expectedEstimate(id, mx, rhoA) - tau])) as Record<AnalysisId, number>;
+  const biasOf = (mx: ModelParameters): AnalysisRecord<number> =>
+    Object.fromEntries(TWO_GROUP_ANALYSIS_IDS.map((id) => [id, expectedEstimate(id, mx, rhoA) - tau])) as AnalysisRecord<number>;
   // With covariates (or a propensity / Mahalanobis distance) every point comes from the
   // several-covariate closed form, with the pretest's SEM or gap changed in that model.
   const cm = usesCovariateModel(plan) ? deriveCovariateModel(plan, m) : null;
   const distance = matchingDistance(plan);
-  const covariateBiasOf = (c: CovariateModel): Record<AnalysisId, number> =>
-    Object.fromEntries(ANALYSIS_IDS.map((id) => [id, covariateExpectedEstimate(id, c, distance, rhoA) - tau])) as Record<
-      AnalysisId,
-      number
-    >;
+  const covariateBiasOf = (c: CovariateModel): AnalysisRecord<number> =>
+    Object.fromEntries(TWO_GROUP_ANALYSIS_IDS.map((id) => [id, covariateExpectedEstimate(id, c, distance, rhoA) - tau])) as AnalysisRecord<number>;
   const grid = (lo: number, hi: number): number[] =>
     Array.from({ length: points }, (_, i) => (i === points - 1 ? hi : lo + ((hi - lo) * i) / (points - 1)));
 
@@ -182,8 +179,8 @@ function bandCrossings(points: SensitivityPoint[], band: { lower: number; upper:
     const a = points[i - 1] as SensitivityPoint;
     const b = points[i] as SensitivityPoint;
     for (const edge of [band.lower, band.upper]) {
-      const fa = a.bias.matchedDifference - edge;
-      const fb = b.bias.matchedDifference - edge;
+      const fa = (a.bias.matchedDifference ?? 0) - edge;
+      const fb = (b.bias.matchedDifference ?? 0) - edge;
       if (fa === 0) out.push(a.x);
       else if (fa * fb < 0) out.push(a.x + ((b.x - a.x) * fa) / (fa - fb));
     }

@@ -3,6 +3,7 @@ import { FIELD_RULES, type FieldRule, PLAN_FORMAT, PLAN_LIMITS, PLAN_VERSION, pl
 import { type CovariateCheckInput, covariateModelProblems } from './multivariate/covariateModelProblems';
 import { formatApart } from './inputChecks';
 import { showControlCharacters } from './visibleText';
+import { derivedGroups } from './design/derivedGroups';
 
 /** One thing wrong with a plan: the field (dotted path) and a message a researcher understands. */
 export interface PlanProblem {
@@ -70,18 +71,106 @@ function checkPlan(input: unknown): PlanCheck {
 
   const problems: PlanProblem[] = [];
   const bad = new Set<string>();
-  const parsed = planSchema.safeParse(input);
+  // With a selection rule the groups follow from the population and the rule: only their labels are read.
+  const selection = isSelectionInput(input);
+  const labels = selection ? groupLabels(input.groups) : null;
+  const source: Record<string, unknown> = { ...input };
+  if (selection) delete source.groups;
+  const parsed = planSchema.safeParse(source);
   if (!parsed.success) {
     for (const issue of parsed.error.issues) {
       const field = issue.path.map(String).join('.');
       if (bad.has(field)) continue; // one message per field
       bad.add(field);
-      problems.push({ field, message: fieldMessage(field, valueAtPath(input, issue.path)) });
+      problems.push({ field, message: fieldMessage(field, valueAtPath(source, issue.path)) });
     }
   }
-  problems.push(...crossFieldProblems(input, bad));
+  problems.push(...(selection ? selectionProblems(source, bad) : groupsProblems(source, bad)));
+  problems.push(...crossFieldProblems(source, bad, selection));
   if (problems.length > 0 || !parsed.success) return { ok: false, problems };
-  return { ok: true, plan: parsed.data as Plan };
+  const plan = parsed.data as Plan;
+  if (!selection) return { ok: true, plan };
+  // The selection model itself: a rule that leaves too few people in a group, or inputs that contradict each other.
+  try {
+    plan.groups = derivedGroups(plan, labels);
+  } catch (e) {
+    return fail('assignment.cutOff', e instanceof Error ? e.message : String(e));
+  }
+  return { ok: true, plan };
+}
+
+/** Whether raw input asks for a selection rule or a one-group study (then `population` replaces `groups`). */
+function isSelectionInput(input: Record<string, unknown>): boolean {
+  const a = input.assignment;
+  const rule = isRecord(a) ? a.rule : undefined;
+  return rule === 'cut-off' || rule === 'probability' || input.design === 'one-group';
+}
+
+/** Labels a file gives its groups, kept when a selection rule derives the rest. */
+function groupLabels(groups: unknown): { programme?: string; comparison?: string } {
+  const label = (who: string): string | undefined => {
+    const g = isRecord(groups) ? groups[who] : undefined;
+    const l = isRecord(g) ? g.label : undefined;
+    return typeof l === 'string' && l.trim() !== '' && l.length <= PLAN_LIMITS.labelMaxLength ? l : undefined;
+  };
+  return { programme: label('programme'), comparison: label('comparison') };
+}
+
+/** Without a selection rule the two groups must be given. */
+function groupsProblems(input: Record<string, unknown>, bad: Set<string>): PlanProblem[] {
+  if (input.groups !== undefined || bad.has('groups')) return [];
+  return [
+    {
+      field: 'groups',
+      message:
+        'The groups section is missing: give the programme and comparison pools, or, if a rule decided who got the programme, give the rule (assignment) and the population it picked from.',
+    },
+  ];
+}
+
+/** The fields a selection rule needs, and what it cannot yet be combined with. */
+function selectionProblems(input: Record<string, unknown>, bad: Set<string>): PlanProblem[] {
+  const out: PlanProblem[] = [];
+  const a = isRecord(input.assignment) ? input.assignment : undefined;
+  const need = (field: string, why: string) => {
+    if (bad.has(field)) return;
+    if (valueAt(input, field) === undefined) out.push({ field, message: `${fieldRule(field)?.label ?? field} is missing; ${why}` });
+  };
+  if (input.design === 'one-group' && (a === undefined || a.rule === 'existing-groups')) {
+    out.push({
+      field: 'assignment.rule',
+      message:
+        'A one-group study needs the rule that selected its people: "cut-off" or "probability" (with basis, cutOff and side). With no selection at all, a pre–post change has no regression artefact to plan for.',
+    });
+    return out;
+  }
+  if (!bad.has('population') && input.population === undefined) {
+    out.push({
+      field: 'population',
+      message: 'The population section is missing: with a selection rule, give the one population people are picked from (label, poolSize, pretestMean, pretestSD).',
+    });
+  }
+  if (a !== undefined && !bad.has('assignment')) {
+    need('assignment.basis', 'it must be "pretest", "screener" or "true-score".');
+    need('assignment.cutOff', "it must be a number on the pretest's scale.");
+    need('assignment.side', 'it must be "below" or "above".');
+    if (a.rule === 'probability') need('assignment.spread', "a probability rule needs the spread of its ogive, a number greater than 0 on the pretest's scale.");
+    if (a.basis === 'screener') need('assignment.screenerReliability', 'a rule on a screener needs its reliability, a number between 0 and 1 (exclusive).');
+  }
+  if (Array.isArray(input.covariates) && input.covariates.length > 0) {
+    out.push({
+      field: 'covariates',
+      message: 'Covariates cannot yet be combined with a selection rule or a one-group design: remove the covariates, or describe the groups as existing groups.',
+    });
+  }
+  const distance = valueAt(input, 'matching.distance');
+  if (distance !== undefined && distance !== 'pretest' && !bad.has('matching.distance')) {
+    out.push({
+      field: 'matching.distance',
+      message: `With a selection rule, matching is on the observed pretest only; got ${show(distance)}. Set the matching distance to "pretest".`,
+    });
+  }
+  return out;
 }
 
 /**
@@ -125,7 +214,7 @@ function fieldMessage(field: string, value: unknown): string {
   return `${label} must be ${what}; got ${show(value)}.`;
 }
 
-function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): PlanProblem[] {
+function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>, selection: boolean): PlanProblem[] {
   const out: PlanProblem[] = [];
   // A field's value for cross-checks, only when it passed its own rule.
   const ok = (field: string): number | undefined => {
@@ -155,8 +244,9 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
   }
 
   // The SEM, given or derived, must be smaller than each group's pretest SD.
-  const sdP = ok('groups.programme.pretestSD');
-  const sdC = ok('groups.comparison.pretestSD');
+  // With a selection rule the pretest is described in the whole population (one SD for both checks).
+  const sdP = ok(selection ? 'population.pretestSD' : 'groups.programme.pretestSD');
+  const sdC = ok(selection ? 'population.pretestSD' : 'groups.comparison.pretestSD');
   let sem: number | undefined;
   let semField = 'pretest.sem';
   let semFrom = '';
@@ -177,12 +267,14 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
       ['programme', sdP],
       ['comparison', sdC],
     ];
-    for (const [who, sd] of groups) {
+    for (const [who, sd] of selection ? groups.slice(1) : groups) {
       if (sd !== undefined && !(sem < sd)) {
         const [semText, sdText] = formatApart(sem, sd);
         out.push({
           field: semField,
-          message: `The pretest's SEM must be smaller than each group's pretest SD, or the pretest would measure nothing but error in that group; got an SEM of ${semText} points${semFrom} against the ${who} group's pretest SD of ${sdText}.`,
+          message: selection
+            ? `The pretest's SEM must be smaller than the population's pretest SD, or the pretest would measure nothing but error; got an SEM of ${semText} points${semFrom} against a population SD of ${sdText}.`
+            : `The pretest's SEM must be smaller than each group's pretest SD, or the pretest would measure nothing but error in that group; got an SEM of ${semText} points${semFrom} against the ${who} group's pretest SD of ${sdText}.`,
         });
       }
     }
@@ -196,7 +288,7 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>): P
     const [limit, , got] = formatApart(Math.sqrt(rhoC), Math.abs(r), r);
     out.push({
       field: 'outcome.prePostCorrelation',
-      message: `Pre–post correlation must be at most ${limit} in size with this pretest: a correlation with a fallible pretest cannot exceed the square root of its within-group reliability (${fmt(rhoC)} in the comparison group); got ${got}.`,
+      message: `Pre–post correlation must be at most ${limit} in size with this pretest: a correlation with a fallible pretest cannot exceed the square root of its ${selection ? 'reliability' : 'within-group reliability'} (${fmt(rhoC)} in the ${selection ? 'population' : 'comparison group'}); got ${got}.`,
     });
   }
 

@@ -1,5 +1,6 @@
 import Papa from 'papaparse';
-import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
+import { presentAnalysisIds } from '../core/presentAnalyses';
+import type { AnalysisId } from '../core/plan';
 import type { SimulationResult } from '../sim/types';
 
 /**
@@ -19,6 +20,8 @@ export const ESTIMATE_COLUMNS: Record<AnalysisId, string> = {
   ancova: 'ancova_observed_pretest',
   gainScore: 'gain_score',
   correctedAncova: 'reliability_corrected_ancova',
+  regressionDiscontinuity: 'regression_discontinuity',
+  prePostChange: 'pre_post_change',
 };
 
 /**
@@ -30,14 +33,15 @@ export const ESTIMATE_COLUMNS: Record<AnalysisId, string> = {
  * "-1.23" is a number, not a formula.
  */
 export function estimatesCsv(sim: SimulationResult): string {
-  const n = Math.max(...ANALYSIS_IDS.map((id) => sim.estimates[id].length));
+  const ids = presentAnalysisIds(sim.estimates);
+  const n = Math.max(0, ...ids.map((id) => (sim.estimates[id] as number[]).length));
   const title = neutraliseCsvText(sim.plan.title);
-  const fields = ['replication', 'seed', ...ANALYSIS_IDS.map((id) => ESTIMATE_COLUMNS[id]), 'plan_title'];
+  const fields = ['replication', 'seed', ...ids.map((id) => ESTIMATE_COLUMNS[id]), 'plan_title'];
   const data: (string | number)[][] = [];
   for (let i = 0; i < n; i++) {
     const cells: (string | number)[] = [i + 1, sim.seed];
-    for (const id of ANALYSIS_IDS) {
-      const v = sim.estimates[id][i];
+    for (const id of ids) {
+      const v = (sim.estimates[id] as number[])[i];
       cells.push(typeof v === 'number' && Number.isFinite(v) ? v : '');
     }
     cells.push(title);

@@ -1,6 +1,8 @@
 import { jsPDF } from 'jspdf';
 import type { AnalyticResults } from '../core/analyticResults';
-import { ANALYSIS_IDS, type Plan } from '../core/plan';
+import type { AnalysisId, Plan } from '../core/plan';
+import { presentAnalysisIds, requireAnalysis } from '../core/presentAnalyses';
+import { headlineAnalysisId } from '../core/design/studyDesign';
 import { serializePlan } from '../io/planFile';
 import { isFeasible, type SimAnalysisResult, type SimAnalysisSummary, type SimulationResult } from '../sim/types';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
@@ -97,6 +99,8 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   doc.setFont(FONT_SANS, 'normal');
   const w = new PdfWriter(doc);
   const A = analytic.analyses;
+  const ids = presentAnalysisIds(A);
+  const an = (id: AnalysisId) => requireAnalysis(A, id);
   const P = plan.groups.programme;
   const C = plan.groups.comparison;
 
@@ -108,7 +112,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
 
   // ---- Summary -------------------------------------------------------------
   w.heading('Summary');
-  const md = A.matchedDifference;
+  const md = requireAnalysis(A, headlineAnalysisId(plan));
   const gap = analytic.model.pretestGap;
   const best = analytic.remedies[0];
   const summary = [
@@ -166,42 +170,42 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   });
   const analysisCols: TableColumn[] = [
     { header: '', width: 24 },
-    ...ANALYSIS_IDS.map((id) => ({ header: A[id].name, width: 19, align: 'right' as const })),
+    ...ids.map((id) => ({ header: an(id).name, width: 19, align: 'right' as const })),
   ];
-  const row = (label: string, f: (id: (typeof ANALYSIS_IDS)[number]) => string) => [label, ...ANALYSIS_IDS.map(f)];
+  const row = (label: string, f: (id: AnalysisId) => string) => [label, ...ids.map(f)];
   w.table(
     analysisCols,
     [
       row('Expected estimate, procedure as planned (points)', (id) =>
-        A[id].expectedEstimateMCSE === null
-          ? formatSignedPoints(A[id].expectedEstimate)
-          : withMcse(formatSignedPoints(A[id].expectedEstimate), A[id].expectedEstimateMCSE, (x) => formatPoints(x)),
+        an(id).expectedEstimateMCSE === null
+          ? formatSignedPoints(an(id).expectedEstimate)
+          : withMcse(formatSignedPoints(an(id).expectedEstimate), an(id).expectedEstimateMCSE, (x) => formatPoints(x)),
       ),
-      row('Formula, unlimited pools (points)', (id) => formatSignedPoints(A[id].formulaEstimate)),
-      row('Expected bias (points)', (id) => formatSignedPoints(A[id].bias)),
-      row('Expected bias (post-test SDs)', (id) => formatSD(A[id].biasSD)),
-      row('Bias as a share of the effect', (id) => (A[id].biasShare === null ? 'no effect hoped for' : formatShare(A[id].biasShare))),
-      row('Verdict', (id) => VERDICT_LABEL[A[id].verdict]),
-      row('Standard error (points)', (id) => formatPoints(A[id].se)),
-      row('Sample sizes assumed (programme / comparison)', (id) => `${formatCount(A[id].nProgramme)} / ${formatCount(A[id].nComparison)}`),
-      row('Power', (id) => (A[id].feasible ? formatProbability(A[id].power) : 'not feasible')),
-      row('Power if there were no bias', (id) => (A[id].feasible ? formatProbability(A[id].powerWithoutBias) : 'not feasible')),
-      row('False-positive rate if the programme does nothing', (id) => (A[id].feasible ? formatProbability(A[id].falsePositiveRate) : 'not feasible')),
+      row('Formula, unlimited pools (points)', (id) => formatSignedPoints(an(id).formulaEstimate)),
+      row('Expected bias (points)', (id) => formatSignedPoints(an(id).bias)),
+      row('Expected bias (post-test SDs)', (id) => formatSD(an(id).biasSD)),
+      row('Bias as a share of the effect', (id) => (an(id).biasShare === null ? 'no effect hoped for' : formatShare(an(id).biasShare))),
+      row('Verdict', (id) => VERDICT_LABEL[an(id).verdict]),
+      row('Standard error (points)', (id) => formatPoints(an(id).se)),
+      row('Sample sizes assumed (programme / comparison)', (id) => `${formatCount(an(id).nProgramme)} / ${formatCount(an(id).nComparison)}`),
+      row('Power', (id) => (an(id).feasible ? formatProbability(an(id).power) : 'not feasible')),
+      row('Power if there were no bias', (id) => (an(id).feasible ? formatProbability(an(id).powerWithoutBias) : 'not feasible')),
+      row('False-positive rate if the programme does nothing', (id) => (an(id).feasible ? formatProbability(an(id).falsePositiveRate) : 'not feasible')),
       row('Wrong-sign rate (significant, opposite sign)', (id) =>
-        !A[id].feasible ? 'not feasible' : A[id].wrongSignRate === null ? 'no effect hoped for' : formatProbability(A[id].wrongSignRate),
+        !an(id).feasible ? 'not feasible' : an(id).wrongSignRate === null ? 'no effect hoped for' : formatProbability(an(id).wrongSignRate),
       ),
       row(`Per-group n for ${formatShare(plan.analysis.targetPower ?? 0.8)} power`, (id) =>
-        !A[id].feasible ? 'not feasible' : A[id].requiredNPerGroup === null ? 'not reachable' : formatCount(A[id].requiredNPerGroup),
+        !an(id).feasible ? 'not feasible' : an(id).requiredNPerGroup === null ? 'not reachable' : formatCount(an(id).requiredNPerGroup),
       ),
     ],
     { boldRows: [2], boldFirstColumn: true },
   );
-  for (const id of ANALYSIS_IDS) {
-    w.paragraph(`${A[id].name}, assumption: ${A[id].assumption}`, { size: 8.5, muted: true, after: 2 });
+  for (const id of ids) {
+    w.paragraph(`${an(id).name}, assumption: ${an(id).assumption}`, { size: 8.5, muted: true, after: 2 });
   }
-  for (const id of ANALYSIS_IDS) {
-    const reason = A[id].infeasibleReason;
-    if (!A[id].feasible && reason !== null) w.note(`${A[id].name}, not feasible: ${reason}`);
+  for (const id of ids) {
+    const reason = an(id).infeasibleReason;
+    if (!an(id).feasible && reason !== null) w.note(`${an(id).name}, not feasible: ${reason}`);
   }
   w.gap(6);
   writeUnmeasuredPart(w, plan, analytic);
@@ -219,7 +223,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       { size: 9, muted: true },
     );
     const simCols: { s: SimAnalysisResult; label: string }[] = [
-      ...ANALYSIS_IDS.map((id) => ({ s: sim.analyses[id], label: A[id].name })),
+      ...ids.map((id) => ({ s: requireAnalysis(sim.analyses, id), label: an(id).name })),
       { s: sim.ancovaMatchedSample, label: 'ANCOVA in the matched sample' },
     ];
     // An analysis the simulation could not summarise has no figures: "not computed", its reason below.
@@ -231,7 +235,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     w.table(
       [{ header: '', width: 22 }, ...simCols.map((s) => ({ header: s.label, width: 15.6, align: 'right' as const }))],
       [
-        ['Expected bias before simulation', ...ANALYSIS_IDS.map((id) => formatSignedPoints(A[id].bias)), '—'],
+        ['Expected bias before simulation', ...ids.map((id) => formatSignedPoints(an(id).bias)), '—'],
         srow('Simulated bias (points)', (s) => withMcse(formatSignedPoints(s.bias), s.biasMCSE, (x) => formatPoints(x))),
         srow('Mean estimate (points)', (s) => withMcse(formatSignedPoints(s.meanEstimate), s.meanEstimateMCSE, (x) => formatPoints(x))),
         srow('Empirical SE (points)', (s) => withMcse(formatPoints(s.empiricalSE), s.empiricalSEMCSE, (x) => formatPoints(x))),

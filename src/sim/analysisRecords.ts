@@ -1,4 +1,4 @@
-import type { AnalysisId } from '../core/plan';
+import { TWO_GROUP_ANALYSIS_IDS, type AnalysisId } from '../core/plan';
 import { FLAG_COMPUTED, FLAG_COVERED, FLAG_REJECTED, FLAG_WRONG_SIGN } from './summariseAnalysis';
 import { TCriticalValues } from './tQuantile';
 
@@ -12,14 +12,20 @@ export const SLOT_GAIN = 2;
 export const SLOT_CORRECTED = 3;
 /** Slot of ANCOVA in the matched sample. */
 export const SLOT_ANCOVA_MATCHED = 4;
-/** Number of slots: the four analyses plus ANCOVA in the matched sample. */
-export const SLOT_COUNT = 5;
+/** Slot of the regression-discontinuity analysis (selection rules on an observed basis). */
+export const SLOT_RD = 5;
+/** Slot of the one-group pre–post change. */
+export const SLOT_PRE_POST = 6;
+/** Number of slots: the six analyses plus ANCOVA in the matched sample. */
+export const SLOT_COUNT = 7;
 /** The slot of each of the four analyses (ANCOVA in the full pools for 'ancova'). */
 export const ANALYSIS_SLOT: Readonly<Record<AnalysisId, number>> = {
   matchedDifference: SLOT_MATCHED,
   ancova: SLOT_ANCOVA,
   gainScore: SLOT_GAIN,
   correctedAncova: SLOT_CORRECTED,
+  regressionDiscontinuity: SLOT_RD,
+  prePostChange: SLOT_PRE_POST,
 };
 
 /**
@@ -56,10 +62,15 @@ export class AnalysisRecords {
    * @param total number of replications (≥ 1).
    * @param tau true programme effect, points.
    * @param alpha two-sided significance level of the test, in (0, 1).
+   * @param ids the analyses to summarise (default the four two-group ones); slots of others stay unused.
    * @throws Error when alpha is not in (0, 1) (from TCriticalValues).
    */
-  constructor(total: number, tau: number, alpha: number) {
+  /** The analyses this simulation summarises (its design's), in display order. */
+  readonly ids: readonly AnalysisId[];
+
+  constructor(total: number, tau: number, alpha: number, ids: readonly AnalysisId[] = TWO_GROUP_ANALYSIS_IDS) {
     this.tau = tau;
+    this.ids = ids;
     this.direction = tau < 0 ? -1 : 1; // tau = 0: a positive effect is the hoped-for direction
     this.critAlpha = new TCriticalValues(alpha);
     this.crit95 = new TCriticalValues(0.05);

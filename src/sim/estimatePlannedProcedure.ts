@@ -65,6 +65,7 @@ export function estimatePlannedProcedure(plan: Plan): PlannedProcedureEstimates 
   run.runChunk(0, replications);
   const result = run.finish();
   const md = result.analyses.matchedDifference;
+  if (!md) return { replications, seed, analyses: {} };
   if (!isFeasible(md)) return { replications, seed, analyses: { matchedDifference: { infeasible: true, reason: md.reason } } };
   const matched = result.matching.meanMatchedProgramme;
   if (!(matched >= 2)) {

@@ -1,4 +1,4 @@
-import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
+import type { AnalysisId } from '../core/plan';
 import { ANALYSIS_SLOT, SLOT_ANCOVA_MATCHED, type AnalysisRecords } from './analysisRecords';
 import { FLAG_COMPUTED, summariseAnalysis } from './summariseAnalysis';
 import type { SimulationResult } from './types';
@@ -28,7 +28,7 @@ export function summariseAnalyses(
     summariseAnalysis(id, est[slot] as Float64Array, se[slot] as Float64Array, flags[slot] as Uint8Array, total, tau, sample);
   const analyses = {} as SimulationResult['analyses'];
   const estimates = {} as SimulationResult['estimates'];
-  for (const id of ANALYSIS_IDS) {
+  for (const id of records.ids) {
     const slot = ANALYSIS_SLOT[id];
     analyses[id] = summary(id, slot, id === 'matchedDifference' ? 'matched' : 'full');
     const list: number[] = [];

@@ -140,5 +140,9 @@ function describe(id: AnalysisId, sample: 'full' | 'matched'): string {
       return 'gain-score comparison';
     case 'correctedAncova':
       return 'reliability-corrected ANCOVA';
+    case 'regressionDiscontinuity':
+      return 'regression-discontinuity analysis';
+    case 'prePostChange':
+      return 'pre–post change';
   }
 }

@@ -1,4 +1,4 @@
-import type { AnalysisId, Plan } from '../core/plan';
+import type { AnalysisId, AnalysisRecord, Plan } from '../core/plan';
 
 /** One Monte Carlo estimate's summary across replications; each figure has its Monte Carlo SE. */
 export interface SimAnalysisSummary {
@@ -133,12 +133,12 @@ export interface SimulationResult {
    * closed forms they are checked against). An analysis computed in fewer
    * than two replications is `{ feasible: false, reason }` (isFeasible).
    */
-  analyses: Record<AnalysisId, SimAnalysisResult>;
+  analyses: AnalysisRecord<SimAnalysisResult>;
   /** ANCOVA on the observed pretest within the matched sample. */
   ancovaMatchedSample: SimAnalysisResult;
   matching: SimMatchingSummary;
   /** Per-replication estimates per analysis (histogram-ready), in replication order. */
-  estimates: Record<AnalysisId, number[]>;
+  estimates: AnalysisRecord<number[]>;
   example: { pairs: ExamplePair[]; discarded: { observed: number; trueScore: number }[] };
   /**
    * Per-covariate balance, pretest first then the plan's covariates in order

@@ -1,4 +1,5 @@
 import type { AnalyticAnalysis } from '../core/analyticResults';
+import { presentAnalyses } from '../core/presentAnalyses';
 import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
 import type { MeanwardState } from './store';
 
@@ -41,7 +42,7 @@ let lastList: AnalyticAnalysis[] = EMPTY;
 export const selectAnalysesInOrder = (s: MeanwardState): AnalyticAnalysis[] => {
   if (s.analytic !== lastAnalytic) {
     lastAnalytic = s.analytic;
-    lastList = s.analytic ? ANALYSIS_IDS.map((id: AnalysisId) => s.analytic!.analyses[id]) : EMPTY;
+    lastList = s.analytic ? presentAnalyses(s.analytic.analyses).map(([, a]) => a) : EMPTY;
   }
   return lastList;
 };

@@ -1,3 +1,5 @@
+import { requireAnalysis } from '../core/presentAnalyses';
+import { headlineAnalysisId } from '../core/design/studyDesign';
 import type { ArtefactVerdict, UnmeasuredBias } from '../core/analyticResults';
 import type { MatchingDistance } from '../core/plan';
 import { selectAnalytic, selectAnalyticStale, selectValidPlan } from '../state/selectors';
@@ -73,7 +75,7 @@ export function VerdictPanel() {
       </section>
     );
   }
-  const m = analytic.analyses.matchedDifference;
+  const m = requireAnalysis(analytic.analyses, headlineAnalysisId(plan));
   const words = VERDICT_WORDS[m.verdict];
   const alphaPct = fmtPct(plan.analysis.alpha, 0);
   const tauZero = analytic.tau === 0;

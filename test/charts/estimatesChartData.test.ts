@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import quantile from '@stdlib/stats-base-dists-normal-quantile';
-import { ANALYSIS_IDS } from '../../src/core/plan';
+import { TWO_GROUP_ANALYSIS_IDS } from '../../src/core/plan';
 import { estimatesChartData } from '../../src/charts/estimatesChartData';
 import { closedFormInput, simulatedInput, TEST_REPLICATIONS } from './fixtures';
 
@@ -13,7 +13,7 @@ describe('estimatesChartData', () => {
     const z = quantile(0.975, 0, 1);
     expect(d.mode).toBe('closed-form');
     for (const r of d.rows) {
-      const a = input.analytic.analyses[r.id];
+      const a = input.analytic.analyses[r.id]!;
       expect(r.expected).toBe(a.expectedEstimate);
       expect(a.se).not.toBeNull();
       expect(r.interval?.lower).toBeCloseTo(a.expectedEstimate - z * a.se!, 9);
@@ -32,9 +32,9 @@ describe('estimatesChartData', () => {
     const input = simulatedInput();
     const d = estimatesChartData(input);
     expect(d.mode).toBe('simulation');
-    for (const id of ANALYSIS_IDS) {
+    for (const id of TWO_GROUP_ANALYSIS_IDS) {
       const r = d.rows.find((row) => row.id === id)!;
-      const values = input.simulation.estimates[id];
+      const values = input.simulation.estimates[id]!;
       const total = r.bins!.reduce((s, b) => s + b.count, 0);
       expect(total).toBe(values.filter(Number.isFinite).length);
       expect(total).toBe(TEST_REPLICATIONS);

@@ -1,6 +1,6 @@
 // @vitest-environment jsdom
 import { describe, expect, it, vi } from 'vitest';
-import { ANALYSIS_IDS } from '../../src/core/plan';
+import { TWO_GROUP_ANALYSIS_IDS } from '../../src/core/plan';
 import { pretestChartData } from '../../src/charts/pretestChartData';
 import { estimatesChartData } from '../../src/charts/estimatesChartData';
 import { sensitivityChartData } from '../../src/charts/sensitivityChartData';
@@ -87,7 +87,7 @@ describe('linked highlighting', () => {
     it(`${chart}: highlight dims the other analyses`, () => {
       const svg = document.createElementNS('http://www.w3.org/2000/svg', 'svg');
       renderChart(chart, svg, build(chart, closedFormInput()) as never, { ...SIZE, highlight: 'gainScore' });
-      for (const id of ANALYSIS_IDS) {
+      for (const id of TWO_GROUP_ANALYSIS_IDS) {
         const g = svg.querySelector(`[data-series="${id}"]`)!;
         expect(Number(g.getAttribute('opacity'))).toBe(id === 'gainScore' ? 1 : DIMMED_OPACITY);
       }
@@ -100,7 +100,7 @@ describe('linked highlighting', () => {
     const onHighlight = vi.fn();
     renderChart('sensitivity', svg, build('sensitivity', closedFormInput()) as never, { ...SIZE, highlight: null, onHighlight });
     const items = Array.from(svg.querySelectorAll('[data-legend]'));
-    expect(items.map((n) => n.getAttribute('data-legend'))).toEqual([...ANALYSIS_IDS]);
+    expect(items.map((n) => n.getAttribute('data-legend'))).toEqual([...TWO_GROUP_ANALYSIS_IDS]);
     const ancova = items[1] as unknown as SVGGElement;
     expect(ancova.getAttribute('tabindex')).toBe('0');
     expect(ancova.getAttribute('role')).toBe('button');

@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
-import { ANALYSIS_IDS } from '../../src/core/plan';
+import { TWO_GROUP_ANALYSIS_IDS } from '../../src/core/plan';
 import { fmtPercent, fmtPoints, fmtReliability, fmtSD, PLANNING_CAUTION } from '../../src/cli/formatResultsTable';
 import { main } from '../../src/cli/main';
 import { DEMO_PLAN, demoPlan } from '../../src/io/demoPlan';
@@ -46,8 +46,8 @@ describe('meanward run (table)', () => {
     expect(r.stderr).toBe('');
     const res = analysePlannedProcedure(DEMO_PLAN);
     const lines = r.stdout.split('\n');
-    for (const id of ANALYSIS_IDS) {
-      const a = res.analyses[id];
+    for (const id of TWO_GROUP_ANALYSIS_IDS) {
+      const a = res.analyses[id]!;
       const row = lines.find((l) => l.startsWith(a.name));
       expect(row, a.name).toBeDefined();
       const cells = row!.slice(a.name.length).trim().split(/\s{2,}/);
@@ -79,9 +79,9 @@ describe('meanward run (table)', () => {
     // expected estimate is the same closed form (Lord 1960), its bias -2.00.
     const r = await run(['run', demoFile, '--no-sim']);
     const res = analysePlannedProcedure(DEMO_PLAN);
-    const md = r.stdout.split('\n').find((l) => l.startsWith(res.analyses.matchedDifference.name))!;
+    const md = r.stdout.split('\n').find((l) => l.startsWith(res.analyses.matchedDifference!.name))!;
     expect(md.trim().split(/\s{2,}/)[3]).toBe('0.50');
-    const an = r.stdout.split('\n').find((l) => l.startsWith(res.analyses.ancova.name))!;
+    const an = r.stdout.split('\n').find((l) => l.startsWith(res.analyses.ancova!.name))!;
     expect(an.trim().split(/\s{2,}/).slice(1, 4)).toEqual(['0.50', '0.50', '-2.00']);
   });
   it('without --no-sim it adds the simulated results (details in test/cli/simulation.test.ts)', async () => {
@@ -101,7 +101,7 @@ describe('meanward run --json', () => {
     // JSON round trip of doubles is exact (shortest round-trip text), so toEqual is exact.
     expect(out.analytic).toEqual(JSON.parse(JSON.stringify(analysePlannedProcedure(DEMO_PLAN))));
     for (const id of ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova']) {
-      for (const k of ['expectedEstimate', 'bias', 'biasSD']) expect(typeof out.analytic.analyses[id][k]).toBe('number');
+      for (const k of ['expectedEstimate', 'bias', 'biasSD']) expect(typeof out.analytic.analyses[id]![k]).toBe('number');
     }
     for (const k of ['programme', 'comparison', 'sem']) expect(typeof out.analytic.reliability[k]).toBe('number');
     expect(out.simulation).toBeNull();
@@ -211,14 +211,14 @@ describe('a plan whose matching nobody survives (invented: groups 6 SDs apart, c
     const r = spawnSync(process.execPath, [join(root, 'bin', 'meanward.mjs'), 'run', file, '--no-sim', '--json'], { cwd: root, encoding: 'utf8' });
     expect(r.status).toBe(0);
     const out = JSON.parse(r.stdout);
-    const md = out.analytic.analyses.matchedDifference;
+    const md = out.analytic.analyses.matchedDifference!;
     expect(md.feasible).toBe(false);
     expect(md.infeasibleReason).toMatch(/widen the caliper/);
     expect(md.power).toBeNull();
     expect(md.falsePositiveRate).toBeNull();
     expect(md.requiredNPerGroup).toBeNull();
     for (const id of ['ancova', 'gainScore', 'correctedAncova']) {
-      const a = out.analytic.analyses[id];
+      const a = out.analytic.analyses[id]!;
       expect(a.feasible).toBe(true);
       for (const key of ['se', 'df', 'power', 'falsePositiveRate']) expect(Number.isFinite(a[key]), `${id}.${key}`).toBe(true);
     }
@@ -227,7 +227,7 @@ describe('a plan whose matching nobody survives (invented: groups 6 SDs apart, c
     const file = unmatchableFile();
     const r = await run(['run', file, '--no-sim']);
     expect(r.code).toBe(0);
-    const name = analysePlannedProcedure(demoPlan()).analyses.matchedDifference.name;
+    const name = analysePlannedProcedure(demoPlan()).analyses.matchedDifference!.name;
     const row = r.stdout.split('\n').find((l) => l.startsWith(name))!;
     // SE, power and false-positive rate are dashes; the last column is the expected programme n.
     expect(row.trim().split(/\s{2,}/).slice(-4, -1)).toEqual(['—', '—', '—']);

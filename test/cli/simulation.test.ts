@@ -48,10 +48,10 @@ describe('meanward run: simulated figures', () => {
     const direct = simulatePlan(plan);
     for (const id of ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova'] as const) {
       for (const k of ANALYSIS_KEYS) {
-        const v = out.simulation.analyses[id][k];
+        const v = out.simulation.analyses[id]![k];
         expect(typeof v, `${id}.${k}`).toBe('number');
         // JSON round trip of doubles is exact, so the CLI shows the engine's own figure.
-        expect(v).toBe((direct.analyses[id] as unknown as Record<string, number>)[k]);
+        expect(v).toBe((direct.analyses[id]! as unknown as Record<string, number>)[k]);
       }
     }
     for (const k of MATCHING_KEYS) {
@@ -77,7 +77,7 @@ describe('meanward run: simulated figures', () => {
 
   it('--estimates adds the per-replication estimates and the example replication', async () => {
     const out = JSON.parse((await run(['run', demoFile, '--json', '--reps', '5', '--estimates'])).stdout);
-    expect(out.simulation.estimates.ancova).toHaveLength(5);
+    expect(out.simulation.estimates.ancova!).toHaveLength(5);
     expect(out.simulation.example.pairs.length).toBeGreaterThan(0);
   });
 
@@ -115,7 +115,7 @@ describe('meanward run: simulated figures', () => {
     const json = await run(['run', file, '--json', '--reps', '3']);
     expect(json.code).toBe(0);
     const sim = JSON.parse(json.stdout).simulation;
-    expect(sim.analyses.matchedDifference).toEqual({
+    expect(sim.analyses.matchedDifference!).toEqual({
       id: 'matchedDifference',
       sample: 'matched',
       feasible: false,
@@ -124,9 +124,9 @@ describe('meanward run: simulated figures', () => {
     });
     expect(sim.ancovaMatchedSample.feasible).toBe(false);
     for (const id of ['ancova', 'gainScore', 'correctedAncova']) {
-      expect(sim.analyses[id].feasible).toBe(true);
-      expect(sim.analyses[id].replications).toBe(3);
-      for (const k of ANALYSIS_KEYS) expect(Number.isFinite(sim.analyses[id][k])).toBe(true);
+      expect(sim.analyses[id]!.feasible).toBe(true);
+      expect(sim.analyses[id]!.replications).toBe(3);
+      for (const k of ANALYSIS_KEYS) expect(Number.isFinite(sim.analyses[id]![k])).toBe(true);
     }
   });
 
@@ -140,8 +140,8 @@ describe('meanward run: simulated figures', () => {
     const r = spawnSync(process.execPath, [join(root, 'bin', 'meanward.mjs'), 'run', file, '--json', '--reps', '3'], { cwd: root, encoding: 'utf8' });
     expect(r.status).toBe(0);
     const sim = JSON.parse(r.stdout).simulation;
-    expect(sim.analyses.matchedDifference.feasible).toBe(false);
-    expect(sim.analyses.matchedDifference.reason).toMatch(/caliper/);
-    expect(sim.analyses.ancova.feasible).toBe(true);
+    expect(sim.analyses.matchedDifference!.feasible).toBe(false);
+    expect(sim.analyses.matchedDifference!.reason).toMatch(/caliper/);
+    expect(sim.analyses.ancova!.feasible).toBe(true);
   }, 60_000);
 });

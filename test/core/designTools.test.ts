@@ -152,7 +152,7 @@ describe('remedies and sensitivity curves on the demo plan', () => {
     const c = sensitivityCurve(plan, 'pretestGap', 21);
     const r = analysePlan(plan);
     expect(c.points[10]!.x).toBeCloseTo(-10, 12);
-    expect(c.points[10]!.bias.matchedDifference).toBeCloseTo(r.analyses.matchedDifference.bias, 9);
+    expect(c.points[10]!.bias.matchedDifference).toBeCloseTo(r.analyses.matchedDifference!.bias, 9);
     expect(c.points[20]!.bias.ancova).toBeCloseTo(0, 9);
     // |beta(1 − rho)·gap| = .625 ↔ gap = −.625/(0.8·0.25) = −3.125 (the +3.125 lies outside the grid); tolerance 1e-9
     expect(c.breakEvenX).toHaveLength(1);

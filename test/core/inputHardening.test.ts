@@ -94,7 +94,7 @@ describe('1. huge values: every numeric field has a documented range, refused wi
       mutate(p);
       const check = validatePlan(p);
       expect(check.ok).toBe(true);
-      if (check.ok) expect(analysePlan(check.plan).analyses.gainScore.requiredNPerGroup).not.toBeUndefined();
+      if (check.ok) expect(analysePlan(check.plan).analyses.gainScore!.requiredNPerGroup).not.toBeUndefined();
     }
   });
   it('validatePlan never throws: a value that fails while being read becomes one plain problem', () => {

@@ -29,7 +29,7 @@ describe('matched difference with fewer than 2 expected matched programme member
       const p = unmatchablePlan();
       if (covariatePath) p.matching.distance = 'propensity';
       const r = analysePlan(p);
-      const md = r.analyses.matchedDifference;
+      const md = r.analyses.matchedDifference!;
       expect(md.feasible).toBe(false);
       expect(md.infeasibleReason).toMatch(/widen the caliper/);
       expect(md.infeasibleReason).toMatch(/enlarge the comparison pool/);
@@ -40,7 +40,7 @@ describe('matched difference with fewer than 2 expected matched programme member
       // The expected estimate is still the infinite-pool figure (Thorndike 1942), so it stays reported.
       expect(Number.isFinite(md.expectedEstimate)).toBe(true);
       for (const id of ['ancova', 'gainScore', 'correctedAncova'] as const) {
-        const a = r.analyses[id];
+        const a = r.analyses[id]!;
         expect(a.feasible).toBe(true);
         expect(a.infeasibleReason).toBeNull();
         for (const key of ['se', 'df', 'power', 'powerWithoutBias', 'falsePositiveRate'] as const) {
@@ -50,7 +50,7 @@ describe('matched difference with fewer than 2 expected matched programme member
     });
   }
   it('the demo plan (invented) is feasible: reason null, power a number', () => {
-    const md = analysePlan(demoPlan()).analyses.matchedDifference;
+    const md = analysePlan(demoPlan()).analyses.matchedDifference!;
     expect(md.feasible).toBe(true);
     expect(md.infeasibleReason).toBeNull();
     expect(typeof md.power).toBe('number');

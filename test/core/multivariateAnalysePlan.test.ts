@@ -40,14 +40,14 @@ describe('analysePlan with covariates (the invented after-school maths example)'
     // The unmeasured confounder is lower in the programme and raises the outcome: the part is negative.
     expect(u.points).toBeLessThan(-0.5);
     expect(r.matchingDistance).toBe('propensity');
-    expect(r.analyses.matchedDifference.name).toBe('Matched post-test difference (matched on the propensity score)');
+    expect(r.analyses.matchedDifference!.name).toBe('Matched post-test difference (matched on the propensity score)');
   });
 
   it('propensity matching, Mahalanobis matching and ANCOVA on all measured covariates agree (equal covariances; Rosenbaum & Rubin 1983; 1e-9)', () => {
-    close(r.analyses.matchedDifference.expectedEstimate, r.analyses.ancova.expectedEstimate, 1e-9);
-    close(covariateMatchedEstimate(cm, 'mahalanobis'), r.analyses.ancova.expectedEstimate, 1e-9);
+    close(r.analyses.matchedDifference!.expectedEstimate, r.analyses.ancova!.expectedEstimate, 1e-9);
+    close(covariateMatchedEstimate(cm, 'mahalanobis'), r.analyses.ancova!.expectedEstimate, 1e-9);
     // Matching on the pretest alone leaves more (the other covariates' gaps flow through).
-    expect(Math.abs(covariateMatchedEstimate(cm, 'pretest') - cm.effect)).toBeGreaterThan(Math.abs(r.analyses.matchedDifference.bias));
+    expect(Math.abs(covariateMatchedEstimate(cm, 'pretest') - cm.effect)).toBeGreaterThan(Math.abs(r.analyses.matchedDifference!.bias));
   });
 
   it('remedies: measuring the confounder is offered; matching on all measured covariates when the plan matches on the pretest', () => {
@@ -56,7 +56,7 @@ describe('analysePlan with covariates (the invented after-school maths example)'
     expect(ids).not.toContain('match-all-measured');
     const measure = r.remedies.find((x) => x.id === 'measure-confounders')!;
     expect(measure.title).toBe('Measure Family engagement and match on it too');
-    expect(Math.abs(measure.remainingBias)).toBeLessThan(Math.abs(r.analyses.matchedDifference.bias));
+    expect(Math.abs(measure.remainingBias)).toBeLessThan(Math.abs(r.analyses.matchedDifference!.bias));
     const sorted = r.remedies.map((x) => Math.abs(x.remainingBias));
     expect([...sorted].sort((a, b) => a - b)).toEqual(sorted);
 
@@ -64,7 +64,7 @@ describe('analysePlan with covariates (the invented after-school maths example)'
     onPretest.matching.distance = 'pretest';
     const r2 = analysePlan(onPretest);
     const all = r2.remedies.find((x) => x.id === 'match-all-measured')!;
-    close(all.remainingBias, r.analyses.matchedDifference.bias, 1e-9);
+    close(all.remainingBias, r.analyses.matchedDifference!.bias, 1e-9);
     expect(all.summary).toContain('Attendance and Deprivation index');
   });
 
@@ -101,7 +101,7 @@ describe('analysePlan with covariates (the invented after-school maths example)'
     expect(await main(['run', file, '--json', '--no-sim'], io)).toBe(0);
     const json = JSON.parse(stdout) as { analytic: typeof r };
     expect(json.analytic.unmeasuredBias).toEqual(JSON.parse(JSON.stringify(r.unmeasuredBias)));
-    expect(json.analytic.analyses.ancova.expectedEstimate).toBe(r.analyses.ancova.expectedEstimate);
+    expect(json.analytic.analyses.ancova!.expectedEstimate).toBe(r.analyses.ancova!.expectedEstimate);
     stdout = '';
     expect(await main(['run', file, '--no-sim'], io)).toBe(0);
     expect(stdout).toContain(

@@ -254,7 +254,7 @@ describe('one variable: the published one-covariate formulas', () => {
       close(covariateCorrectedAncovaEstimate(cm, 0.9), 0);
       close(covariateCorrectedAncovaEstimate(cm, 0.75), -3);
       const r = analysePlan(plan);
-      close(r.analyses.matchedDifference.bias, 1.5);
+      close(r.analyses.matchedDifference!.bias, 1.5);
       // Without covariates, distance "pretest" keeps the one-pretest results (no unmeasured part reported).
       if (distance === 'pretest') expect(r.unmeasuredBias).toBeUndefined();
       else expect(r.unmeasuredBias).toEqual({ points: 0, sd: 0, share: null, covariates: [] });

@@ -13,7 +13,7 @@ import { covariateMatchedShare } from '../../src/core/multivariate/covariateMatc
 import { deriveCovariateModel, usesCovariateModel } from '../../src/core/multivariate/covariateModel';
 import { covariateStandardError } from '../../src/core/multivariate/covariateStandardError';
 import { unmeasuredBias } from '../../src/core/multivariate/unmeasuredBias';
-import { ANALYSIS_IDS, type AnalysisId, type MatchingDistance, type Plan } from '../../src/core/plan';
+import { TWO_GROUP_ANALYSIS_IDS, type AnalysisId, type MatchingDistance, type Plan } from '../../src/core/plan';
 import { rankRemedies } from '../../src/core/rankRemedies';
 import { validatePlan } from '../../src/core/validatePlan';
 import { demoPlan } from '../../src/io/demoPlan';
@@ -78,7 +78,7 @@ describe('plans without covariates keep the one-pretest path exactly', () => {
         matchedProgramme: m.n.programme * share,
         replacement: plan.matching.replacement,
       };
-      for (const id of ANALYSIS_IDS) expect(r.analyses[id]).toStrictEqual(analyseAnalysis(id, m, settings));
+      for (const id of TWO_GROUP_ANALYSIS_IDS) expect(r.analyses[id]!).toStrictEqual(analyseAnalysis(id, m, settings));
       expect(r.model).toStrictEqual(m);
       expect(r.breakEven).toStrictEqual(breakEvenReliability(m, plan.analysis.tolerableBiasShare));
       expect(r.remedies.map((x) => x.id).sort()).toEqual(
@@ -108,7 +108,7 @@ describe('a covariate that carries nothing changes nothing', () => {
         const plan = planWithCovariates([c], identity(2), base);
         plan.matching.distance = distance;
         const r = analysePlan(plan);
-        for (const id of ANALYSIS_IDS) close(r.analyses[id].expectedEstimate, without.analyses[id].expectedEstimate);
+        for (const id of TWO_GROUP_ANALYSIS_IDS) close(r.analyses[id]!.expectedEstimate, without.analyses[id]!.expectedEstimate);
         close(r.unmeasuredBias!.points, 0);
         const cm = deriveCovariateModel(plan, m);
         close(cm.beta[0]!, m.beta);
@@ -117,13 +117,13 @@ describe('a covariate that carries nothing changes nothing', () => {
         // SEs, power and required n: the same wherever the matched sample is the same.
         // Mahalanobis matching counts its caliper in two dimensions, so its matched share differs.
         const sameShare = distance !== 'mahalanobis' || !c.measured || c.exact;
-        for (const id of ANALYSIS_IDS) {
+        for (const id of TWO_GROUP_ANALYSIS_IDS) {
           if (id === 'matchedDifference' && !sameShare) continue;
           // One more adjusted covariate costs ANCOVA one df, and power follows the df.
           const lostDf = (id === 'ancova' || id === 'correctedAncova') && c.measured ? 1 : 0;
-          close(r.analyses[id].df, (without.analyses[id].df as number) - lostDf);
+          close(r.analyses[id]!.df, (without.analyses[id]!.df as number) - lostDf);
           const keys = lostDf ? (['se', 'bias', 'biasSD'] as const) : (['se', 'power', 'powerWithoutBias', 'falsePositiveRate', 'bias', 'biasSD'] as const);
-          for (const key of keys) close(r.analyses[id][key], without.analyses[id][key]);
+          for (const key of keys) close(r.analyses[id]![key], without.analyses[id]![key]);
         }
       });
     }
@@ -140,7 +140,7 @@ describe('the covariate model with the pretest alone is the one-pretest model', 
 
   it('estimates, SEs and matched shares (relative 1e-9)', () => {
     for (const distance of DISTANCES) {
-      for (const id of ANALYSIS_IDS) {
+      for (const id of TWO_GROUP_ANALYSIS_IDS) {
         close(covariateExpectedEstimate(id, cm, distance, 0.8), expectedEstimate(id, m, 0.8));
         const sizes = { programme: 150, comparison: id === 'matchedDifference' ? 300 : 1000 };
         const a = covariateStandardError(id, cm, distance, sizes, options);
@@ -211,8 +211,8 @@ describe('property: an unmeasured covariate with no group gap, uncorrelated with
         fc.pre(validatePlan(after).ok);
         const a = analysePlan(before);
         const b = analysePlan(after);
-        for (const id of ANALYSIS_IDS as readonly AnalysisId[]) {
-          for (const key of ['expectedEstimate', 'se', 'power', 'falsePositiveRate'] as const) close(b.analyses[id][key], a.analyses[id][key]);
+        for (const id of TWO_GROUP_ANALYSIS_IDS as readonly AnalysisId[]) {
+          for (const key of ['expectedEstimate', 'se', 'power', 'falsePositiveRate'] as const) close(b.analyses[id]![key], a.analyses[id]![key]);
         }
         close(b.unmeasuredBias!.points, a.unmeasuredBias?.points ?? 0);
       }),

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { analysePlan } from '../../src/core/analysePlan';
-import { ANALYSIS_IDS, type Plan } from '../../src/core/plan';
+import { TWO_GROUP_ANALYSIS_IDS, type Plan } from '../../src/core/plan';
 import { sensitivityCurve } from '../../src/core/sensitivityCurve';
 import { AFTER_SCHOOL_MATHS } from '../../src/io/examplePlans';
 import { demoPlan } from '../../src/io/demoPlan';
@@ -28,7 +28,7 @@ describe('sensitivity curves for plans with covariates (several-covariate closed
       one.points.forEach((p, i) => {
         const q = several.points[i]!;
         expect(q.x).toBeCloseTo(p.x, 12);
-        for (const id of ANALYSIS_IDS) expect(Math.abs(q.bias[id] - p.bias[id])).toBeLessThan(1e-9);
+        for (const id of TWO_GROUP_ANALYSIS_IDS) expect(Math.abs(q.bias[id]! - p.bias[id]!)).toBeLessThan(1e-9);
       });
       // Break-even points: interpolated on the 41-point grid vs exact; tolerance 0.01 on the x axis.
       expect(several.breakEvenX.length).toBe(one.breakEvenX.length);
@@ -46,13 +46,13 @@ describe('sensitivity curves for plans with covariates (several-covariate closed
     const a = curve.points[i - 1]!;
     const b = curve.points[i]!;
     const f = (curve.current - a.x) / (b.x - a.x);
-    for (const id of ANALYSIS_IDS) {
-      const interpolated = a.bias[id] + f * (b.bias[id] - a.bias[id]);
-      expect(Math.abs(interpolated - results.analyses[id].bias)).toBeLessThan(1e-3);
+    for (const id of TWO_GROUP_ANALYSIS_IDS) {
+      const interpolated = a.bias[id]! + f * (b.bias[id]! - a.bias[id]!);
+      expect(Math.abs(interpolated - results.analyses[id]!.bias)).toBeLessThan(1e-3);
     }
     const gapCurve = sensitivityCurve(plan, 'pretestGap', 41);
     const mid = gapCurve.points[20]!; // the grid is centred on the plan's gap
     expect(mid.x).toBeCloseTo(gapCurve.current, 9);
-    for (const id of ANALYSIS_IDS) expect(Math.abs(mid.bias[id] - results.analyses[id].bias)).toBeLessThan(1e-9);
+    for (const id of TWO_GROUP_ANALYSIS_IDS) expect(Math.abs(mid.bias[id]! - results.analyses[id]!.bias)).toBeLessThan(1e-9);
   });
 });

@@ -196,7 +196,7 @@ describe('required n per group uses the same Welch form', () => {
     plan.groups.comparison.pretestSD = 10;
     const r = analysePlan(plan);
     const m = r.model;
-    const a = r.analyses.gainScore;
+    const a = r.analyses.gainScore!;
     expect(a.requiredNPerGroup).not.toBeNull();
     // var(Y − X) from the model's definition Y = beta·T + e, X = T + E: (beta − 1)²·trueVar + residualVar + SEM².
     const gainVar = (g: 'programme' | 'comparison') => (m.beta - 1) ** 2 * m.trueSD[g] ** 2 + m.residualSD ** 2 + m.sem ** 2;

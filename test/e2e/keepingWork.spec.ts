@@ -109,8 +109,8 @@ test("a link opened in a second tab leaves the first tab's edits alone; a new ta
 test('typing 0.95 into the pre–post correlation never shows the verdict for r = 0 (a keystroke on the way)', async ({ page }) => {
   // The check can fail: r = 0 gives another artefact than the demo's r (closed form, analysePlan).
   const demo = demoPlan();
-  const atZero = analysePlan({ ...demo, outcome: { ...demo.outcome, prePostCorrelation: 0 } }).analyses.matchedDifference.bias;
-  expect(Math.abs(atZero - analysePlan(demo).analyses.matchedDifference.bias)).toBeGreaterThan(0.05);
+  const atZero = analysePlan({ ...demo, outcome: { ...demo.outcome, prePostCorrelation: 0 } }).analyses.matchedDifference!.bias;
+  expect(Math.abs(atZero - analysePlan(demo).analyses.matchedDifference!.bias)).toBeGreaterThan(0.05);
   await waitForPlannedFigures(page); // the figures settle (quick simulation) before the comparison
   const bias = page.getByTestId('verdict-bias');
   const before = (await bias.textContent())!;

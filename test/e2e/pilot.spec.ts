@@ -97,9 +97,9 @@ test('import an invented pilot file, map its columns, use the estimates: the pla
   // simulation, the same function in Node); its formula is the closed form (Thorndike 1942 /
   // Lord 1960, via analysePlan in Node). 2-decimal display, tolerance 0.01.
   await expect(page.getByTestId('verdict-bias')).not.toHaveText(biasBefore);
-  const plannedNew = analysePlannedProcedure(expected).analyses.matchedDifference;
+  const plannedNew = analysePlannedProcedure(expected).analyses.matchedDifference!;
   await expect(page.getByTestId('verdict-basis')).toContainText(
-    `gives ${fmtSigned(analysePlan(expected).analyses.matchedDifference.expectedEstimate)}`,
+    `gives ${fmtSigned(analysePlan(expected).analyses.matchedDifference!.expectedEstimate)}`,
     { timeout: 15_000 },
   );
   await waitForPlannedFigures(page);

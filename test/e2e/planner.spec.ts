@@ -32,7 +32,7 @@ test('the demo loads, and changing the reliability updates the verdict and the c
   // unlimited pools stays beside it: demo bias beta(1 − rho)·Delta = 0.8 × 0.25 × (−10) = −2.00
   // points, so the formula estimate is 2.5 − 2 = +0.50 (Thorndike 1942 closed form; computed).
   await waitForPlannedFigures(page);
-  const planned = analysePlannedProcedure(demoPlan()).analyses.matchedDifference;
+  const planned = analysePlannedProcedure(demoPlan()).analyses.matchedDifference!;
   expect(Math.abs(shownNumber(await page.getByTestId('verdict-bias').innerText()) - planned.bias)).toBeLessThanOrEqual(0.01);
   await expect(page.getByTestId('verdict-basis')).toContainText('formula for unlimited pools and exact matching gives +0.50');
   await expect(page.locator('figure[data-chart] svg')).toHaveCount(4);
@@ -46,7 +46,7 @@ test('the demo loads, and changing the reliability updates the verdict and the c
   await expect(page.getByTestId('verdict-basis')).toContainText('gives +1.83', { timeout: 15_000 });
   const rho9 = demoPlan();
   rho9.pretest.reliability = 0.9;
-  const planned9 = analysePlannedProcedure(rho9).analyses.matchedDifference;
+  const planned9 = analysePlannedProcedure(rho9).analyses.matchedDifference!;
   const bias9 = await page.getByTestId('verdict-bias').innerText();
   expect(Math.abs(shownNumber(bias9) - planned9.bias)).toBeLessThanOrEqual(0.01);
   await expect(page.getByTestId('derived-reliability-comparison')).toHaveText('.900');

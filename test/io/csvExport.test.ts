@@ -4,7 +4,7 @@
 // CSV-injection guidance for text cells (common practice).
 import Papa from 'papaparse';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { ANALYSIS_IDS } from '../../src/core/plan';
+import { TWO_GROUP_ANALYSIS_IDS } from '../../src/core/plan';
 import { demoPlan } from '../../src/io/demoPlan';
 import { ESTIMATE_COLUMNS, estimatesCsv, neutraliseCsvText } from '../../src/io/csvExport';
 import { simulatePlan } from '../../src/sim/simulatePlan';
@@ -42,17 +42,17 @@ describe('estimatesCsv', () => {
 
   it('has one row per replication with the documented columns', () => {
     expect(rows).toHaveLength(120);
-    expect(Object.keys(rows[0]!)).toEqual(['replication', 'seed', ...ANALYSIS_IDS.map((id) => ESTIMATE_COLUMNS[id]), 'plan_title']);
+    expect(Object.keys(rows[0]!)).toEqual(['replication', 'seed', ...TWO_GROUP_ANALYSIS_IDS.map((id) => ESTIMATE_COLUMNS[id]), 'plan_title']);
     expect(rows.map((r) => Number(r.replication))).toEqual(Array.from({ length: 120 }, (_, i) => i + 1));
     expect(rows.every((r) => r.seed === '11')).toBe(true);
   });
 
   it('writes every estimate as a plain number equal to the simulated one (negative ones unprefixed)', () => {
     let negatives = 0;
-    for (const id of ANALYSIS_IDS) {
+    for (const id of TWO_GROUP_ANALYSIS_IDS) {
       rows.forEach((r, i) => {
         const cell = r[ESTIMATE_COLUMNS[id]]!;
-        const v = sim.estimates[id][i]!;
+        const v = sim.estimates[id]![i]!;
         // Tolerance: none, String(x) round-trips doubles exactly (ECMAScript Number::toString).
         expect(Number(cell)).toBe(v);
         expect(cell.startsWith("'")).toBe(false);
@@ -72,7 +72,7 @@ describe('estimatesCsv', () => {
   it('leaves a cell empty where an analysis has no estimate (never NaN)', () => {
     const broken: SimulationResult = {
       ...sim,
-      estimates: { ...sim.estimates, gainScore: [Number.NaN, ...sim.estimates.gainScore.slice(1)] },
+      estimates: { ...sim.estimates, gainScore: [Number.NaN, ...sim.estimates.gainScore!.slice(1)] },
     };
     const out = estimatesCsv(broken);
     expect(out).not.toMatch(/NaN|Infinity/);

@@ -6,7 +6,7 @@
 // deterministic).
 import { beforeAll, describe, expect, it } from 'vitest';
 import { analysePlan } from '../../src/core/analysePlan';
-import { ANALYSIS_IDS, type Plan } from '../../src/core/plan';
+import { TWO_GROUP_ANALYSIS_IDS, type Plan } from '../../src/core/plan';
 import { demoPlan } from '../../src/io/demoPlan';
 import { canonicalPlan, parsePlanText } from '../../src/io/planFile';
 import { buildReportPdf, REPORT_HEADING, type ReportChart } from '../../src/report/buildReportPdf';
@@ -80,19 +80,19 @@ describe('PDF summary of the invented demo plan, with a simulation', () => {
     const a = analysePlan(plan).analyses;
     const line = (values: string[]) => text.body.find((l) => l.includes(values.join(' ')));
     // Each row's four values appear side by side, in the planner's analysis order.
-    expect(line(ANALYSIS_IDS.map((id) => formatSignedPoints(a[id].expectedEstimate)))).toMatch(/^Expected estimate/);
-    expect(line(ANALYSIS_IDS.map((id) => formatSignedPoints(a[id].bias)))).toMatch(/^Expected bias \(points\)/);
-    expect(line(ANALYSIS_IDS.map((id) => formatProbability(a[id].power)))).toMatch(/^Power /);
-    expect(line(ANALYSIS_IDS.map((id) => formatProbability(a[id].falsePositiveRate)))).toBeDefined();
+    expect(line(TWO_GROUP_ANALYSIS_IDS.map((id) => formatSignedPoints(a[id]!.expectedEstimate)))).toMatch(/^Expected estimate/);
+    expect(line(TWO_GROUP_ANALYSIS_IDS.map((id) => formatSignedPoints(a[id]!.bias)))).toMatch(/^Expected bias \(points\)/);
+    expect(line(TWO_GROUP_ANALYSIS_IDS.map((id) => formatProbability(a[id]!.power)))).toMatch(/^Power /);
+    expect(line(TWO_GROUP_ANALYSIS_IDS.map((id) => formatProbability(a[id]!.falsePositiveRate)))).toBeDefined();
     // The matched-difference bias of the demo plan is the textbook artefact: beta (1 - rho) Delta
     // (Thorndike 1942; Campbell & Erlebacher 1970; computed), so it is negative here (programme starts lower).
-    expect(a.matchedDifference.bias).toBeLessThan(0);
-    expect(flat(text)).toContain(`a bias of ${formatSignedPoints(a.matchedDifference.bias)} points`);
+    expect(a.matchedDifference!.bias).toBeLessThan(0);
+    expect(flat(text)).toContain(`a bias of ${formatSignedPoints(a.matchedDifference!.bias)} points`);
   });
 
   it('shows the simulated figures exactly as simulatePlan gives them, with their Monte Carlo SEs', () => {
     const row = (f: (s: SimAnalysisSummary) => string) => [
-      ...ANALYSIS_IDS.map((id) => f(feasible(sim.analyses[id]))),
+      ...TWO_GROUP_ANALYSIS_IDS.map((id) => f(feasible(sim.analyses[id]!))),
       f(feasible(sim.ancovaMatchedSample)),
     ];
     const find = (values: string[]) => text.body.find((l) => l.includes(values.join(' ')));
@@ -220,7 +220,7 @@ describe('PDF summary without a simulation, with markup in user text and a long 
     expect(all).not.toContain('Simulated bias');
     expect(all).toContain(`Random seed ${plan.simulation.seed} (simulation not yet run)`);
     const a = analysePlan(plan).analyses;
-    expect(text.body.some((l) => l.includes(ANALYSIS_IDS.map((id) => formatSignedPoints(a[id].bias)).join(' ')))).toBe(true);
+    expect(text.body.some((l) => l.includes(TWO_GROUP_ANALYSIS_IDS.map((id) => formatSignedPoints(a[id]!.bias)).join(' ')))).toBe(true);
   });
 
   it('round-trips the plan file even when its lines had to be cut', () => {
@@ -285,7 +285,7 @@ describe('PDF summary of a plan whose matching nobody survives (invented: groups
     );
     const all = flat(text);
     expect(all).toContain('not feasible');
-    expect(all).toContain(`${analytic.analyses.matchedDifference.name}, not feasible: About 0.3 of the 180 programme members`);
+    expect(all).toContain(`${analytic.analyses.matchedDifference!.name}, not feasible: About 0.3 of the 180 programme members`);
   });
 });
 
@@ -309,7 +309,7 @@ describe('PDF summary when nobody can be matched', () => {
     const all = flat(await readPdfText(bytes));
     expect(all).toContain('not computed');
     expect(all).toMatch(/could be computed in only 0 of 20 simulated studies/);
-    const ancova = feasible(sim.analyses.ancova);
+    const ancova = feasible(sim.analyses.ancova!);
     expect(all).toContain(withMcse(formatSignedPoints(ancova.bias), ancova.biasMCSE, (x) => formatPoints(x)));
   });
 });

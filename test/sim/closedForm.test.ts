@@ -98,7 +98,7 @@ describe('simulated mean estimates agree with the closed forms within 3 Monte Ca
         correctedAncova: tau + delta + beta * (1 - rho / rhoAssumed) * gap,
       } as const;
       for (const id of ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova'] as const) {
-        const s = feasible(r.analyses[id]);
+        const s = feasible(r.analyses[id]!);
         expect(s.replications).toBe(c.plan.simulation.replications);
         expect(Math.abs(s.meanEstimate - expected[id]), `${id}: ${s.meanEstimate} vs ${expected[id]} (MCSE ${s.meanEstimateMCSE})`).toBeLessThan(
           3 * s.meanEstimateMCSE,

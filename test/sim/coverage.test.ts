@@ -31,7 +31,7 @@ describe('no artefact: nominal coverage and false-positive rate', () => {
 
   for (const id of ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova'] as const) {
     it(`${id}: coverage 95% ± 3 MCSE, false-positive rate 5% ± 3 MCSE`, () => {
-      const s = feasible(r.analyses[id]);
+      const s = feasible(r.analyses[id]!);
       expect(s.replications).toBe(n);
       expect(Math.abs(s.coverage - 0.95)).toBeLessThan(tol(0.95));
       expect(Math.abs(s.rejectionRate - 0.05)).toBeLessThan(tol(0.05));
@@ -55,7 +55,7 @@ describe('no artefact: nominal coverage and false-positive rate', () => {
     // Φ(4 / 1.131 - 1.96) = Φ(1.576) ≈ 0.942 (normal approximation; Cohen 1988, ch. 2, common practice).
     // Tolerance: 3 binomial MCSE (n = 600) plus 0.01 for the normal approximation (df = 357, so t ≈ z).
     const withEffect = simulatePlan({ ...plan, outcome: { ...plan.outcome, hypothesisedEffect: 4 }, simulation: { replications: 600, seed: 78 } });
-    const a = feasible(withEffect.analyses.ancova);
+    const a = feasible(withEffect.analyses.ancova!);
     expect(Math.abs(a.rejectionRate - 0.942)).toBeLessThan(3 * Math.sqrt((0.942 * 0.058) / 600) + 0.01);
     expect(a.wrongSignRate).toBeLessThan(0.005);
   });

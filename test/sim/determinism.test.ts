@@ -61,8 +61,8 @@ describe('determinism across chunkings', () => {
   it('different seeds give different estimates', () => {
     const a = simulatePlan(plans[0]!, { seed: 1 });
     const b = simulatePlan(plans[0]!, { seed: 2 });
-    expect(a.estimates.ancova).not.toEqual(b.estimates.ancova);
-    expect(a.estimates.matchedDifference[0]).not.toBe(b.estimates.matchedDifference[0]);
+    expect(a.estimates.ancova!).not.toEqual(b.estimates.ancova!);
+    expect(a.estimates.matchedDifference![0]).not.toBe(b.estimates.matchedDifference![0]);
   });
 
   it('defaults replications and seed to the plan, and keeps the first replication as the example', () => {
@@ -77,6 +77,6 @@ describe('determinism across chunkings', () => {
       // Nearest within the caliper of 0.2 pooled SD (about 2 points here; sample SDs vary a little).
       expect(Math.abs((p.comparison[0]?.observed ?? NaN) - p.programme.observed)).toBeLessThan(0.2 * 10 * 1.2);
     }
-    expect(r.estimates.matchedDifference.length).toBe(20);
+    expect(r.estimates.matchedDifference!.length).toBe(20);
   });
 });

@@ -118,6 +118,6 @@ describe('the engine’s matched difference for the example replication', () => 
     const r = simulatePlan(testPlan({ nP: 50, nC: 400, replications: 3, matching: { ratio: 3, caliper: 0.3 } }));
     const d = r.example.pairs.map((p) => p.programme.outcome - p.comparison.reduce((a, c) => a + c.outcome, 0) / p.comparison.length);
     expect(d.length).toBeGreaterThan(10);
-    expect(r.estimates.matchedDifference[0]).toBeCloseTo(d.reduce((a, b) => a + b, 0) / d.length, 9);
+    expect(r.estimates.matchedDifference![0]).toBeCloseTo(d.reduce((a, b) => a + b, 0) / d.length, 9);
   });
 });

@@ -92,14 +92,14 @@ describe('several-covariate simulation agrees with the closed forms within 3 Mon
         const g = sel.map((j) => balance[j]!.observedSMDAfter * sdX(j));
         const Bg = B.mmul(Matrix.columnVector(g)).getColumn(0);
         const residual = cm.beta.reduce((s, b, j) => s + b * Bg[j]!, 0);
-        const expected = analytic.analyses.matchedDifference.expectedEstimate;
+        const expected = analytic.analyses.matchedDifference!.expectedEstimate;
         // The residual-imbalance term is small beside the closed form's bias.
         expect(Math.abs(residual)).toBeLessThan(0.1 * Math.max(0.2, Math.abs(expected - cm.effect)));
-        const md = feasible(sim.analyses.matchedDifference);
+        const md = feasible(sim.analyses.matchedDifference!);
         expect(Math.abs(md.meanEstimate - (expected + residual))).toBeLessThan(3 * md.meanEstimateMCSE);
         for (const id of ['ancova', 'gainScore', 'correctedAncova'] as const) {
-          const s = feasible(sim.analyses[id]);
-          expect(Math.abs(s.meanEstimate - analytic.analyses[id].expectedEstimate)).toBeLessThan(3 * s.meanEstimateMCSE);
+          const s = feasible(sim.analyses[id]!);
+          expect(Math.abs(s.meanEstimate - analytic.analyses[id]!.expectedEstimate)).toBeLessThan(3 * s.meanEstimateMCSE);
         }
         // The hidden imbalance per variable: true-score SMD after matching (core's expected balance + B g).
         balance.forEach((b, j) => {
@@ -140,7 +140,7 @@ describe('propensity-score matching with error-free covariates (a setting of our
     const crude = cm.growthGap + cm.beta.reduce((s, b, j) => s + b * cm.gap[j]!, 0);
     expect(crude).toBeLessThan(-4);
     const sim = simulatePlan(plan);
-    const md = feasible(sim.analyses.matchedDifference);
+    const md = feasible(sim.analyses.matchedDifference!);
     // One-sided: the remaining bias is no more than 2% of the crude bias, within 3 MCSEs.
     expect(Math.abs(md.bias) - 3 * md.biasMCSE).toBeLessThanOrEqual(0.02 * Math.abs(crude));
     // The same from the covariates' balance (no outcome noise, so far more precise): the outcome-weighted

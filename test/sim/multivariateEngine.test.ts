@@ -72,7 +72,7 @@ describe('the several-covariate engine is deterministic across chunkings', () =>
       const stepped = await runSimulationInSteps(plan, {}, { progress: () => undefined, yieldTick: () => Promise.resolve(), cancelled: () => false, now: () => 0 });
       expect(stepped).toEqual(whole);
       const other = simulatePlan(plan, { seed: 6 });
-      expect(other.estimates.matchedDifference).not.toEqual(whole.estimates.matchedDifference);
+      expect(other.estimates.matchedDifference!).not.toEqual(whole.estimates.matchedDifference!);
     });
   }
 });
@@ -119,10 +119,10 @@ describe('the several-covariate engine', () => {
     const a = onPretest.finish();
     const b = onLogit.finish();
     expect(b.matching.meanMatchedProgramme).toBe(a.matching.meanMatchedProgramme);
-    expect(b.estimates.matchedDifference.length).toBe(a.estimates.matchedDifference.length);
-    a.estimates.matchedDifference.forEach((v, i) => expect(Math.abs(v - b.estimates.matchedDifference[i]!)).toBeLessThan(1e-9));
+    expect(b.estimates.matchedDifference!.length).toBe(a.estimates.matchedDifference!.length);
+    a.estimates.matchedDifference!.forEach((v, i) => expect(Math.abs(v - b.estimates.matchedDifference![i]!)).toBeLessThan(1e-9));
     // ANCOVA, gain score and corrected ANCOVA do not depend on the distance at all.
-    expect(b.estimates.ancova).toEqual(a.estimates.ancova);
+    expect(b.estimates.ancova!).toEqual(a.estimates.ancova!);
   });
 
   it('says which replication and which covariates when the propensity score cannot be fitted', () => {

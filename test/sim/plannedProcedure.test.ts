@@ -64,9 +64,9 @@ describe('expected figures for the planned procedure (quick simulation)', () => 
   for (const [name, make] of cases) {
     it(`${name}: within 0.5 empirical SE and 5% of matched n of a full run`, () => {
       const plan = make();
-      const quick = analysePlan(plan, estimatePlannedProcedure(plan)).analyses.matchedDifference;
+      const quick = analysePlan(plan, estimatePlannedProcedure(plan)).analyses.matchedDifference!;
       const full = simulatePlan(plan, { replications: 2000, seed: 424242 });
-      const s = full.analyses.matchedDifference;
+      const s = full.analyses.matchedDifference!;
       if (!isFeasible(s)) throw new Error(s.reason);
       expect(quick.basis).toBe('planned-procedure');
       expect(Math.abs(quick.expectedEstimate - s.meanEstimate)).toBeLessThan(0.5 * s.empiricalSE);
@@ -78,9 +78,9 @@ describe('expected figures for the planned procedure (quick simulation)', () => 
 
   it('the tight plan: the formula for unlimited pools is far off, the quick figure is not (measured example in the brief)', () => {
     const plan = tightPlan();
-    const a = analysePlan(plan, estimatePlannedProcedure(plan)).analyses.matchedDifference;
+    const a = analysePlan(plan, estimatePlannedProcedure(plan)).analyses.matchedDifference!;
     // Closed form tau + beta(1 − rho)Δ (Thorndike 1942): 2.5 − 2.0 = 0.50 for the demo inputs (bias −2, as analysePlan documents; computed).
-    expect(a.formulaEstimate).toBeCloseTo(analysePlan(plan).analyses.matchedDifference.expectedEstimate, 12);
+    expect(a.formulaEstimate).toBeCloseTo(analysePlan(plan).analyses.matchedDifference!.expectedEstimate, 12);
     expect(a.formulaEstimate).toBeCloseTo(0.5, 6);
     // The planned procedure is around −1 (full run above): more than 3 quick MC SEs from the formula.
     expect(a.expectedEstimate).toBeLessThan(a.formulaEstimate - 3 * (a.expectedEstimateMCSE ?? 0));
@@ -96,12 +96,12 @@ describe('expected figures for the planned procedure (quick simulation)', () => 
     plan.outcome.hypothesisedEffect = 0;
     plan.pretest.reliability = 0.95;
     plan.analysis.assumedReliability = 0.95;
-    const shown = analysePlan(plan, estimatePlannedProcedure(plan)).analyses.matchedDifference;
-    const full = simulatePlan(plan, { replications: 2000, seed: 99 }).analyses.matchedDifference;
+    const shown = analysePlan(plan, estimatePlannedProcedure(plan)).analyses.matchedDifference!;
+    const full = simulatePlan(plan, { replications: 2000, seed: 99 }).analyses.matchedDifference!;
     if (!isFeasible(full)) throw new Error(full.reason);
     const mc = Math.sqrt((full.rejectionRate * (1 - full.rejectionRate)) / 2000);
     expect(Math.abs(shown.falsePositiveRate! - full.rejectionRate)).toBeLessThanOrEqual(0.02 + 3 * mc);
-    expect(Math.abs(analysePlan(plan).analyses.matchedDifference.falsePositiveRate! - full.rejectionRate)).toBeGreaterThan(0.05);
+    expect(Math.abs(analysePlan(plan).analyses.matchedDifference!.falsePositiveRate! - full.rejectionRate)).toBeGreaterThan(0.05);
   });
 
   it('is reproducible (fixed seed) and independent of the full run’s seed stream', () => {
@@ -125,9 +125,9 @@ describe('expected figures for the planned procedure (quick simulation)', () => 
     const r = analysePlannedProcedure(demoPlan());
     expect(r.procedure.basis).toBe('planned-procedure');
     for (const id of ['ancova', 'gainScore', 'correctedAncova'] as const) {
-      expect(r.analyses[id].basis).toBe('formula');
-      expect(r.analyses[id].formulaEstimate).toBe(r.analyses[id].expectedEstimate);
-      expect(r.analyses[id].expectedEstimateMCSE).toBeNull();
+      expect(r.analyses[id]!.basis).toBe('formula');
+      expect(r.analyses[id]!.formulaEstimate).toBe(r.analyses[id]!.expectedEstimate);
+      expect(r.analyses[id]!.expectedEstimateMCSE).toBeNull();
     }
     expect(analysePlan(demoPlan()).procedure).toEqual({ basis: 'formula', replications: null, seed: null });
   });
@@ -144,19 +144,19 @@ describe('when (almost) nobody can be matched', () => {
     const md = est.analyses.matchedDifference!;
     expect('infeasible' in md && md.infeasible).toBe(true);
     const r = analysePlannedProcedure(plan);
-    expect(r.analyses.matchedDifference.feasible).toBe(false);
-    expect(r.analyses.matchedDifference.power).toBeNull();
-    expect(r.analyses.ancova.feasible).toBe(true);
-    expect(Number.isFinite(r.analyses.ancova.power)).toBe(true);
+    expect(r.analyses.matchedDifference!.feasible).toBe(false);
+    expect(r.analyses.matchedDifference!.power).toBeNull();
+    expect(r.analyses.ancova!.feasible).toBe(true);
+    expect(Number.isFinite(r.analyses.ancova!.power)).toBe(true);
   });
 
   it('a quick-simulation verdict of "not feasible" overrides a closed form that expected enough matches', () => {
     const plan = demoPlan(); // the closed form expects about 174 matched
     const r = analysePlan(plan, { replications: 40, seed: 1, analyses: { matchedDifference: { infeasible: true, reason: 'Nobody matched in the quick run.' } } });
-    expect(r.analyses.matchedDifference.feasible).toBe(false);
-    expect(r.analyses.matchedDifference.infeasibleReason).toBe('Nobody matched in the quick run.');
-    expect(r.analyses.matchedDifference.falsePositiveRate).toBeNull();
-    expect(r.analyses.matchedDifference.requiredNPerGroup).toBeNull();
+    expect(r.analyses.matchedDifference!.feasible).toBe(false);
+    expect(r.analyses.matchedDifference!.infeasibleReason).toBe('Nobody matched in the quick run.');
+    expect(r.analyses.matchedDifference!.falsePositiveRate).toBeNull();
+    expect(r.analyses.matchedDifference!.requiredNPerGroup).toBeNull();
   });
 });
 

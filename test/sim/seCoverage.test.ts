@@ -47,7 +47,7 @@ describe('the three measured plans: nominal coverage and false-positive rate', (
     // multiplies (measured before, 4,000 replications: empirical SE 1.84 vs OLS 1.62, coverage .915).
     const plan = testPlan({ nP: 100, nC: 100, meanP: 40, meanC: 50, reliability: 0.5, assumedReliability: 0.5, effect: 0, replications: reps, seed: 11 });
     const r = simulatePlan(plan);
-    check(r.analyses.correctedAncova, shownFor(plan).correctedAncova);
+    check(r.analyses.correctedAncova!, shownFor(plan).correctedAncova);
   });
 
   it('matching with replacement (Abadie & Imbens 2006): caliper .02, 1:1, 150 vs 200, 1 SD apart, tau 0', () => {
@@ -57,7 +57,7 @@ describe('the three measured plans: nominal coverage and false-positive rate', (
     const plan = testPlan({ nP: 150, nC: 200, meanP: 40, meanC: 50, reliability: 0.999, effect: 0, matching: { caliper: 0.02, replacement: true }, replications: reps, seed: 12 });
     const r = simulatePlan(plan);
     // The figure shown before simulation counts the expected reuse too (quick simulation of the planned procedure).
-    check(r.analyses.matchedDifference, shownFor(plan).matchedDifference);
+    check(r.analyses.matchedDifference!, shownFor(plan).matchedDifference);
     check(r.ancovaMatchedSample);
   });
 
@@ -66,7 +66,7 @@ describe('the three measured plans: nominal coverage and false-positive rate', (
     const run = createMultivariateSimulation(plan);
     run.runChunk(0, run.total);
     const r = run.finish();
-    check(r.analyses.matchedDifference);
+    check(r.analyses.matchedDifference!);
     check(r.ancovaMatchedSample);
   });
 
@@ -78,9 +78,9 @@ describe('the three measured plans: nominal coverage and false-positive rate', (
     plan.groups.programme.pretestSD = 20;
     const r = simulatePlan(plan);
     const shown = shownFor(plan);
-    check(r.analyses.gainScore, shown.gainScore);
-    check(r.analyses.ancova, shown.ancova);
-    check(r.analyses.correctedAncova, shown.correctedAncova);
+    check(r.analyses.gainScore!, shown.gainScore);
+    check(r.analyses.ancova!, shown.ancova);
+    check(r.analyses.correctedAncova!, shown.correctedAncova);
   });
 });
 
@@ -104,7 +104,7 @@ describe('a seeded grid of invented plans: every analysis covers at 0.95 ± 0.02
       const shown = shownFor(plan);
       for (const [id, s] of Object.entries(r.analyses)) {
         const a = feasible(s);
-        const expected = shown[id as keyof typeof shown].power!;
+        const expected = shown[id as keyof typeof shown]!.power!;
         expect(Math.abs(expected - a.rejectionRate), `${id}: shown power ${expected}, simulated ${a.rejectionRate}`).toBeLessThanOrEqual(
           0.02 + 3 * mcse(a.rejectionRate, reps),
         );
@@ -129,6 +129,6 @@ describe('one variance ratio after matching in both engines (matching weights)',
     const pretest = several.balance![0]!;
     expect(several.matching.varianceRatioAfter).toBe(pretest.varianceRatioAfter);
     expect(Math.abs(one.matching.varianceRatioAfter - pretest.varianceRatioAfter)).toBeLessThan(3 * Math.SQRT2 * pretest.varianceRatioAfterMCSE);
-    expect(isFeasible(one.analyses.matchedDifference)).toBe(true);
+    expect(isFeasible(one.analyses.matchedDifference!)).toBe(true);
   });
 });

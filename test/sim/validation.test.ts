@@ -36,13 +36,13 @@ describe('clear messages for bad simulation settings', () => {
     // Pools 10 SD apart with a 0.01 SD caliper: no programme member finds a partner.
     const plan = testPlan({ nP: 20, nC: 50, meanP: 0, meanC: 100, replications: 5, matching: { caliper: 0.01 } });
     const r = simulatePlan(plan);
-    const md = r.analyses.matchedDifference;
+    const md = r.analyses.matchedDifference!;
     expect(isFeasible(md)).toBe(false);
     expect(md).not.toHaveProperty('meanEstimate');
     expect(!isFeasible(md) && md.reason).toMatch(/matched post-test difference could be computed in only 0 of 5 simulated studies/);
     expect(isFeasible(r.ancovaMatchedSample)).toBe(false);
     for (const id of ['ancova', 'gainScore', 'correctedAncova'] as const) {
-      const s = r.analyses[id];
+      const s = r.analyses[id]!;
       expect(isFeasible(s) && s.replications).toBe(5);
       expect(isFeasible(s) && Number.isFinite(s.meanEstimate)).toBe(true);
     }
@@ -53,13 +53,13 @@ describe('clear messages for bad simulation settings', () => {
     // replications (94 of 200 with this seed); the full-pool analyses are computed in all of them.
     const plan = testPlan({ nP: 10, nC: 40, meanP: 25, meanC: 50, replications: 200, seed: 3, matching: { caliper: 0.05 } });
     const r = simulatePlan(plan);
-    const md = r.analyses.matchedDifference;
+    const md = r.analyses.matchedDifference!;
     expect(isFeasible(md) && md.replications > 1 && md.replications < 200).toBe(true);
     expect(isFeasible(md) && Number.isFinite(md.coverage)).toBe(true);
-    expect(r.estimates.matchedDifference.length).toBe(md.replications);
+    expect(r.estimates.matchedDifference!.length).toBe(md.replications);
     for (const id of ['ancova', 'gainScore', 'correctedAncova'] as const) {
-      expect(r.analyses[id].replications).toBe(200);
-      expect(isFeasible(r.analyses[id])).toBe(true);
+      expect(r.analyses[id]!.replications).toBe(200);
+      expect(isFeasible(r.analyses[id]!)).toBe(true);
     }
   });
 

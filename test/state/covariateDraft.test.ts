@@ -182,7 +182,7 @@ describe('covariate editing on a plain store', () => {
     // expected estimate (the bias formula's Delta term is zero for it; computed).
     // Tolerance 1e-9 points: exact algebra on doubles.
     for (const id of ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova'] as const) {
-      expect(Math.abs(s.analytic!.analyses[id].expectedEstimate - before[id].expectedEstimate)).toBeLessThan(1e-9);
+      expect(Math.abs(s.analytic!.analyses[id]!.expectedEstimate - before[id]!.expectedEstimate)).toBeLessThan(1e-9);
     }
   });
 

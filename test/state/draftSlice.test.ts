@@ -20,7 +20,7 @@ describe('draft slice: typing, validation and analytic results', () => {
     // beta = r·SDy/(SDx·rho) = .6·10/(10·.75) = 0.8; matched-difference bias
     // = beta(1 − rho)·Delta = 0.8·0.25·(44 − 54) = −2 points
     // (Thorndike 1942; closed form in REFERENCES.md, computed).
-    expect(Math.abs(s.analytic!.analyses.matchedDifference.bias - -2)).toBeLessThan(TOL);
+    expect(Math.abs(s.analytic!.analyses.matchedDifference!.bias - -2)).toBeLessThan(TOL);
   });
 
   it('recomputes the analytic results on every valid change', () => {
@@ -30,9 +30,9 @@ describe('draft slice: typing, validation and analytic results', () => {
     expect(s.problems).toEqual([]);
     expect(s.validPlan.pretest.reliability).toBe(0.9);
     // rho .9 → beta = .6·10/(10·.9) = 2/3; bias = (2/3)(.1)(−10) = −0.6667 (same closed form, computed).
-    expect(Math.abs(s.analytic!.analyses.matchedDifference.bias - -2 / 3)).toBeLessThan(TOL);
+    expect(Math.abs(s.analytic!.analyses.matchedDifference!.bias - -2 / 3)).toBeLessThan(TOL);
     // Gain score: (beta − 1)·Delta = (−1/3)(−10) = +3.3333 (Campbell & Erlebacher 1970 closed form, computed).
-    expect(Math.abs(s.analytic!.analyses.gainScore.bias - 10 / 3)).toBeLessThan(TOL);
+    expect(Math.abs(s.analytic!.analyses.gainScore!.bias - 10 / 3)).toBeLessThan(TOL);
   });
 
   it('keeps an invalid reliability exactly as typed, explains it, and marks the old results stale', () => {
@@ -94,7 +94,7 @@ describe('draft slice: typing, validation and analytic results', () => {
     let s = store.getState();
     expect(s.validPlan.pretest).toEqual({ sem: 5 });
     // SEM 5 with SD 10 is the same instrument as reliability .75 at SD 10 (Lord & Novick 1968): same bias, −2.
-    expect(Math.abs(s.analytic!.analyses.matchedDifference.bias - -2)).toBeLessThan(TOL);
+    expect(Math.abs(s.analytic!.analyses.matchedDifference!.bias - -2)).toBeLessThan(TOL);
     store.getState().setPretestMode('reliability');
     s = store.getState();
     expect(s.draft.pretest.reliability).toBe('0.75');

@@ -31,7 +31,7 @@ describe('store: quick figures for the planned procedure', () => {
     await flush();
     const a = store.getState().analytic!;
     expect(a.procedure.basis).toBe('planned-procedure');
-    expect(a.analyses.matchedDifference.basis).toBe('planned-procedure');
+    expect(a.analyses.matchedDifference!.basis).toBe('planned-procedure');
   });
 
   it('ignores figures that arrive for a plan the researcher has since changed', async () => {
@@ -85,7 +85,7 @@ describe('QuickFiguresClient', () => {
     expect(sent).toHaveLength(2);
     expect(sent[1]!.plan.matching.caliper).toBe(0.25);
     reply(sent[1]!);
-    expect((await third)?.analyses.matchedDifference).toBeDefined();
+    expect((await third)?.analyses.matchedDifference!).toBeDefined();
   });
 
   it('abandons a quick run that has taken longer than STALE_AFTER_MS when a newer plan arrives (fresh worker)', async () => {

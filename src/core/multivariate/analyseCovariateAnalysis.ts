@@ -1,6 +1,6 @@
 import type { AnalyticAnalysis } from '../analyticResults';
 import type { AnalysisSettings } from '../analyseAnalysis';
-import type { AnalysisId, MatchingDistance } from '../plan';
+import type { MatchingDistance, TwoGroupAnalysisId } from '../plan';
 import { analyticAnalysisRecord } from '../analyticAnalysisRecord';
 import { matchedDifferenceFeasibility } from '../matchedDifferenceFeasibility';
 import type { CovariateModel } from './covariateModel';
@@ -29,7 +29,7 @@ import { covariateStandardError } from './covariateStandardError';
  * @example pretest-only model → the same figures as analyseAnalysis to rounding
  */
 export function analyseCovariateAnalysis(
-  id: AnalysisId,
+  id: TwoGroupAnalysisId,
   cm: CovariateModel,
   distance: MatchingDistance,
   s: AnalysisSettings,

@@ -1,4 +1,4 @@
-import type { AnalysisId, MatchingDistance } from '../plan';
+import type { MatchingDistance, TwoGroupAnalysisId } from '../plan';
 
 const MATCHED_ON: Record<MatchingDistance, string> = {
   pretest: 'matched on the pretest',
@@ -19,7 +19,7 @@ const MATCHED_ON: Record<MatchingDistance, string> = {
  * @throws never.
  * @example covariateAnalysisDescription('ancova', 'pretest').name // "ANCOVA on the pretest and measured covariates"
  */
-export function covariateAnalysisDescription(id: AnalysisId, distance: MatchingDistance): { name: string; assumption: string } {
+export function covariateAnalysisDescription(id: TwoGroupAnalysisId, distance: MatchingDistance): { name: string; assumption: string } {
   switch (id) {
     case 'matchedDifference':
       return {

@@ -1,4 +1,4 @@
-import type { AnalysisId, MatchingDistance } from '../plan';
+import type { MatchingDistance, TwoGroupAnalysisId } from '../plan';
 import type { CovariateModel } from './covariateModel';
 import { covariateAncovaEstimate } from './covariateAncovaEstimate';
 import { covariateCorrectedAncovaEstimate } from './covariateCorrectedAncovaEstimate';
@@ -22,7 +22,7 @@ import { covariateMatchedEstimate } from './covariateMatchedEstimate';
  * @example covariateExpectedEstimate('gainScore', cm, 'pretest', 0.8) === covariateGainScoreEstimate(cm)
  */
 export function covariateExpectedEstimate(
-  id: AnalysisId,
+  id: TwoGroupAnalysisId,
   cm: CovariateModel,
   distance: MatchingDistance,
   assumedReliability: number,
