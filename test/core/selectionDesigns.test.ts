@@ -15,7 +15,7 @@ import {
 } from '../../src/core/design/selectionModel';
 import { selectionModelParameters } from '../../src/core/design/selectionModelParameters';
 import { modelWith, populationWithSem } from '../../src/core/design/selectionVariants';
-import { selectionPlan } from './selectionPlanFixture';
+import { selectionPlan, type SelectionSettings } from './selectionPlanFixture';
 
 const phi = (z: number): number => jStat.normal.pdf(z, 0, 1) as number;
 const Phi = (z: number): number => jStat.normal.cdf(z, 0, 1) as number;
@@ -195,7 +195,7 @@ describe('matched difference by numerical integration: an independent route thro
     ['screener, cut-off', { basis: 'screener' as const, screenerReliability: 0.7, cutOff: 42 }],
     ['screener, probability', { basis: 'screener' as const, screenerReliability: 0.6, cutOff: 55, rule: 'probability' as const, spread: 5, side: 'above' as const }],
     ['true score, probability', { basis: 'true-score' as const, cutOff: 44, rule: 'probability' as const, spread: 4 }],
-  ])('%s: artefact agrees within 1e-8 points', (_, s) => {
+  ] as [string, SelectionSettings][])('%s: artefact agrees within 1e-8 points', (_, s) => {
     const plan = selectionPlan(s);
     const m = selectionModel(plan);
     const tv = 80;

@@ -22,24 +22,24 @@ function problems(change: (p: Record<string, any>) => void): { field: string; me
 
 describe('validation of selection fields: one plain message per missing or contradictory field (plan-file rules; common practice)', () => {
   it.each([
-    ['population', (p: any) => delete p.population, /^The population section is missing: with a selection rule/],
-    ['assignment.basis', (p: any) => delete p.assignment.basis, /^What the rule looked at is missing; it must be "pretest", "screener" or "true-score"\.$/],
-    ['assignment.cutOff', (p: any) => delete p.assignment.cutOff, /^Cut-off is missing/],
-    ['assignment.side', (p: any) => delete p.assignment.side, /^Who is selected is missing; it must be "below" or "above"\.$/],
-    ['assignment.spread', (p: any) => (p.assignment.rule = 'probability'), /a probability rule needs the spread of its ogive/],
-    ['assignment.screenerReliability', (p: any) => (p.assignment.basis = 'screener'), /a rule on a screener needs its reliability/],
-    ['assignment.side', (p: any) => (p.assignment.side = 'left'), /^Who is selected must be "below" or "above"; got "left"\.$/],
-    ['assignment.spread', (p: any) => Object.assign(p.assignment, { rule: 'probability', spread: -1 }), /got -1\.$/],
+    ['population', (p: any): unknown => delete p.population, /^The population section is missing: with a selection rule/],
+    ['assignment.basis', (p: any): unknown => delete p.assignment.basis, /^What the rule looked at is missing; it must be "pretest", "screener" or "true-score"\.$/],
+    ['assignment.cutOff', (p: any): unknown => delete p.assignment.cutOff, /^Cut-off is missing/],
+    ['assignment.side', (p: any): unknown => delete p.assignment.side, /^Who is selected is missing; it must be "below" or "above"\.$/],
+    ['assignment.spread', (p: any): unknown => (p.assignment.rule = 'probability'), /a probability rule needs the spread of its ogive/],
+    ['assignment.screenerReliability', (p: any): unknown => (p.assignment.basis = 'screener'), /a rule on a screener needs its reliability/],
+    ['assignment.side', (p: any): unknown => (p.assignment.side = 'left'), /^Who is selected must be "below" or "above"; got "left"\.$/],
+    ['assignment.spread', (p: any): unknown => Object.assign(p.assignment, { rule: 'probability', spread: -1 }), /got -1\.$/],
     [
       'assignment.screenerReliability',
-      (p: any) => Object.assign(p.assignment, { basis: 'screener', screenerReliability: 1.2 }),
+      (p: any): unknown => Object.assign(p.assignment, { basis: 'screener', screenerReliability: 1.2 }),
       /between 0 and 1 \(exclusive\); got 1\.2\.$/,
     ],
-    ['assignment.rule', (p: any) => Object.assign(p, { design: 'one-group', assignment: { rule: 'existing-groups' } }), /^A one-group study needs the rule that selected its people/],
-    ['matching.distance', (p: any) => (p.matching.distance = 'propensity'), /matching is on the observed pretest only; got "propensity"/],
-    ['assignment.cutOff', (p: any) => (p.assignment.cutOff = 10), /^The rule puts about 0\.633 of the 20000 people in the programme group, and at least 10 are needed/],
-    ['pretest.sem', (p: any) => (p.pretest = { sem: 12 }), /smaller than the population's pretest SD.*SEM of 12 points against a population SD of 10/],
-    ['outcome.prePostCorrelation', (p: any) => (p.outcome.prePostCorrelation = 0.95), /at most 0\.894 .*\(0\.8 in the population\); got 0\.95\./],
+    ['assignment.rule', (p: any): unknown => Object.assign(p, { design: 'one-group', assignment: { rule: 'existing-groups' } }), /^A one-group study needs the rule that selected its people/],
+    ['matching.distance', (p: any): unknown => (p.matching.distance = 'propensity'), /matching is on the observed pretest only; got "propensity"/],
+    ['assignment.cutOff', (p: any): unknown => (p.assignment.cutOff = 10), /^The rule puts about 0\.633 of the 20000 people in the programme group, and at least 10 are needed/],
+    ['pretest.sem', (p: any): unknown => (p.pretest = { sem: 12 }), /smaller than the population's pretest SD.*SEM of 12 points against a population SD of 10/],
+    ['outcome.prePostCorrelation', (p: any): unknown => (p.outcome.prePostCorrelation = 0.95), /at most 0\.894 .*\(0\.8 in the population\); got 0\.95\./],
   ] as const)('%s: %s', (field, change, message) => {
     const got = problems(change);
     expect(got).toHaveLength(1);
