@@ -250,14 +250,23 @@ describe('results for the rest of the planner', () => {
     expect(r.analyses.regressionDiscontinuity!.bias).toBeCloseTo(0.5, 9);
     expect(r.design.meaning).toMatch(/growth gap \(0\.50 points\) biases every analysis alike/);
   });
-  it('model parameters come from the groups: within-group reliability var_g(T)/var_g(X), sizes = population × share', () => {
+  it('model parameters come from the groups: within-group reliability var_g(T)/var_g(X) when errors are independent of true scores in the group (screener rule), sizes = population × share', () => {
     const m = selectionModel(plan);
     const mp = selectionModelParameters(m, plan);
     expect(r.model).toStrictEqual(mp);
     expect(mp.reliability.programme).toBeCloseTo(m.programme.cov[1]![1]! / m.programme.cov[0]![0]!, 12);
+    expect(mp.reliability.programme).toBeLessThan(0.8); // selection narrows the true-score spread (common practice: range restriction)
     expect(mp.n.programme + mp.n.comparison).toBeCloseTo(20000, 9);
     expect(r.breakEven.reliability).toBeNull();
     expect(r.breakEven.note).toMatch(/belongs to existing groups/);
+  });
+  it('a rule on the pretest leaves the slope of T on X at the population reliability .8 in both groups (selection on X keeps E[T | X]; Kelley 1947, common practice), although var_g(T)/var_g(X) exceeds 1', () => {
+    const p = selectionPlan({ cutOff: lowestFifth });
+    const m = selectionModel(p);
+    const mp = selectionModelParameters(m, p);
+    expect(mp.reliability.programme).toBeCloseTo(0.8, 12);
+    expect(mp.reliability.comparison).toBeCloseTo(0.8, 12);
+    expect(m.programme.cov[1]![1]! / m.programme.cov[0]![0]!).toBeGreaterThan(1);
   });
   it('ANCOVA SE equals the delta-method SE with equal group moments reduced to Cochran\u2019s pooled form when the rule is nearly random (common practice)', () => {
     // A rule on a screener of tiny reliability barely sorts people: both groups have nearly the population's moments,
