@@ -95,6 +95,11 @@ describe('check values: one population, mean 50, SD 10, reliability .8, r .7, po
     const dX = -10 * (phi(a) / Phi(a)) - 10 * (phi(a) / (1 - Phi(a)));
     expect(r.analyses.gainScore!.expectedEstimate).toBeCloseTo((0.7 - 1) * dX, 9);
     expect(r.design.selectedShare).toBeCloseTo(0.2, 12);
+    expect(r.design.meaning).toBe(
+      'The rule used the pretest itself: ANCOVA on the pretest and regression discontinuity are free of the regression artefact here; ' +
+        'the gain score and the reliability-corrected ANCOVA are not. A sharp cut-off on the pretest leaves no overlap: nobody in the ' +
+        'comparison group has a programme member\u2019s score, so exact matching is impossible.',
+    );
   });
   it('the same share on a screener of reliability .7 (cut at its 20th percentile): ANCOVA −3.16 (computed by hand from the selection formulas); tolerance 0.005', () => {
     const screenerSD = Math.sqrt(80 / 0.7);
