@@ -15,24 +15,27 @@ import { drawReplicationVariates } from './drawReplicationVariates';
 import { NormalSampleIndex } from './normalSampleIndex';
 import { resolveSimulationOptions } from './resolveSimulationOptions';
 import { steppedSimulationRun } from './steppedSimulationRun';
-import { MATCHED_SETS_OK as AFTER_OK, summariseMatching, VARIANCE_RATIO_OK as VAR_RATIO_OK } from './summariseMatching';
+import {
+  MATCHED_SETS_OK as AFTER_OK,
+  M_COUNT,
+  M_MATCHED,
+  M_OBS_AFTER,
+  M_OBS_BEFORE,
+  M_OBS_SMD_AFTER,
+  M_OBS_SMD_BEFORE,
+  M_TRUE_AFTER,
+  M_TRUE_BEFORE,
+  M_TRUE_SMD_AFTER,
+  M_TRUE_SMD_BEFORE,
+  M_VAR_RATIO,
+  summarisePretestMatchingRecords,
+  VARIANCE_RATIO_OK as VAR_RATIO_OK,
+} from './summariseMatching';
 import type { SimMatchingSummary, SimulationOptions, SimulationResult, SimulationRun } from './types';
 import { Xoshiro128StarStar } from './xoshiro128StarStar';
 
 export type { SimulationOptions, SimulationRun } from './types';
 
-// Per-replication matching records (Float64Array each).
-const M_MATCHED = 0;
-const M_OBS_BEFORE = 1;
-const M_OBS_AFTER = 2;
-const M_OBS_SMD_BEFORE = 3;
-const M_OBS_SMD_AFTER = 4;
-const M_TRUE_BEFORE = 5;
-const M_TRUE_AFTER = 6;
-const M_TRUE_SMD_BEFORE = 7;
-const M_TRUE_SMD_AFTER = 8;
-const M_VAR_RATIO = 9;
-const M_COUNT = 10;
 
 /**
  * The Monte Carlo engine's stepping interface: simulate the researcher's
@@ -83,25 +86,7 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
   const runner = new ReplicationRunner(plan, model, total, seed);
   const { nP, rec, recOk } = runner;
   const matching = (count: number): SimMatchingSummary =>
-    summariseMatching(
-      {
-        matched: rec[M_MATCHED] as Float64Array,
-        observedBefore: rec[M_OBS_BEFORE] as Float64Array,
-        observedAfter: rec[M_OBS_AFTER] as Float64Array,
-        observedSMDBefore: rec[M_OBS_SMD_BEFORE] as Float64Array,
-        observedSMDAfter: rec[M_OBS_SMD_AFTER] as Float64Array,
-        trueBefore: rec[M_TRUE_BEFORE] as Float64Array,
-        trueAfter: rec[M_TRUE_AFTER] as Float64Array,
-        trueSMDBefore: rec[M_TRUE_SMD_BEFORE] as Float64Array,
-        trueSMDAfter: rec[M_TRUE_SMD_AFTER] as Float64Array,
-        varianceRatio: rec[M_VAR_RATIO] as Float64Array,
-        ok: recOk,
-        stride: 1,
-        offset: 0,
-      },
-      count,
-      nP,
-    );
+    summarisePretestMatchingRecords(rec, recOk, count, nP, false);
   return steppedSimulationRun(total, seed, runner, (count) =>
     assembleSimulationResult(plan, seed, count, runner.records, matching(count), runner.example),
   );

@@ -91,3 +91,59 @@ export function summariseMatching(records: PretestMatchingRecords, total: number
     replicationsWithMatches: countSelected(total, after),
   };
 }
+
+/**
+ * Slots of the one-pretest and pools engines' per-replication matching records
+ * (one Float64Array over replications each), so both lay them out and summarise
+ * them the same way (summarisePretestMatchingRecords).
+ */
+export const M_MATCHED = 0;
+export const M_OBS_BEFORE = 1;
+export const M_OBS_AFTER = 2;
+export const M_OBS_SMD_BEFORE = 3;
+export const M_OBS_SMD_AFTER = 4;
+export const M_TRUE_BEFORE = 5;
+export const M_TRUE_AFTER = 6;
+export const M_TRUE_SMD_BEFORE = 7;
+export const M_TRUE_SMD_AFTER = 8;
+export const M_VAR_RATIO = 9;
+/** Programme members in the replication (only when a rule decides who is in the programme). */
+export const M_PROGRAMME = 10;
+export const M_COUNT = 11;
+
+/**
+ * summariseMatching over records laid out by the M_* slots.
+ * @param rec the M_COUNT record arrays. @param ok per-replication flags.
+ * @param total replications to summarise. @param programmePoolSize programme members per replication
+ *   (when they do not vary). @param sizesVary whether rec[M_PROGRAMME] holds each replication's own programme size.
+ * @example summarisePretestMatchingRecords(rec, ok, 200, 180, false).meanMatchedProgramme
+ */
+export function summarisePretestMatchingRecords(
+  rec: readonly Float64Array[],
+  ok: Uint8Array,
+  total: number,
+  programmePoolSize: number,
+  sizesVary: boolean,
+): SimMatchingSummary {
+  const r = (slot: number) => rec[slot] as Float64Array;
+  return summariseMatching(
+    {
+      matched: r(M_MATCHED),
+      observedBefore: r(M_OBS_BEFORE),
+      observedAfter: r(M_OBS_AFTER),
+      observedSMDBefore: r(M_OBS_SMD_BEFORE),
+      observedSMDAfter: r(M_OBS_SMD_AFTER),
+      trueBefore: r(M_TRUE_BEFORE),
+      trueAfter: r(M_TRUE_AFTER),
+      trueSMDBefore: r(M_TRUE_SMD_BEFORE),
+      trueSMDAfter: r(M_TRUE_SMD_AFTER),
+      varianceRatio: r(M_VAR_RATIO),
+      ok,
+      stride: 1,
+      offset: 0,
+      ...(sizesVary ? { programmeSizes: r(M_PROGRAMME) } : {}),
+    },
+    total,
+    programmePoolSize,
+  );
+}

@@ -1,5 +1,6 @@
 import type { AssignmentSpec, Plan, StudyShape } from '../../src/core/plan';
 import { validatePlan } from '../../src/core/validatePlan';
+import { rawSelectionPlan } from '../core/selectionPlanFixture';
 
 /**
  * An invented selection plan (no real study): one population with pretest
@@ -23,26 +24,29 @@ export function selectionPlan(o: {
   replications?: number;
   seed?: number;
 } = {}): Plan {
-  const sd = o.sd ?? 10;
-  const input = {
-    format: 'meanward-plan',
-    version: 1,
-    title: 'Invented selection plan',
+  const a = { rule: 'cut-off' as const, basis: 'pretest' as const, cutOff: 41.6, side: 'below' as const, ...o.assignment };
+  // The core tests' invented selection plan, with this file's defaults (population 2,000; posttest SD 10).
+  const input = rawSelectionPlan({
+    mean: o.mean ?? 50,
+    sd: o.sd ?? 10,
+    poolSize: o.poolSize ?? 2000,
+    reliability: o.reliability ?? 0.8,
+    posttestSD: o.posttestSD ?? 10,
+    r: o.r ?? 0.7,
+    tau: o.effect ?? 0,
+    growth: o.growthGap ?? 0,
     design: o.design ?? 'two-groups',
-    assignment: { rule: 'cut-off', basis: 'pretest', cutOff: 41.6, side: 'below', ...o.assignment },
-    population: { label: 'Invented population', poolSize: o.poolSize ?? 2000, pretestMean: o.mean ?? 50, pretestSD: sd },
-    pretest: { reliability: o.reliability ?? 0.8, referenceSD: sd },
-    outcome: {
-      posttestSD: o.posttestSD ?? 10,
-      prePostCorrelation: o.r ?? 0.7,
-      growthGap: o.growthGap ?? 0,
-      hypothesisedEffect: o.effect ?? 0,
-      effectScale: 'points',
-    },
-    matching: { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random', ...o.matching },
-    analysis: { alpha: 0.05, assumedReliability: o.assumedReliability ?? o.reliability ?? 0.8, tolerableBiasShare: 0.25, targetPower: 0.8 },
-    simulation: { replications: o.replications ?? 300, seed: o.seed ?? 1 },
-  };
+    rule: a.rule === 'existing-groups' ? 'cut-off' : a.rule,
+    basis: a.basis,
+    cutOff: a.cutOff,
+    side: a.side,
+    ...(a.spread !== undefined ? { spread: a.spread } : {}),
+    ...(a.screenerReliability !== undefined ? { screenerReliability: a.screenerReliability } : {}),
+    assumedReliability: o.assumedReliability ?? o.reliability ?? 0.8,
+  });
+  input.title = 'Invented selection plan';
+  input.matching = { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random', ...o.matching };
+  input.simulation = { replications: o.replications ?? 300, seed: o.seed ?? 1 };
   const check = validatePlan(input);
   if (!check.ok) throw new Error(`Invented selection plan does not validate: ${check.problems.map((p) => `${p.field}: ${p.message}`).join('; ')}`);
   return check.plan;

@@ -23,25 +23,28 @@ import { prePostChangeEstimate } from '../prePostChangeEstimate';
 import { regressionDiscontinuityEstimate } from '../regressionDiscontinuityEstimate';
 import { resolveSimulationOptions } from '../resolveSimulationOptions';
 import { steppedSimulationRun } from '../steppedSimulationRun';
-import { MATCHED_SETS_OK as AFTER_OK, summariseMatching, VARIANCE_RATIO_OK as VAR_RATIO_OK } from '../summariseMatching';
+import {
+  MATCHED_SETS_OK as AFTER_OK,
+  M_COUNT,
+  M_MATCHED,
+  M_OBS_AFTER,
+  M_OBS_BEFORE,
+  M_OBS_SMD_AFTER,
+  M_OBS_SMD_BEFORE,
+  M_PROGRAMME,
+  M_TRUE_AFTER,
+  M_TRUE_BEFORE,
+  M_TRUE_SMD_AFTER,
+  M_TRUE_SMD_BEFORE,
+  M_VAR_RATIO,
+  summarisePretestMatchingRecords,
+  VARIANCE_RATIO_OK as VAR_RATIO_OK,
+} from '../summariseMatching';
 import { isFeasible, type SimAnalysisResult, type SimMatchingSummary, type SimulationOptions, type SimulationResult, type SimulationRun } from '../types';
 import { Xoshiro128StarStar } from '../xoshiro128StarStar';
 import { clearPoolsMatching, createPoolsMatching, matchPoolsOnPretest, type PoolsMatching } from './matchPoolsOnPretest';
 import { createDrawnPools, type DrawnPools, type PoolDrawer } from './poolDrawer';
 
-// Per-replication matching records (Float64Array each), as in the one-pretest engine, plus the programme's size.
-const M_MATCHED = 0;
-const M_OBS_BEFORE = 1;
-const M_OBS_AFTER = 2;
-const M_OBS_SMD_BEFORE = 3;
-const M_OBS_SMD_AFTER = 4;
-const M_TRUE_BEFORE = 5;
-const M_TRUE_AFTER = 6;
-const M_TRUE_SMD_BEFORE = 7;
-const M_TRUE_SMD_AFTER = 8;
-const M_VAR_RATIO = 9;
-const M_PROGRAMME = 10;
-const M_COUNT = 11;
 
 // One group's moments in the full sample (offsets within a block of G_COUNT).
 const G_N = 0;
@@ -101,26 +104,7 @@ export function createPoolsSimulation(plan: Plan, options: SimulationOptions, dr
   const runner = new PoolsRunner(plan, drawer, ids, total, seed);
   const { rec, recOk } = runner;
   const matching = (count: number): SimMatchingSummary =>
-    summariseMatching(
-      {
-        matched: rec[M_MATCHED] as Float64Array,
-        observedBefore: rec[M_OBS_BEFORE] as Float64Array,
-        observedAfter: rec[M_OBS_AFTER] as Float64Array,
-        observedSMDBefore: rec[M_OBS_SMD_BEFORE] as Float64Array,
-        observedSMDAfter: rec[M_OBS_SMD_AFTER] as Float64Array,
-        trueBefore: rec[M_TRUE_BEFORE] as Float64Array,
-        trueAfter: rec[M_TRUE_AFTER] as Float64Array,
-        trueSMDBefore: rec[M_TRUE_SMD_BEFORE] as Float64Array,
-        trueSMDAfter: rec[M_TRUE_SMD_AFTER] as Float64Array,
-        varianceRatio: rec[M_VAR_RATIO] as Float64Array,
-        ok: recOk,
-        stride: 1,
-        offset: 0,
-        programmeSizes: rec[M_PROGRAMME] as Float64Array,
-      },
-      count,
-      Math.max(1, plan.groups.programme.poolSize),
-    );
+    summarisePretestMatchingRecords(rec, recOk, count, Math.max(1, plan.groups.programme.poolSize), true);
   return steppedSimulationRun(total, seed, runner, (count) => {
     const result = assembleSimulationResult(plan, seed, count, runner.records, matching(count), runner.example);
     return explainNoOverlap(result, runner.noOverlap, count);
