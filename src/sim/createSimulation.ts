@@ -1,13 +1,12 @@
 import type { Plan } from '../core/plan';
+import { MS_COUNT, MS_DS, MS_DSS, MS_M, MS_QSX, MS_QSXX, MS_QSXY, MS_QSY, MS_QSYY, MS_RN, MS_RSX, MS_RSXX, MS_RSXY, MS_RSY, MS_RSYY, recordMatchedSampleAnalyses } from './matchedSampleAnalyses';
 import { deriveModelParameters } from '../core/deriveModelParameters';
 import type { ModelParameters } from '../core/modelParameters';
 import { ancovaEstimate } from './ancovaEstimate';
 import { gainScoreEstimate } from './gainScoreEstimate';
-import { matchedDifferenceEstimate } from './matchedDifferenceEstimate';
 import { MatchingWeights } from './matchingWeights';
-import type { StackedComparison } from './multivariate/ancovaOnCovariates';
 import { assembleSimulationResult } from './assembleSimulationResult';
-import { AnalysisRecords, SLOT_ANCOVA, SLOT_ANCOVA_MATCHED, SLOT_CORRECTED, SLOT_GAIN, SLOT_MATCHED } from './analysisRecords';
+import { AnalysisRecords, SLOT_ANCOVA, SLOT_CORRECTED, SLOT_GAIN } from './analysisRecords';
 import { exampleReplication } from './exampleReplication';
 import { createMatchingWorkspace, matchOnPretest, type MatchingWorkspace } from './matchOnPretest';
 import { NormalSampler } from './normalSampler';
@@ -137,6 +136,8 @@ class ReplicationRunner {
   readonly ws: MatchingWorkspace;
   readonly moments = new Float64Array(12);
   readonly out = new Float64Array(3);
+  /** Matched-set sums of one replication (MS_* layout, recordMatchedSampleAnalyses). */
+  readonly sums = new Float64Array(MS_COUNT);
   /** Per-comparison-member use counts and matching weights of this replication's matched sets. */
   readonly weights: MatchingWeights;
   /** The stacked matched comparison rows for the matched-sample ANCOVA (sigma2 set per replication). */
@@ -315,21 +316,12 @@ class ReplicationRunner {
       dS += d;
       dSS += d * d;
     }
-    if (m >= 2) {
-      // Matching-weights SE (Abadie & Imbens 2006): the reuse term is 0 without replacement.
-      const excess = this.replacement ? weights.reuseExcess() : 0;
-      if (matchedDifferenceEstimate(m, dS, dSS, sigma2C, excess, out)) {
-        this.records.record(SLOT_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
-      }
-      moments[0] = m; moments[1] = muP + qSx / m; moments[2] = yCentreP + qSy / m;
-      moments[3] = qSxx - (qSx * qSx) / m; moments[4] = qSxy - (qSx * qSy) / m; moments[5] = qSyy - (qSy * qSy) / m;
-      moments[6] = rN; moments[7] = muC + rSx / rN; moments[8] = yCentreC + rSy / rN;
-      moments[9] = rSxx - (rSx * rSx) / rN; moments[10] = rSxy - (rSx * rSy) / rN; moments[11] = rSyy - (rSy * rSy) / rN;
-      this.stacked.sigma2 = sigma2C;
-      if (ancovaEstimate(moments, 1, out, this.stacked as StackedComparison)) {
-        this.records.record(SLOT_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
-      }
-    }
+    const sums = this.sums;
+    sums[MS_M] = m; sums[MS_DS] = dS; sums[MS_DSS] = dSS;
+    sums[MS_QSX] = qSx; sums[MS_QSXX] = qSxx; sums[MS_QSY] = qSy; sums[MS_QSYY] = qSyy; sums[MS_QSXY] = qSxy;
+    sums[MS_RN] = rN; sums[MS_RSX] = rSx; sums[MS_RSXX] = rSxx; sums[MS_RSY] = rSy; sums[MS_RSYY] = rSyy; sums[MS_RSXY] = rSxy;
+    const excess = this.replacement && m >= 2 ? weights.reuseExcess() : 0;
+    recordMatchedSampleAnalyses(this.records, i, sums, { px: muP, py: yCentreP, cx: muC, cy: yCentreC }, sigma2C, excess, moments, out, this.stacked);
 
     // Balance before and after matching, observed and true scores.
     (rec[M_MATCHED] as Float64Array)[i] = m;

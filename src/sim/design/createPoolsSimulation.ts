@@ -1,22 +1,19 @@
 import type { AnalysisId, Plan } from '../../core/plan';
+import { MS_COUNT, MS_DS, MS_DSS, MS_M, MS_QSX, MS_QSXX, MS_QSXY, MS_QSY, MS_QSYY, MS_RN, MS_RSX, MS_RSXX, MS_RSXY, MS_RSY, MS_RSYY, recordMatchedSampleAnalyses } from '../matchedSampleAnalyses';
 import { designAnalysisIds } from '../../core/design/studyDesign';
 import { ancovaEstimate } from '../ancovaEstimate';
 import {
   AnalysisRecords,
   SLOT_ANCOVA,
-  SLOT_ANCOVA_MATCHED,
   SLOT_CORRECTED,
   SLOT_GAIN,
-  SLOT_MATCHED,
   SLOT_PRE_POST,
   SLOT_RD,
 } from '../analysisRecords';
 import { assembleSimulationResult } from '../assembleSimulationResult';
 import { exampleReplication } from '../exampleReplication';
 import { gainScoreEstimate } from '../gainScoreEstimate';
-import { matchedDifferenceEstimate } from '../matchedDifferenceEstimate';
 import { MatchingWeights } from '../matchingWeights';
-import type { StackedComparison } from '../multivariate/ancovaOnCovariates';
 import type { MatchSettings } from '../multivariate/covariateMatching';
 import { NormalSampler } from '../normalSampler';
 import { prePostChangeEstimate } from '../prePostChangeEstimate';
@@ -153,6 +150,8 @@ class PoolsRunner {
   readonly g = new Float64Array(2 * G_COUNT); // comparison block first, then programme
   readonly moments = new Float64Array(12);
   readonly out = new Float64Array(3);
+  /** Matched-set sums of one replication (MS_* layout, recordMatchedSampleAnalyses). */
+  readonly sums = new Float64Array(MS_COUNT);
   readonly ws: PoolsMatching;
   readonly weights: MatchingWeights;
   readonly stacked: { weights: MatchingWeights; columns: Float64Array[]; from: number; sigma2: number };
@@ -378,21 +377,12 @@ class PoolsRunner {
       dS += d;
       dSS += d * d;
     }
-    if (m >= 2) {
-      // Matching-weights SE (Abadie & Imbens 2006): the reuse term is 0 without replacement.
-      const excess = this.settings.replacement ? weights.reuseExcess() : 0;
-      if (matchedDifferenceEstimate(m, dS, dSS, sigma2C, excess, out)) {
-        this.records.record(SLOT_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
-      }
-      moments[0] = m; moments[1] = px0 + qSx / m; moments[2] = py0 + qSy / m;
-      moments[3] = qSxx - (qSx * qSx) / m; moments[4] = qSxy - (qSx * qSy) / m; moments[5] = qSyy - (qSy * qSy) / m;
-      moments[6] = rN; moments[7] = cx0 + rSx / rN; moments[8] = cy0 + rSy / rN;
-      moments[9] = rSxx - (rSx * rSx) / rN; moments[10] = rSxy - (rSx * rSy) / rN; moments[11] = rSyy - (rSy * rSy) / rN;
-      this.stacked.sigma2 = sigma2C;
-      if (ancovaEstimate(moments, 1, out, this.stacked as StackedComparison)) {
-        this.records.record(SLOT_ANCOVA_MATCHED, i, out[0] as number, out[1] as number, out[2] as number);
-      }
-    }
+    const sums = this.sums;
+    sums[MS_M] = m; sums[MS_DS] = dS; sums[MS_DSS] = dSS;
+    sums[MS_QSX] = qSx; sums[MS_QSXX] = qSxx; sums[MS_QSY] = qSy; sums[MS_QSYY] = qSyy; sums[MS_QSXY] = qSxy;
+    sums[MS_RN] = rN; sums[MS_RSX] = rSx; sums[MS_RSXX] = rSxx; sums[MS_RSY] = rSy; sums[MS_RSYY] = rSyy; sums[MS_RSXY] = rSxy;
+    const excess = this.settings.replacement && m >= 2 ? weights.reuseExcess() : 0;
+    recordMatchedSampleAnalyses(this.records, i, sums, { px: px0, py: py0, cx: cx0, cy: cy0 }, sigma2C, excess, moments, out, this.stacked);
     let ok = 0;
     if (m >= 1) {
       ok |= AFTER_OK;
