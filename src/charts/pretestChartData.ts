@@ -3,6 +3,7 @@ import { matchedSampleMeans } from '../core/matchedSampleMeans';
 import { matchedTrueScoreMeans, type MatchedTrueScoreMeans } from '../core/matchedTrueScoreMeans';
 import { observedPretestDensity } from '../core/observedPretestDensity';
 import type { ChartInput } from './chartTypes';
+import { selectionPretestView, type SelectionPretestView } from './selectionPretestView';
 
 export type GroupKey = 'programme' | 'comparison';
 
@@ -45,6 +46,12 @@ export interface PretestChartData {
     discarded: number;
     means: { observed: Record<GroupKey, number>; trueScore: Record<GroupKey, number> };
   } | null;
+  /**
+   * Present when a rule forms the groups: the population, the rule and the
+   * selected people at the pretest and re-measured; the chart then draws this
+   * instead of the two groups' normal curves and the matched members.
+   */
+  selection: SelectionPretestView | null;
 }
 
 const GRID = 121;
@@ -95,15 +102,19 @@ export function pretestChartData({ plan, analytic, simulation }: ChartInput): Pr
     const r = expectedMatchedRegion(m, plan.matching.caliper, plan.matching.ratio);
     region = r ? { ...r, source: 'closed-form' } : null;
   }
+  const selection = selectionPretestView(plan);
   return {
     chart: 'pretest',
-    title: 'Pretest distributions: matched on the observed score, apart on the true score',
-    xLabel: 'Observed pretest score (test points)',
+    title: selection
+ ? 'Who the rule selects, and where they would score when measured again without the programme'
+      : 'Pretest distributions: matched on the observed score, apart on the true score',
+    xLabel: selection ? 'Score on the pretest scale (test points)' : 'Observed pretest score (test points)',
     xDomain: [lo, hi],
     yMax,
     groups,
     region,
     kelley,
     example,
+    selection,
   };
 }

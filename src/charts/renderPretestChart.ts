@@ -2,6 +2,7 @@ import * as d3 from 'd3';
 import type { RenderOptions } from './chartTypes';
 import type { GroupKey, PretestChartData } from './pretestChartData';
 import { pretestChartText } from './pretestChartText';
+import { drawSelectionPretest, selectionPretestMinHeight } from './renderSelectionPretestChart';
 import { DIMMED_OPACITY, GROUP_COLOURS } from './palette';
 import {
   COMPACT_WIDTH,
@@ -114,6 +115,7 @@ function layoutPretest(data: PretestChartData, width: number): PretestLayout {
 
 /** The least height (px) the pretest chart needs at a width so its rows and labels never overlap. */
 export function pretestChartMinHeight(data: PretestChartData, width: number): number {
+  if (data.selection) return selectionPretestMinHeight(data.selection, data.title, data.xLabel, width);
   return layoutPretest(data, width).minHeight;
 }
 
@@ -128,6 +130,12 @@ export function pretestChartMinHeight(data: PretestChartData, width: number): nu
 export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, opts: RenderOptions): void {
   const alt = pretestChartText(data);
   const { width } = opts;
+  if (data.selection) {
+    const height = Math.max(opts.height, pretestChartMinHeight(data, width));
+    const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
+    drawSelectionPretest(root, data.selection, data.title, data.xLabel, width, height);
+    return;
+  }
   const L = layoutPretest(data, width);
   const height = Math.max(opts.height, L.minHeight);
   const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
