@@ -1,7 +1,7 @@
 import type { AnalyticAnalysis, AnalyticResults, BreakEven } from './analyticResults';
 import type { ModelParameters } from './modelParameters';
 import { TWO_GROUP_ANALYSIS_IDS, type AnalysisRecord, type Plan } from './plan';
-import { analyseAnalysis, type AnalysisSettings } from './analyseAnalysis';
+import { analyseAnalysis } from './analyseAnalysis';
 import { assertFiniteOutput } from './assertFiniteOutput';
 import { breakEvenReliability } from './breakEvenReliability';
 import { deriveModelParameters } from './deriveModelParameters';
@@ -15,11 +15,13 @@ import { deriveCovariateModel, matchingDistance, usesCovariateModel } from './mu
 import { expectedCovariateBalance } from './multivariate/expectedCovariateBalance';
 import { unmeasuredBias } from './multivariate/unmeasuredBias';
 import { shareOfEffect } from './shareOfEffect';
-import { plannedAnalysisRecord, plannedInfeasibleRecord } from './plannedAnalysisRecord';
-import { isPlannedInfeasible, type PlannedProcedureEstimates } from './plannedProcedure';
+import type { PlannedProcedureEstimates } from './plannedProcedure';
+import { analysisSettings } from './analysisSettings';
+import { withPlannedFigures } from './withPlannedFigures';
+import { isSelectionDesign } from './design/studyDesign';
+import { analyseSelectionPlan } from './design/analyseSelectionPlan';
 
-/** Default target power when the plan gives none (Cohen 1988's convention of .80). */
-export const DEFAULT_TARGET_POWER = 0.8;
+export { DEFAULT_TARGET_POWER } from './analysisSettings';
 
 /**
  * Everything the planner shows without simulation, for one plan: model
@@ -43,6 +45,7 @@ export const DEFAULT_TARGET_POWER = 0.8;
  * @example analysePlan(demoPlan()).analyses.matchedDifference.bias // −2 (0.8·0.25·(−10))
  */
 export function analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults {
+  if (isSelectionDesign(plan)) return analyseSelectionPlan(plan, planned);
   if (usesCovariateModel(plan)) return analyseCovariatePlan(plan, planned);
   const m = deriveModelParameters(plan);
   const share = expectedMatchedShare(m, plan.matching);
@@ -50,38 +53,14 @@ export function analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): An
   const analyses = withPlannedFigures(
     Object.fromEntries(TWO_GROUP_ANALYSIS_IDS.map((id) => [id, analyseAnalysis(id, m, settings)])) as AnalysisRecord<AnalyticAnalysis>,
     planned,
-    m,
+    m.effect,
+    m.posttestSD.comparison,
     settings,
   );
   return assertFiniteOutput(
     sharedResults(plan, m, analyses, breakEvenReliability(m, plan.analysis.tolerableBiasShare), planned),
     'results',
   );
-}
-
-/**
- * The analyses with the quick simulation's planned-procedure figures in place
- * of the closed form wherever the simulation covered them (the matched
- * difference); other analyses keep their closed forms, which already hold
- * for the full samples as planned.
- */
-function withPlannedFigures(
-  analyses: AnalysisRecord<AnalyticAnalysis>,
-  planned: PlannedProcedureEstimates | undefined,
-  m: ModelParameters,
-  settings: AnalysisSettings,
-): AnalysisRecord<AnalyticAnalysis> {
-  if (!planned) return analyses;
-  const out = { ...analyses };
-  for (const id of TWO_GROUP_ANALYSIS_IDS) {
-    const f = planned.analyses[id];
-    const formula = analyses[id];
-    if (!f || !formula) continue;
-    out[id] = isPlannedInfeasible(f)
-      ? plannedInfeasibleRecord(formula, f.reason, m.effect, m.posttestSD.comparison, settings)
-      : plannedAnalysisRecord(formula, f, m.effect, m.posttestSD.comparison, settings);
-  }
-  return out;
 }
 
 /**
@@ -99,7 +78,8 @@ function analyseCovariatePlan(plan: Plan, planned: PlannedProcedureEstimates | u
   const analyses = withPlannedFigures(
     Object.fromEntries(TWO_GROUP_ANALYSIS_IDS.map((id) => [id, analyseCovariateAnalysis(id, cm, distance, settings)])) as AnalysisRecord<AnalyticAnalysis>,
     planned,
-    m,
+    m.effect,
+    m.posttestSD.comparison,
     settings,
   );
   const hidden = unmeasuredBias(cm);
@@ -116,19 +96,6 @@ function analyseCovariatePlan(plan: Plan, planned: PlannedProcedureEstimates | u
     covariateBalance: expectedCovariateBalance(cm, distance),
   };
   return assertFiniteOutput(results, 'results');
-}
-
-/** The settings every analysis reads from the plan; matchedProgramme = expected matched programme members. */
-function analysisSettings(plan: Plan, matchedProgramme: number): AnalysisSettings {
-  return {
-    alpha: plan.analysis.alpha,
-    assumedReliability: plan.analysis.assumedReliability,
-    tolerableBiasShare: plan.analysis.tolerableBiasShare,
-    targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
-    ratio: plan.matching.ratio,
-    matchedProgramme,
-    replacement: plan.matching.replacement,
-  };
 }
 
 /** The results both paths give, in this order: model, reliabilities, tau, analyses, break-even, remedies. */

@@ -72,6 +72,12 @@ export interface AnalyticAnalysis {
    * a cut-off at the mean of a normal assignment variable).
    */
   varianceInflation?: number;
+  /**
+   * How the SE was obtained when it is a rough approximation worth saying on
+   * screen (selection designs' matched difference before the quick
+   * simulation replaces it); absent otherwise.
+   */
+  standardErrorNote?: string;
 }
 
 /**
@@ -122,7 +128,19 @@ export interface Remedy {
     /** Only with covariates: match on all measured covariates instead of the pretest alone. */
     | 'match-all-measured'
     /** Only with unmeasured covariates: measure them and match on them too. */
-    | 'measure-confounders';
+    | 'measure-confounders'
+    /** Selection on the pretest (two groups): adjust for it (regression discontinuity). */
+    | 'adjust-for-rule-score'
+    /** Selection on a screener (two groups): keep its scores and adjust for them. */
+    | 'record-screener'
+    /** Selection on judged need (two groups): write the judgement down as a scored rule and use it. */
+    | 'scored-rule'
+    /** One group: select on one measurement, take the change from a second, separate baseline. */
+    | 'separate-baseline'
+    /** One group: select on, and measure change from, the average of several baselines. */
+    | 'average-baselines'
+    /** One group: add a comparison group from the same population (regression discontinuity). */
+    | 'comparison-group';
   title: string;
   /** What the remedy buys, plain language with numbers. */
   summary: string;

@@ -85,3 +85,53 @@ export {
 } from './multivariate/adjustCovariateModel';
 export { covariateAnalysisDescription } from './multivariate/covariateAnalysisDescription';
 export { analyseCovariateAnalysis } from './multivariate/analyseCovariateAnalysis';
+// Designs (the design seam): how people were drawn and assigned, and the selection designs' closed forms.
+export {
+  studyDesign,
+  isSelectionDesign,
+  designAnalysisIds,
+  headlineAnalysisId,
+  type StudyDesign,
+  type ExistingGroupsDesign,
+  type SelectionDesign,
+} from './design/studyDesign';
+export {
+  selectionModel,
+  selectionModelFor,
+  selectionPopulation,
+  selectionProbabilityGiven,
+  selectedDensity,
+  truncatedMoments,
+  millsBelow,
+  MIN_SELECTED,
+  SEL_PRETEST,
+  SEL_TRUE,
+  SEL_OUTCOME,
+  SEL_SCREENER,
+  SEL_VARIABLES,
+  type SelectionModel,
+  type SelectionPopulation,
+  type SelectedGroup,
+} from './design/selectionModel';
+export { derivedGroups } from './design/derivedGroups';
+export { existingGroupsSummary } from './design/existingGroupsSummary';
+export {
+  selectionExpectedEstimate,
+  selectionArtefact,
+  selectionGroupGap,
+  pooledWithinSlope,
+  globalLinearDiscontinuity,
+  type RegressionDiscontinuityEstimator,
+} from './design/selectionEstimates';
+export { selectionMatchedFigures, selectionMatchedShare, type SelectionMatchedFigures } from './design/selectionMatching';
+export { selectionStandardError, type SelectionPrecision } from './design/selectionStandardError';
+export { selectionModelParameters } from './design/selectionModelParameters';
+export { selectionSummary, selectionRuleText } from './design/selectionSummary';
+export { selectionRemedies, type SelectionRemedyInputs } from './design/selectionRemedies';
+export { selectionSensitivityCurve } from './design/selectionSensitivity';
+export { populationWithSem, withBasis, modelWith } from './design/selectionVariants';
+export { analyseSelectionPlan, NO_OVERLAP_REASON, SELECTION_MATCHED_SE_NOTE } from './design/analyseSelectionPlan';
+export { analysisSettings } from './analysisSettings';
+export { withPlannedFigures } from './withPlannedFigures';
+export { bandCrossings } from './bandCrossings';
+export { presentAnalysisIds, presentAnalyses, requireAnalysis } from './presentAnalyses';

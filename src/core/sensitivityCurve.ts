@@ -9,9 +9,12 @@ import { formatNumber } from './inputChecks';
 import { covariateModelWithSem } from './multivariate/adjustCovariateModel';
 import { covariateExpectedEstimate } from './multivariate/covariateExpectedEstimate';
 import { deriveCovariateModel, matchingDistance, usesCovariateModel, type CovariateModel } from './multivariate/covariateModel';
+import { bandCrossings } from './bandCrossings';
+import { isSelectionDesign } from './design/studyDesign';
+import { selectionSensitivityCurve } from './design/selectionSensitivity';
 
 /** What the sensitivity curve varies. */
-export type SensitivityVariable = 'reliability' | 'pretestGap';
+export type SensitivityVariable = 'reliability' | 'pretestGap' | 'cutOff' | 'screenerReliability';
 
 /** One point of a sensitivity curve: x and the expected bias (points) of each analysis. */
 export interface SensitivityPoint {
@@ -44,11 +47,15 @@ export interface SensitivityCurve {
  *   group's within-group reliability follows.
  * - 'pretestGap': x is the programme-minus-comparison pretest gap, on a grid
  *   symmetric around the current gap (± max(|gap|, pooled pretest SD)).
+ * - 'cutOff', 'screenerReliability': selection designs only (see
+ *   selectionSensitivityCurve, which also handles 'reliability' for them and
+ *   refuses 'pretestGap' with a plain message: the gap follows from the rule).
+ *   For existing groups they throw a plain message.
  * Biases are the closed forms of expectedEstimate (Thorndike 1942; Lord 1960;
  * Porter 1967). Pure and deterministic.
  *
  * @param plan a validated plan.
- * @param variable 'reliability' | 'pretestGap'.
+ * @param variable 'reliability' | 'pretestGap' | 'cutOff' | 'screenerReliability'.
  * @param points grid points (integer 3..1001; default 41).
  * @returns the curve, band and break-even x values (all finite).
  * @throws Error when points is out of range or the plan's inputs contradict each other.
@@ -59,6 +66,12 @@ export interface SensitivityCurve {
 export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, points = 41): SensitivityCurve {
   if (!Number.isInteger(points) || points < 3 || points > 1001) {
     throw new Error(`The number of curve points must be a whole number from 3 to 1001; got ${formatNumber(points)}.`);
+  }
+  if (isSelectionDesign(plan)) return selectionSensitivityCurve(plan, variable, points);
+  if (variable === 'cutOff' || variable === 'screenerReliability') {
+    throw new Error(
+      `This plan's groups already existed, so it has no ${variable === 'cutOff' ? 'cut-off' : 'screener'} to vary: vary the pretest reliability or the pretest gap instead.`,
+    );
   }
   const m = deriveModelParameters(plan);
   const tau = m.effect;
@@ -165,27 +178,4 @@ function covariateModelWithPretestGap(cm: CovariateModel, gap: number): Covariat
   const gaps = [...cm.gap];
   gaps[0] = gap;
   return { ...cm, mean: { programme, comparison: cm.mean.comparison }, gap: gaps };
-}
-
-/**
- * Where the matched-difference bias crosses an edge of the tolerated band,
- * by linear interpolation between neighbouring curve points (the
- * several-covariate artefact need not be linear or monotone in x).
- */
-function bandCrossings(points: SensitivityPoint[], band: { lower: number; upper: number }): number[] {
-  const out: number[] = [];
-  if (!(band.upper > 0)) return out;
-  for (let i = 1; i < points.length; i++) {
-    const a = points[i - 1] as SensitivityPoint;
-    const b = points[i] as SensitivityPoint;
-    for (const edge of [band.lower, band.upper]) {
-      const fa = (a.bias.matchedDifference ?? 0) - edge;
-      const fb = (b.bias.matchedDifference ?? 0) - edge;
-      if (fa === 0) out.push(a.x);
-      else if (fa * fb < 0) out.push(a.x + ((b.x - a.x) * fa) / (fa - fb));
-    }
-  }
-  const last = points[points.length - 1];
-  if (last && (last.bias.matchedDifference === band.lower || last.bias.matchedDifference === band.upper)) out.push(last.x);
-  return out;
 }

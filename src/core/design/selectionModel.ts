@@ -179,8 +179,14 @@ export function truncatedMoments(a: number, side: 'below' | 'above'): { share: n
   return side === 'below' ? { share, mean, variance } : { share, mean: -mean, variance };
 }
 
-/** φ(b)/Φ(b), accurate far into the lower tail (continued-fraction-free asymptotic when Φ underflows). */
-function millsBelow(b: number): number {
+/**
+ * The inverse Mills ratio of the lower side, φ(b)/Φ(b) (the mean of −z for z < b, z standard normal),
+ * accurate far into the lower tail (an asymptotic series when Φ underflows).
+ * Reference: Johnson, Kotz & Balakrishnan (1994), ch. 13, from memory; common practice.
+ * @param b finite. @returns φ(b)/Φ(b) > 0. @throws Error when b is not finite.
+ * @example millsBelow(0) // 0.79788 (2φ(0))
+ */
+export function millsBelow(b: number): number {
   const p = normalCdf(b);
   if (p > 1e-300 && b > -30) return normalPdf(b) / p;
   // Φ(b) ≈ φ(b)/(−b)·(1 − 1/b² + 3/b⁴) for b → −∞ (Abramowitz & Stegun 1964, 26.2.12, from memory).
