@@ -6,6 +6,7 @@ import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { selectAnalysesInOrder, selectAnalytic, selectAnalyticStale, selectHighlight, selectSetHighlight } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { fmt, fmtPct, fmtSigned } from './format';
+import { centralCutOffVarianceInflation } from '../core/design/centralCutOffVarianceInflation';
 import { verdictWords } from './VerdictPanel';
 
 function SimFigure({ value, mcse, pct, signed }: { value: number; mcse: number; pct?: boolean; signed?: boolean }) {
@@ -32,8 +33,9 @@ function names(list: string[]): string {
 export function VarianceInflationNote({ inflation }: { inflation: number }) {
   return (
     <span className="rd-cost" data-testid="rd-variance-inflation">
-      Its estimate varies about {fmt(inflation, 2)} times as much as a randomised study&rsquo;s of the same size, so it needs about{' '}
-      {fmt(inflation, 1)} times the sample for the same power.
+      Its cost: the estimate varies about {fmt(inflation, 2)} times as much as a randomised study&rsquo;s of the same size and split, so it needs
+      about {fmt(inflation, 1)} times the sample for the same power (about {fmt(centralCutOffVarianceInflation(), 2)} times at a cut-off in the
+      middle of the scores).
     </span>
   );
 }

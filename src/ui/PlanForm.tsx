@@ -172,8 +172,8 @@ function AssignmentSection({ n }: { n: number }) {
               label="Who is selected"
               hint="Which side of the cut-off gets the programme."
               options={[
-                { value: 'below', label: 'People below the cut-off' },
-                { value: 'above', label: 'People above the cut-off' },
+                { value: 'below', label: 'Those below it' },
+                { value: 'above', label: 'Those above it' },
               ]}
             />
           </div>
@@ -214,12 +214,10 @@ function PopulationSection({ n }: { n: number }) {
       <NumberField path={`${p}.poolSize`} label="Population size" unit="people" step={100} min={2} inputMode="numeric" hint="How many people the rule is applied to." />
       <NumberField path={`${p}.pretestMean`} label="Pretest mean in the population" unit="points" step={1} hint="Average observed pretest score before selection." />
       <NumberField path={`${p}.pretestSD`} label="Pretest SD in the population" unit="points" step={0.5} min={0} hint="Spread of observed pretest scores across the whole population." />
-      <div className="field-pair">
-        <TextField path="selectionLabels.programme" label="Name of the selected group (optional)" hint="Leave empty to name it by the rule." />
-        {!oneGroup && (
-          <TextField path="selectionLabels.comparison" label="Name of the rest (optional)" hint="Those the rule did not select; leave empty for “Not selected”." />
-        )}
-      </div>
+      <TextField path="selectionLabels.programme" label="Name of the selected group (optional)" hint="Leave empty to name it by the rule." />
+      {!oneGroup && (
+        <TextField path="selectionLabels.comparison" label="Name of the people not selected (optional)" hint="Leave empty for “Not selected”." />
+      )}
       <div className={`derived${stale || pending ? ' is-stale' : ''}`} aria-live="polite" data-testid="derived-groups">
         <h3>What the rule forms</h3>
         {derived && analytic ? (
