@@ -1,6 +1,6 @@
 import * as d3 from 'd3';
 import type { RenderOptions } from './chartTypes';
-import type { GroupKey, PretestChartData } from './pretestChartData';
+import type { GroupKey, GroupsPretestChartData, PretestChartData } from './pretestChartData';
 import { pretestChartText } from './pretestChartText';
 import { drawSelectionPretest, selectionPretestMinHeight } from './renderSelectionPretestChart';
 import { DIMMED_OPACITY, GROUP_COLOURS } from './palette';
@@ -48,7 +48,7 @@ const HEADING = 'Matched members';
 const MIN_DENSITY_H = 100;
 const NOTE_ROOM = 1.15;
 
-function legendLabels(data: PretestChartData): { label: string; w: number }[] {
+function legendLabels(data: GroupsPretestChartData): { label: string; w: number }[] {
   const items = (['programme', 'comparison'] as GroupKey[]).map((g) => {
     const label = `${g === 'programme' ? 'Programme' : 'Comparison'}: ${short(data.groups[g].label)}`;
     return { label, w: 44 + label.length * FONT.tick * 0.64 };
@@ -60,11 +60,11 @@ function legendLabels(data: PretestChartData): { label: string; w: number }[] {
   return items;
 }
 
-function hiddenGapNote(data: PretestChartData): string {
+function hiddenGapNote(data: GroupsPretestChartData): string {
   return `Hidden true-score gap after matching: ${fmt(data.kelley.hiddenGap, 2)} points`;
 }
 
-function layoutPretest(data: PretestChartData, width: number): PretestLayout {
+function layoutPretest(data: GroupsPretestChartData, width: number): PretestLayout {
   const compact = width < COMPACT_WIDTH;
   const left = compact ? 60 : 172;
   const right = 24;

@@ -11,6 +11,7 @@ import { renderChart, type ChartDataById } from '../charts/renderChartToSvgStrin
 import { sensitivityChartData, sensitivityModes } from '../charts/sensitivityChartData';
 import { sensitivityChartText } from '../charts/sensitivityChartText';
 import { usesCovariateModel } from '../core/multivariate/covariateModel';
+import { studyDesign } from '../core/design/studyDesign';
 import type { SensitivityVariable } from '../core/sensitivityCurve';
 import { selectAnalytic, selectAnalyticStale, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
@@ -64,9 +65,11 @@ export function ChartsPanel() {
     () => (sensitivityInput ? buildChart(() => sensitivityChartData(sensitivityInput, mode), sensitivityChartText) : null),
     [sensitivityInput, mode],
   );
-  const balance = useMemo(() => (input ? buildChart(() => balanceChartData(input), balanceChartText) : null), [input]);
+  // A one-group study matches nobody: it has no balance chart.
+  const oneGroup = studyDesign(plan).shape === 'one-group';
+  const balance = useMemo(() => (input && !oneGroup ? buildChart(() => balanceChartData(input), balanceChartText) : null), [input, oneGroup]);
   const modeName = useId();
-  if (!pretest || !estimates || !sensitivity || !balance) return null;
+  if (!pretest || !estimates || !sensitivity || (!balance && !oneGroup)) return null;
   return (
     <section className={`charts${stale ? ' is-stale' : ''}`} aria-labelledby="charts-heading">
       <h2 id="charts-heading">Pictures of the artefact</h2>
@@ -80,9 +83,9 @@ export function ChartsPanel() {
         {/* With covariates (or a multivariate distance) balance is shown per variable, pretest included. */}
         {usesCovariateModel(plan) ? (
           <CovariateBalanceCard input={input!} simulationOutOfDate={Boolean(simResult && simStale)} />
-        ) : (
+        ) : balance ? (
           <ChartCard chartId="balance" {...balance} />
-        )}
+        ) : null}
         <ChartCard chartId="estimates" {...estimates} />
         <ChartCard
           chartId="sensitivity"

@@ -68,29 +68,32 @@ function DesignNote({ design }: { design: DesignSummary }) {
 
 /**
  * The one-group verdict's lead: the change expected with no programme at all
- * (regression toward the mean, plus any growth) beside the hoped-for effect.
+ * (regression toward the mean, plus any growth) set beside the hoped-for
+ * effect, then what that does to the estimate.
  */
 function OneGroupLead({ m, analytic, plan }: { m: AnalyticAnalysis; analytic: AnalyticResults; plan: Plan }) {
-  const change = analytic.design.noProgrammeChange;
   const tauZero = analytic.tau === 0;
   const side = plan.assignment?.side ?? 'below';
   return (
-    <p className="verdict-lead" data-testid="verdict-lead">
-      With no programme at all, the people selected are expected to change by{' '}
-      <strong data-testid="verdict-no-programme-change">{fmtSigned(change)} points</strong> between the two measurements
-      {tauZero ? (
-        <>, and the hoped-for effect is zero.</>
-      ) : (
-        <>
-          , beside a hoped-for effect of <strong>{fmtSigned(analytic.tau)} points</strong>.
-        </>
-      )}{' '}
-      People picked for {side === 'below' ? 'low' : 'high'} scores were, on average, partly {side === 'below' ? 'unlucky' : 'lucky'} on the day; measured
-      again, their scores drift back toward the population mean even if nothing is done. The pre–post change is expected to shift the estimated effect
-      by <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
-      {!tauZero && m.biasShare !== null && <>, {fmtPct(Math.abs(m.biasShare), 0)} of the hoped-for effect</>}: this regression-toward-the-mean
-      artefact {VERDICT_WORDS[m.verdict].sentence}
-    </p>
+    <>
+      <div className="verdict-beside" data-testid="verdict-beside">
+        <p>
+          <span>Change expected with no programme at all</span>
+          <strong data-testid="verdict-no-programme-change">{fmtSigned(analytic.design.noProgrammeChange)} points</strong>
+        </p>
+        <p>
+          <span>Hoped-for effect of the programme</span>
+          <strong>{fmtSigned(analytic.tau)} points</strong>
+        </p>
+      </div>
+      <p className="verdict-lead" data-testid="verdict-lead">
+        People picked for {side === 'below' ? 'low' : 'high'} scores were, on average, partly {side === 'below' ? 'unlucky' : 'lucky'} on the day they
+        were measured; measured again, their scores drift back toward the population mean even if nothing is done. So the pre–post change is expected
+        to shift the estimated effect by <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
+        {!tauZero && m.biasShare !== null && <>, {fmtPct(Math.abs(m.biasShare), 0)} of the hoped-for effect</>}: this regression-toward-the-mean
+        artefact {VERDICT_WORDS[m.verdict].sentence}
+      </p>
+    </>
   );
 }
 
