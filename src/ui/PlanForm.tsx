@@ -1,4 +1,4 @@
-import { useId } from 'react';
+import { useId, useMemo } from 'react';
 import { covariateFieldLabel } from '../state/covariateDraft';
 import { draftUsesSelection, FIELD_NAMES } from '../state/planDraft';
 import { selectAnalytic, selectAnalyticStale, selectProblems, selectValidPlan } from '../state/selectors';
@@ -8,6 +8,7 @@ import { CheckField, ChoiceField, NumberField, TextField } from './fields';
 import { moreProblemsLine, PROBLEMS_SHOWN } from '../core/capProblemList';
 import { fmt, fmtInt, fmtPct, fmtR } from './format';
 import { isSelectionDesign } from '../core/design/studyDesign';
+import { selectionModel } from '../core/design/selectionModel';
 
 /** Move keyboard focus to a field by its plan path (from the problem list). */
 function focusField(path: string) {
@@ -258,7 +259,10 @@ function GroupsSection({ n }: { n: number }) {
 
 function PretestSection({ n }: { n: number }) {
   const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
-  const oneGroup = useMeanwardStore((s) => s.draft.design === 'one-group');
+  const plan = useMeanwardStore(selectValidPlan);
+  // With a rule, the pretest is described in the whole population: reliability inside a group the rule
+  // cut out of it is not a reliability (a cut on the pretest narrows its observed spread below the true one).
+  const population = useMemo(() => (isSelectionDesign(plan) ? selectionModel(plan).population : null), [plan]);
   const mode = useMeanwardStore((s) => s.draft.pretest.mode);
   const setMode = useMeanwardStore((s) => s.setPretestMode);
   const analytic = useMeanwardStore(selectAnalytic);
@@ -285,12 +289,19 @@ function PretestSection({ n }: { n: number }) {
         <NumberField path="pretest.sem" label="SEM (standard error of measurement)" unit="points" step={0.1} min={0} hint="Typical size of one person's measurement error, in test points." />
       )}
       <div className={`derived${stale ? ' is-stale' : ''}`} aria-live="polite">
-        <h3>What follows for these groups</h3>
-        {analytic ? (
+        <h3>{population ? 'What follows for this population' : 'What follows for these groups'}</h3>
+        {analytic && population ? (
           <dl>
-            <dt>{selection ? 'Reliability within the selected group' : 'Within-group reliability, programme'}</dt>
+            <dt>Reliability in the population</dt>
+            <dd data-testid="derived-reliability-population">{fmtR(population.reliability, 3)}</dd>
+            <dt>SEM</dt>
+            <dd data-testid="derived-sem">{fmt(analytic.reliability.sem, 2)} points</dd>
+          </dl>
+        ) : analytic ? (
+          <dl>
+            <dt>Within-group reliability, programme</dt>
             <dd data-testid="derived-reliability-programme">{fmtR(analytic.reliability.programme, 3)}</dd>
-            <dt>{selection ? `Reliability among those not selected${oneGroup ? ' (not re-measured)' : ''}` : 'Within-group reliability, comparison'}</dt>
+            <dt>Within-group reliability, comparison</dt>
             <dd data-testid="derived-reliability-comparison">{fmtR(analytic.reliability.comparison, 3)}</dd>
             <dt>SEM</dt>
             <dd data-testid="derived-sem">{fmt(analytic.reliability.sem, 2)} points</dd>
