@@ -133,7 +133,7 @@ export function drawSelectionPretest(root: Sel, v: SelectionPretestView, title: 
     text(plot, 0, 0, 'Chance of selection', {
       'text-anchor': 'middle',
       'font-size': FONT.label,
-      transform: `translate(${ax + 48},${(top + height - bottom) / 2}) rotate(90)`,
+      transform: `translate(${ax + 48},${(top + height - bottom) / 2}) rotate(-90)`,
     });
   }
 

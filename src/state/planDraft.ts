@@ -359,7 +359,8 @@ function selectionCandidate(draft: PlanDraft, num: (field: string, raw: string) 
   if (names.comparison.trim() !== '') groups.comparison = { label: names.comparison };
   return {
     ...(Object.keys(groups).length > 0 ? { groups } : {}),
-    ...(draft.design === 'one-group' ? { design: 'one-group' } : {}),
+    // The design is always written with a rule, so a saved plan says plainly which it is.
+    design: draft.design,
     assignment: dropUndefined({
       rule: a.rule,
       basis: a.basis,
