@@ -1,3 +1,4 @@
+import { studyDesign } from '../core/design/studyDesign';
 import { usesCovariateModel } from '../core/multivariate/covariateModel';
 import type { Plan } from '../core/plan';
 import type { PlannedProcedureEstimates } from '../core/plannedProcedure';
@@ -22,13 +23,18 @@ export const QUICK_SEED_OFFSET = 7919;
  * pools, the covariate engine weighted by its higher cost per member
  * (propensity 6, Mahalanobis or covariates 3), clamped to
  * [QUICK_MIN_REPLICATIONS, QUICK_MAX_REPLICATIONS]. Depends only on the plan, so
- * the quick figures are reproducible.
+ * the quick figures are reproducible. A selection design draws its whole
+ * population every replication (the pools engine), so its people are
+ * population.poolSize.
  * @example quickReplications(demoPlan()) // 144 (1,380 members: 200,000 / 1,380)
  */
 export function quickReplications(plan: Plan): number {
-  const people = plan.groups.programme.poolSize + plan.groups.comparison.poolSize;
+  const selection = studyDesign(plan).kind === 'selection';
+  const people = selection
+    ? Math.max(1, plan.population?.poolSize ?? plan.groups.programme.poolSize + plan.groups.comparison.poolSize)
+    : plan.groups.programme.poolSize + plan.groups.comparison.poolSize;
   const distance = plan.matching.distance ?? 'pretest';
-  const weight = !usesCovariateModel(plan) ? 1 : distance === 'propensity' ? 6 : 3;
+  const weight = selection || !usesCovariateModel(plan) ? 1 : distance === 'propensity' ? 6 : 3;
   const r = Math.floor(QUICK_WORK_BUDGET / (people * weight));
   return Math.min(QUICK_MAX_REPLICATIONS, Math.max(QUICK_MIN_REPLICATIONS, r));
 }
@@ -43,8 +49,11 @@ export function quickReplications(plan: Plan): number {
  * (Thorndike 1942) can be far off for tight plans (demand near the comparison
  * pool's size, finite calipers, lowest-first order); this is not.
  *
- * Full-sample analyses (ANCOVA, gain score, corrected ANCOVA) are not
- * included: their closed forms already hold for the planned full samples.
+ * Full-sample analyses (ANCOVA, gain score, corrected ANCOVA, regression
+ * discontinuity, the pre–post change) are not included: their closed forms
+ * already hold for the planned full samples. A selection design with two
+ * groups runs the pools engine (createPlanSimulation); a one-group design has
+ * no matched difference, so nothing is simulated and no analyses are returned.
  *
  * Reference: Monte Carlo summaries as in Morris, White & Crowther (2019),
  * Table 6.
@@ -61,6 +70,7 @@ export function quickReplications(plan: Plan): number {
 export function estimatePlannedProcedure(plan: Plan): PlannedProcedureEstimates {
   const replications = quickReplications(plan);
   const seed = quickSeed(plan.simulation.seed);
+  if (studyDesign(plan).shape === 'one-group') return { replications, seed, analyses: {} };
   const run = createPlanSimulation(plan, { replications, seed });
   run.runChunk(0, replications);
   const result = run.finish();

@@ -28,19 +28,27 @@ export interface PretestMatchingRecords {
   ok: Uint8Array;
   stride: number;
   offset: number;
+  /**
+   * Programme members in each replication, when they vary (a selection rule decides who is in the
+   * programme): the discarded share is then averaged over replications, each relative to its own
+   * programme (a replication with no programme member counts as 0 discarded). Absent: every
+   * replication has `programmePoolSize` members.
+   */
+  programmeSizes?: Float64Array;
 }
 
 /**
  * Matching summary over replications, as both engines report it: mean matched
  * programme members and discarded share, each with its Monte Carlo SE (the
- * discarded share's is the matched count's over n_P); the pretest's observed
+ * discarded share's is the matched count's over n_P; with per-replication
+ * programme sizes, the mean and MCSE of each replication's own share); the pretest's observed
  * and true differences and SMDs before matching over all replications, after
  * matching over those with a matched set; the variance ratio over those where
  * it could be computed (meanAndMCSE; Morris, White & Crowther 2019, Table 6).
  *
  * @param records the per-replication records.
  * @param total number of replications stored (≥ 1).
- * @param programmePoolSize n_P, people (≥ 1).
+ * @param programmePoolSize n_P, people (≥ 1); ignored for the discarded share when records.programmeSizes is given.
  * @returns the SimMatchingSummary.
  * @throws never.
  * @example
@@ -54,11 +62,21 @@ export function summariseMatching(records: PretestMatchingRecords, total: number
   const [matchedMean, matchedMCSE] = meanAndMCSE(r.matched, total);
   const [obsAfter, obsAfterMCSE] = meanAndMCSE(r.observedAfter, total, after);
   const [trueAfter, trueAfterMCSE] = meanAndMCSE(r.trueAfter, total, after);
+  let discarded = 1 - matchedMean / nP;
+  let discardedMCSE = matchedMCSE / nP;
+  if (r.programmeSizes) {
+    const share = new Float64Array(total);
+    for (let i = 0; i < total; i++) {
+      const size = r.programmeSizes[i] as number;
+      share[i] = size > 0 ? 1 - (r.matched[i] as number) / size : 0;
+    }
+    [discarded, discardedMCSE] = meanAndMCSE(share, total);
+  }
   return {
     meanMatchedProgramme: matchedMean,
     meanMatchedProgrammeMCSE: matchedMCSE,
-    discardedProgrammeShare: 1 - matchedMean / nP,
-    discardedProgrammeShareMCSE: matchedMCSE / nP,
+    discardedProgrammeShare: discarded,
+    discardedProgrammeShareMCSE: discardedMCSE,
     observedDifferenceBefore: meanAndMCSE(r.observedBefore, total)[0],
     observedDifferenceAfter: obsAfter,
     observedDifferenceAfterMCSE: obsAfterMCSE,
