@@ -69,6 +69,12 @@ export const PLAN_LIMITS = {
   caliperMin: 0.0001,
   /** Lowest reliability the corrected ANCOVA may assume: it divides by it. */
   assumedReliabilityMin: 0.01,
+  /**
+   * Lowest screener reliability: its error variance up to 99 times its true
+   * variance. Below that the screener's SD runs to infinity in floating point
+   * and the analyses on it cannot be computed.
+   */
+  screenerReliabilityMin: 0.01,
 } as const;
 
 /** Bounds of a mean, gap or effect in points: within ±PLAN_LIMITS.pointsMax. */
@@ -191,7 +197,7 @@ export const planSchema = z
       side: oneOf('assignment.side', 'Who is selected', 'Those below the cut-off, or those above it, go into the programme.', ['below', 'above'] as const).optional(),
       spread: num('assignment.spread', 'Spread of the selection probability', 'For "probability": the SD of the normal ogive, on the pretest\u2019s scale.', SD).optional(),
       screenerReliability: num('assignment.screenerReliability', 'Screener reliability', 'For basis "screener": its reliability in the population.', {
-        gt: 0,
+        gte: PLAN_LIMITS.screenerReliabilityMin,
         lt: 1,
       }).optional(),
     }).optional(),

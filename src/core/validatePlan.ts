@@ -402,7 +402,8 @@ function describeKind(x: unknown): string {
 /** A received value, shown as the user typed it (text quoted, long text cut). */
 function show(x: unknown): string {
   if (typeof x === 'string') return showControlCharacters(JSON.stringify(x.length > 40 ? `${x.slice(0, 40)}…` : x), 'json');
-  if (typeof x === 'number') return Number.isFinite(x) ? String(x) : String(x);
+  // A non-finite number (possible in a plan built in memory, never in JSON) in plain words, not program text.
+  if (typeof x === 'number') return Number.isFinite(x) ? String(x) : Number.isNaN(x) ? 'not a number' : x > 0 ? 'an infinitely large number' : 'an infinitely large negative number';
   if (x === null) return 'null';
   if (x === undefined) return 'nothing';
   if (Array.isArray(x)) return 'a list';
