@@ -70,11 +70,12 @@ export const PLAN_LIMITS = {
   /** Lowest reliability the corrected ANCOVA may assume: it divides by it. */
   assumedReliabilityMin: 0.01,
   /**
-   * Lowest screener reliability: its error variance up to 99 times its true
-   * variance. Below that the screener's SD runs to infinity in floating point
-   * and the analyses on it cannot be computed.
+   * Lowest screener reliability (checked by validatePlan across fields, since
+   * the schema's own bound is "above 0"): a millionth. Far below it the
+   * screener's SD runs to infinity in floating point and the analyses on it
+   * cannot be computed.
    */
-  screenerReliabilityMin: 0.01,
+  screenerReliabilityMin: 0.000_001,
 } as const;
 
 /** Bounds of a mean, gap or effect in points: within ±PLAN_LIMITS.pointsMax. */
@@ -197,7 +198,7 @@ export const planSchema = z
       side: oneOf('assignment.side', 'Who is selected', 'Those below the cut-off, or those above it, go into the programme.', ['below', 'above'] as const).optional(),
       spread: num('assignment.spread', 'Spread of the selection probability', 'For "probability": the SD of the normal ogive, on the pretest\u2019s scale.', SD).optional(),
       screenerReliability: num('assignment.screenerReliability', 'Screener reliability', 'For basis "screener": its reliability in the population.', {
-        gte: PLAN_LIMITS.screenerReliabilityMin,
+        gt: 0,
         lt: 1,
       }).optional(),
     }).optional(),

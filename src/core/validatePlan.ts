@@ -156,6 +156,14 @@ function selectionProblems(input: Record<string, unknown>, bad: Set<string>): Pl
     need('assignment.side', 'it must be "below" or "above".');
     if (a.rule === 'probability') need('assignment.spread', "a probability rule needs the spread of its ogive, a number greater than 0 on the pretest's scale.");
     if (a.basis === 'screener') need('assignment.screenerReliability', 'a rule on a screener needs its reliability, a number between 0 and 1 (exclusive).');
+    // Far below a millionth the screener's SD is infinite in floating point: say so rather than fail later.
+    const sr = a.screenerReliability;
+    if (a.basis === 'screener' && typeof sr === 'number' && sr > 0 && sr < PLAN_LIMITS.screenerReliabilityMin && !bad.has('assignment.screenerReliability')) {
+      out.push({
+        field: 'assignment.screenerReliability',
+        message: `Screener reliability must be at least ${PLAN_LIMITS.screenerReliabilityMin.toFixed(6)}: a screener that measures nothing but error cannot be modelled; got ${sr}.`,
+      });
+    }
   }
   if (Array.isArray(input.covariates) && input.covariates.length > 0) {
     out.push({
