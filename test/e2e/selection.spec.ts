@@ -11,7 +11,7 @@ import { demoPlan } from '../../src/io/demoPlan';
 import { CLINIC_HIGH_READINGS, SCREENED_READING_SUPPORT } from '../../src/io/examplePlans';
 import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
 import { fmtSigned } from '../../src/ui/format';
-import { openFreshPlanner, shownNumber, trackForeignRequests, waitForPlannedFigures } from './plannerHelpers';
+import { clippedChartLabels, openFreshPlanner, shownNumber, trackForeignRequests, waitForPlannedFigures } from './plannerHelpers';
 
 const SHOTS = 'test-results/screens';
 
@@ -150,3 +150,27 @@ test('a one-group pre–post study, entered by keyboard: the change expected wit
   const result = await new AxeBuilder({ page }).analyze();
   expect(result.violations.map((v) => `${v.id}: ${v.help} (${v.nodes.map((n) => n.target.join(' ')).join(' ; ')})`)).toEqual([]);
 });
+
+for (const [device, width, height] of [
+  ['phone', 390, 844],
+  ['laptop', 1280, 800],
+] as const) {
+  test(`on a ${device} (${width} × ${height}): both selection examples fit, with every chart label inside its chart`, async ({ page }) => {
+    await page.setViewportSize({ width, height });
+    for (const [id, charts] of [
+      ['screened-reading-support', 4],
+      ['clinic-high-readings', 3], // a one-group study has no balance chart
+    ] as const) {
+      await page.getByLabel('Invented examples').selectOption(id);
+      await expect(page.getByTestId('verdict-rule')).toBeVisible();
+      await expect.poll(() => page.locator('figure[data-chart] svg title').count(), { timeout: 15_000 }).toBe(charts);
+      await page.waitForTimeout(600);
+      expect(await page.evaluate(() => document.documentElement.scrollWidth), `${id}: page width`).toBeLessThanOrEqual(width);
+      for (const right of await page.locator('figure[data-chart] svg').evaluateAll((els) => els.map((e) => e.getBoundingClientRect().right))) {
+        expect(right, `${id}: a chart runs off the right edge`).toBeLessThanOrEqual(width);
+      }
+      expect(await clippedChartLabels(page), `${id}: chart labels outside their chart`).toEqual([]);
+      await page.screenshot({ path: `${SHOTS}/${device}-${id}.png`, fullPage: true });
+    }
+  });
+}
