@@ -3,6 +3,7 @@ import { matchedSampleMeans } from '../core/matchedSampleMeans';
 import { matchedTrueScoreMeans, type MatchedTrueScoreMeans } from '../core/matchedTrueScoreMeans';
 import { observedPretestDensity } from '../core/observedPretestDensity';
 import type { ChartInput } from './chartTypes';
+import { selectionPretestView, type SelectionPretestView } from './selectionPretestView';
 
 export type GroupKey = 'programme' | 'comparison';
 
@@ -22,8 +23,23 @@ export interface ExampleMarks {
   trueScore: number;
 }
 
-/** Plain data for the "Pretest distributions" chart. */
-export interface PretestChartData {
+/**
+ * Plain data for the "Pretest distributions" chart: two existing groups
+ * (GroupsPretestChartData) or, when a rule forms the groups, the population
+ * and the rule (SelectionPretestChartData).
+ */
+export type PretestChartData = GroupsPretestChartData | SelectionPretestChartData;
+
+/** The pretest chart of a plan whose groups a rule forms (see SelectionPretestView). */
+export interface SelectionPretestChartData {
+  chart: 'pretest';
+  title: string;
+  xLabel: string;
+  selection: SelectionPretestView;
+}
+
+/** The pretest chart of two existing groups: their curves, the matched region and the matched members. */
+export interface GroupsPretestChartData {
   chart: 'pretest';
   title: string;
   xLabel: string;
@@ -45,6 +61,8 @@ export interface PretestChartData {
     discarded: number;
     means: { observed: Record<GroupKey, number>; trueScore: Record<GroupKey, number> };
   } | null;
+  /** Always null here: a plan whose groups a rule forms gets SelectionPretestChartData. */
+  selection: null;
 }
 
 const GRID = 121;
@@ -53,7 +71,24 @@ const GRID = 121;
  * Transform plan + results into the pretest-distributions chart's data.
  * Pure and deterministic; every statistic comes from src/core or the simulation.
  */
-export function pretestChartData({ plan, analytic, simulation }: ChartInput): PretestChartData {
+export function pretestChartData(input: ChartInput): PretestChartData {
+  const selection = selectionPretestView(input.plan);
+  if (selection) {
+    return {
+      chart: 'pretest',
+      title: 'Who the rule selects, and where they would score when measured again without the programme',
+      xLabel: 'Score on the pretest scale (test points)',
+      selection,
+    };
+  }
+  return groupsPretestChartData(input);
+}
+
+/**
+ * The two-existing-groups form of the pretest chart's data (pretestChartData
+ * gives it for every plan without a selection rule).
+ */
+export function groupsPretestChartData({ plan, analytic, simulation }: ChartInput): GroupsPretestChartData {
   const m = analytic.model;
   const keys: GroupKey[] = ['programme', 'comparison'];
   const lo = Math.min(m.mean.programme - 3.5 * m.observedSD.programme, m.mean.comparison - 3.5 * m.observedSD.comparison);
@@ -76,9 +111,9 @@ export function pretestChartData({ plan, analytic, simulation }: ChartInput): Pr
   }
 
   const pairs = simulation?.example.pairs ?? [];
-  let region: PretestChartData['region'] = null;
-  let kelley: PretestChartData['kelley'];
-  let example: PretestChartData['example'] = null;
+  let region: GroupsPretestChartData['region'] = null;
+  let kelley: GroupsPretestChartData['kelley'];
+  let example: GroupsPretestChartData['example'] = null;
   if (simulation && pairs.length > 0) {
     const means = matchedSampleMeans(pairs);
     kelley = { ...matchedTrueScoreMeans(m, means.observed), source: 'example' };
@@ -105,5 +140,6 @@ export function pretestChartData({ plan, analytic, simulation }: ChartInput): Pr
     region,
     kelley,
     example,
+    selection: null,
   };
 }

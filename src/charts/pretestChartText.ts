@@ -1,9 +1,37 @@
 import type { ChartText } from './chartTypes';
 import type { PretestChartData } from './pretestChartData';
 import { fmt } from './svgHelpers';
+import type { SelectionPretestView } from './selectionPretestView';
+
+/** Text alternative to the selection view: the rule, who it selects, and where they score when measured again. */
+function selectionText(title: string, v: SelectionPretestView): ChartText {
+  const who = v.side === 'below' ? 'below' : 'above';
+  const rule =
+    v.ruleShape === 'cut-line'
+      ? `Everyone whose pretest score is ${who} ${fmt(v.cutOff, 1)} is selected (a sharp cut-off on the pretest itself).`
+      : `The rule looked at the ${v.basisWords} with a cut-off at ${fmt(v.cutOff, 1)} (${who}); at a given pretest score the chance of selection is drawn on the right-hand scale, because the pretest and the ${v.basisWords} do not agree person by person.`;
+  const sentences = [
+    `Population (${v.populationLabel}): mean pretest ${fmt(v.means.population, 1)} points.`,
+    rule,
+    `About ${fmt(v.share * 100, 0)}% of the population is selected (${v.programmeLabel}); their mean pretest is ${fmt(v.means.selectedPretest, 1)} points.`,
+    `Measured again with no programme, the same people are expected to average ${fmt(v.means.selectedRemeasured, 1)} points, nearer the population mean: regression toward the mean alone.`,
+    'The selected group is drawn as its share of the population, so its area is the share selected.',
+  ];
+  const rows = [
+    ['Population', fmt(v.means.population, 1), '100%'],
+    ['Selected, at the pretest', fmt(v.means.selectedPretest, 1), `${fmt(v.share * 100, 0)}%`],
+    ['Selected, measured again with no programme', fmt(v.means.selectedRemeasured, 1), `${fmt(v.share * 100, 0)}%`],
+  ];
+  return {
+    title,
+    sentences,
+    table: { caption: 'Mean scores of the population and of the selected people', columns: ['Who', 'Mean score (points)', 'Share of the population'], rows },
+  };
+}
 
 /** Text alternative to the pretest-distributions chart: sentences and a table (screen readers, PDF). */
 export function pretestChartText(data: PretestChartData): ChartText {
+  if (data.selection) return selectionText(data.title, data.selection);
   const { programme: p, comparison: c } = data.groups;
   const k = data.kelley;
   const sentences = [

@@ -1,7 +1,8 @@
 import * as d3 from 'd3';
 import type { RenderOptions } from './chartTypes';
-import type { GroupKey, PretestChartData } from './pretestChartData';
+import type { GroupKey, GroupsPretestChartData, PretestChartData } from './pretestChartData';
 import { pretestChartText } from './pretestChartText';
+import { drawSelectionPretest, selectionPretestMinHeight } from './renderSelectionPretestChart';
 import { DIMMED_OPACITY, GROUP_COLOURS } from './palette';
 import {
   COMPACT_WIDTH,
@@ -47,7 +48,7 @@ const HEADING = 'Matched members';
 const MIN_DENSITY_H = 100;
 const NOTE_ROOM = 1.15;
 
-function legendLabels(data: PretestChartData): { label: string; w: number }[] {
+function legendLabels(data: GroupsPretestChartData): { label: string; w: number }[] {
   const items = (['programme', 'comparison'] as GroupKey[]).map((g) => {
     const label = `${g === 'programme' ? 'Programme' : 'Comparison'}: ${short(data.groups[g].label)}`;
     return { label, w: 44 + label.length * FONT.tick * 0.64 };
@@ -59,11 +60,11 @@ function legendLabels(data: PretestChartData): { label: string; w: number }[] {
   return items;
 }
 
-function hiddenGapNote(data: PretestChartData): string {
+function hiddenGapNote(data: GroupsPretestChartData): string {
   return `Hidden true-score gap after matching: ${fmt(data.kelley.hiddenGap, 2)} points`;
 }
 
-function layoutPretest(data: PretestChartData, width: number): PretestLayout {
+function layoutPretest(data: GroupsPretestChartData, width: number): PretestLayout {
   const compact = width < COMPACT_WIDTH;
   const left = compact ? 60 : 172;
   const right = 24;
@@ -114,6 +115,7 @@ function layoutPretest(data: PretestChartData, width: number): PretestLayout {
 
 /** The least height (px) the pretest chart needs at a width so its rows and labels never overlap. */
 export function pretestChartMinHeight(data: PretestChartData, width: number): number {
+  if (data.selection) return selectionPretestMinHeight(data.selection, data.title, data.xLabel, width);
   return layoutPretest(data, width).minHeight;
 }
 
@@ -128,6 +130,12 @@ export function pretestChartMinHeight(data: PretestChartData, width: number): nu
 export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, opts: RenderOptions): void {
   const alt = pretestChartText(data);
   const { width } = opts;
+  if (data.selection) {
+    const height = Math.max(opts.height, pretestChartMinHeight(data, width));
+    const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
+    drawSelectionPretest(root, data.selection, data.title, data.xLabel, width, height);
+    return;
+  }
   const L = layoutPretest(data, width);
   const height = Math.max(opts.height, L.minHeight);
   const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));

@@ -80,7 +80,7 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
   top += 14;
   const x = d3.scaleLinear().domain(data.xDomain).range([left, width - right]);
   const y = d3.scaleLinear().domain(data.yDomain).range([height - bottom, top]);
-  const digits = data.mode === 'reliability' ? 2 : 1;
+  const digits = data.mode === 'reliability' || data.mode === 'screenerReliability' ? 2 : 1;
   // Reference-line labels: in the right margin when wide, inside the plot's right end (above the line) when narrow.
   // Labels inside the plot take turns: each moves down (or up) a line until it is clear of those placed.
   const placed: { x0: number; x1: number; y0: number; y1: number }[] = [];

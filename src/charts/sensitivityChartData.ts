@@ -3,6 +3,8 @@ import type { AnalysisId } from '../core/plan';
 import { presentAnalyses } from '../core/presentAnalyses';
 import { sensitivityCurve, type SensitivityVariable } from '../core/sensitivityCurve';
 import type { ChartInput } from './chartTypes';
+import type { Plan } from '../core/plan';
+import { studyDesign } from '../core/design/studyDesign';
 
 /** One analysis' expected-bias curve. */
 export interface SensitivitySeries {
@@ -36,10 +38,29 @@ export interface SensitivityChartData {
   coincident: [AnalysisId, AnalysisId][];
 }
 
+const SENSITIVITY_TITLES: Record<SensitivityVariable, string> = {
+  reliability: 'Sensitivity: expected bias against pretest reliability',
+  pretestGap: 'Sensitivity: expected bias against the pretest group gap',
+  cutOff: 'Sensitivity: expected bias against the cut-off',
+  screenerReliability: 'Sensitivity: expected bias against the screener reliability',
+};
+
+/**
+ * What the sensitivity chart can vary for a plan: reliability and the
+ * pretest gap for existing groups; reliability and the cut-off when a rule
+ * forms the groups, and the screener's reliability when the rule used one
+ * (core's sensitivityCurve refuses the rest with a plain message).
+ */
+export function sensitivityModes(plan: Plan): SensitivityVariable[] {
+  const d = studyDesign(plan);
+  if (d.kind === 'existing-groups') return ['reliability', 'pretestGap'];
+  return d.basis === 'screener' ? ['reliability', 'cutOff', 'screenerReliability'] : ['reliability', 'cutOff'];
+}
+
 /**
  * Transform plan + results into the sensitivity chart's data: expected bias of
- * each analysis against pretest reliability or against the pretest group gap
- * (core's sensitivityCurve), the tolerated band, break-even and current x.
+ * each analysis against pretest reliability, the pretest group gap, the
+ * cut-off or the screener's reliability (core's sensitivityCurve; see sensitivityModes), the tolerated band, break-even and current x.
  * Works from closed forms only (formula for unlimited pools and exact matching;
  * the simulation and the quick planned-procedure figures add nothing here),
  * so it depends on the plan alone. Pure and deterministic.
@@ -70,8 +91,8 @@ export function sensitivityChartData({ plan, analytic }: ChartInput, mode: Sensi
   return {
     chart: 'sensitivity',
     mode,
-    title: mode === 'reliability' ? 'Sensitivity: expected bias against pretest reliability' : 'Sensitivity: expected bias against the pretest group gap',
-    xLabel: mode === 'reliability' ? 'Pretest reliability in its reference population (0 to 1)' : curve.xLabel,
+    title: SENSITIVITY_TITLES[mode],
+    xLabel: mode === 'reliability' ? 'Pretest reliability in its reference population (0 to 1)' : mode === 'screenerReliability' ? 'Screener reliability in the population (0 to 1)' : curve.xLabel,
     yLabel: 'Expected bias (posttest points)',
     series,
     tau: curve.effect,

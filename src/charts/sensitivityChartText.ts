@@ -4,15 +4,36 @@ import { ANALYSIS_STYLES } from './palette';
 import { fmt } from './svgHelpers';
 import { PLANNING_CAUTION } from '../core/planningCaution';
 
+const WHAT: Record<SensitivityChartData['mode'], string> = {
+  reliability: 'pretest reliability',
+  pretestGap: 'pretest gap',
+  cutOff: 'cut-off',
+  screenerReliability: 'screener reliability',
+};
+const COLUMN: Record<SensitivityChartData['mode'], string> = {
+  reliability: 'Reliability',
+  pretestGap: 'Pretest gap (points)',
+  cutOff: 'Cut-off (points)',
+  screenerReliability: 'Screener reliability',
+};
+
 /** Text alternative to the sensitivity chart: sentences and a table of the curves at a few x values. */
 export function sensitivityChartText(data: SensitivityChartData): ChartText {
-  const what = data.mode === 'reliability' ? 'pretest reliability' : 'pretest gap';
-  const d = data.mode === 'reliability' ? 2 : 1;
+  const what = WHAT[data.mode];
+  const d = data.mode === 'reliability' || data.mode === 'screenerReliability' ? 2 : 1;
+  // Whose artefact the break-even marks (core's sensitivityCurve): the matched difference's, else ANCOVA's
+  // (a sharp cut-off on the pretest leaves nobody to match), or the one analysis of a one-group study.
+  const whose =
+    data.series.length === 1
+      ? `The ${data.series[0]!.name.toLowerCase()} artefact`
+      : data.series.some((s) => s.id === 'matchedDifference')
+        ? 'The matched-difference artefact'
+        : 'The ANCOVA artefact';
   const sentences = [
     `Expected bias of each analysis as the ${what} varies. Biases within +/- ${fmt(data.band.upper, 2)} points (${fmt(data.tolerableShare * 100, 0)}% of the hoped-for effect of ${fmt(data.tau, 2)}) are tolerated.`,
     `This plan: ${what} ${fmt(data.current, d)}; expected biases ${data.series.map((s) => `${s.name} ${fmt(s.currentBias, 2)}`).join(', ')} points.`,
     data.breakEvenX.length > 0
-      ? `The matched-difference artefact reaches the edge of the tolerated band at ${what} ${data.breakEvenX.map((v) => fmt(v, d)).join(' and ')}.`
+      ? `${whose} reaches the edge of the tolerated band at ${what} ${data.breakEvenX.map((v) => fmt(v, d)).join(' and ')}.`
       : 'No break-even value lies on this axis.',
     PLANNING_CAUTION,
     ...data.coincident.map(([a, b]) => `${ANALYSIS_STYLES[a].shortLabel} and ${ANALYSIS_STYLES[b].shortLabel} have the same expected bias all along this axis.`),
@@ -29,7 +50,7 @@ export function sensitivityChartText(data: SensitivityChartData): ChartText {
     sentences,
     table: {
       caption: `Expected bias (posttest points) by ${what}`,
-      columns: [data.mode === 'reliability' ? 'Reliability' : 'Pretest gap (points)', ...data.series.map((s) => ANALYSIS_STYLES[s.id].shortLabel)],
+      columns: [COLUMN[data.mode], ...data.series.map((s) => ANALYSIS_STYLES[s.id].shortLabel)],
       rows,
     },
   };

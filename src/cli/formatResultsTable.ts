@@ -3,6 +3,8 @@ import { presentAnalyses } from '../core/presentAnalyses';
 import type { Plan } from '../core/plan';
 import { procedureBasisNote } from '../core/procedureBasisNote';
 import { showControlCharacters as visible } from '../core/visibleText';
+import { centralCutOffVarianceInflation } from '../core/design/centralCutOffVarianceInflation';
+import { selectionModel } from '../core/design/selectionModel';
 
 /** The caution printed under every result. */
 export const PLANNING_CAUTION =
@@ -17,7 +19,7 @@ export const fmtReliability = (x: number): string => fixed(x, 3);
 export const fmtPercent = (x: number | null): string => (x === null ? 'n/a' : `${fixed(x * 100, 1)}%`);
 
 /**
- * The readable result of "meanward run": per analysis the expected estimate,
+ * The readable result of "meanward run": the design and the rule, then per analysis the expected estimate,
  * bias (points and SD units), bias as a share of the effect, power and
  * false-positive rate; with covariates, the expected balance per variable and
  * the unmeasured part of the bias; then the reliabilities, SEM and break-even
@@ -28,9 +30,7 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   const lines: string[] = [];
   lines.push(plan.title === '' ? 'Untitled plan' : visible(plan.title));
   lines.push('');
-  lines.push(
-    `Hypothesised effect: ${fmtPoints(results.tau)} posttest points. Programme: ${visible(plan.groups.programme.label)} (${plan.groups.programme.poolSize}); comparison: ${visible(plan.groups.comparison.label)} (${plan.groups.comparison.poolSize}).`,
-  );
+  lines.push(...designLines(plan, results));
   lines.push('');
   lines.push('Expected results for the procedure as planned');
   lines.push(procedureBasisNote(results));
@@ -58,12 +58,23 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   for (const r of rows) lines.push(line(r));
   for (const [, a] of presentAnalyses(results.analyses)) {
     if (!a.feasible) lines.push(`  ${a.name}: not feasible. ${a.infeasibleReason ?? ''}`.trimEnd());
+    if (a.varianceInflation !== undefined) {
+      lines.push(
+        `  ${a.name}: its variance is ${fmtPoints(a.varianceInflation)} times a randomised study's of the same size and split ` +
+          `(about ${fmtPoints(centralCutOffVarianceInflation())} at a cut-off in the middle of the scores), so it needs that many times the sample for the same power.`,
+      );
+    }
   }
   lines.push(...covariateLines(results));
   lines.push('');
   lines.push('Pretest');
-  lines.push(`  Within-group reliability, programme:  ${fmtReliability(results.reliability.programme)}`);
-  lines.push(`  Within-group reliability, comparison: ${fmtReliability(results.reliability.comparison)}`);
+  if (results.design.kind === 'selection') {
+    // With a rule the pretest is described in the whole population (a group the rule cut out has no reliability of its own).
+    lines.push(`  Reliability in the population:        ${fmtReliability(selectionModel(plan).population.reliability)}`);
+  } else {
+    lines.push(`  Within-group reliability, programme:  ${fmtReliability(results.reliability.programme)}`);
+    lines.push(`  Within-group reliability, comparison: ${fmtReliability(results.reliability.comparison)}`);
+  }
   lines.push(`  Standard error of measurement (SEM):  ${fmtPoints(results.reliability.sem)} points`);
   const be = results.breakEven;
   lines.push(
@@ -72,6 +83,37 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
       : `  Break-even reliability: ${fmtReliability(be.reliability)} (${be.alreadyMet ? 'already met' : 'not met'}). ${be.note}`.trimEnd(),
   );
   return `${lines.join('\n')}\n`;
+}
+
+/**
+ * The design and the rule (core's design summary), the hoped-for effect and
+ * the groups: for a rule, the population and the groups it forms (expected
+ * sizes); for a one-group study, the change expected with no programme.
+ */
+function designLines(plan: Plan, results: AnalyticResults): string[] {
+  const d = results.design;
+  const P = plan.groups.programme;
+  const C = plan.groups.comparison;
+  const effect = `Hypothesised effect: ${fmtPoints(results.tau)} posttest points.`;
+  if (d.kind === 'existing-groups') {
+    return [
+      `${effect} Programme: ${visible(P.label)} (${P.poolSize}); comparison: ${visible(C.label)} (${C.poolSize}).`,
+      `Design: two existing groups. ${d.rule}`,
+    ];
+  }
+  const pop = plan.population;
+  const out = [
+    `Design: ${d.shape === 'one-group' ? 'one group, measured before and after (no comparison group)' : 'two groups formed by a rule'}.`,
+    `Rule: ${d.rule}`,
+    `What it means: ${d.meaning}`,
+  ];
+  if (pop) out.push(`Population: ${visible(pop.label)} (${pop.poolSize}); selected about ${fmtPercent(d.selectedShare)}.`);
+  out.push(
+    d.shape === 'one-group'
+      ? `${effect} Selected: ${visible(P.label)} (about ${P.poolSize}). Change expected with no programme: ${d.noProgrammeChange === null ? 'n/a' : fmtPoints(d.noProgrammeChange)} points.`
+      : `${effect} Programme: ${visible(P.label)} (about ${P.poolSize}); comparison: ${visible(C.label)} (about ${C.poolSize}).`,
+  );
+  return out;
 }
 
 const DISTANCE_WORDS = {

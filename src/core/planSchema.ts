@@ -69,6 +69,13 @@ export const PLAN_LIMITS = {
   caliperMin: 0.0001,
   /** Lowest reliability the corrected ANCOVA may assume: it divides by it. */
   assumedReliabilityMin: 0.01,
+  /**
+   * Lowest screener reliability (checked by validatePlan across fields, since
+   * the schema's own bound is "above 0"): a millionth. Far below it the
+   * screener's SD runs to infinity in floating point and the analyses on it
+   * cannot be computed.
+   */
+  screenerReliabilityMin: 0.000_001,
 } as const;
 
 /** Bounds of a mean, gap or effect in points: within ±PLAN_LIMITS.pointsMax. */

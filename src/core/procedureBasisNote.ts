@@ -5,13 +5,18 @@ import type { AnalyticResults } from './analyticResults';
  * from, for the screen, the PDF and the CLI alike: the quick simulation of the
  * planned procedure (with its replications) for the matching-based analysis and
  * closed forms for the full-sample analyses, or, before the quick figures are
- * in, closed forms that assume unlimited pools and exact matching.
+ * in, closed forms that assume unlimited pools and exact matching; for a
+ * design without a matched difference (one group), closed forms alone.
  *
  * @param r analytic results (analysePlan).
  * @returns the sentence.
  * @example procedureBasisNote(analysePlan(demoPlan())) // "Expected figures come from closed forms: …"
  */
 export function procedureBasisNote(r: AnalyticResults): string {
+  // A one-group study matches nobody: its one analysis is a closed form for the population and the rule.
+  if (r.analyses.matchedDifference === undefined) {
+    return 'Expected figures come from closed forms for this population and rule (nobody is matched, so no quick simulation is needed).';
+  }
   if (r.procedure.basis === 'planned-procedure') {
     return (
       `Expected figures are for the procedure as planned: the matched difference from a quick simulation of these pools, ` +

@@ -156,6 +156,14 @@ function selectionProblems(input: Record<string, unknown>, bad: Set<string>): Pl
     need('assignment.side', 'it must be "below" or "above".');
     if (a.rule === 'probability') need('assignment.spread', "a probability rule needs the spread of its ogive, a number greater than 0 on the pretest's scale.");
     if (a.basis === 'screener') need('assignment.screenerReliability', 'a rule on a screener needs its reliability, a number between 0 and 1 (exclusive).');
+    // Far below a millionth the screener's SD is infinite in floating point: say so rather than fail later.
+    const sr = a.screenerReliability;
+    if (a.basis === 'screener' && typeof sr === 'number' && sr > 0 && sr < PLAN_LIMITS.screenerReliabilityMin && !bad.has('assignment.screenerReliability')) {
+      out.push({
+        field: 'assignment.screenerReliability',
+        message: `Screener reliability must be at least ${PLAN_LIMITS.screenerReliabilityMin.toFixed(6)}: a screener that measures nothing but error cannot be modelled; got ${sr}.`,
+      });
+    }
   }
   if (Array.isArray(input.covariates) && input.covariates.length > 0) {
     out.push({
@@ -402,7 +410,8 @@ function describeKind(x: unknown): string {
 /** A received value, shown as the user typed it (text quoted, long text cut). */
 function show(x: unknown): string {
   if (typeof x === 'string') return showControlCharacters(JSON.stringify(x.length > 40 ? `${x.slice(0, 40)}…` : x), 'json');
-  if (typeof x === 'number') return Number.isFinite(x) ? String(x) : String(x);
+  // A non-finite number (possible in a plan built in memory, never in JSON) in plain words, not program text.
+  if (typeof x === 'number') return Number.isFinite(x) ? String(x) : Number.isNaN(x) ? 'not a number' : x > 0 ? 'an infinitely large number' : 'an infinitely large negative number';
   if (x === null) return 'null';
   if (x === undefined) return 'nothing';
   if (Array.isArray(x)) return 'a list';

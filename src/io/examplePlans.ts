@@ -1,4 +1,5 @@
 import type { Plan } from '../core/plan';
+import { derivedGroups } from '../core/design/derivedGroups';
 import { DEMO_PLAN } from './demoPlan';
 
 /** A built-in example plan with a short name and a one-paragraph description. */
@@ -99,6 +100,59 @@ export const AFTER_SCHOOL_MATHS: Plan = {
   ],
 };
 
+/**
+ * A plan whose groups a rule forms: the groups are the ones core derives from
+ * the population and the rule (as validatePlan would), with the given names.
+ */
+function withRuleGroups(plan: Omit<Plan, 'groups'>, labels: { programme: string; comparison?: string }): Plan {
+  const base = plan as Plan;
+  return { ...base, groups: derivedGroups(base, labels) };
+}
+
+/**
+ * INVENTED EXAMPLE of a rule on a separate screener: pupils whose autumn
+ * screening score falls below 85 get reading support; the screener
+ * (reliability .7) is less reliable than the pretest the evaluation uses (.85).
+ */
+export const SCREENED_READING_SUPPORT: Plan = withRuleGroups(
+  {
+    format: 'meanward-plan',
+    version: 1,
+    title: 'Invented example: reading support for pupils below a cut-off on a short screening test',
+    design: 'two-groups',
+    assignment: { rule: 'cut-off', basis: 'screener', cutOff: 85, side: 'below', screenerReliability: 0.7 },
+    population: { label: 'Year 2 pupils in the district', poolSize: 3000, pretestMean: 100, pretestSD: 15 },
+    pretest: { reliability: 0.85, referenceSD: 15 },
+    outcome: { posttestSD: 15, prePostCorrelation: 0.7, growthGap: 0, hypothesisedEffect: 4, effectScale: 'points' },
+    matching: { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random' },
+    analysis: { alpha: 0.05, assumedReliability: 0.85, tolerableBiasShare: 0.25, targetPower: 0.8 },
+    simulation: { replications: 1000, seed: 2718 },
+  },
+  { programme: 'Pupils given reading support', comparison: 'Pupils not selected' },
+);
+
+/**
+ * INVENTED EXAMPLE of a one-group study: clinic patients whose blood-pressure
+ * reading was above 150 mmHg are invited to a lifestyle course and measured
+ * again afterwards; one reading has reliability about .7.
+ */
+export const CLINIC_HIGH_READINGS: Plan = withRuleGroups(
+  {
+    format: 'meanward-plan',
+    version: 1,
+    title: 'Invented example: a lifestyle course for clinic patients picked for high blood-pressure readings, re-measured with no comparison group',
+    design: 'one-group',
+    assignment: { rule: 'cut-off', basis: 'pretest', cutOff: 150, side: 'above' },
+    population: { label: 'Adults seen at the health-check clinic', poolSize: 5000, pretestMean: 130, pretestSD: 16 },
+    pretest: { reliability: 0.7, referenceSD: 16 },
+    outcome: { posttestSD: 16, prePostCorrelation: 0.6, growthGap: 0, hypothesisedEffect: -5, effectScale: 'points' },
+    matching: { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random' },
+    analysis: { alpha: 0.05, assumedReliability: 0.7, tolerableBiasShare: 0.25, targetPower: 0.8 },
+    simulation: { replications: 1000, seed: 1618 },
+  },
+  { programme: 'Patients invited to the course' },
+);
+
 /** The built-in examples, the demo first. Callers must copy a plan before changing it. */
 export const EXAMPLE_PLANS: readonly ExamplePlan[] = [
   {
@@ -135,5 +189,19 @@ export const EXAMPLE_PLANS: readonly ExamplePlan[] = [
     description:
       'Invented. Pupils referred to a maths club start lower on prior attainment, attend less and live in more deprived areas; matching on a propensity score of the four measured covariates leaves their measurement error and an unmeasured family-engagement confounder, which no analysis of the measured covariates removes.',
     plan: AFTER_SCHOOL_MATHS,
+  },
+  {
+    id: 'screened-reading-support',
+    name: 'Cut-off on a screener',
+    description:
+      'Invented. Pupils whose score on a short screening test (reliability .7) falls below 85 get reading support, and the evaluation uses a better pretest (reliability .85). The rule looked at the screener, not the pretest, so ANCOVA on the pretest is biased as well as matching; only an analysis on the screener itself, a regression discontinuity, follows the rule.',
+    plan: SCREENED_READING_SUPPORT,
+  },
+  {
+    id: 'clinic-high-readings',
+    name: 'One group picked for high readings',
+    description:
+      'Invented. Clinic patients whose blood-pressure reading was above 150 mmHg are invited to a lifestyle course and measured again afterwards, with no comparison group. One reading has reliability about .7, so people picked for high readings are expected to come down on re-measurement even if the course does nothing, and that fall can exceed the 5 mmHg the course hopes for.',
+    plan: CLINIC_HIGH_READINGS,
   },
 ];

@@ -3,9 +3,12 @@ import { validatePlan, type PlanCheck } from '../core/validatePlan';
 
 /**
  * The plan with its keys in the file's fixed order (format, version, title,
- * groups, pretest, outcome, matching, analysis, simulation, then the optional
- * covariates, covariateCorrelations and provenance) and absent optional fields
- * left out, so the same plan always gives the same text.
+ * groups, the optional design, assignment and population, pretest, outcome,
+ * matching, analysis, simulation, then the optional covariates,
+ * covariateCorrelations and provenance) and absent optional fields left out,
+ * so the same plan always gives the same text. With a selection rule the
+ * groups written are the ones the rule forms (expected sizes, means and SDs,
+ * for a reader of the file; only their labels are read back).
  */
 export function canonicalPlan(plan: Plan): Plan {
   const group = (g: Plan['groups']['programme']) => ({
@@ -37,6 +40,18 @@ export function canonicalPlan(plan: Plan): Plan {
     version: plan.version,
     title: plan.title,
     groups: { programme: group(plan.groups.programme), comparison: group(plan.groups.comparison) },
+    ...(plan.design !== undefined ? { design: plan.design } : {}),
+    ...(plan.assignment !== undefined ? { assignment: canonicalAssignment(plan.assignment) } : {}),
+    ...(plan.population !== undefined
+      ? {
+          population: {
+            label: plan.population.label,
+            poolSize: plan.population.poolSize,
+            pretestMean: plan.population.pretestMean,
+            pretestSD: plan.population.pretestSD,
+          },
+        }
+      : {}),
     pretest,
     outcome: {
       posttestSD: plan.outcome.posttestSD,
@@ -76,6 +91,17 @@ export function canonicalPlan(plan: Plan): Plan {
     canonical.provenance = provenance;
   }
   return canonical;
+}
+
+/** The assignment with its keys in a fixed order and absent fields left out. */
+function canonicalAssignment(a: NonNullable<Plan['assignment']>): NonNullable<Plan['assignment']> {
+  const out: NonNullable<Plan['assignment']> = { rule: a.rule };
+  if (a.basis !== undefined) out.basis = a.basis;
+  if (a.cutOff !== undefined) out.cutOff = a.cutOff;
+  if (a.side !== undefined) out.side = a.side;
+  if (a.spread !== undefined) out.spread = a.spread;
+  if (a.screenerReliability !== undefined) out.screenerReliability = a.screenerReliability;
+  return out;
 }
 
 /**

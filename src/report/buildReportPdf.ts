@@ -3,6 +3,8 @@ import type { AnalyticResults } from '../core/analyticResults';
 import type { AnalysisId, Plan } from '../core/plan';
 import { presentAnalysisIds, requireAnalysis } from '../core/presentAnalyses';
 import { headlineAnalysisId } from '../core/design/studyDesign';
+import { selectionModel } from '../core/design/selectionModel';
+import { centralCutOffVarianceInflation } from '../core/design/centralCutOffVarianceInflation';
 import { serializePlan } from '../io/planFile';
 import { isFeasible, type SimAnalysisResult, type SimAnalysisSummary, type SimulationResult } from '../sim/types';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
@@ -32,7 +34,7 @@ import {
 import { planInputRows, type InputSource } from './planInputRows';
 import { CONTINUATION, PLAN_BEGIN, PLAN_END } from './planJsonBlock';
 import { FONT_SANS, loadReportFonts, registerReportFonts, type ReportFonts } from './reportFonts';
-import { CAUTION_LINE, CAUTIONS, MODEL_LINES, REFERENCES, VERDICT_LABEL, VERDICT_TEXT } from './reportText';
+import { CAUTION_LINE, CAUTIONS, MODEL_LINES, REFERENCES, SELECTION_MODEL_LINES, SELECTION_REFERENCES, VERDICT_LABEL, VERDICT_TEXT } from './reportText';
 
 /** A chart to include: its SVG text (as rendered on screen) and how to read it. */
 export interface ReportChart {
@@ -115,13 +117,38 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   const md = requireAnalysis(A, headlineAnalysisId(plan));
   const gap = analytic.model.pretestGap;
   const best = analytic.remedies[0];
-  const summary = [
-    `This plan compares “${showControlCharacters(P.label)}” (${formatCount(P.poolSize)} people available) with “${showControlCharacters(C.label)}” (${formatCount(C.poolSize)} available).`,
-    gap === 0
+  const design = analytic.design;
+  const oneGroup = design.shape === 'one-group';
+  const pop = plan.population;
+  const groupsSentence =
+    design.kind === 'existing-groups' || !pop
+      ? [
+          `This plan compares “${showControlCharacters(P.label)}” (${formatCount(P.poolSize)} people available) with “${showControlCharacters(C.label)}” (${formatCount(C.poolSize)} available).`,
+          `How the groups were formed: ${design.rule}`,
+        ]
+      : [
+          `People are drawn from one population, “${showControlCharacters(pop.label)}” (${formatCount(pop.poolSize)} people). ${design.rule}`,
+          oneGroup
+            ? `About ${formatCount(P.poolSize)} people (${formatShare(design.selectedShare ?? 0)}) are selected, “${showControlCharacters(P.label)}”, and only they are measured again.`
+            : `That forms “${showControlCharacters(P.label)}” (about ${formatCount(P.poolSize)} people, ${formatShare(design.selectedShare ?? 0)}) and “${showControlCharacters(C.label)}” (about ${formatCount(C.poolSize)}).`,
+          `What the rule means for the analyses: ${design.meaning}`,
+        ];
+  // With a rule the pretest is described in the whole population (a group cut out by the rule has no reliability of its own).
+  const populationReliability = design.kind === 'selection' ? selectionModel(plan).population.reliability : null;
+  const reliabilitySentence =
+    populationReliability !== null
+      ? `The pretest’s reliability in the population is ${formatReliability(populationReliability)} (SEM ${formatPoints(analytic.reliability.sem)} points).`
+      : gap === 0
       ? `The two groups have the same pretest mean; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`
-      : `On the pretest the programme group’s mean is ${formatPoints(Math.abs(gap))} points ${gap < 0 ? 'below' : 'above'} the comparison group’s; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`,
-    `Each programme member is to be matched to ${plan.matching.ratio} comparison ${plan.matching.ratio === 1 ? 'person' : 'people'} within a caliper of ${caliperPhrase(plan)}, and the study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points.`,
-    `Under the model, the matched post-test difference is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a bias of ${formatSignedPoints(md.bias)} points${md.biasShare === null ? '' : ` (${formatShare(Math.abs(md.biasShare))} of the hoped-for effect${md.biasShare < 0 ? ', in the opposite direction' : ''})`}, so ${VERDICT_TEXT[md.verdict]}.`,
+      : `On the pretest the programme group’s mean is ${formatPoints(Math.abs(gap))} points ${gap < 0 ? 'below' : 'above'} the comparison group’s; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`;
+  const planSentence = oneGroup
+    ? `The study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points; with no programme at all the selected people are expected to change by ${formatSignedPoints(design.noProgrammeChange ?? 0)} points.`
+    : `Each programme member is to be matched to ${plan.matching.ratio} comparison ${plan.matching.ratio === 1 ? 'person' : 'people'} within a caliper of ${caliperPhrase(plan)}, and the study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points.`;
+  const summary = [
+    ...groupsSentence,
+    reliabilitySentence,
+    planSentence,
+    `Under the model, the ${lowerName(md.name)} is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a bias of ${formatSignedPoints(md.bias)} points${md.biasShare === null ? '' : ` (${formatShare(Math.abs(md.biasShare))} of the hoped-for effect${md.biasShare < 0 ? ', in the opposite direction' : ''})`}, so ${VERDICT_TEXT[md.verdict]}.`,
     best
       ? `The first-ranked remedy is “${best.title}”, which leaves an expected artefact of ${formatSignedPoints(best.remainingBias)} points (assumption: ${lowerFirst(best.assumption)}).`
       : '',
@@ -152,10 +179,27 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       { header: 'Unit', width: 20 },
     ],
     [
+      ...(design.kind === 'selection'
+        ? [
+            ['Share of the population the rule selects', formatShare(design.selectedShare ?? 0), 'share'],
+            [`${oneGroup ? 'Selected group' : 'Programme group'} formed by the rule: people (expected)`, formatCount(P.poolSize), 'people'],
+            [`${oneGroup ? 'Selected group' : 'Programme group'}: pretest mean, SD`, `${formatPoints(P.pretestMean)}, ${formatPoints(P.pretestSD)}`, 'test points'],
+            [`${oneGroup ? 'Not selected (not measured again)' : 'Comparison group'}: people (expected)`, formatCount(C.poolSize), 'people'],
+            [`${oneGroup ? 'Not selected' : 'Comparison group'}: pretest mean, SD`, `${formatPoints(C.pretestMean)}, ${formatPoints(C.pretestSD)}`, 'test points'],
+          ]
+        : []),
+      ...(oneGroup ? [['Change expected with no programme', formatSignedPoints(design.noProgrammeChange ?? 0), 'post-test points']] : []),
       ['Standard error of measurement (SEM)', formatPoints(analytic.reliability.sem), 'test points'],
-      ['Within-group reliability, programme group (ρ_P)', formatReliability(analytic.reliability.programme), 'coefficient'],
-      ['Within-group reliability, comparison group (ρ_C)', formatReliability(analytic.reliability.comparison), 'coefficient'],
-      ['True-score gap, programme − comparison (Δ)', formatSignedPoints(m.pretestGap), 'test points'],
+      ...(populationReliability !== null
+        ? [['Pretest reliability in the population (ρ)', formatReliability(populationReliability), 'coefficient']]
+        : [
+            ['Within-group reliability, programme group (ρ_P)', formatReliability(analytic.reliability.programme), 'coefficient'],
+            ['Within-group reliability, comparison group (ρ_C)', formatReliability(analytic.reliability.comparison), 'coefficient'],
+          ]),
+      // With a rule, the model's gap is between the groups' observed pretest means (their true-score gap is smaller).
+      ...(oneGroup
+        ? []
+        : [[design.kind === 'selection' ? 'Observed pretest gap, programme − comparison' : 'True-score gap, programme − comparison (Δ)', formatSignedPoints(m.pretestGap), 'test points']]),
       ['Slope of the outcome on the true pretest (β)', formatPoints(m.beta, 3), 'post-test per test point'],
       ['Residual SD of the outcome (σ_e)', formatPoints(m.residualSD), 'post-test points'],
       ['Programme effect (τ)', formatSignedPoints(analytic.tau), 'post-test points'],
@@ -197,11 +241,26 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       row(`Per-group n for ${formatShare(plan.analysis.targetPower ?? 0.8)} power`, (id) =>
         !an(id).feasible ? 'not feasible' : an(id).requiredNPerGroup === null ? 'not reachable' : formatCount(an(id).requiredNPerGroup),
       ),
+      ...(ids.some((id) => an(id).varianceInflation !== undefined)
+        ? [
+            row('Variance against a randomised study of the same size and split', (id) => {
+              const v = an(id).varianceInflation;
+              return v === undefined ? '—' : `${formatPoints(v)} times`;
+            }),
+          ]
+        : []),
     ],
     { boldRows: [2], boldFirstColumn: true },
   );
   for (const id of ids) {
     w.paragraph(`${an(id).name}, assumption: ${an(id).assumption}`, { size: 8.5, muted: true, after: 2 });
+    const v = an(id).varianceInflation;
+    if (v !== undefined) {
+      w.paragraph(
+        `${an(id).name}, cost: its estimate varies about ${formatPoints(v)} times as much as a randomised study’s of the same size and split, so it needs about that many times the sample for the same power (about ${formatPoints(centralCutOffVarianceInflation())} times at a cut-off in the middle of the scores).`,
+        { size: 8.5, muted: true, after: 2 },
+      );
+    }
   }
   for (const id of ids) {
     const reason = an(id).infeasibleReason;
@@ -219,12 +278,15 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     );
   } else {
     w.paragraph(
-      `${formatCount(sim.replications)} simulated studies (seed ${sim.seed}). “± x” gives each figure’s Monte Carlo standard error. The matched difference and “ANCOVA in the matched sample” use the matched people only; the other analyses use everyone available.`,
+      oneGroup
+        ? `${formatCount(sim.replications)} simulated studies (seed ${sim.seed}). “± x” gives each figure’s Monte Carlo standard error. Each study draws the population, applies the rule and measures the selected people again.`
+        : `${formatCount(sim.replications)} simulated studies (seed ${sim.seed}). “± x” gives each figure’s Monte Carlo standard error. The matched difference and “ANCOVA in the matched sample” use the matched people only; the other analyses use everyone available.`,
       { size: 9, muted: true },
     );
+    // A one-group study matches nobody: no matched-sample column and no matching table.
     const simCols: { s: SimAnalysisResult; label: string }[] = [
       ...ids.map((id) => ({ s: requireAnalysis(sim.analyses, id), label: an(id).name })),
-      { s: sim.ancovaMatchedSample, label: 'ANCOVA in the matched sample' },
+      ...(oneGroup ? [] : [{ s: sim.ancovaMatchedSample, label: 'ANCOVA in the matched sample' }]),
     ];
     // An analysis the simulation could not summarise has no figures: "not computed", its reason below.
     const srow = (label: string, f: (s: SimAnalysisSummary) => string) => [
@@ -235,7 +297,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     w.table(
       [{ header: '', width: 22 }, ...simCols.map((s) => ({ header: s.label, width: 15.6, align: 'right' as const }))],
       [
-        ['Expected bias before simulation', ...ids.map((id) => formatSignedPoints(an(id).bias)), '—'],
+        ['Expected bias before simulation', ...ids.map((id) => formatSignedPoints(an(id).bias)), ...(oneGroup ? [] : ['—'])],
         srow('Simulated bias (points)', (s) => withMcse(formatSignedPoints(s.bias), s.biasMCSE, (x) => formatPoints(x))),
         srow('Mean estimate (points)', (s) => withMcse(formatSignedPoints(s.meanEstimate), s.meanEstimateMCSE, (x) => formatPoints(x))),
         srow('Empirical SE (points)', (s) => withMcse(formatPoints(s.empiricalSE), s.empiricalSEMCSE, (x) => formatPoints(x))),
@@ -251,6 +313,8 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       if (!isFeasible(s)) w.paragraph(`${label}: not computed. ${s.reason}`, { size: 9, muted: true });
     }
     for (const d of quickFiguresAgreement(analytic, sim)) w.note(d.note);
+  }
+  if (sim !== null && !oneGroup) {
     const mt = sim.matching;
     w.heading('Matching and balance (simulated)', 3);
     w.paragraph(
@@ -357,9 +421,11 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   // ---- Method and references ----------------------------------------------
   w.heading('How this was computed');
   for (const line of MODEL_LINES) w.item('•', line, 9.5);
+  if (design.kind === 'selection') for (const line of SELECTION_MODEL_LINES) w.item('•', line, 9.5);
   if ((plan.covariates?.length ?? 0) > 0) for (const line of COVARIATE_MODEL_LINES) w.item('•', line, 9.5);
   w.heading('References', 3);
-  for (const ref of REFERENCES) w.item('–', ref, 9);
+  const refs = design.kind === 'selection' ? [...REFERENCES, ...SELECTION_REFERENCES].sort() : REFERENCES;
+  for (const ref of refs) w.item('–', ref, 9);
 
   // ---- Cautions ------------------------------------------------------------
   w.heading('Cautions');
@@ -391,7 +457,12 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   return new Uint8Array(doc.output('arraybuffer'));
 }
 
-/** "The groups …." → "the groups …" (for use inside a sentence; no final full stop). */
+/** An analysis' name inside a sentence: "Matched post-test difference" → "matched post-test difference" (ANCOVA kept). */
+function lowerName(name: string): string {
+  return /^[A-Z][a-z]/.test(name) ? name.charAt(0).toLowerCase() + name.slice(1) : name;
+}
+
+/** "The groups …." → "the groups …"(for use inside a sentence; no final full stop). */
 function lowerFirst(s: string): string {
   const t = s.trim().replace(/\.$/, '');
   return t.length > 1 && /^[A-Z][a-z]/.test(t) ? t.charAt(0).toLowerCase() + t.slice(1) : t;

@@ -1,4 +1,5 @@
-import type { MatchingDistance, Plan, ProvenanceSource } from '../core/plan';
+import type { AssignmentBasis, AssignmentRule, MatchingDistance, Plan, ProvenanceSource, StudyShape } from '../core/plan';
+import { isSelectionDesign, studyDesign } from '../core/design/studyDesign';
 import { DEMO_PLAN } from '../io/demoPlan';
 import { EXAMPLE_PLANS } from '../io/examplePlans';
 import { formatInput } from './format';
@@ -39,6 +40,21 @@ const MATCHING_ORDER: Record<NonNullable<Plan['matching']['order']>, string> = {
   'highest-first': 'highest pretest first',
 };
 
+const DESIGN_WORDS: Record<StudyShape, string> = {
+  'two-groups': 'two groups compared',
+  'one-group': 'one group, measured before and after (no comparison group)',
+};
+const RULE_WORDS: Record<AssignmentRule, string> = {
+  'existing-groups': 'existing groups (no written rule)',
+  'cut-off': 'a sharp cut-off',
+  probability: 'a chance of selection that changes across the cut-off',
+};
+const BASIS_WORDS: Record<AssignmentBasis, string> = {
+  pretest: 'the pretest',
+  screener: 'a separate screening test',
+  'true-score': 'staff judgement of real need (true score)',
+};
+
 /**
  * Every input of the plan, with its unit and source, in the order of the
  * planner's form. Values are shown as entered (no statistic is computed).
@@ -57,29 +73,54 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
     if (v === undefined) return;
     rows.push({ path, label, unit, value: display ? display(v) : formatInput(v as number | string | boolean) });
   };
-  for (const g of ['programme', 'comparison'] as const) {
-    const name = g === 'programme' ? 'Programme group' : 'Comparison group';
-    add(`groups.${g}.label`, `${name}: name`, '');
-    add(`groups.${g}.poolSize`, `${name}: people available`, 'people');
-    add(`groups.${g}.pretestMean`, `${name}: pretest mean`, 'test points');
-    add(`groups.${g}.pretestSD`, `${name}: pretest SD (within group)`, 'test points');
+  const selection = isSelectionDesign(plan);
+  const oneGroup = studyDesign(plan).shape === 'one-group';
+  if (selection) {
+    // Who gets the programme: the rule and the population; the groups' sizes and means follow from them
+    // (the report's derived table), so only their names are inputs.
+    add('design', 'Study design', '', (v) => DESIGN_WORDS[v as StudyShape] ?? String(v));
+    add('assignment.rule', 'How people got into the programme', '', (v) => RULE_WORDS[v as AssignmentRule] ?? String(v));
+    add('assignment.basis', 'What the rule looked at', '', (v) => BASIS_WORDS[v as AssignmentBasis] ?? String(v));
+    add('assignment.cutOff', 'Cut-off', 'pretest points');
+    add('assignment.side', 'Who is selected', '', (v) => (v === 'above' ? 'those above the cut-off' : 'those below the cut-off'));
+    add('assignment.spread', 'Spread of the chance of selection', 'pretest points');
+    add('assignment.screenerReliability', 'Screener reliability (in the population)', 'coefficient, 0–1');
+    add('population.label', 'Population: name', '');
+    add('population.poolSize', 'Population: people', 'people');
+    add('population.pretestMean', 'Population: pretest mean', 'test points');
+    add('population.pretestSD', 'Population: pretest SD', 'test points');
+    add('groups.programme.label', oneGroup ? 'Selected group: name' : 'Programme group: name', '');
+    if (!oneGroup) add('groups.comparison.label', 'Comparison group: name', '');
+  } else {
+    add('design', 'Study design', '', (v) => DESIGN_WORDS[v as StudyShape] ?? String(v));
+    add('assignment.rule', 'How people got into the programme', '', (v) => RULE_WORDS[v as AssignmentRule] ?? String(v));
+    for (const g of ['programme', 'comparison'] as const) {
+      const name = g === 'programme' ? 'Programme group' : 'Comparison group';
+      add(`groups.${g}.label`, `${name}: name`, '');
+      add(`groups.${g}.poolSize`, `${name}: people available`, 'people');
+      add(`groups.${g}.pretestMean`, `${name}: pretest mean`, 'test points');
+      add(`groups.${g}.pretestSD`, `${name}: pretest SD (within group)`, 'test points');
+    }
   }
   add('pretest.reliability', 'Pretest reliability (as published)', 'coefficient, 0–1');
   add('pretest.referenceSD', 'SD of the population that reliability was estimated in', 'test points');
   add('pretest.sem', 'Standard error of measurement (SEM)', 'test points');
-  add('outcome.posttestSD', 'Post-test SD (within group)', 'post-test points');
-  add('outcome.prePostCorrelation', 'Pre–post correlation (within group)', 'correlation');
-  add('outcome.growthGap', 'Growth gap not due to the programme (δ)', 'post-test points');
+  add('outcome.posttestSD', selection ? 'Post-test SD (in the population)' : 'Post-test SD (within group)', 'post-test points');
+  add('outcome.prePostCorrelation', selection ? 'Pre–post correlation (in the population)' : 'Pre–post correlation (within group)', 'correlation');
+  add('outcome.growthGap', oneGroup ? 'Change everyone shows anyway, not due to the programme' : 'Growth gap not due to the programme (δ)', 'post-test points');
   add('outcome.hypothesisedEffect', 'Hoped-for programme effect (τ)', plan.outcome.effectScale === 'sd' ? 'post-test SDs' : 'post-test points');
   add('outcome.effectScale', 'Effect expressed in', '', (v) => (v === 'sd' ? 'post-test SDs (standardised)' : 'post-test points'));
-  add('matching.method', 'Matching method', '', (v) => MATCHING_METHOD[v as Plan['matching']['method']] ?? String(v));
-  add('matching.distance', 'Matching distance', '', (v) => DISTANCE_WORDS[v as MatchingDistance] ?? String(v));
-  add('matching.caliper', 'Caliper', plan.matching.distance === undefined || plan.matching.distance === 'pretest' ? 'SDs of the pooled pretest' : CALIPER_UNIT_WORDS[plan.matching.distance]);
-  add('matching.ratio', 'Comparison partners per programme member', 'people');
-  add('matching.replacement', 'Comparison people may be reused', '');
-  add('matching.order', 'Matching order', '', (v) => MATCHING_ORDER[v as NonNullable<Plan['matching']['order']>] ?? String(v));
+  // A one-group study matches nobody: its matching settings are kept in the file but not listed.
+  if (!oneGroup) {
+    add('matching.method', 'Matching method', '', (v) => MATCHING_METHOD[v as Plan['matching']['method']] ?? String(v));
+    add('matching.distance', 'Matching distance', '', (v) => DISTANCE_WORDS[v as MatchingDistance] ?? String(v));
+    add('matching.caliper', 'Caliper', plan.matching.distance === undefined || plan.matching.distance === 'pretest' ? 'SDs of the pooled pretest' : CALIPER_UNIT_WORDS[plan.matching.distance]);
+    add('matching.ratio', 'Comparison partners per programme member', 'people');
+    add('matching.replacement', 'Comparison people may be reused', '');
+    add('matching.order', 'Matching order', '', (v) => MATCHING_ORDER[v as NonNullable<Plan['matching']['order']>] ?? String(v));
+  }
   add('analysis.alpha', 'Significance level (two-sided)', 'probability');
-  add('analysis.assumedReliability', 'Reliability assumed by the corrected ANCOVA (ρ′)', 'coefficient, 0–1');
+  if (!oneGroup) add('analysis.assumedReliability', 'Reliability assumed by the corrected ANCOVA (ρ′)', 'coefficient, 0–1');
   add('analysis.tolerableBiasShare', 'Tolerable artefact, as a share of the effect', 'share');
   add('analysis.targetPower', 'Target power', 'probability');
   add('simulation.replications', 'Simulated studies (replications)', 'count');

@@ -18,6 +18,7 @@ import { covariateBalanceChartData, hasCovariateBalance } from '../charts/covari
 import { covariateBalanceChartSvgString } from '../charts/covariateBalanceChartRender';
 import { covariateBalanceChartText } from '../charts/covariateBalanceChartText';
 import { usesCovariateModel } from '../core/multivariate/covariateModel';
+import { isSelectionDesign, studyDesign } from '../core/design/studyDesign';
 import type { ReportChart } from './buildReportPdf';
 
 /** How to read each chart: one or two plain sentences printed under it in the PDF. */
@@ -31,6 +32,10 @@ export const HOW_TO_READ: Record<ChartId, string> = {
   balance:
     'Standardised mean differences before and after matching, on the observed pretest and on the true score. Balance on the observed pretest can look fine while the true scores still differ.',
 };
+
+/** How to read the pretest chart when a rule forms the groups (see selectionPretestView). */
+export const HOW_TO_READ_SELECTION_PRETEST =
+  'The grey curve is the whole population’s observed pretest; the shaded area is the part the rule selects, drawn as its share of the population; the dashed curve is the same people measured again with no programme, nearer the population mean. The dotted line is the cut-off; where the rule did not look at the pretest itself, the curve on the right-hand scale is the chance of selection at each pretest score.';
 
 /** How to read the balance chart per covariate (plans with covariates). */
 export const HOW_TO_READ_COVARIATE_BALANCE =
@@ -52,7 +57,8 @@ export function reportCharts(plan: Plan, analytic: AnalyticResults, simulation: 
   const add = (id: ChartId, draw: () => { svg: string; text: ChartText }) => {
     try {
       const { svg, text } = draw();
-      charts.push({ id, title: text.title, svg, caption: `${HOW_TO_READ[id]} ${text.sentences.join(' ')}` });
+      const howToRead = id === 'pretest' && isSelectionDesign(plan) ? HOW_TO_READ_SELECTION_PRETEST : HOW_TO_READ[id];
+      charts.push({ id, title: text.title, svg, caption: `${howToRead} ${text.sentences.join(' ')}` });
     } catch (e) {
       charts.push({
         id,
@@ -96,7 +102,8 @@ export function reportCharts(plan: Plan, analytic: AnalyticResults, simulation: 
         });
       }
     }
-  } else if (simulation) {
+  } else if (simulation && studyDesign(plan).shape === 'two-groups') {
+    // A one-group study matches nobody: it has no balance chart.
     add('balance', () => {
       const d = balanceChartData(input);
       return { svg: renderChartToSvgString('balance', d, SIZE), text: balanceChartText(d) };

@@ -4,6 +4,8 @@
  * same words, and tests can check the PDF against them.
  */
 import type { ArtefactVerdict } from '../core/analyticResults';
+import { centralCutOffVarianceInflation } from '../core/design/centralCutOffVarianceInflation';
+import { formatPoints } from './format';
 
 /** One plain sentence per artefact verdict (used on screen and in the PDF). */
 export const VERDICT_TEXT: Record<ArtefactVerdict, string> = {
@@ -36,6 +38,20 @@ export const MODEL_LINES: string[] = [
   'Expected estimates (infinite pools, exact matching, equal reliabilities): matched post-test difference and ANCOVA on the observed pretest, τ + δ + β(1 − ρ)Δ; gain score, τ + δ + (β − 1)Δ; reliability-corrected ANCOVA with assumed reliability ρ′, τ + δ + β(1 − ρ/ρ′)Δ.',
   'Power, false-positive and wrong-sign rates use the t distribution with the estimate’s approximate standard error, shifted by the expected bias.',
   'The simulation draws whole studies from the model (finite pools, the planned caliper, ratio, replacement and matching order, discarded programme members), runs each analysis, and summarises the estimates; each simulated figure carries its Monte Carlo standard error (MC SE).',
+];
+
+/** The model of a plan whose groups a rule forms (added after MODEL_LINES). */
+export const SELECTION_MODEL_LINES: string[] = [
+  'Groups formed by a rule: one population with true scores T ~ N(μ, σ²_T); the pretest X = T + E, a screener S = T + E_S with its own independent error, or the true score itself is the basis B the rule looks at. A cut-off rule selects everyone on one side of c; a probability rule selects with chance Φ((c − B)/s) (or the mirror image above c). The groups are the two sides of the rule, so their means, SDs and sizes follow from truncated-normal moments, not from inputs.',
+  `Which analysis is biased follows from what the rule looked at: ANCOVA on the variable the rule used is unbiased (Kenny 1975); on anything else, regression toward the mean within each side of the cut-off biases matching, ANCOVA, gain scores and the corrected ANCOVA. Regression discontinuity (outcome on group and the rule’s score) is unbiased when the rule used a measured score and the outcome is linear in it; its estimate varies more than a randomised study’s of the same size (Goldberger 1972; about ${formatPoints(centralCutOffVarianceInflation())} times at a central cut-off).`,
+  'A one-group study re-measures only the selected people: with no programme their mean moves back toward the population mean by the amount regression toward the mean predicts (Barnett, van der Pols & Dobson 2005), and a pre–post change cannot tell that movement from an effect.',
+];
+
+/** References added when a rule forms the groups. */
+export const SELECTION_REFERENCES: string[] = [
+  'Barnett, A. G., van der Pols, J. C., & Dobson, A. J. (2005). Regression to the mean: what it is and how to deal with it. International Journal of Epidemiology, 34.',
+  'Cappelleri, J. C., Darlington, R. B., & Trochim, W. M. K. (1994). Power analysis of cutoff-based randomized clinical trials. Evaluation Review, 18.',
+  'Goldberger, A. S. (1972). Selection bias in evaluating treatment effects (discussion paper, University of Wisconsin).',
 ];
 
 /** References cited by the summary. Page numbers are omitted unless verified. */

@@ -193,7 +193,12 @@ export const createDraftSlice =
             draftPending: false,
           };
     const edited = (path: string, value: string | boolean): PlanDraft => {
-      const next = setDraftField(get().draft, path, value);
+      let next = setDraftField(get().draft, path, value);
+      // A one-group study is only meaningful for people a rule selected: choosing it with
+      // "existing groups" moves the rule to a cut-off (the fields typed for it are kept).
+      if (path === 'design' && value === 'one-group' && next.assignment.rule === 'existing-groups') {
+        next = setDraftField(next, 'assignment.rule', 'cut-off');
+      }
       const provenance = draftProvenance(next);
       if (!provenance?.[path]) return next;
       const { [path]: _typed, ...rest } = provenance;

@@ -1,4 +1,15 @@
-import type { EffectScale, MatchingDistance, MatchingMethod, MatchingOrder, Plan } from '../core/plan';
+import type {
+  AssignmentBasis,
+  AssignmentRule,
+  EffectScale,
+  MatchingDistance,
+  MatchingMethod,
+  MatchingOrder,
+  Plan,
+  SelectionSide,
+  StudyShape,
+} from '../core/plan';
+import { derivedGroups } from '../core/design/derivedGroups';
 import { covariatesToCandidate, covariatesToDraft, isCovariatesPart, type CovariateDraft } from './covariateDraft';
 
 /**
@@ -17,9 +28,38 @@ export interface GroupDraft {
 /** Whether the pretest's precision is given as a reliability or as an SEM. */
 export type PretestMode = 'reliability' | 'sem';
 
+/**
+ * Who gets the programme, as typed. Every field is kept whatever the rule, so
+ * switching the rule or the design and back restores what was typed; only the
+ * fields the chosen rule reads go into the plan.
+ */
+export interface AssignmentDraft {
+  rule: AssignmentRule;
+  basis: AssignmentBasis;
+  cutOff: string;
+  side: SelectionSide;
+  /** Read with rule 'probability' only. */
+  spread: string;
+  /** Read with basis 'screener' only. */
+  screenerReliability: string;
+}
+
+/** The one population a rule picks from, as typed (read when a rule forms the groups). */
+export type PopulationDraft = GroupDraft;
+
 export interface PlanDraft {
   title: string;
   groups: { programme: GroupDraft; comparison: GroupDraft };
+  /** Two groups compared, or one group re-measured. */
+  design: StudyShape;
+  assignment: AssignmentDraft;
+  population: PopulationDraft;
+  /**
+   * Names for the groups a rule forms; empty = the plain default that states
+   * the rule ("Selected: the screener below 85"). Kept apart from the two
+   * existing groups' names, so switching back restores those.
+   */
+  selectionLabels: { programme: string; comparison: string };
   pretest: { mode: PretestMode; reliability: string; referenceSD: string; sem: string };
   outcome: {
     posttestSD: string;
@@ -53,6 +93,63 @@ export interface FieldProblem {
 
 const str = (v: number | undefined): string => (v === undefined || !Number.isFinite(v) ? '' : String(v));
 
+/** The assignment, population and group names of a draft for a plan that says nothing about them (existing groups). */
+export function emptySelectionDraft(): Pick<PlanDraft, 'design' | 'assignment' | 'population' | 'selectionLabels'> {
+  return {
+    design: 'two-groups',
+    assignment: { rule: 'existing-groups', basis: 'pretest', cutOff: '', side: 'below', spread: '', screenerReliability: '' },
+    population: { label: '', poolSize: '', pretestMean: '', pretestSD: '' },
+    selectionLabels: { programme: '', comparison: '' },
+  };
+}
+
+/**
+ * Whether a draft forms its groups by a rule (or re-measures one group):
+ * then the population replaces the two groups, and covariates and a
+ * multivariate matching distance are set aside (kept in the draft, left out of the plan).
+ */
+export function draftUsesSelection(draft: Pick<PlanDraft, 'design' | 'assignment'>): boolean {
+  return draft.design === 'one-group' || draft.assignment.rule !== 'existing-groups';
+}
+
+/** The selection part of the draft that shows a plan exactly. */
+function selectionToDraft(plan: Plan): Pick<PlanDraft, 'design' | 'assignment' | 'population' | 'selectionLabels'> {
+  const empty = emptySelectionDraft();
+  const a = plan.assignment;
+  const pop = plan.population;
+  const selection = (plan.design ?? 'two-groups') === 'one-group' || (a !== undefined && a.rule !== 'existing-groups');
+  // Group names equal to the rule's defaults are left empty, so they follow the rule when it changes.
+  let labels = empty.selectionLabels;
+  if (selection && pop) {
+    let defaults: { programme: string; comparison: string } | null = null;
+    try {
+      const d = derivedGroups(plan, null);
+      defaults = { programme: d.programme.label, comparison: d.comparison.label };
+    } catch {
+      defaults = null;
+    }
+    labels = {
+      programme: plan.groups.programme.label === defaults?.programme ? '' : plan.groups.programme.label,
+      comparison: plan.groups.comparison.label === defaults?.comparison ? '' : plan.groups.comparison.label,
+    };
+  }
+  return {
+    design: plan.design ?? 'two-groups',
+    assignment: {
+      rule: a?.rule ?? 'existing-groups',
+      basis: a?.basis ?? 'pretest',
+      cutOff: str(a?.cutOff),
+      side: a?.side ?? 'below',
+      spread: str(a?.spread),
+      screenerReliability: str(a?.screenerReliability),
+    },
+    population: pop
+      ? { label: pop.label, poolSize: str(pop.poolSize), pretestMean: str(pop.pretestMean), pretestSD: str(pop.pretestSD) }
+      : empty.population,
+    selectionLabels: labels,
+  };
+}
+
 /** The draft that shows a plan exactly (numbers printed in full, no rounding). */
 export function planToDraft(plan: Plan): PlanDraft {
   const g = (x: Plan['groups']['programme']): GroupDraft => ({
@@ -62,9 +159,15 @@ export function planToDraft(plan: Plan): PlanDraft {
     pretestSD: str(x.pretestSD),
   });
   const semMode = plan.pretest.sem !== undefined && plan.pretest.reliability === undefined;
+  const selection = selectionToDraft(plan);
   return {
     title: plan.title,
-    groups: { programme: g(plan.groups.programme), comparison: g(plan.groups.comparison) },
+    // A rule's groups are derived, not typed: the two group columns stay empty, ready for existing groups.
+    groups:
+      selection.design === 'one-group' || selection.assignment.rule !== 'existing-groups'
+        ? { programme: emptyGroup(), comparison: emptyGroup() }
+        : { programme: g(plan.groups.programme), comparison: g(plan.groups.comparison) },
+    ...selection,
     pretest: {
       mode: semMode ? 'sem' : 'reliability',
       reliability: str(plan.pretest.reliability),
@@ -97,6 +200,10 @@ export function planToDraft(plan: Plan): PlanDraft {
   };
 }
 
+function emptyGroup(): GroupDraft {
+  return { label: '', poolSize: '', pretestMean: '', pretestSD: '' };
+}
+
 /** Plain names of the numeric fields, used in "must be a number" messages. */
 export const FIELD_NAMES: Record<string, string> = {
   title: 'Plan title',
@@ -112,6 +219,19 @@ export const FIELD_NAMES: Record<string, string> = {
   'groups.comparison.poolSize': 'Comparison pool size',
   'groups.comparison.pretestMean': 'Comparison pretest mean',
   'groups.comparison.pretestSD': 'Comparison pretest SD',
+  design: 'Study design',
+  'assignment.rule': 'How people got into the programme',
+  'assignment.basis': 'What the rule looked at',
+  'assignment.cutOff': 'Cut-off',
+  'assignment.side': 'Who is selected',
+  'assignment.spread': 'Spread of the chance',
+  'assignment.screenerReliability': 'Screener reliability',
+  'population.label': 'Population name',
+  'population.poolSize': 'Population size',
+  'population.pretestMean': 'Pretest mean in the population',
+  'population.pretestSD': 'Pretest SD in the population',
+  'selectionLabels.programme': 'Programme group name',
+  'selectionLabels.comparison': 'Name of the people not selected',
   'pretest.reliability': 'Reliability',
   'pretest.referenceSD': 'Reference SD',
   'pretest.sem': 'SEM',
@@ -182,11 +302,13 @@ export function draftToCandidate(draft: PlanDraft): { candidate: unknown; proble
           referenceSD: num('pretest.referenceSD', draft.pretest.referenceSD),
         }
       : { sem: num('pretest.sem', draft.pretest.sem) };
+  const selection = draftUsesSelection(draft);
   const candidate = {
     format: 'meanward-plan',
     version: 1,
     title: draft.title,
-    groups: { programme: group('programme'), comparison: group('comparison') },
+    // With a rule the groups follow from the population: only names the researcher typed are passed on.
+    ...(selection ? selectionCandidate(draft, num) : { groups: { programme: group('programme'), comparison: group('comparison') } }),
     pretest: dropUndefined(pretest),
     outcome: {
       posttestSD: num('outcome.posttestSD', draft.outcome.posttestSD),
@@ -202,7 +324,8 @@ export function draftToCandidate(draft: PlanDraft): { candidate: unknown; proble
       replacement: draft.matching.replacement,
       order: draft.matching.order,
       // The default distance is left out, so a plan without covariates is exactly as before.
-      ...(draft.matching.distance !== undefined && draft.matching.distance !== 'pretest' ? { distance: draft.matching.distance } : {}),
+      // With a rule, matching is on the pretest alone: a multivariate distance stays in the draft for existing groups.
+      ...(!selection && draft.matching.distance !== undefined && draft.matching.distance !== 'pretest' ? { distance: draft.matching.distance } : {}),
     },
     analysis: dropUndefined({
       alpha: num('analysis.alpha', draft.analysis.alpha),
@@ -214,13 +337,45 @@ export function draftToCandidate(draft: PlanDraft): { candidate: unknown; proble
       replications: num('simulation.replications', draft.simulation.replications),
       seed: num('simulation.seed', draft.simulation.seed),
     },
-    ...covariatesToCandidate(draft, (field, raw, label) => {
-      const r = readNumber(field, raw, label);
-      if (r.problem) problems.push({ field, message: r.problem });
-      return r.value;
-    }),
+    // Covariates cannot yet be combined with a rule: they stay in the draft, out of the plan.
+    ...(selection
+      ? {}
+      : covariatesToCandidate(draft, (field, raw, label) => {
+          const r = readNumber(field, raw, label);
+          if (r.problem) problems.push({ field, message: r.problem });
+          return r.value;
+        })),
   };
   return { candidate, problems };
+}
+
+/** The design, rule, population and typed group names of a draft whose groups a rule forms. */
+function selectionCandidate(draft: PlanDraft, num: (field: string, raw: string) => number | undefined): Record<string, unknown> {
+  const a = draft.assignment;
+  const p = draft.population;
+  const names = draft.selectionLabels;
+  const groups: Record<string, { label: string }> = {};
+  if (names.programme.trim() !== '') groups.programme = { label: names.programme };
+  if (names.comparison.trim() !== '') groups.comparison = { label: names.comparison };
+  return {
+    ...(Object.keys(groups).length > 0 ? { groups } : {}),
+    // The design is always written with a rule, so a saved plan says plainly which it is.
+    design: draft.design,
+    assignment: dropUndefined({
+      rule: a.rule,
+      basis: a.basis,
+      cutOff: num('assignment.cutOff', a.cutOff),
+      side: a.side,
+      spread: a.rule === 'probability' ? num('assignment.spread', a.spread) : undefined,
+      screenerReliability: a.basis === 'screener' ? num('assignment.screenerReliability', a.screenerReliability) : undefined,
+    }),
+    population: {
+      label: p.label,
+      poolSize: num('population.poolSize', p.poolSize),
+      pretestMean: num('population.pretestMean', p.pretestMean),
+      pretestSD: num('population.pretestSD', p.pretestSD),
+    },
+  };
 }
 
 function dropUndefined<T extends Record<string, unknown>>(o: T): Partial<T> {
@@ -271,6 +426,9 @@ export function isPlanDraft(x: unknown): x is PlanDraft {
   // Drafts saved before covariates existed have no covariate part (withDraftDefaults adds it).
   if ((d.covariates !== undefined || d.covariateCorrelations !== undefined) && !isCovariatesPart(d)) return false;
   if (d.matching.distance !== undefined && typeof d.matching.distance !== 'string') return false;
+  // Drafts saved before assignment rules existed have none of these parts (withDraftDefaults adds them).
+  const selectionParts = [d.design, d.assignment, d.population, d.selectionLabels];
+  if (selectionParts.some((x) => x !== undefined) && !isSelectionPart(d)) return false;
   return (
     (d.pretest.mode === 'reliability' || d.pretest.mode === 'sem') &&
     (d.outcome.effectScale === 'points' || d.outcome.effectScale === 'sd') &&
@@ -280,17 +438,46 @@ export function isPlanDraft(x: unknown): x is PlanDraft {
   );
 }
 
+/** Whether a stored draft's design, assignment, population and group names have the right shapes. */
+function isSelectionPart(d: Record<string, unknown>): boolean {
+  const obj = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null;
+  const { design, assignment: a, population: p, selectionLabels: l } = d;
+  if (design !== 'two-groups' && design !== 'one-group') return false;
+  if (!obj(a) || !obj(p) || !obj(l)) return false;
+  if (!['existing-groups', 'cut-off', 'probability'].includes(a.rule as string)) return false;
+  if (!['pretest', 'screener', 'true-score'].includes(a.basis as string)) return false;
+  if (a.side !== 'below' && a.side !== 'above') return false;
+  for (const f of ['cutOff', 'spread', 'screenerReliability']) if (typeof a[f] !== 'string') return false;
+  for (const f of ['label', 'poolSize', 'pretestMean', 'pretestSD']) if (typeof p[f] !== 'string') return false;
+  return typeof l.programme === 'string' && typeof l.comparison === 'string';
+}
+
 /**
  * Fill in the parts a draft saved by an earlier version lacks (no covariates,
- * distance "pretest"); a complete draft is returned unchanged.
+ * distance "pretest", existing groups); a complete draft is returned unchanged.
  */
 export function withDraftDefaults(draft: PlanDraft): PlanDraft {
-  const d = draft as Partial<PlanDraft> & Omit<PlanDraft, 'covariates' | 'covariateCorrelations'>;
-  if (d.covariates !== undefined && d.covariateCorrelations !== undefined && d.matching.distance !== undefined) return draft;
+  const d = draft as Partial<PlanDraft> & Omit<PlanDraft, 'covariates' | 'covariateCorrelations' | 'design' | 'assignment' | 'population' | 'selectionLabels'>;
+  if (
+    d.covariates !== undefined &&
+    d.covariateCorrelations !== undefined &&
+    d.matching.distance !== undefined &&
+    d.design !== undefined &&
+    d.assignment !== undefined &&
+    d.population !== undefined &&
+    d.selectionLabels !== undefined
+  ) {
+    return draft;
+  }
+  const empty = emptySelectionDraft();
   return {
     ...d,
     matching: { ...d.matching, distance: d.matching.distance ?? 'pretest' },
     covariates: d.covariates ?? [],
     covariateCorrelations: d.covariateCorrelations ?? [['1']],
+    design: d.design ?? empty.design,
+    assignment: d.assignment ?? empty.assignment,
+    population: d.population ?? empty.population,
+    selectionLabels: d.selectionLabels ?? empty.selectionLabels,
   };
 }

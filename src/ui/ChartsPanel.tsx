@@ -8,14 +8,22 @@ import { estimatesChartText } from '../charts/estimatesChartText';
 import { pretestChartData } from '../charts/pretestChartData';
 import { pretestChartText } from '../charts/pretestChartText';
 import { renderChart, type ChartDataById } from '../charts/renderChartToSvgString';
-import { sensitivityChartData } from '../charts/sensitivityChartData';
+import { sensitivityChartData, sensitivityModes } from '../charts/sensitivityChartData';
 import { sensitivityChartText } from '../charts/sensitivityChartText';
 import { usesCovariateModel } from '../core/multivariate/covariateModel';
+import { studyDesign } from '../core/design/studyDesign';
 import type { SensitivityVariable } from '../core/sensitivityCurve';
 import { selectAnalytic, selectAnalyticStale, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { ChartFigure, buildChart, type BuiltChart, type DrawChart } from './ChartFigure';
 import { CovariateBalanceCard } from './CovariateBalanceCard';
+
+const MODE_LABELS: Record<SensitivityVariable, string> = {
+  reliability: 'against reliability',
+  pretestGap: 'against the pretest gap',
+  cutOff: 'against the cut-off',
+  screenerReliability: 'against the screener’s reliability',
+};
 
 interface ChartCardProps<K extends ChartId> extends BuiltChart<ChartDataById[K]> {
   chartId: K;
@@ -42,7 +50,10 @@ export function ChartsPanel() {
   // Narrow reads: progress ticks during a run must not re-render the charts.
   const simResult = useMeanwardStore((s) => s.simulation.result);
   const simStale = useMeanwardStore((s) => s.simulation.stale);
-  const [mode, setMode] = useState<SensitivityVariable>('reliability');
+  const [chosenMode, setMode] = useState<SensitivityVariable>('reliability');
+  // The axes this plan's design offers; a choice the design lacks falls back to reliability (kept for when it returns).
+  const modes = useMemo(() => sensitivityModes(plan), [plan]);
+  const mode = modes.includes(chosenMode) ? chosenMode : 'reliability';
   const simulation = simResult && !simStale ? simResult : null;
   const input: ChartInput | null = useMemo(() => (analytic ? { plan, analytic, simulation } : null), [plan, analytic, simulation]);
   const pretest = useMemo(() => (input ? buildChart(() => pretestChartData(input), pretestChartText) : null), [input]);
@@ -54,9 +65,11 @@ export function ChartsPanel() {
     () => (sensitivityInput ? buildChart(() => sensitivityChartData(sensitivityInput, mode), sensitivityChartText) : null),
     [sensitivityInput, mode],
   );
-  const balance = useMemo(() => (input ? buildChart(() => balanceChartData(input), balanceChartText) : null), [input]);
+  // A one-group study matches nobody: it has no balance chart.
+  const oneGroup = studyDesign(plan).shape === 'one-group';
+  const balance = useMemo(() => (input && !oneGroup ? buildChart(() => balanceChartData(input), balanceChartText) : null), [input, oneGroup]);
   const modeName = useId();
-  if (!pretest || !estimates || !sensitivity || !balance) return null;
+  if (!pretest || !estimates || !sensitivity || (!balance && !oneGroup)) return null;
   return (
     <section className={`charts${stale ? ' is-stale' : ''}`} aria-labelledby="charts-heading">
       <h2 id="charts-heading">Pictures of the artefact</h2>
@@ -70,23 +83,21 @@ export function ChartsPanel() {
         {/* With covariates (or a multivariate distance) balance is shown per variable, pretest included. */}
         {usesCovariateModel(plan) ? (
           <CovariateBalanceCard input={input!} simulationOutOfDate={Boolean(simResult && simStale)} />
-        ) : (
+        ) : balance ? (
           <ChartCard chartId="balance" {...balance} />
-        )}
+        ) : null}
         <ChartCard chartId="estimates" {...estimates} />
         <ChartCard
           chartId="sensitivity"
           {...sensitivity}
           controls={
             <div className="mode-switch" role="radiogroup" aria-label="Sensitivity chart: vary">
-              <label>
-                <input type="radio" name={modeName} checked={mode === 'reliability'} onChange={() => setMode('reliability')} />
-                against reliability
-              </label>
-              <label>
-                <input type="radio" name={modeName} checked={mode === 'pretestGap'} onChange={() => setMode('pretestGap')} />
-                against the pretest gap
-              </label>
+              {modes.map((m) => (
+                <label key={m}>
+                  <input type="radio" name={modeName} checked={mode === m} onChange={() => setMode(m)} />
+                  {MODE_LABELS[m]}
+                </label>
+              ))}
             </div>
           }
         />

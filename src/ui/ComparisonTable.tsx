@@ -6,6 +6,7 @@ import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { selectAnalysesInOrder, selectAnalytic, selectAnalyticStale, selectHighlight, selectSetHighlight } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { fmt, fmtPct, fmtSigned } from './format';
+import { centralCutOffVarianceInflation } from '../core/design/centralCutOffVarianceInflation';
 import { verdictWords } from './VerdictPanel';
 
 function SimFigure({ value, mcse, pct, signed }: { value: number; mcse: number; pct?: boolean; signed?: boolean }) {
@@ -18,8 +19,29 @@ function SimFigure({ value, mcse, pct, signed }: { value: number; mcse: number; 
   );
 }
 
+const COUNT_WORDS: Record<number, string> = { 2: 'two', 3: 'three', 4: 'four', 5: 'five', 6: 'six' };
+
+/** "A", "A and B", "A, B and C". */
+function names(list: string[]): string {
+  return list.length <= 1 ? list.join('') : `${list.slice(0, -1).join(', ')} and ${list[list.length - 1]}`;
+}
+
 /**
- * The four analyses side by side: closed-form expectations and, after a
+ * Regression discontinuity's price: the variance of its estimate relative to a
+ * randomised study of the same size (core's varianceInflation), in plain words.
+ */
+export function VarianceInflationNote({ inflation }: { inflation: number }) {
+  return (
+    <span className="rd-cost" data-testid="rd-variance-inflation">
+      Its cost: the estimate varies about {fmt(inflation, 2)} times as much as a randomised study&rsquo;s of the same size and split, so it needs
+      about {fmt(inflation, 1)} times the sample for the same power (about {fmt(centralCutOffVarianceInflation(), 2)} times at a cut-off in the
+      middle of the scores).
+    </span>
+  );
+}
+
+/**
+ * The design's analyses side by side: closed-form expectations and, after a
  * simulation, the simulated figures with their Monte Carlo SEs. Hovering or
  * focusing a row highlights that analysis in every chart.
  */
@@ -39,7 +61,7 @@ export function ComparisonTable() {
   const simAll = (id: AnalysisId): SimAnalysisResult | null => simResult?.analyses[id] ?? null;
   return (
     <section className="comparison" aria-labelledby="comparison-heading">
-      <h2 id="comparison-heading">The four analyses compared</h2>
+      <h2 id="comparison-heading">{rows.length === 1 ? `The analysis: ${rows[0]!.name.toLowerCase()}` : `The ${COUNT_WORDS[rows.length] ?? rows.length} analyses compared`}</h2>
       <p className="section-intro">
         <span data-testid="procedure-basis">{procedureBasisNote(analytic)}</span>
         {simResult ? (
@@ -56,7 +78,7 @@ export function ComparisonTable() {
       <div className="table-scroll">
         <table className={`comparison-table${stale ? ' is-stale' : ''}${sim.stale ? ' sim-stale' : ''}`} data-testid="comparison-table">
           <caption className="visually-hidden">
-            Expected and simulated performance of the matched difference, ANCOVA, gain score and corrected ANCOVA. Hover or focus a row to highlight it in the charts.
+            Expected and simulated performance of {names(rows.map((a) => a.name))}. Hover or focus a row to highlight it in the charts.
           </caption>
           <thead>
             <tr>
@@ -95,6 +117,7 @@ export function ComparisonTable() {
                     {a.name}
                     <span className="row-verdict">{verdictWords(a.verdict).short}</span>
                     <span className="assumption">{a.assumption}</span>
+                    {a.varianceInflation !== undefined && <VarianceInflationNote inflation={a.varianceInflation} />}
                     {!a.feasible && (
                       <span className="infeasible-reason" data-testid={`infeasible-${a.id}`}>
                         Not feasible: {a.infeasibleReason}

@@ -1,3 +1,4 @@
+import { isSelectionDesign } from '../core/design/studyDesign';
 import { useId, useMemo, useState } from 'react';
 import { version as APP_VERSION } from '../../package.json';
 import { downloadFile, downloadFileName, standaloneSvg, svgToPngBlob } from '../io/chartExport';
@@ -109,7 +110,7 @@ export function ExportPanel() {
 
   const busy = status.kind === 'busy';
   const chartIds: { id: string; name: string }[] = [
-    { id: 'pretest', name: 'Pretest distributions' },
+    { id: 'pretest', name: isSelectionDesign(plan) ? 'Who the rule selects' : 'Pretest distributions' },
     { id: 'estimates', name: 'Estimates by analysis' },
     { id: 'sensitivity', name: 'Sensitivity' },
     ...exportableBalanceChart(plan, analytic, sim),

@@ -1,12 +1,14 @@
-import { useId } from 'react';
+import { useId, useMemo } from 'react';
 import { covariateFieldLabel } from '../state/covariateDraft';
-import { FIELD_NAMES } from '../state/planDraft';
-import { selectAnalytic, selectAnalyticStale, selectProblems } from '../state/selectors';
+import { draftUsesSelection, FIELD_NAMES } from '../state/planDraft';
+import { selectAnalytic, selectAnalyticStale, selectProblems, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { CovariateEditor } from './CovariateEditor';
 import { CheckField, ChoiceField, NumberField, TextField } from './fields';
 import { moreProblemsLine, PROBLEMS_SHOWN } from '../core/capProblemList';
-import { fmt, fmtR } from './format';
+import { fmt, fmtInt, fmtPct, fmtR } from './format';
+import { isSelectionDesign } from '../core/design/studyDesign';
+import { selectionModel } from '../core/design/selectionModel';
 
 /** Move keyboard focus to a field by its plan path (from the problem list). */
 function focusField(path: string) {
@@ -15,10 +17,19 @@ function focusField(path: string) {
   el?.scrollIntoView({ block: 'center' });
 }
 
-/** The plan form: every input of the plan, in seven sections. */
+/**
+ * The plan form: every input of the plan, in up to eight numbered sections.
+ * Sections and fields a design does not read are hidden, never cleared: the
+ * draft keeps them, so switching back restores what was typed.
+ */
 export function PlanForm() {
   const problems = useMeanwardStore(selectProblems);
   const covariates = useMeanwardStore((s) => s.draft.covariates);
+  const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
+  const oneGroup = useMeanwardStore((s) => s.draft.design === 'one-group');
+  // Sections are numbered as shown.
+  const shown = ['assignment', 'groups', 'pretest', 'outcome', ...(selection ? [] : ['covariates']), ...(oneGroup ? [] : ['matching']), 'analysis', 'simulation'];
+  const n = (key: string) => shown.indexOf(key) + 1;
   const commitDraft = useMeanwardStore((s) => s.commitDraft);
   // Covariate fields and matrix cells are named by number ("Covariate 2 SD"); whole-list problems stay as messages.
   const fieldName = (field: string) =>
@@ -59,13 +70,14 @@ export function PlanForm() {
           </ul>
         </div>
       )}
-      <GroupsSection />
-      <PretestSection />
-      <OutcomeSection />
-      <CovariatesSection />
-      <MatchingSection />
-      <AnalysisSection />
-      <SimulationSection />
+      <AssignmentSection n={n('assignment')} />
+      {selection ? <PopulationSection n={n('groups')} /> : <GroupsSection n={n('groups')} />}
+      <PretestSection n={n('pretest')} />
+      <OutcomeSection n={n('outcome')} />
+      {!selection && <CovariatesSection n={n('covariates')} />}
+      {!oneGroup && <MatchingSection n={n('matching')} />}
+      <AnalysisSection n={n('analysis')} />
+      <SimulationSection n={n('simulation')} />
     </form>
   );
 }
@@ -96,9 +108,147 @@ function GroupColumn({ group, heading }: { group: 'programme' | 'comparison'; he
   );
 }
 
-function GroupsSection() {
+/** Study design and the rule that decided who got the programme. */
+function AssignmentSection({ n }: { n: number }) {
+  const rule = useMeanwardStore((s) => s.draft.assignment.rule);
+  const basis = useMeanwardStore((s) => s.draft.assignment.basis);
+  const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
   return (
-    <Section title="1. The two groups" intro="The programme group is not randomised: say how its pretest scores differ from the comparison pool's.">
+    <Section
+      title={`${n}. Who gets the programme`}
+      intro="Which analysis is biased depends on how people got into the programme, so say what decided it."
+    >
+      <ChoiceField
+        path="design"
+        label="Study design"
+        hint="Two groups: the programme group is compared with people who did not get it. One group: only the people selected are measured again, and their change is the result."
+        options={[
+          { value: 'two-groups', label: 'Two groups compared' },
+          { value: 'one-group', label: 'One group, measured before and after' },
+        ]}
+      />
+      <ChoiceField
+        path="assignment.rule"
+        label="How people got into the programme"
+        hint="Existing groups: schools, clinics or volunteers that were already apart, by no rule you can write down. Cut-off: everyone on one side of a score got it. Probability: the chance of getting it rose gradually across the cut-off."
+        options={[
+          { value: 'existing-groups', label: 'Existing groups (no written rule)' },
+          { value: 'cut-off', label: 'A cut-off on a score' },
+          { value: 'probability', label: 'A chance that changes across a cut-off' },
+        ]}
+      />
+      {selection && (
+        <>
+          <ChoiceField
+            path="assignment.basis"
+            label="What the rule looked at"
+            hint="The pretest itself; a separate screening test of the same skill with its own measurement error; or staff judgement of real need, which no test captures (the true score)."
+            options={[
+              { value: 'pretest', label: 'The pretest' },
+              { value: 'screener', label: 'A separate screening test' },
+              { value: 'true-score', label: 'Staff judgement of real need (true score)' },
+            ]}
+          />
+          {basis === 'screener' && (
+            <NumberField
+              path="assignment.screenerReliability"
+              label="Screener reliability"
+              unit="0 to 1"
+              step={0.01}
+              min={0.01}
+              max={0.99}
+              hint="Reliability of the screening test in this population, from its manual or a pilot."
+            />
+          )}
+          <div className="field-pair">
+            <NumberField
+              path="assignment.cutOff"
+              label="Cut-off"
+              unit="points"
+              step={1}
+              hint="On the pretest's scale; a screener or judged need is taken to share the pretest's mean and scale."
+            />
+            <ChoiceField
+              path="assignment.side"
+              label="Who is selected"
+              hint="Which side of the cut-off gets the programme."
+              options={[
+                { value: 'below', label: 'Those below it' },
+                { value: 'above', label: 'Those above it' },
+              ]}
+            />
+          </div>
+          {rule === 'probability' && (
+            <NumberField
+              path="assignment.spread"
+              label="Spread of the chance"
+              unit="points"
+              step={0.5}
+              min={0.1}
+              hint="How gradually the chance changes: one half at the cut-off, about one in six (or five in six) one spread away from it."
+            />
+          )}
+        </>
+      )}
+    </Section>
+  );
+}
+
+/** With a rule: the one population people are picked from, and what the rule forms from it. */
+function PopulationSection({ n }: { n: number }) {
+  const oneGroup = useMeanwardStore((s) => s.draft.design === 'one-group');
+  const hasCovariates = useMeanwardStore((s) => s.draft.covariates.length > 0);
+  const plan = useMeanwardStore(selectValidPlan);
+  const analytic = useMeanwardStore(selectAnalytic);
+  const stale = useMeanwardStore(selectAnalyticStale);
+  const pending = useMeanwardStore((s) => s.draftPending);
+  const p = 'population';
+  // The groups core derived for the last complete plan (expected sizes and means), when it has a rule.
+  const derived = isSelectionDesign(plan) ? plan.groups : null;
+  const share = analytic?.design.selectedShare ?? null;
+  return (
+    <Section
+      title={`${n}. The population`}
+      intro="The one population the rule picks from, before anyone is selected. The groups follow from the rule."
+    >
+      <TextField path={`${p}.label`} label="Population name" hint="Who could have been selected, e.g. “Year 3 pupils in the district”." />
+      <NumberField path={`${p}.poolSize`} label="Population size" unit="people" step={100} min={2} inputMode="numeric" hint="How many people the rule is applied to." />
+      <NumberField path={`${p}.pretestMean`} label="Pretest mean in the population" unit="points" step={1} hint="Average observed pretest score before selection." />
+      <NumberField path={`${p}.pretestSD`} label="Pretest SD in the population" unit="points" step={0.5} min={0} hint="Spread of observed pretest scores across the whole population." />
+      <TextField path="selectionLabels.programme" label="Name of the selected group (optional)" hint="Leave empty to name it by the rule." />
+      {!oneGroup && (
+        <TextField path="selectionLabels.comparison" label="Name of the people not selected (optional)" hint="Leave empty for “Not selected”." />
+      )}
+      <div className={`derived${stale || pending ? ' is-stale' : ''}`} aria-live="polite" data-testid="derived-groups">
+        <h3>What the rule forms</h3>
+        {derived && analytic ? (
+          <dl>
+            <dt>{derived.programme.label}</dt>
+            <dd>
+              about {fmtInt(derived.programme.poolSize)} people{share !== null ? ` (${fmtPct(share, 0)})` : ''}, pretest mean {fmt(derived.programme.pretestMean, 1)}
+            </dd>
+            <dt>{derived.comparison.label}</dt>
+            <dd>
+              about {fmtInt(derived.comparison.poolSize)} people, pretest mean {fmt(derived.comparison.pretestMean, 1)}
+            </dd>
+          </dl>
+        ) : (
+          <p>Shown once the population and the rule are complete.</p>
+        )}
+        {stale && derived && <p className="stale-note">These are for the last complete plan.</p>}
+      </div>
+      {hasCovariates && (
+        <p className="section-intro" data-testid="covariates-set-aside">
+          The covariates you entered cannot yet be combined with a rule that forms the groups. They are kept, and come back if you choose existing groups.
+        </p>
+      )}
+    </Section>
+  );
+}
+
+function GroupsSection({ n }: { n: number }) {
+  return (
+    <Section title={`${n}. The two groups`} intro="The programme group is not randomised: say how its pretest scores differ from the comparison pool's.">
       <div className="group-columns">
         <GroupColumn group="programme" heading="Programme group" />
         <GroupColumn group="comparison" heading="Comparison pool" />
@@ -107,14 +257,19 @@ function GroupsSection() {
   );
 }
 
-function PretestSection() {
+function PretestSection({ n }: { n: number }) {
+  const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
+  const plan = useMeanwardStore(selectValidPlan);
+  // With a rule, the pretest is described in the whole population: reliability inside a group the rule
+  // cut out of it is not a reliability (a cut on the pretest narrows its observed spread below the true one).
+  const population = useMemo(() => (isSelectionDesign(plan) ? selectionModel(plan).population : null), [plan]);
   const mode = useMeanwardStore((s) => s.draft.pretest.mode);
   const setMode = useMeanwardStore((s) => s.setPretestMode);
   const analytic = useMeanwardStore(selectAnalytic);
   const stale = useMeanwardStore(selectAnalyticStale);
   const name = useId();
   return (
-    <Section title="2. The pretest" intro="How precisely the pretest measures: a reliability (with the SD of the group it was estimated in) or its SEM.">
+    <Section title={`${n}. The pretest`} intro="How precisely the pretest measures: a reliability (with the SD of the group it was estimated in) or its SEM.">
       <div className="mode-switch" role="radiogroup" aria-label="Describe the pretest's precision by">
         <label>
           <input type="radio" name={name} value="reliability" checked={mode === 'reliability'} onChange={() => setMode('reliability')} />
@@ -128,14 +283,21 @@ function PretestSection() {
       {mode === 'reliability' ? (
         <>
           <NumberField path="pretest.reliability" label="Reliability" unit="0 to 1" step={0.01} min={0.01} max={0.99} hint="From the test manual or a pilot, e.g. test–retest or internal consistency." />
-          <NumberField path="pretest.referenceSD" label="Reference SD (where the reliability was estimated)" unit="points" step={0.5} min={0} hint="SD of the sample the reliability came from; leave empty to use the comparison pool's SD." />
+          <NumberField path="pretest.referenceSD" label="Reference SD (where the reliability was estimated)" unit="points" step={0.5} min={0} hint={`SD of the sample the reliability came from; leave empty to use the ${selection ? 'population' : 'comparison pool'}'s SD.`} />
         </>
       ) : (
         <NumberField path="pretest.sem" label="SEM (standard error of measurement)" unit="points" step={0.1} min={0} hint="Typical size of one person's measurement error, in test points." />
       )}
       <div className={`derived${stale ? ' is-stale' : ''}`} aria-live="polite">
-        <h3>What follows for these groups</h3>
-        {analytic ? (
+        <h3>{population ? 'What follows for this population' : 'What follows for these groups'}</h3>
+        {analytic && population ? (
+          <dl>
+            <dt>Reliability in the population</dt>
+            <dd data-testid="derived-reliability-population">{fmtR(population.reliability, 3)}</dd>
+            <dt>SEM</dt>
+            <dd data-testid="derived-sem">{fmt(analytic.reliability.sem, 2)} points</dd>
+          </dl>
+        ) : analytic ? (
           <dl>
             <dt>Within-group reliability, programme</dt>
             <dd data-testid="derived-reliability-programme">{fmtR(analytic.reliability.programme, 3)}</dd>
@@ -153,12 +315,43 @@ function PretestSection() {
   );
 }
 
-function OutcomeSection() {
+function OutcomeSection({ n }: { n: number }) {
+  const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
+  const oneGroup = useMeanwardStore((s) => s.draft.design === 'one-group');
   return (
-    <Section title="3. The outcome and the hoped-for effect">
-      <NumberField path="outcome.posttestSD" label="Posttest SD" unit="points" step={0.5} min={0} hint="Spread of the outcome within the comparison group." />
-      <NumberField path="outcome.prePostCorrelation" label="Pre–post correlation" unit="−1 to 1" step={0.05} min={-0.99} max={0.99} hint="Correlation of pretest and outcome within a group (from earlier cohorts or the literature)." />
-      <NumberField path="outcome.growthGap" label="Growth gap (not caused by the programme)" unit="points" step={0.5} hint="How much more the programme group would gain anyway (maturation, selection); 0 if none." />
+    <Section title={`${n}. The outcome and the hoped-for effect`}>
+      <NumberField
+        path="outcome.posttestSD"
+        label="Posttest SD"
+        unit="points"
+        step={0.5}
+        min={0}
+        hint={selection ? 'Spread of the outcome across the whole population, without the programme.' : 'Spread of the outcome within the comparison group.'}
+      />
+      <NumberField
+        path="outcome.prePostCorrelation"
+        label="Pre–post correlation"
+        unit="−1 to 1"
+        step={0.05}
+        min={-0.99}
+        max={0.99}
+        hint={
+          selection
+            ? 'Correlation of pretest and outcome across the whole population, before selection (from earlier cohorts or the literature).'
+            : 'Correlation of pretest and outcome within a group (from earlier cohorts or the literature).'
+        }
+      />
+      <NumberField
+        path="outcome.growthGap"
+        label={oneGroup ? 'Change everyone shows anyway (not the programme)' : 'Growth gap (not caused by the programme)'}
+        unit="points"
+        step={0.5}
+        hint={
+          oneGroup
+            ? 'How much the whole population would change between the two measurements without the programme (growth, season, practice); 0 if none.'
+            : 'How much more the programme group would gain anyway (maturation, selection); 0 if none.'
+        }
+      />
       <div className="field-pair">
         <NumberField path="outcome.hypothesisedEffect" label="Hypothesised effect" step={0.05} hint="The programme effect the study hopes to detect." />
         <ChoiceField
@@ -175,10 +368,10 @@ function OutcomeSection() {
   );
 }
 
-function CovariatesSection() {
+function CovariatesSection({ n }: { n: number }) {
   return (
     <Section
-      title="4. Other covariates (optional)"
+      title={`${n}. Other covariates (optional)`}
       intro="Variables besides the pretest that you will match or adjust on, each measured with its own error, and confounders you know of but will not measure."
     >
       <CovariateEditor />
@@ -192,19 +385,22 @@ const CALIPER_UNIT = {
   mahalanobis: 'Mahalanobis-distance units',
 } as const;
 
-function MatchingSection() {
-  const distance = useMeanwardStore((s) => s.draft.matching.distance);
+function MatchingSection({ n }: { n: number }) {
+  const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
+  // With a rule, matching is on the pretest alone (the draft keeps another distance for existing groups).
+  const typedDistance = useMeanwardStore((s) => s.draft.matching.distance);
+  const distance = selection ? 'pretest' : typedDistance;
   const hasCovariates = useMeanwardStore((s) => s.draft.covariates.length > 0);
   return (
     <Section
-      title="5. The matching plan"
+      title={`${n}. The matching plan`}
       intro={
         distance === 'pretest'
           ? 'Matching on the observed pretest: each programme member gets comparison partners with a similar score.'
           : 'Matching on all measured variables at once: each programme member gets comparison partners who are close on the chosen distance.'
       }
     >
-      {(hasCovariates || distance !== 'pretest') && (
+      {!selection && (hasCovariates || distance !== 'pretest') && (
         <ChoiceField
           path="matching.distance"
           label="Match on"
@@ -255,23 +451,27 @@ function MatchingSection() {
   );
 }
 
-function AnalysisSection() {
+function AnalysisSection({ n }: { n: number }) {
+  // A one-group study has no corrected ANCOVA: its assumed reliability is kept, not shown.
+  const oneGroup = useMeanwardStore((s) => s.draft.design === 'one-group');
   return (
-    <Section title="6. The analysis">
+    <Section title={`${n}. The analysis`}>
       <NumberField path="analysis.alpha" label="Significance level (alpha, two-sided)" unit="0 to 0.5" step={0.01} min={0.001} max={0.5} hint="Usually 0.05." />
-      <NumberField path="analysis.assumedReliability" label="Assumed reliability for the corrected ANCOVA" unit="0 to 1" step={0.01} min={0.01} max={0.99} hint="The reliability the analyst will plug into the correction; a wrong guess leaves some bias." />
+{!oneGroup && (
+        <NumberField path="analysis.assumedReliability" label="Assumed reliability for the corrected ANCOVA" unit="0 to 1" step={0.01} min={0.01} max={0.99} hint="The reliability the analyst will plug into the correction; a wrong guess leaves some bias." />
+      )}
       <NumberField path="analysis.tolerableBiasShare" label="Tolerable share of the effect" unit="0 to 1" step={0.05} min={0.01} max={1} hint="How large an artefact you could live with, as a share of the hoped-for effect (0.25 = a quarter)." />
       <NumberField path="analysis.targetPower" label="Target power" unit="0 to 1" step={0.05} min={0.5} max={0.99} hint="Used for the sample size needed; leave empty for 0.8." />
     </Section>
   );
 }
 
-function SimulationSection() {
+function SimulationSection({ n }: { n: number }) {
   const autoRun = useMeanwardStore((s) => s.simulation.autoRun);
   const setAutoRun = useMeanwardStore((s) => s.setAutoRun);
   const id = useId();
   return (
-    <Section title="7. The simulation" intro="A Monte Carlo check of the formulas with finite pools, the caliper and the matching order. Run it from the results panel.">
+    <Section title={`${n}. The simulation`} intro="A Monte Carlo check of the formulas with finite pools, the caliper and the matching order. Run it from the results panel.">
       <NumberField path="simulation.replications" label="Replications" unit="studies" step={500} min={100} inputMode="numeric" hint="Simulated studies; 2,000 gives figures precise to about ±1 percentage point." />
       <NumberField path="simulation.seed" label="Seed" step={1} min={0} inputMode="numeric" hint="The same plan and seed give the same simulated figures, bit for bit." />
       <div className="field field-check">

@@ -1,7 +1,7 @@
 import { requireAnalysis } from '../core/presentAnalyses';
 import { headlineAnalysisId } from '../core/design/studyDesign';
-import type { ArtefactVerdict, UnmeasuredBias } from '../core/analyticResults';
-import type { MatchingDistance } from '../core/plan';
+import type { AnalyticAnalysis, AnalyticResults, ArtefactVerdict, DesignSummary, UnmeasuredBias } from '../core/analyticResults';
+import type { MatchingDistance, Plan } from '../core/plan';
 import { selectAnalytic, selectAnalyticStale, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { fmt, fmtPct, fmtSigned } from './format';
@@ -55,6 +55,48 @@ export function verdictWords(v: ArtefactVerdict) {
   return VERDICT_WORDS[v];
 }
 
+/** How people got into the programme and what that means for the analyses (core's design summary). */
+function DesignNote({ design }: { design: DesignSummary }) {
+  return (
+    <p className="verdict-design" data-testid="verdict-design" data-design={design.kind} data-shape={design.shape}>
+      <strong>Who got the programme:</strong> <span data-testid="verdict-rule">{design.rule}</span>{' '}
+      <span data-testid="verdict-meaning">{design.meaning}</span>
+      {design.selectedShare !== null && <> The rule selects about {fmtPct(design.selectedShare, 0)} of the population.</>}
+    </p>
+  );
+}
+
+/**
+ * The one-group verdict's lead: the change expected with no programme at all
+ * (regression toward the mean, plus any growth) set beside the hoped-for
+ * effect, then what that does to the estimate.
+ */
+function OneGroupLead({ m, analytic, plan }: { m: AnalyticAnalysis; analytic: AnalyticResults; plan: Plan }) {
+  const tauZero = analytic.tau === 0;
+  const side = plan.assignment?.side ?? 'below';
+  return (
+    <>
+      <div className="verdict-beside" data-testid="verdict-beside">
+        <p>
+          <span>Change expected with no programme at all</span>
+          <strong data-testid="verdict-no-programme-change">{fmtSigned(analytic.design.noProgrammeChange)} points</strong>
+        </p>
+        <p>
+          <span>Hoped-for effect of the programme</span>
+          <strong>{fmtSigned(analytic.tau)} points</strong>
+        </p>
+      </div>
+      <p className="verdict-lead" data-testid="verdict-lead">
+        People picked for {side === 'below' ? 'low' : 'high'} scores were, on average, partly {side === 'below' ? 'unlucky' : 'lucky'} on the day they
+        were measured; measured again, their scores drift back toward the population mean even if nothing is done. So the pre–post change is expected
+        to shift the estimated effect by <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
+        {!tauZero && m.biasShare !== null && <>, {fmtPct(Math.abs(m.biasShare), 0)} of the hoped-for effect</>}: this regression-toward-the-mean
+        artefact {VERDICT_WORDS[m.verdict].sentence}
+      </p>
+    </>
+  );
+}
+
 /**
  * The headline: the artefact expected from the planned matching beside the
  * hoped-for effect, what it does to the conclusion, the false-positive rate
@@ -79,6 +121,8 @@ export function VerdictPanel() {
   const words = VERDICT_WORDS[m.verdict];
   const alphaPct = fmtPct(plan.analysis.alpha, 0);
   const tauZero = analytic.tau === 0;
+  const oneGroup = analytic.design.shape === 'one-group';
+  const selection = analytic.design.kind === 'selection';
   return (
     <section
       className={`verdict verdict-${m.verdict}${stale ? ' is-stale' : ''}${pending ? ' is-pending' : ''}`}
@@ -90,35 +134,42 @@ export function VerdictPanel() {
       data-basis={m.basis}
     >
       <h2 id="verdict-heading">
-        Verdict: the planned matching <span className="verdict-word">{words.heading}</span>
+        Verdict: {oneGroup ? 'the pre–post change' : 'the planned matching'} <span className="verdict-word">{words.heading}</span>
       </h2>
       {stale && (
         <p className="stale-banner" role="status">
           Out of date: these results are for the last complete plan. Fix the marked fields to update them.
         </p>
       )}
-      <p className="verdict-lead" data-testid="verdict-lead">
-        Matching on {MATCHED_ON[analytic.matchingDistance ?? 'pretest']} is expected to shift the estimated effect by{' '}
-        <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
-        {tauZero ? (
-          <> when the hoped-for effect is zero.</>
-        ) : (
-          <>
-            , which is <strong>{fmtPct(m.biasShare === null ? null : Math.abs(m.biasShare), 0)}</strong> of the hoped-for effect of{' '}
-            {fmtSigned(analytic.tau)} points.
-          </>
-        )}{' '}
-        This regression-toward-the-mean artefact {words.sentence}
-      </p>
+      <DesignNote design={analytic.design} />
+      {oneGroup ? (
+        <OneGroupLead m={m} analytic={analytic} plan={plan} />
+      ) : (
+        <p className="verdict-lead" data-testid="verdict-lead">
+          Matching on {MATCHED_ON[analytic.matchingDistance ?? 'pretest']} is expected to shift the estimated effect by{' '}
+          <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
+          {tauZero ? (
+            <> when the hoped-for effect is zero.</>
+          ) : (
+            <>
+              , which is <strong>{fmtPct(m.biasShare === null ? null : Math.abs(m.biasShare), 0)}</strong> of the hoped-for effect of{' '}
+              {fmtSigned(analytic.tau)} points.
+            </>
+          )}{' '}
+          This regression-toward-the-mean artefact {words.sentence}
+        </p>
+      )}
       <ul className="verdict-facts">
         <li data-testid="verdict-basis">
-          Expected estimate from the matched comparison: <strong>{fmtSigned(m.expectedEstimate)} points</strong> (true effect{' '}
+          Expected estimate from {oneGroup ? 'the pre–post change' : 'the matched comparison'}: <strong>{fmtSigned(m.expectedEstimate)} points</strong> (true effect{' '}
           {fmtSigned(analytic.tau)}
           {m.basis === 'planned-procedure' ? (
             <>
               ; for the procedure as planned, from a quick simulation, Monte Carlo SE {fmt(m.expectedEstimateMCSE)}; the formula for unlimited pools and
               exact matching gives {fmtSigned(m.formulaEstimate)})
             </>
+          ) : oneGroup ? (
+            <>; from the formula for this population and rule)</>
           ) : (
             <>; from the formula for unlimited pools and exact matching, until the quick simulation of the planned procedure is in)</>
           )}
@@ -127,7 +178,7 @@ export function VerdictPanel() {
         {m.feasible ? (
           <>
             <li>
-              If the programme did nothing, a matched comparison would be significant in <strong data-testid="verdict-fpr">{fmtPct(m.falsePositiveRate)}</strong>{' '}
+              If the programme did nothing, {oneGroup ? 'the pre–post change' : 'a matched comparison'} would be significant in <strong data-testid="verdict-fpr">{fmtPct(m.falsePositiveRate)}</strong>{' '}
               of studies (the nominal rate is {alphaPct}).
             </li>
             {!tauZero && (
@@ -146,19 +197,22 @@ export function VerdictPanel() {
             <strong>The planned matching is not feasible.</strong> {m.infeasibleReason}
           </li>
         )}
-        <li>
-          {analytic.model.pretestGap === 0 ? (
-            <>
-              Why so small: the groups start level on the pretest, so regression toward the mean pulls both groups&rsquo; matched members the same way
-              (Kelley). Any artefact left comes from other differences between the groups.
-            </>
-          ) : (
-            <>
-              Why: matched people share an observed score, but each person&rsquo;s true score is pulled back toward their own group&rsquo;s mean
-              (Kelley), so part of the {fmt(Math.abs(analytic.model.pretestGap), 1)}-point pretest gap between the groups survives matching.
-            </>
-          )}
-        </li>
+        {!oneGroup && (
+          <li>
+            {analytic.model.pretestGap === 0 ? (
+              <>
+                Why so small: the groups start level on the pretest, so regression toward the mean pulls both groups&rsquo; matched members the same way
+                (Kelley). Any artefact left comes from other differences between the groups.
+              </>
+            ) : (
+              <>
+                Why: matched people share an observed score, but each person&rsquo;s true score is pulled back toward their own group&rsquo;s mean
+                (Kelley), so part of the {fmt(Math.abs(analytic.model.pretestGap), 1)}-point pretest gap between the groups survives matching.
+                {selection && <> Which analyses this touches depends on what the rule looked at: see the table below.</>}
+              </>
+            )}
+          </li>
+        )}
       </ul>
       {analytic.unmeasuredBias && (plan.covariates?.length ?? 0) > 0 && <UnmeasuredPart u={analytic.unmeasuredBias} tauZero={tauZero} />}
       <p className="caution" role="note">

@@ -2,6 +2,7 @@ import { hasCovariateBalance } from '../charts/covariateBalanceChartData';
 import type { AnalyticResults } from '../core/analyticResults';
 import { usesCovariateModel } from '../core/multivariate/covariateModel';
 import type { Plan } from '../core/plan';
+import { studyDesign } from '../core/design/studyDesign';
 import type { SimulationResult } from '../sim/types';
 
 /** A chart the exports panel offers: the id reportCharts gives it, and the name on its buttons. */
@@ -21,5 +22,6 @@ export function exportableBalanceChart(plan: Plan, analytic: AnalyticResults | n
   if (usesCovariateModel(plan)) {
     return analytic && hasCovariateBalance({ plan, analytic, simulation }) ? [{ id: 'covariateBalance', name: 'Balance after matching' }] : [];
   }
-  return simulation ? [{ id: 'balance', name: 'Balance after matching' }] : [];
+  // A one-group study matches nobody: no balance chart.
+  return simulation && studyDesign(plan).shape === 'two-groups' ? [{ id: 'balance', name: 'Balance after matching' }] : [];
 }

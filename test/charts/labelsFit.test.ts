@@ -1,5 +1,5 @@
 // @vitest-environment jsdom
-// Every chart, for every built-in example plan (closed form) and the demo and the covariate
+// Every chart (every sensitivity axis the design offers), for every built-in example plan (closed form) and the demo and the covariate
 // example with a seeded simulation, at a phone's width, a laptop's, the PDF's and the widest
 // drawn: no label's estimated box (test/charts/textExtent.ts; width = characters × font size
 // × 0.55, 0.6 bold, from memory) leaves the SVG (1 px slack), and no two labels overlap by
@@ -13,7 +13,8 @@ import { covariateBalanceChartSvgString } from '../../src/charts/covariateBalanc
 import { estimatesChartData } from '../../src/charts/estimatesChartData';
 import { pretestChartData } from '../../src/charts/pretestChartData';
 import { renderChartToSvgString } from '../../src/charts/renderChartToSvgString';
-import { sensitivityChartData } from '../../src/charts/sensitivityChartData';
+import { sensitivityChartData, sensitivityModes } from '../../src/charts/sensitivityChartData';
+import { studyDesign } from '../../src/core/design/studyDesign';
 import { analysePlan } from '../../src/core/analysePlan';
 import { usesCovariateModel } from '../../src/core/multivariate/covariateModel';
 import { EXAMPLE_PLANS } from '../../src/io/examplePlans';
@@ -30,11 +31,11 @@ function svgs(input: ChartInput, width: number): [string, string][] {
     out.push([id, renderChartToSvgString(id, data as never, chartSize(id, data as never, width))]);
   draw('pretest', pretestChartData(input));
   draw('estimates', estimatesChartData(input));
-  draw('sensitivity', sensitivityChartData(input, 'reliability'));
-  draw('sensitivity', sensitivityChartData(input, 'pretestGap'));
+  // Every axis the plan's design offers (reliability and the gap; or the cut-off and the screener's reliability).
+  for (const mode of sensitivityModes(input.plan)) draw('sensitivity', sensitivityChartData(input, mode));
   if (usesCovariateModel(input.plan)) {
     if (hasCovariateBalance(input)) out.push(['covariateBalance', covariateBalanceChartSvgString(covariateBalanceChartData(input), width)]);
-  } else {
+  } else if (studyDesign(input.plan).shape === 'two-groups') {
     draw('balance', balanceChartData(input));
   }
   return out;

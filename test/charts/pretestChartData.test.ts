@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import * as d3 from 'd3';
-import { pretestChartData } from '../../src/charts/pretestChartData';
+import { groupsPretestChartData as pretestChartData } from '../../src/charts/pretestChartData';
 import { closedFormInput, simulatedInput } from './fixtures';
 
 describe('pretestChartData', () => {

@@ -59,7 +59,7 @@ describe('one message per bad field', () => {
     ['empty group name', (p) => (p.groups.programme.label = ''), 'groups.programme.label', 'Programme group name must be text of 1 to 80 characters; got 0 characters.'],
     ['fractional pool', (p) => (p.groups.programme.poolSize = 12.5), 'groups.programme.poolSize', 'Programme group pool size must be a whole number from 2 to 100000; got 12.5.'],
     ['pool of one', (p) => (p.groups.comparison.poolSize = 1), 'groups.comparison.poolSize', 'Comparison group pool size must be a whole number from 2 to 100000; got 1.'],
-    ['mean infinite', (p) => (p.groups.programme.pretestMean = Number.POSITIVE_INFINITY), 'groups.programme.pretestMean', 'Programme group pretest mean must be a number from -1000000 to 1000000; got Infinity.'],
+    ['mean infinite', (p) => (p.groups.programme.pretestMean = Number.POSITIVE_INFINITY), 'groups.programme.pretestMean', 'Programme group pretest mean must be a number from -1000000 to 1000000; got an infinitely large number.'],
     ['mean as text', (p) => (p.groups.comparison.pretestMean = '54'), 'groups.comparison.pretestMean', 'Comparison group pretest mean must be a number from -1000000 to 1000000; got "54".'],
     ['negative SD', (p) => (p.groups.programme.pretestSD = -3), 'groups.programme.pretestSD', 'Programme group pretest SD must be a number from 0.000001 to 1000000; got -3.'],
     ['reliability 1.4', (p) => (p.pretest.reliability = 1.4), 'pretest.reliability', 'Pretest reliability must be a number between 0 and 1 (exclusive); got 1.4.'],

@@ -114,3 +114,28 @@ export async function watchedLongTasks(
 export async function waitForPlannedFigures(page: Page): Promise<void> {
   await expect(page.getByTestId('verdict')).toHaveAttribute('data-basis', 'planned-procedure', { timeout: 15_000 });
 }
+
+/** Every chart label's real box (Chromium's getBBox, transformed to the svg) lies inside its svg's viewBox, 1 px slack. */
+export async function clippedChartLabels(page: Page): Promise<string[]> {
+  return page.evaluate(() => {
+    const out: string[] = [];
+    for (const svg of Array.from(document.querySelectorAll<SVGSVGElement>('figure[data-chart] svg'))) {
+      const vb = svg.viewBox.baseVal;
+      for (const t of Array.from(svg.querySelectorAll<SVGTextElement>('text'))) {
+        const b = t.getBBox();
+        const m = t.getCTM() && svg.getCTM() ? svg.getCTM()!.inverse().multiply(t.getCTM()!) : null;
+        if (!m) continue;
+        const pts = [
+          new DOMPoint(b.x, b.y).matrixTransform(m),
+          new DOMPoint(b.x + b.width, b.y + b.height).matrixTransform(m),
+        ];
+        const [x0, x1] = [Math.min(pts[0]!.x, pts[1]!.x), Math.max(pts[0]!.x, pts[1]!.x)];
+        const [y0, y1] = [Math.min(pts[0]!.y, pts[1]!.y), Math.max(pts[0]!.y, pts[1]!.y)];
+        if (x0 < -1 || y0 < -1 || x1 > vb.width + 1 || y1 > vb.height + 1) {
+          out.push(`${svg.closest('figure')!.getAttribute('data-chart')}: "${t.textContent}" ${x0.toFixed(0)}..${x1.toFixed(0)} × ${y0.toFixed(0)}..${y1.toFixed(0)} in ${vb.width} × ${vb.height}`);
+        }
+      }
+    }
+    return out;
+  });
+}
