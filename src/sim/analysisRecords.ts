@@ -20,8 +20,10 @@ export const SLOT_PRE_POST = 6;
 export const SLOT_PERSON = 7;
 /** Slot of the same person-level estimates with the naive OLS SE that ignores clustering (clusters only). */
 export const SLOT_PERSON_NAIVE = 8;
-/** Number of slots: the seven analyses, ANCOVA in the matched sample and the naive person-level figures. */
-export const SLOT_COUNT = 9;
+/** Slot of the matched difference of people matched across clusters with the one-level SE that ignores clustering (clusters only). */
+export const SLOT_MATCHED_NAIVE = 9;
+/** Number of slots: the seven analyses, ANCOVA in the matched sample and the two naive figures of clustered designs. */
+export const SLOT_COUNT = 10;
 /** The slot of each of the four analyses (ANCOVA in the full pools for 'ancova'). */
 export const ANALYSIS_SLOT: Readonly<Record<AnalysisId, number>> = {
   matchedDifference: SLOT_MATCHED,
