@@ -1,4 +1,5 @@
 import type { AnalyticResults } from '../core/analyticResults';
+import { studyDesign } from '../core/design/studyDesign';
 import { presentAnalyses } from '../core/presentAnalyses';
 import { isFeasible, type SimAnalysisResult, type SimulationResult } from '../sim/types';
 import { fmtPercent, fmtPoints, fmtSD } from './formatResultsTable';
@@ -7,8 +8,9 @@ import { fmtPercent, fmtPoints, fmtSD } from './formatResultsTable';
  * The simulated part of "meanward run": per analysis the mean estimate (with
  * its Monte Carlo SE), bias, empirical SE, RMSE, 95% CI coverage, rejection
  * rate (power, or the false-positive rate when the effect is zero) and the
- * wrong-sign rate; then the matching summary, observed balance beside the
- * hidden true-score imbalance. An analysis the simulation could not
+ * wrong-sign rate; then, where the design matches (not a one-group study), the
+ * matching summary, observed balance beside the hidden true-score imbalance
+ * (or one line when nobody could be matched in any replication). An analysis the simulation could not
  * summarise (computed in fewer than two replications) shows "not computed"
  * and its reason below the table; the others are reported as usual.
  * Formatting only: every figure comes from src/sim.
@@ -19,10 +21,18 @@ import { fmtPercent, fmtPoints, fmtSD } from './formatResultsTable';
  */
 export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticResults): string {
   const lines: string[] = [];
+  const design = studyDesign(sim.plan);
+  const matches = sim.analyses.matchedDifference !== undefined;
+  const what =
+    design.kind === 'existing-groups'
+      ? 'the planned pools, caliper, ratio and matching order'
+      : matches
+        ? 'the planned population and rule, then the caliper, ratio and matching order'
+        : 'the planned population and rule';
   lines.push(
     sim.partial
-      ? `Simulated results, PARTIAL: stopped at the time limit after ${sim.replications.toLocaleString('en-GB')} of ${(sim.replicationsPlanned ?? sim.replications).toLocaleString('en-GB')} planned replications (seed ${sim.seed}; the planned pools, caliper, ratio and matching order). Monte Carlo SEs reflect the replications done.`
-      : `Simulated results (${sim.replications} replications, seed ${sim.seed}; the planned pools, caliper, ratio and matching order)`,
+      ? `Simulated results, PARTIAL: stopped at the time limit after ${sim.replications.toLocaleString('en-GB')} of ${(sim.replicationsPlanned ?? sim.replications).toLocaleString('en-GB')} planned replications (seed ${sim.seed}; ${what}). Monte Carlo SEs reflect the replications done.`
+      : `Simulated results (${sim.replications} replications, seed ${sim.seed}; ${what})`,
   );
   const rejection = sim.tau === 0 ? 'False-positive rate' : 'Power';
   const header = ['Analysis', 'Mean estimate', '(MC SE)', 'Bias', 'Empirical SE', 'RMSE', '95% CI coverage', rejection, 'Wrong sign'];
@@ -59,20 +69,31 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
       lines.push(`  ${name}: computed in ${s.replications} of ${sim.replications} replications (too few matched sets in the others).`);
     }
   }
-  const m = sim.matching;
-  const nP = sim.plan.groups.programme.poolSize;
-  lines.push('');
-  lines.push('Matching (simulated)');
-  lines.push(
-    `  Programme members matched: ${fmtPoints(m.meanMatchedProgramme)} of ${nP} on average; ${fmtPercent(m.discardedProgrammeShare)} discarded (no partner within the caliper).`,
-  );
-  lines.push(
-    `  Observed pretest difference (programme - comparison): ${fmtPoints(m.observedDifferenceBefore)} points before matching (SMD ${fmtSD(m.observedSMDBefore)}), ${fmtPoints(m.observedDifferenceAfter)} after (SMD ${fmtSD(m.observedSMDAfter)}).`,
-  );
-  lines.push(
-    `  True-score difference (hidden imbalance): ${fmtPoints(m.trueDifferenceBefore)} points before (SMD ${fmtSD(m.trueSMDBefore)}), ${fmtPoints(m.trueDifferenceAfter)} after (SMD ${fmtSD(m.trueSMDAfter)}).`,
-  );
-  lines.push(`  Variance ratio of the observed pretest after matching (programme / comparison): ${fmtSD(m.varianceRatioAfter)}.`);
-  lines.push('  Balance on the observed pretest can look fine while the true scores still differ: that gap is the regression artefact.');
+  // The matching summary only where the design matches (not in a one-group study).
+  if (matches) {
+    const m = sim.matching;
+    const nP = sim.plan.groups.programme.poolSize;
+    const ofP = design.kind === 'existing-groups' ? `${nP}` : `about ${nP} selected`;
+    lines.push('');
+    lines.push('Matching (simulated)');
+    if (m.replicationsWithMatches === 0 && design.kind !== 'existing-groups') {
+      lines.push(`  No programme member was matched in any simulated study (the reason is given above).`);
+      lines.push(
+        `  Observed pretest difference (programme - comparison): ${fmtPoints(m.observedDifferenceBefore)} points (SMD ${fmtSD(m.observedSMDBefore)}); true-score difference ${fmtPoints(m.trueDifferenceBefore)} points (SMD ${fmtSD(m.trueSMDBefore)}).`,
+      );
+    } else {
+      lines.push(
+        `  Programme members matched: ${fmtPoints(m.meanMatchedProgramme)} of ${ofP} on average; ${fmtPercent(m.discardedProgrammeShare)} discarded (no partner within the caliper).`,
+      );
+      lines.push(
+        `  Observed pretest difference (programme - comparison): ${fmtPoints(m.observedDifferenceBefore)} points before matching (SMD ${fmtSD(m.observedSMDBefore)}), ${fmtPoints(m.observedDifferenceAfter)} after (SMD ${fmtSD(m.observedSMDAfter)}).`,
+      );
+      lines.push(
+        `  True-score difference (hidden imbalance): ${fmtPoints(m.trueDifferenceBefore)} points before (SMD ${fmtSD(m.trueSMDBefore)}), ${fmtPoints(m.trueDifferenceAfter)} after (SMD ${fmtSD(m.trueSMDAfter)}).`,
+      );
+      lines.push(`  Variance ratio of the observed pretest after matching (programme / comparison): ${fmtSD(m.varianceRatioAfter)}.`);
+      lines.push('  Balance on the observed pretest can look fine while the true scores still differ: that gap is the regression artefact.');
+    }
+  }
   return `${lines.join('\n')}\n`;
 }

@@ -85,7 +85,7 @@ describe('plans without covariates keep the one-pretest path exactly', () => {
         ['corrected-ancova', 'gain-score', 'larger-pools', 'looser-caliper', 'more-reliable-pretest', 'tighter-caliper'],
       );
       expect(r.remedies).toStrictEqual(rankRemedies(plan, m));
-      expect(Object.keys(r).sort()).toEqual(['analyses', 'breakEven', 'model', 'procedure', 'reliability', 'remedies', 'tau']);
+      expect(Object.keys(r).sort()).toEqual(['analyses', 'breakEven', 'design', 'model', 'procedure', 'reliability', 'remedies', 'tau']);
     });
   }
 });

@@ -199,7 +199,7 @@ export function selectionRemedies(m: SelectionModel, inputs: SelectionRemedyInpu
       const vif = globalLinearDiscontinuity.precision(twoGroups, twoGroups.programme.n + twoGroups.comparison.n).varianceInflation;
       push({
         id: 'comparison-group',
-        title: 'Add a comparison group: such as the people just beyond the cut-off',
+        title: 'Add a comparison group, such as the people just beyond the cut-off',
         summary: observed
           ? `Measuring the people the rule did not select as well, and regressing the posttest on group and the ${d.basis} score ` +
             `(regression discontinuity), leaves ${pts(bias)} points instead of ${pts(now)}; growth both groups share cancels. ` +

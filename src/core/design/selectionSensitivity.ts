@@ -13,14 +13,14 @@ import { designAnalysisIds, headlineAnalysisId } from './studyDesign';
  * Expected bias of each of a selection design's analyses as one feature
  * varies, for the sensitivity chart (sensitivityCurve dispatches here):
  * - 'reliability': x is the pretest's reliability in its reference population
- *   (pretest.referenceSD, default the population's SD), 0.3 to 1; the SEM is
+ *   (pretest.referenceSD, default the population's SD), 0.3 (or the plan's own, if lower) to 1; the SEM is
  *   referenceSD·sqrt(1 − x) with the reference true-score variance held
  *   (as for existing groups), the population's true scores, the outcome's
  *   slope on them and the cut-off in points stay; a rule on the pretest then
  *   looks at the changed pretest.
  * - 'cutOff': x is the cut-off in points, over the range where each group
  *   keeps at least max(2%, 1.05 × MIN_SELECTED people) of the population (the plan's cut-off always included).
- * - 'screenerReliability': basis 'screener' only; x from 0.3 to 1 (1: the screener measures the true score exactly).
+ * - 'screenerReliability': basis 'screener' only; x from 0.3 (or the plan's own, if lower) to 1 (1: the screener measures the true score exactly).
  * - 'pretestGap' does not apply (the gap follows from the rule): a plain error.
  * Bias = expected estimate − tau, growth gap included (selectionArtefact).
  * The matched difference is left out of every point when the plan's rule is a
@@ -33,7 +33,7 @@ import { designAnalysisIds, headlineAnalysisId } from './studyDesign';
  * @param plan a validated selection plan. @param variable what varies. @param points grid points (3..1001, checked by the caller).
  * @returns the curve (all numbers finite).
  * @throws Error with a plain message for 'pretestGap', for 'screenerReliability' without a screener,
- *   or when no grid point can be computed.
+ *   or when fewer than 2 grid points can be computed.
  * @example lowest fifth on a screener: 'screenerReliability' at x = 1 gives ANCOVA's bias of a rule on
  *   the true score; regression discontinuity stays at 0 throughout
  */
@@ -62,7 +62,12 @@ export function selectionSensitivityCurve(plan: Plan, variable: SensitivityVaria
       }
       out.push({ x, bias: biasOf(mx) });
     }
-    if (out.length === 0) throw new Error('No point of this sensitivity curve can be computed: the rule leaves too few people in a group throughout.');
+    if (out.length < 2) {
+      throw new Error(
+        'This sensitivity curve cannot be drawn: the rule leaves too few people in a group (fewer than ' +
+          `${MIN_SELECTED}) almost everywhere along it. Enlarge the population or move the cut-off toward its mean.`,
+      );
+    }
     return out;
   };
 
@@ -80,14 +85,14 @@ export function selectionSensitivityCurve(plan: Plan, variable: SensitivityVaria
     const semAt = (x: number): number => Math.sqrt((trueVarRef * Math.max(0, 1 - x)) / x);
     xLabel = 'Pretest reliability in its reference population';
     current = trueVarRef / (trueVarRef + sem * sem);
-    pts = curve(grid(0.3, 1), (x) => modelWith(m, { population: populationWithSem(m.population, semAt(x)) }));
+    pts = curve(grid(Math.min(0.3, current), 1), (x) => modelWith(m, { population: populationWithSem(m.population, semAt(x)) }));
   } else if (variable === 'screenerReliability') {
     if (d.basis !== 'screener') {
       throw new Error('This plan\u2019s rule does not use a screener, so there is no screener reliability to vary.');
     }
     xLabel = 'Screener reliability in the population';
     current = d.screenerReliability as number;
-    pts = curve(grid(0.3, 1), (x) => modelWith(m, withBasis(d, m.population, 'screener', x)));
+    pts = curve(grid(Math.min(0.3, current), 1), (x) => modelWith(m, withBasis(d, m.population, 'screener', x)));
   } else {
     const q = Math.min(0.5, Math.max(0.02, (1.05 * MIN_SELECTED) / m.population.poolSize));
     const mean = m.population.mean;

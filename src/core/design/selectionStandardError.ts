@@ -13,8 +13,8 @@ export interface SelectionPrecision {
   df: number;
   /**
    * SE and df when the programme group has n people: the population is
-   * scaled so that the rule keeps its split (comparison n·n_C/n_P); for a
-   * matched difference, n matched programme members.
+   * scaled so that the rule keeps its split (comparison n·n_C/n_P; each group
+   * at least 2); for a matched difference, n matched programme members.
    */
   design: DesignAtN;
   nProgramme: number;
@@ -76,17 +76,20 @@ export function selectionStandardError(
   const nP = m.programme.n;
   const nC = m.comparison.n;
   const split = nC / nP;
+  // Sizes at a programme size n with the rule's split kept, each at least 2 (the required-n search starts small).
+  const sizesAt = (n: number): [number, number] => [Math.max(2, n), Math.max(2, n * split)];
   let out: SelectionPrecision;
   switch (id) {
     case 'gainScore': {
       const vP = gainVariance(m.programme);
       const vC = gainVariance(m.comparison);
       const at = (n: number) => {
-        const a = vP / n;
-        const b = vC / (n * split);
+        const [np, nc] = sizesAt(n);
+        const a = vP / np;
+        const b = vC / nc;
         const df = welchSatterthwaiteDf([
-          { variance: a, df: Math.max(1, n - 1) },
-          { variance: b, df: Math.max(1, n * split - 1) },
+          { variance: a, df: np - 1 },
+          { variance: b, df: nc - 1 },
         ]);
         return { se: Math.sqrt(a + b), df };
       };
@@ -97,8 +100,10 @@ export function selectionStandardError(
     case 'correctedAncova': {
       const c = id === 'ancova' ? 1 : 1 / requireReliability(options.assumedReliability, 'The assumed reliability for the corrected ANCOVA');
       const gap = (m.programme.mean[SEL_PRETEST] as number) - (m.comparison.mean[SEL_PRETEST] as number);
-      const at = (n: number) =>
-        adjustedDifferenceStandardError(pretestMoments(m.programme, n), pretestMoments(m.comparison, n * split), [gap], [[c]]);
+      const at = (n: number) => {
+        const [np, nc] = sizesAt(n);
+        return adjustedDifferenceStandardError(pretestMoments(m.programme, np), pretestMoments(m.comparison, nc), [gap], [[c]]);
+      };
       out = { ...at(nP), design: at, nProgramme: nP, nComparison: nC };
       break;
     }
@@ -106,7 +111,7 @@ export function selectionStandardError(
       const rd = options.rd ?? globalLinearDiscontinuity;
       const p = m.programme.share;
       const at = (n: number) => {
-        const r = rd.precision(m, n / p);
+        const r = rd.precision(m, Math.max(n / p, 4));
         return { se: r.se, df: r.df };
       };
       const now = rd.precision(m, nP + nC);
@@ -128,7 +133,7 @@ export function selectionStandardError(
       throw new Error('The person-level ANCOVA belongs to clustered designs, not to a selection rule.');
     case 'prePostChange': {
       const v = gainVariance(m.programme);
-      const at = (n: number) => ({ se: Math.sqrt(v / n), df: Math.max(1, n - 1) });
+      const at = (n: number) => ({ se: Math.sqrt(v / Math.max(2, n)), df: Math.max(1, n - 1) });
       out = { ...at(nP), design: at, nProgramme: nP, nComparison: 0 };
       break;
     }

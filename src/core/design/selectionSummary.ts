@@ -83,7 +83,8 @@ export function selectionSummary(
       noProgrammeChange: change,
     };
   }
-  const list = presentAnalyses(analyses);
+  // Analyses that cannot be carried out (no overlap to match on) are named in their own sentence, not in these lists.
+  const list = presentAnalyses(analyses).filter(([, a]) => a.feasible);
   const unbiased = list.filter(([, a]) => free(a)).map(([id]) => SHORT[id]);
   const biased = list.filter(([, a]) => !free(a)).map(([id]) => SHORT[id]);
   const join = (xs: string[]): string => (xs.length <= 1 ? (xs[0] ?? '') : `${xs.slice(0, -1).join(', ')} and ${xs[xs.length - 1]}`);
