@@ -111,7 +111,7 @@ describe('cluster-aware SEs: simulated coverage 0.95 ± 0.02 (plus 3 MC SE)', ()
 function jacobiEigen(S: number[][]): { values: number[]; vectors: number[][] } {
   const n = S.length;
   const a = S.map((r) => [...r]);
-  const v = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0)));
+  const v: number[][] = Array.from({ length: n }, (_, i) => Array.from({ length: n }, (_, j) => (i === j ? 1 : 0)));
   for (let sweep = 0; sweep < 100; sweep++) {
     let off = 0;
     for (let p = 0; p < n; p++) for (let q = p + 1; q < n; q++) off += a[p]![q]! ** 2;
