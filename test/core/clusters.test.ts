@@ -188,3 +188,17 @@ describe('validation of the clusters section', () => {
     expect(problems(r)[0]?.message).toContain('Cluster size must be a whole number from 2 to 10000; got 1.');
   });
 });
+
+describe('sensitivity curves for clusters', () => {
+  it('the pretest-gap curve re-runs the clusters model: no artefact at no gap, the plan\u2019s own figure at its gap', async () => {
+    const { sensitivityCurve } = await import('../../src/core/sensitivityCurve');
+    const plan = clusterPlan({ effect: 3 });
+    const curve = sensitivityCurve(plan, 'pretestGap', 41);
+    const mid = curve.points[20]!; // the grid is symmetric about the gap −8 (± max(8, 15)): x = −8 at the middle
+    expect(mid.x).toBeCloseTo(-8, 10);
+    expect(mid.bias.matchedDifference).toBeCloseTo(analysePlan(plan).clusters?.matchedClusterArtefact as number, 10);
+    const zero = sensitivityCurve({ ...plan, groups: { ...plan.groups, programme: { ...plan.groups.programme, pretestMean: 100 } } }, 'pretestGap', 41);
+    expect(zero.points[20]!.bias.matchedDifference).toBeCloseTo(0, 10);
+    expect(Object.keys(mid.bias).sort()).toEqual(['ancova', 'gainScore', 'matchedDifference', 'personLevelAncova']);
+  });
+});
