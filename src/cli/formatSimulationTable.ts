@@ -73,7 +73,14 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
   if (matches) {
     const m = sim.matching;
     const nP = sim.plan.groups.programme.poolSize;
-    const ofP = design.kind === 'existing-groups' ? `${nP}` : `about ${nP} selected`;
+    const ofP =
+      design.kind === 'existing-groups'
+        ? `${nP}`
+        : design.kind === 'clusters'
+          ? design.level === 'clusters'
+            ? `${design.clusterCount.programme} clusters (counts below are clusters)`
+            : `${nP} (people, in ${design.clusterCount.programme} clusters)`
+          : `about ${nP} selected`;
     lines.push('');
     lines.push('Matching (simulated)');
     if (m.replicationsWithMatches === 0 && design.kind !== 'existing-groups') {
