@@ -173,7 +173,7 @@ export const SCHOOLS_MATCHED_ON_MEANS: Plan = {
   matching: { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random', level: 'clusters' },
   analysis: { alpha: 0.05, assumedReliability: 0.8, tolerableBiasShare: 0.25, targetPower: 0.8 },
   simulation: { replications: 1000, seed: 2025 },
-  clusters: { size: 25, pretestICC: 0.2, posttestICC: 0.2, cohort: 'new' },
+  clusters: { size: 25, pretestICC: 0.2, posttestICC: 0.25, cohort: 'new' },
 };
 
 /** The built-in examples, the demo first. Callers must copy a plan before changing it. */
