@@ -44,7 +44,7 @@ interface PretestLayout {
   minHeight: number;
 }
 
-const HEADING = { people: 'Matched members', clusters: 'Matched clusters (one dot each)' } as const;
+const HEADING = { people: 'Matched members', clusters: 'Matched clusters (one mark each)' } as const;
 const MIN_DENSITY_H = 100;
 const NOTE_ROOM = 1.15;
 

@@ -127,7 +127,8 @@ export function emptySelectionDraft(): Pick<PlanDraft, 'design' | 'assignment' |
 
 /** The clusters part of a draft for a plan without clusters (switched off, nothing typed). */
 export function emptyClusterDraft(): ClusterDraft {
-  return { inClusters: false, size: '', pretestICC: '', posttestICC: '', cohort: 'new' };
+  // Same people and (the plan's default) people matched across clusters: a combination that is valid as it stands.
+  return { inClusters: false, size: '', pretestICC: '', posttestICC: '', cohort: 'same' };
 }
 
 /**
