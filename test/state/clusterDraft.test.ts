@@ -156,9 +156,9 @@ describe('autosave and undo', () => {
     const reopened = makeStore({ storage });
     expect(reopened.getState().draft.clusters).toEqual(store.getState().draft.clusters);
 
-    const old = structuredClone(planToDraft(demoPlan())) as Partial<PlanDraft> & { matching: Partial<PlanDraft['matching']> };
+    const old = structuredClone(planToDraft(demoPlan())) as Partial<PlanDraft>;
     delete old.clusters;
-    delete old.matching.level;
+    delete (old.matching as Partial<PlanDraft['matching']>).level;
     expect(isPlanDraft(old)).toBe(true);
     const filled = withDraftDefaults(old as PlanDraft);
     expect(filled.clusters.inClusters).toBe(false);
