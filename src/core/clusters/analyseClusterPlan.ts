@@ -68,7 +68,9 @@ export function analyseClusterPlan(plan: Plan, planned?: PlannedProcedureEstimat
   const unitsP = level === 'clusters' ? cm.programme.clusters : m.n.programme;
   const settings = analysisSettings(plan, unitsP * share);
   const formula = Object.fromEntries(ids.map((id) => [id, clusterAnalysis(id, cm, settings, share)])) as AnalysisRecord<AnalyticAnalysis>;
-  const analyses = withPlannedFigures(formula, planned, m.effect, m.posttestSD.comparison, settings);
+  // The quick simulation's figures replace the matched difference's record: its clusters needed and MDE
+  // follow the planned procedure's estimate and bias, with the same cluster-aware SEs.
+  const analyses = withClusterPlanning(withPlannedFigures(formula, planned, m.effect, m.posttestSD.comparison, settings), formula, cm, settings, share);
   const summary = clusterSummary(cm, plan.analysis.tolerableBiasShare);
   const results: AnalyticResults = {
     model: m,
@@ -156,7 +158,23 @@ function clusterAnalysis(id: AnalysisId, cm: ClusterModel, s: AnalysisSettings, 
       : { nProgramme: s.matchedProgramme, nComparison: s.matchedProgramme * s.ratio }
     : { nProgramme: nP, nComparison: nC };
   const record = analyticAnalysisRecord({ ...common, precision: { se: now.se, df: now.df, design }, infeasibleReason: null, ...sizes }, s);
-  const clustersNeeded = requiredNPerGroup(estimate, m.effect, design, s.alpha, s.targetPower);
+  return clusterPlanningFigures(id, record, cm, s, share);
+}
+
+/**
+ * An analysis record with the clusters design's planning figures: clusters
+ * per group for the target power (the same search as requiredNPerGroup, over
+ * clusters, for the record's expected estimate), the people that makes, the
+ * minimum detectable effect with the record's bias (Bloom 1995) and, for the
+ * person-level analysis, the naive SE. An infeasible record gets nulls.
+ */
+function clusterPlanningFigures(id: AnalysisId, record: AnalyticAnalysis, cm: ClusterModel, s: AnalysisSettings, share: number): AnalyticAnalysis {
+  if (!record.feasible) return { ...record, clustersPerGroupNeeded: null, minimumDetectableEffect: null };
+  const m = cm.person;
+  const options = { ratio: s.ratio, matchedShare: share };
+  const now = clusterStandardError(id, cm, options);
+  const design = (J: number) => clusterStandardError(id, cm, { ...options, clustersPerGroup: Math.max(2, J) });
+  const clustersNeeded = requiredNPerGroup(record.expectedEstimate, m.effect, design, s.alpha, s.targetPower);
   const direction: 1 | -1 = m.effect < 0 ? -1 : 1;
   const out: AnalyticAnalysis = {
     ...record,
@@ -165,6 +183,22 @@ function clusterAnalysis(id: AnalysisId, cm: ClusterModel, s: AnalysisSettings, 
     minimumDetectableEffect: minimumDetectableEffect(now.se, now.df, record.bias, s.alpha, s.targetPower, direction),
   };
   if (now.naiveSE !== undefined) out.naiveSE = now.naiveSE;
+  return out;
+}
+
+/** The records after the quick simulation's figures: every record the planned figures replaced gets its cluster planning figures again. */
+function withClusterPlanning(
+  analyses: AnalysisRecord<AnalyticAnalysis>,
+  formula: AnalysisRecord<AnalyticAnalysis>,
+  cm: ClusterModel,
+  s: AnalysisSettings,
+  share: number,
+): AnalysisRecord<AnalyticAnalysis> {
+  if (analyses === formula) return analyses;
+  const out = { ...analyses };
+  for (const [id, record] of Object.entries(analyses) as [AnalysisId, AnalyticAnalysis][]) {
+    if (record !== formula[id]) out[id] = clusterPlanningFigures(id, record, cm, s, share);
+  }
   return out;
 }
 
