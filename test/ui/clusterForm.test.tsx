@@ -76,6 +76,9 @@ describe('people in clusters: verdict and table', () => {
     expect(within(verdict).getByTestId('verdict-mde')).toHaveTextContent(`${fmtSigned(md.minimumDetectableEffect)} points`);
     expect(within(verdict).getByTestId('verdict-lead')).toHaveTextContent(/Matching on clusters’ observed pretest means/);
     expect(within(verdict).getByRole('note')).toHaveTextContent(/not replace advice from a statistician or review by an ethics board/);
+    // The break-even figure is the reliability of a cluster's mean, with core's note on how many pupils per school reach it.
+    expect(screen.getByTestId('break-even-cluster')).toHaveTextContent(`(λ) is at least ${fmtR(a.breakEven.reliability, 3)}`);
+    expect(screen.getByTestId('break-even-cluster')).toHaveTextContent(`testing ${c.breakEvenClusterSize} people per cluster`);
     // Switch to the same pupils retested: the verdict says so.
     await act(async () => store.getState().setField('clusters.cohort', 'same'));
     expect(screen.getByTestId('verdict-cohort')).toHaveTextContent(/The same people sit the posttest/);
