@@ -102,5 +102,8 @@ for (const [device, width, height] of [
     expect(await clippedChartLabels(page), 'chart labels outside their chart').toEqual([]);
     await page.screenshot({ path: `${SHOTS}/${device}-schools-matched-on-means.png`, fullPage: true });
     await page.screenshot({ path: `${SHOTS}/${device}-schools-matched-on-means-top.png` });
+    await page.getByRole('group', { name: /People in clusters/ }).screenshot({ path: `${SHOTS}/${device}-schools-clusters-section.png` });
+    await page.getByTestId('verdict').screenshot({ path: `${SHOTS}/${device}-schools-verdict.png` });
+    await page.locator('figure[data-chart="pretest"]').screenshot({ path: `${SHOTS}/${device}-schools-pretest-chart.png` });
   });
 }
