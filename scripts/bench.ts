@@ -16,6 +16,10 @@
  *   covariates.mahalanobisFarRatio       the Mahalanobis plan with the comparison pretest mean
  *                                        moved to 1e20 ÷ as given (target ≤ 1.5: the search's
  *                                        work does not grow with the coordinates' magnitude)
+ * and, for the clusters design on the pools engine (clusterBenchPlan below), in rounds of their own:
+ *   clusters.doublingRatio        schools matched on their means, twice the clusters in both groups
+ *                                 ÷ as given (target ≤ 2.3)
+ *   clusters.peopleDoublingRatio  pupils matched across schools, twice the clusters ÷ as given (≤ 2.3)
  * Each ratio is the median over several interleaved rounds (after a warm-up) of that
  * round's ratio. Times are this
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
@@ -28,6 +32,7 @@ import type { Plan } from '../src/core/plan';
 import { deriveModelParameters } from '../src/core/deriveModelParameters';
 import { createSimulation } from '../src/sim/createSimulation';
 import { createMultivariateSimulation } from '../src/sim/multivariate/createMultivariateSimulation';
+import { createPlanSimulation } from '../src/sim/multivariate/createPlanSimulation';
 import { NormalSampler } from '../src/sim/normalSampler';
 import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
@@ -304,6 +309,59 @@ const covariateBench = {
   },
 };
 
+/**
+ * INVENTED: a reading programme in 40 schools against 120 comparison schools, 25 pupils tested in
+ * each, ICC .2, reliability .8; schools matched on their observed means (or pupils across schools,
+ * the same pupils retested). `scale` multiplies the number of schools in both groups.
+ */
+function clusterBenchPlan(scale: number, level: 'clusters' | 'people'): Plan {
+  const p = demoPlan();
+  p.groups.programme = { ...p.groups.programme, poolSize: 25 * 40 * scale, pretestMean: 92, pretestSD: 15 };
+  p.groups.comparison = { ...p.groups.comparison, poolSize: 25 * 120 * scale, pretestMean: 100, pretestSD: 15 };
+  p.pretest = { reliability: 0.8, referenceSD: 15 };
+  p.outcome = { ...p.outcome, posttestSD: 15, prePostCorrelation: 0.8 };
+  p.matching = { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random', level };
+  p.covariates = undefined;
+  p.covariateCorrelations = undefined;
+  p.clusters = { size: 25, pretestICC: 0.2, cohort: level === 'clusters' ? 'new' : 'same' };
+  return p;
+}
+const CLUSTER_REPS = 100;
+function clusterEngine(p: Plan): void {
+  const run = createPlanSimulation(p, { replications: CLUSTER_REPS });
+  run.runChunk(0, CLUSTER_REPS);
+  sink += run.finish().replications;
+}
+const clusterTasks = {
+  clusters: () => clusterEngine(clusterBenchPlan(1, 'clusters')),
+  clustersDoubled: () => clusterEngine(clusterBenchPlan(2, 'clusters')),
+  people: () => clusterEngine(clusterBenchPlan(1, 'people')),
+  peopleDoubled: () => clusterEngine(clusterBenchPlan(2, 'people')),
+};
+for (let w = 0; w < 2; w++) for (const f of Object.values(clusterTasks)) f();
+const clusterRounds: Record<keyof typeof clusterTasks, Timing>[] = [];
+for (let r = 0; r < RUNS; r++) {
+  clusterRounds.push({
+    clusters: timeOnce(clusterTasks.clusters),
+    clustersDoubled: timeOnce(clusterTasks.clustersDoubled),
+    people: timeOnce(clusterTasks.people),
+    peopleDoubled: timeOnce(clusterTasks.peopleDoubled),
+  });
+}
+const clusterDoubling = clusterRounds.map((t) => t.clustersDoubled.cpu / t.clusters.cpu);
+const peopleDoubling = clusterRounds.map((t) => t.peopleDoubled.cpu / t.people.cpu);
+const clusterBench = {
+  plan: 'invented clusters plan (40 programme and 120 comparison schools of 25; schools matched on their means, or pupils across schools)',
+  replications: CLUSTER_REPS,
+  clustersMsPerReplication: round(median(clusterRounds.map((t) => t.clusters.cpu)) / CLUSTER_REPS, 4),
+  peopleMsPerReplication: round(median(clusterRounds.map((t) => t.people.cpu)) / CLUSTER_REPS, 4),
+  doublingRatio: round(median(clusterDoubling), 3),
+  peopleDoublingRatio: round(median(peopleDoubling), 3),
+  roundRanges: { doublingRatio: range(clusterDoubling, 3), peopleDoublingRatio: range(peopleDoubling, 3) },
+  targets: { doublingRatio: '<= 2.3', peopleDoublingRatio: '<= 2.3' },
+  met: { doublingRatio: median(clusterDoubling) <= 2.3, peopleDoublingRatio: median(peopleDoubling) <= 2.3 },
+};
+
 const out = {
   plan: 'demo plan (180 programme, 1,200 comparison; nearest 1:1, caliper 0.2, no replacement)',
   replications: REPS,
@@ -324,6 +382,7 @@ const out = {
   wallClockRatios: wall,
   met: { floorRatio: floorRatio <= 2, naiveSpeedup: naiveSpeedup >= 20, doublingRatio: doublingRatio <= 2.3 },
   covariates: covariateBench,
+  clusters: clusterBench,
 };
 
 function round(x: number, d = 1): number {
@@ -348,5 +407,10 @@ if (json) {
   line('covariates.doublingRatio', c.doublingRatio, '<= 2.3', c.met.doublingRatio, `propensity matching, pools doubled ÷ as given (2 = linear; quadratic would give 4); rounds ${c.roundRanges.doublingRatio.join('–')}`);
   line('covariates.mahalanobisDoublingRatio', c.mahalanobisDoublingRatio, '<= 2.3', c.met.mahalanobisDoublingRatio, `Mahalanobis matching (k-d tree), pools doubled ÷ as given (2 = linear; quadratic would give 4); rounds ${c.roundRanges.mahalanobisDoublingRatio.join('–')}`);
   line('covariates.mahalanobisFarRatio', c.mahalanobisFarRatio, '<= 1.5', c.met.mahalanobisFarRatio, `Mahalanobis matching with the comparison pretest mean at 1e20 ÷ as given (the search does not grow with the coordinates' size); rounds ${c.roundRanges.mahalanobisFarRatio.join('–')}`);
+  const k = clusterBench;
+  console.log(`\nClusters design (pools engine): ${k.plan}, ${k.replications} replications, median over ${RUNS} rounds (CPU time)`);
+  console.log(`schools matched ${k.clustersMsPerReplication} ms per replication; pupils matched ${k.peopleMsPerReplication} ms per replication`);
+  line('clusters.doublingRatio', k.doublingRatio, '<= 2.3', k.met.doublingRatio, `twice the schools in both groups ÷ as given (2 = linear); rounds ${k.roundRanges.doublingRatio.join('–')}`);
+  line('clusters.peopleDoublingRatio', k.peopleDoublingRatio, '<= 2.3', k.met.peopleDoublingRatio, `pupils matched across schools, twice the schools ÷ as given; rounds ${k.roundRanges.peopleDoublingRatio.join('–')}`);
 }
 if (sink === 42.4242) console.log(''); // use the sink

@@ -33,6 +33,8 @@ export const ANALYSIS_STYLES: Record<AnalysisId, AnalysisStyle> = {
   regressionDiscontinuity: { colour: '#3b6e1e', tint: '#dbe9d0', dash: '4 2 1 2', marker: 'square', shortLabel: 'Regression discontinuity' },
   // Only in a one-group study (it is then the only analysis).
   prePostChange: { colour: '#b5401a', tint: '#f3d9cf', dash: '', marker: 'circle', shortLabel: 'Pre–post change' },
+  // Only with clusters (where the corrected ANCOVA is not offered): a wine red apart from the rust.
+  personLevelAncova: { colour: '#7a2f5a', tint: '#ead3df', dash: '5 2', marker: 'diamond', shortLabel: 'Person-level ANCOVA' },
 };
 
 /**

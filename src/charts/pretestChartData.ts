@@ -4,6 +4,10 @@ import { matchedTrueScoreMeans, type MatchedTrueScoreMeans } from '../core/match
 import { observedPretestDensity } from '../core/observedPretestDensity';
 import type { ChartInput } from './chartTypes';
 import { selectionPretestView, type SelectionPretestView } from './selectionPretestView';
+import { studyDesign } from '../core/design/studyDesign';
+import { clusterModel } from '../core/clusters/clusterModel';
+import { clusterMeansModel } from '../core/clusters/analyseClusterPlan';
+import type { ModelParameters } from '../core/modelParameters';
 
 export type GroupKey = 'programme' | 'comparison';
 
@@ -63,6 +67,12 @@ export interface GroupsPretestChartData {
   } | null;
   /** Always null here: a plan whose groups a rule forms gets SelectionPretestChartData. */
   selection: null;
+  /**
+   * What the curves and dots are: people's scores, or clusters' observed
+   * pretest means (clusters matched on their means: one dot per cluster,
+   * reliability λ of a cluster mean).
+   */
+  units: 'people' | 'clusters';
 }
 
 const GRID = 121;
@@ -89,7 +99,10 @@ export function pretestChartData(input: ChartInput): PretestChartData {
  * gives it for every plan without a selection rule).
  */
 export function groupsPretestChartData({ plan, analytic, simulation }: ChartInput): GroupsPretestChartData {
-  const m = analytic.model;
+  // Clusters matched on their means: the cluster means' model from core (their SDs, λ), so the picture shows what was matched.
+  const design = studyDesign(plan);
+  const units: GroupsPretestChartData['units'] = design.kind === 'clusters' && design.level === 'clusters' ? 'clusters' : 'people';
+  const m: ModelParameters = units === 'clusters' ? clusterMeansModel(clusterModel(plan)) : analytic.model;
   const keys: GroupKey[] = ['programme', 'comparison'];
   const lo = Math.min(m.mean.programme - 3.5 * m.observedSD.programme, m.mean.comparison - 3.5 * m.observedSD.comparison);
   const hi = Math.max(m.mean.programme + 3.5 * m.observedSD.programme, m.mean.comparison + 3.5 * m.observedSD.comparison);
@@ -130,10 +143,13 @@ export function groupsPretestChartData({ plan, analytic, simulation }: ChartInpu
     const r = expectedMatchedRegion(m, plan.matching.caliper, plan.matching.ratio);
     region = r ? { ...r, source: 'closed-form' } : null;
   }
+  const clusters = units === 'clusters';
   return {
     chart: 'pretest',
-    title: 'Pretest distributions: matched on the observed score, apart on the true score',
-    xLabel: 'Observed pretest score (test points)',
+    title: clusters
+      ? 'Cluster means on the pretest: matched on the observed mean, apart on the true mean'
+      : 'Pretest distributions: matched on the observed score, apart on the true score',
+    xLabel: clusters ? 'Observed pretest mean of a cluster (test points)' : 'Observed pretest score (test points)',
     xDomain: [lo, hi],
     yMax,
     groups,
@@ -141,5 +157,6 @@ export function groupsPretestChartData({ plan, analytic, simulation }: ChartInpu
     kelley,
     example,
     selection: null,
+    units,
   };
 }

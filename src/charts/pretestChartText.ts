@@ -34,34 +34,45 @@ export function pretestChartText(data: PretestChartData): ChartText {
   if (data.selection) return selectionText(data.title, data.selection);
   const { programme: p, comparison: c } = data.groups;
   const k = data.kelley;
-  const sentences = [
+  const clusters = data.units === 'clusters';
+  const who = clusters ? 'clusters' : 'members';
+  const sentences = clusters
+    ? [
+        `Observed pretest means of the clusters, one per cluster: programme (${p.label}) mean ${fmt(p.mean, 1)} points, SD of the cluster means ${fmt(p.observedSD, 1)}, reliability of a cluster mean λ ${fmt(p.reliability, 2)}; ` +
+          `comparison (${c.label}) mean ${fmt(c.mean, 1)} points, SD ${fmt(c.observedSD, 1)}, λ ${fmt(c.reliability, 2)}.`,
+      ]
+    : [
     `Observed pretest: programme (${p.label}) mean ${fmt(p.mean, 1)} points, SD ${fmt(p.observedSD, 1)}, within-group reliability ${fmt(p.reliability, 2)}; ` +
       `comparison (${c.label}) mean ${fmt(c.mean, 1)} points, SD ${fmt(c.observedSD, 1)}, reliability ${fmt(c.reliability, 2)}.`,
-  ];
+      ];
   if (data.region) {
     sentences.push(
       data.region.source === 'example'
-        ? `In the example simulated study, matched programme members scored between ${fmt(data.region.lower, 1)} and ${fmt(data.region.upper, 1)} points; ${data.example?.discarded ?? 0} programme members found no partner.`
-        : `Partners within the caliper are expected for scores between ${fmt(data.region.lower, 1)} and ${fmt(data.region.upper, 1)} points (approximation; the simulation shows the planned procedure).`,
+        ? `In the example simulated study, matched programme ${who} ${clusters ? 'had means' : 'scored'} between ${fmt(data.region.lower, 1)} and ${fmt(data.region.upper, 1)} points; ${data.example?.discarded ?? 0} programme ${who} found no partner.`
+        : `Partners within the caliper are expected for ${clusters ? 'cluster means' : 'scores'} between ${fmt(data.region.lower, 1)} and ${fmt(data.region.upper, 1)} points (approximation; the simulation shows the planned procedure).`,
     );
   } else {
-    sentences.push('No pretest score is expected to have partners within the caliper: matching as planned would find almost no pairs.');
+    sentences.push(
+      clusters
+        ? 'No cluster mean is expected to have partners within the caliper: matching as planned would find almost no pairs of clusters.'
+        : 'No pretest score is expected to have partners within the caliper: matching as planned would find almost no pairs.',
+    );
   }
   sentences.push(
-    `Matched members' mean observed pretest: programme ${fmt(k.observed.programme, 1)}, comparison ${fmt(k.observed.comparison, 1)} points. ` +
+    `Matched ${who}' mean observed pretest: programme ${fmt(k.observed.programme, 1)}, comparison ${fmt(k.observed.comparison, 1)} points. ` +
       `Their expected true-score means are pulled back toward their own group's mean (Kelley): programme ${fmt(k.trueScore.programme, 1)}, comparison ${fmt(k.trueScore.comparison, 1)}, ` +
-      `a hidden gap of ${fmt(k.hiddenGap, 2)} points that matching on the observed score does not remove.`,
+      `a hidden gap of ${fmt(k.hiddenGap, 2)} points that matching on the observed ${clusters ? 'mean' : 'score'} does not remove.`,
   );
   if (data.example) {
     sentences.push(
-      `In the example simulated study the matched members' actual true-score means were programme ${fmt(data.example.means.trueScore.programme, 1)} and comparison ${fmt(data.example.means.trueScore.comparison, 1)} points.`,
+      `In the example simulated study the matched ${who}' actual true-score means were programme ${fmt(data.example.means.trueScore.programme, 1)} and comparison ${fmt(data.example.means.trueScore.comparison, 1)} points.`,
     );
   }
   const rows = [
     ['Programme', fmt(p.mean, 1), fmt(p.reliability, 2), fmt(k.observed.programme, 1), fmt(k.trueScore.programme, 1)],
     ['Comparison', fmt(c.mean, 1), fmt(c.reliability, 2), fmt(k.observed.comparison, 1), fmt(k.trueScore.comparison, 1)],
   ];
-  const columns = ['Group', 'Pretest mean (points)', 'Reliability', 'Matched: observed mean', 'Matched: expected true mean (Kelley)'];
+  const columns = ['Group', 'Pretest mean (points)', clusters ? 'Reliability of a cluster mean (λ)' : 'Reliability', 'Matched: observed mean', 'Matched: expected true mean (Kelley)'];
   if (data.example) {
     columns.push('Example study: true mean');
     rows[0]!.push(fmt(data.example.means.trueScore.programme, 1));
@@ -70,6 +81,6 @@ export function pretestChartText(data: PretestChartData): ChartText {
   return {
     title: data.title,
     sentences,
-    table: { caption: 'Pretest means, and matched members\' observed and true-score means', columns, rows },
+    table: { caption: `Pretest means, and matched ${who}' observed and true-score means`, columns, rows },
   };
 }

@@ -44,7 +44,7 @@ interface PretestLayout {
   minHeight: number;
 }
 
-const HEADING = 'Matched members';
+const HEADING = { people: 'Matched members', clusters: 'Matched clusters (one mark each)' } as const;
 const MIN_DENSITY_H = 100;
 const NOTE_ROOM = 1.15;
 
@@ -54,7 +54,15 @@ function legendLabels(data: GroupsPretestChartData): { label: string; w: number 
     return { label, w: 44 + label.length * FONT.tick * 0.64 };
   });
   if (data.region) {
-    const label = data.region.source === 'example' ? 'Scores matched in the example study' : 'Scores where partners are expected';
+    const clusters = data.units === 'clusters';
+    const label =
+      data.region.source === 'example'
+        ? clusters
+          ? 'Means matched in the example study'
+          : 'Scores matched in the example study'
+        : clusters
+          ? 'Means where partner clusters are expected'
+          : 'Scores where partners are expected';
     items.push({ label, w: 30 + label.length * FONT.tick * 0.64 });
   }
   return items;
@@ -104,7 +112,7 @@ function layoutPretest(data: GroupsPretestChartData, width: number): PretestLayo
   // The matched-members panel: its heading and the hidden-gap note share a line when they fit.
   const note = hiddenGapNote(data);
   // Room for the note is judged generously (+15%): the PDF's bold font runs wider than the estimate.
-  const noteOnHeadingLine = labelWidth(HEADING, FONT.label, true) + 24 + NOTE_ROOM * labelWidth(note, FONT.note, true) <= width - 12 - right;
+  const noteOnHeadingLine = labelWidth(HEADING[data.units], FONT.label, true) + 24 + NOTE_ROOM * labelWidth(note, FONT.note, true) <= width - 12 - right;
   const noteLines = noteOnHeadingLine ? [note] : wrapLabel(note, width - 24, FONT.note, true);
   const gap = 26 + (noteOnHeadingLine ? 0 : noteLines.length * lineHeight(FONT.note));
   const rowStep = compact ? 40 : 24;
@@ -204,7 +212,7 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
   ];
   const rowY = (i: number) => rowsTop + 14 + L.rowStep * i;
   const headingY = rowsTop - 6 - (L.noteOnHeadingLine ? 0 : L.noteLines.length * lineHeight(FONT.note));
-  text(panel, 12, headingY, HEADING, { 'font-size': FONT.label, 'font-weight': 'bold' });
+  text(panel, 12, headingY, HEADING[data.units], { 'font-size': FONT.label, 'font-weight': 'bold' });
   if (L.noteOnHeadingLine) {
     // Start-anchored at a point left of the right edge: svg2pdf places end-anchored bold text with the
     // regular font's widths, which pushed this label past the chart's right edge in the PDF.

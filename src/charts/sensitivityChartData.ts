@@ -47,13 +47,13 @@ const SENSITIVITY_TITLES: Record<SensitivityVariable, string> = {
 
 /**
  * What the sensitivity chart can vary for a plan: reliability and the
- * pretest gap for existing groups; reliability and the cut-off when a rule
+ * pretest gap for existing groups (in clusters too); reliability and the cut-off when a rule
  * forms the groups, and the screener's reliability when the rule used one
  * (core's sensitivityCurve refuses the rest with a plain message).
  */
 export function sensitivityModes(plan: Plan): SensitivityVariable[] {
   const d = studyDesign(plan);
-  if (d.kind === 'existing-groups') return ['reliability', 'pretestGap'];
+  if (d.kind === 'existing-groups' || d.kind === 'clusters') return ['reliability', 'pretestGap'];
   return d.basis === 'screener' ? ['reliability', 'cutOff', 'screenerReliability'] : ['reliability', 'cutOff'];
 }
 

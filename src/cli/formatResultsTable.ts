@@ -34,7 +34,9 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
   lines.push('');
   lines.push('Expected results for the procedure as planned');
   lines.push(procedureBasisNote(results));
-  const header = ['Analysis', 'Expected estimate', '(MC SE)', 'Formula, unlimited pools', 'Bias (points)', 'Bias (SD)', 'Share of effect', 'SE', 'Power', 'False-positive rate', 'Programme n'];
+  // With clusters matched on their means the matched difference's count is of clusters; people for the rest.
+  const clusterLevel = results.clusters?.level === 'clusters';
+  const header = ['Analysis', 'Expected estimate', '(MC SE)', 'Formula, unlimited pools', 'Bias (points)', 'Bias (SD)', 'Share of effect', 'SE', 'Power', 'False-positive rate', clusterLevel ? 'Programme n (people)' : 'Programme n'];
   const rows = presentAnalyses(results.analyses).map(([, a]) => {
     const rate = (x: number | null): string => (a.feasible ? fmtPercent(x) : '—');
     return [
@@ -65,6 +67,7 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
       );
     }
   }
+  lines.push(...clusterAnalysisLines(results));
   lines.push(...covariateLines(results));
   lines.push('');
   lines.push('Pretest');
@@ -76,6 +79,9 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
     lines.push(`  Within-group reliability, comparison: ${fmtReliability(results.reliability.comparison)}`);
   }
   lines.push(`  Standard error of measurement (SEM):  ${fmtPoints(results.reliability.sem)} points`);
+  if (results.clusters) {
+    lines.push(`  Reliability of a cluster's observed mean: ${fmtReliability(results.clusters.clusterMeanReliability.comparison)} (comparison clusters)`);
+  }
   const be = results.breakEven;
   lines.push(
     be.reliability === null
@@ -95,6 +101,7 @@ function designLines(plan: Plan, results: AnalyticResults): string[] {
   const P = plan.groups.programme;
   const C = plan.groups.comparison;
   const effect = `Hypothesised effect: ${fmtPoints(results.tau)} posttest points.`;
+  if (d.kind === 'clusters') return clusterLines(plan, results);
   if (d.kind === 'existing-groups') {
     return [
       `${effect} Programme: ${visible(P.label)} (${P.poolSize}); comparison: ${visible(C.label)} (${C.poolSize}).`,
@@ -113,6 +120,56 @@ function designLines(plan: Plan, results: AnalyticResults): string[] {
       ? `${effect} Selected: ${visible(P.label)} (about ${P.poolSize}). Change expected with no programme: ${d.noProgrammeChange === null ? 'n/a' : fmtPoints(d.noProgrammeChange)} points.`
       : `${effect} Programme: ${visible(P.label)} (about ${P.poolSize}); comparison: ${visible(C.label)} (about ${C.poolSize}).`,
   );
+  return out;
+}
+
+/**
+ * A clusters design: the groups in people and clusters, the rule and what it
+ * means, the cluster-mean reliability λ and who sits the posttest, the design
+ * effects, and for the headline analysis the clusters per group the target
+ * power needs and the minimum detectable effect (all from core).
+ */
+function clusterLines(plan: Plan, results: AnalyticResults): string[] {
+  const d = results.design;
+  const c = results.clusters;
+  const P = plan.groups.programme;
+  const C = plan.groups.comparison;
+  const out = [`Design: two existing groups of clusters. ${d.rule}`, `What it means: ${d.meaning}`];
+  if (!c) return out;
+  out.push(
+    `Hypothesised effect: ${fmtPoints(results.tau)} posttest points. Programme: ${visible(P.label)} (${P.poolSize} people in ${c.clustersPerGroup.programme} clusters of ${c.size.programme}); ` +
+      `comparison: ${visible(C.label)} (${C.poolSize} people in ${c.clustersPerGroup.comparison} clusters of ${c.size.comparison}).`,
+  );
+  out.push(
+    `Clusters: pretest ICC ${fmtReliability(c.pretestICC)}, posttest ICC ${fmtReliability(c.posttestICC)}; ` +
+      `${c.cohort === 'same' ? 'the same people sit the posttest' : 'a new cohort sits the posttest (not the people tested)'}; ` +
+      `matching ${c.level === 'clusters' ? 'clusters on their observed means' : 'people across clusters'}.`,
+  );
+  out.push(
+    `Reliability of a cluster's observed mean (lambda): ${fmtReliability(c.clusterMeanReliability.comparison)} (comparison), ${fmtReliability(c.clusterMeanReliability.programme)} (programme).`,
+  );
+  out.push(`Design effect (Kish): ${fmtPoints(c.designEffect.pretest)} for the pretest, ${fmtPoints(c.designEffect.posttest)} for the posttest.`);
+  const head = results.analyses.matchedDifference;
+  if (head && head.clustersPerGroupNeeded !== undefined && head.feasible) {
+    out.push(
+      `${head.name}: ${head.clustersPerGroupNeeded === null ? 'no number of clusters per group reaches the target power' : `${head.clustersPerGroupNeeded} clusters per group for the target power`}; ` +
+        `minimum detectable effect ${head.minimumDetectableEffect === null || head.minimumDetectableEffect === undefined ? 'n/a' : fmtPoints(head.minimumDetectableEffect)} points with the artefact included.`,
+    );
+  }
+  return out;
+}
+
+/** Under the table for a clusters design: per analysis the clusters needed and MDE, and the naive SE of the person-level analysis. */
+function clusterAnalysisLines(results: AnalyticResults): string[] {
+  if (!results.clusters) return [];
+  const out: string[] = [];
+  for (const [, a] of presentAnalyses(results.analyses)) {
+    if (!a.feasible || a.clustersPerGroupNeeded === undefined) continue;
+    const needed = a.clustersPerGroupNeeded === null ? 'no number of clusters is enough' : `${a.clustersPerGroupNeeded} clusters per group needed`;
+    const mde = a.minimumDetectableEffect === null || a.minimumDetectableEffect === undefined ? 'n/a' : fmtPoints(a.minimumDetectableEffect);
+    const naive = a.naiveSE === undefined ? '' : `; ignoring the clustering its SE would be reported as ${fmtPoints(a.naiveSE)}`;
+    out.push(`  ${a.name}: cluster-aware SE ${a.se === null ? '—' : fmtPoints(a.se)}${a.df === null ? '' : ` (df ${a.df.toFixed(0)})`}${naive}; ${needed}; MDE ${mde} points.`);
+  }
   return out;
 }
 

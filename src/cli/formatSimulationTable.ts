@@ -24,7 +24,9 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
   const design = studyDesign(sim.plan);
   const matches = sim.analyses.matchedDifference !== undefined;
   const what =
-    design.kind === 'existing-groups'
+    design.kind === 'clusters'
+      ? `the planned pools of clusters, ${design.level === 'clusters' ? 'clusters matched on their means' : 'people matched across clusters'}, caliper, ratio and matching order`
+      : design.kind === 'existing-groups'
       ? 'the planned pools, caliper, ratio and matching order'
       : matches
         ? 'the planned population and rule, then the caliper, ratio and matching order'
@@ -56,6 +58,12 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
   ]);
   // ANCOVA in the matched sample: only where the design matches (two groups).
   if (analytic.analyses.ancova && analytic.analyses.matchedDifference) named.push([`${analytic.analyses.ancova.name} (matched sample)`, sim.ancovaMatchedSample]);
+  // Clusters: the same person-level estimates with a naive SE that ignores the clustering, so its coverage shows the cost.
+  const naive = sim.naivePersonLevel;
+  if (naive) {
+    named.push([`${analytic.analyses.personLevelAncova?.name ?? 'Person-level ANCOVA'}, naive SE (ignores clustering)`, naive.personLevelAncova]);
+    if (naive.matchedDifference) named.push([`${analytic.analyses.matchedDifference?.name ?? 'Matched difference'}, naive SE (ignores clustering)`, naive.matchedDifference]);
+  }
   const rows = named.map(([name, s]) => row(name, s));
   const widths = header.map((h, c) => Math.max(h.length, ...rows.map((r) => (r[c] ?? '').length)));
   const line = (cells: string[]) =>
@@ -73,17 +81,25 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
   if (matches) {
     const m = sim.matching;
     const nP = sim.plan.groups.programme.poolSize;
-    const ofP = design.kind === 'existing-groups' ? `${nP}` : `about ${nP} selected`;
+    const ofP =
+      design.kind === 'existing-groups'
+        ? `${nP}`
+        : design.kind === 'clusters'
+          ? design.level === 'clusters'
+            ? `${design.clusterCount.programme} clusters (counts below are clusters)`
+            : `${nP} (people, in ${design.clusterCount.programme} clusters)`
+          : `about ${nP} selected`;
     lines.push('');
     lines.push('Matching (simulated)');
     if (m.replicationsWithMatches === 0 && design.kind !== 'existing-groups') {
-      lines.push(`  No programme member was matched in any simulated study (the reason is given above).`);
+      lines.push(`  No programme ${design.kind === 'clusters' && design.level === 'clusters' ? 'cluster' : 'member'} was matched in any simulated study (the reason is given above).`);
       lines.push(
         `  Observed pretest difference (programme - comparison): ${fmtPoints(m.observedDifferenceBefore)} points (SMD ${fmtSD(m.observedSMDBefore)}); true-score difference ${fmtPoints(m.trueDifferenceBefore)} points (SMD ${fmtSD(m.trueSMDBefore)}).`,
       );
     } else {
+      const members = design.kind === 'clusters' && design.level === 'clusters' ? 'Programme clusters' : 'Programme members';
       lines.push(
-        `  Programme members matched: ${fmtPoints(m.meanMatchedProgramme)} of ${ofP} on average; ${fmtPercent(m.discardedProgrammeShare)} discarded (no partner within the caliper).`,
+        `  ${members} matched: ${fmtPoints(m.meanMatchedProgramme)} of ${ofP} on average; ${fmtPercent(m.discardedProgrammeShare)} discarded (no partner within the caliper).`,
       );
       lines.push(
         `  Observed pretest difference (programme - comparison): ${fmtPoints(m.observedDifferenceBefore)} points before matching (SMD ${fmtSD(m.observedSMDBefore)}), ${fmtPoints(m.observedDifferenceAfter)} after (SMD ${fmtSD(m.observedSMDAfter)}).`,
@@ -92,7 +108,11 @@ export function formatSimulationTable(sim: SimulationResult, analytic: AnalyticR
         `  True-score difference (hidden imbalance): ${fmtPoints(m.trueDifferenceBefore)} points before (SMD ${fmtSD(m.trueSMDBefore)}), ${fmtPoints(m.trueDifferenceAfter)} after (SMD ${fmtSD(m.trueSMDAfter)}).`,
       );
       lines.push(`  Variance ratio of the observed pretest after matching (programme / comparison): ${fmtSD(m.varianceRatioAfter)}.`);
-      lines.push('  Balance on the observed pretest can look fine while the true scores still differ: that gap is the regression artefact.');
+      lines.push(
+        design.kind === 'clusters' && design.level === 'clusters'
+          ? '  Differences are of cluster means. Balance on the observed means can look fine while the clusters\' true means still differ: that gap is the regression artefact.'
+          : '  Balance on the observed pretest can look fine while the true scores still differ: that gap is the regression artefact.',
+      );
     }
   }
   return `${lines.join('\n')}\n`;

@@ -18,7 +18,8 @@ import { shareOfEffect } from './shareOfEffect';
 import type { PlannedProcedureEstimates } from './plannedProcedure';
 import { analysisSettings } from './analysisSettings';
 import { withPlannedFigures } from './withPlannedFigures';
-import { isSelectionDesign } from './design/studyDesign';
+import { isClusterDesign, isSelectionDesign } from './design/studyDesign';
+import { analyseClusterPlan } from './clusters/analyseClusterPlan';
 import { analyseSelectionPlan } from './design/analyseSelectionPlan';
 
 export { DEFAULT_TARGET_POWER } from './analysisSettings';
@@ -46,6 +47,7 @@ export { DEFAULT_TARGET_POWER } from './analysisSettings';
  */
 export function analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults {
   if (isSelectionDesign(plan)) return analyseSelectionPlan(plan, planned);
+  if (isClusterDesign(plan)) return analyseClusterPlan(plan, planned);
   if (usesCovariateModel(plan)) return analyseCovariatePlan(plan, planned);
   const m = deriveModelParameters(plan);
   const share = expectedMatchedShare(m, plan.matching);

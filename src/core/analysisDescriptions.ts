@@ -36,4 +36,9 @@ export const ANALYSIS_DESCRIPTIONS: Record<AnalysisId, { name: string; assumptio
     assumption:
       'Unbiased only if people were not selected on the baseline measurement (or it is perfectly reliable) and nothing else changes the scores between the measurements.',
   },
+  personLevelAncova: {
+    name: 'Person-level ANCOVA with cluster-robust SEs',
+    assumption:
+      'Unbiased only if the groups do not differ in true pretest scores, or the pretest used is perfectly reliable, and growth is parallel; its SE counts the clustering (CR2).',
+  },
 };

@@ -78,6 +78,23 @@ export interface AnalyticAnalysis {
    * simulation replaces it); absent otherwise.
    */
   standardErrorNote?: string;
+  /**
+   * Clusters only: clusters per group needed for the target power given the
+   * expected estimate (requiredNPerGroup is then this times the cluster
+   * size, in people); null when unreachable or not feasible.
+   */
+  clustersPerGroupNeeded?: number | null;
+  /**
+   * Clusters only: the minimum detectable effect at the target power with the
+   * artefact included (Bloom 1995), posttest points, signed in the hoped-for
+   * direction; null when not feasible.
+   */
+  minimumDetectableEffect?: number | null;
+  /**
+   * Clusters, person-level ANCOVA only: the SE a person-level analysis that
+   * ignores the clustering would report (OLS), posttest points.
+   */
+  naiveSE?: number;
 }
 
 /**
@@ -85,7 +102,7 @@ export interface AnalyticAnalysis {
  * (src/core/design). Present for every plan.
  */
 export interface DesignSummary {
-  kind: 'existing-groups' | 'selection';
+  kind: 'existing-groups' | 'selection' | 'clusters';
   shape: 'two-groups' | 'one-group';
   /** How people got into the programme, one sentence (e.g. "People whose screener score was below 41 were selected (a sharp cut-off)."). */
   rule: string;
@@ -140,7 +157,17 @@ export interface Remedy {
     /** One group: select on, and measure change from, the average of several baselines. */
     | 'average-baselines'
     /** One group: add a comparison group from the same population (regression discontinuity). */
-    | 'comparison-group';
+    | 'comparison-group'
+    /** Clusters: test more people per cluster (Spearman–Brown on the cluster mean). */
+    | 'more-people-per-cluster'
+    /** Clusters: match on the average of several years' cluster means. */
+    | 'several-years-means'
+    /** Clusters (new cohort): match on a cluster mean of the people who sit the posttest. */
+    | 'same-people-cluster-mean'
+    /** Clusters: adjust at person level for the people's own pretests. */
+    | 'person-level-own-pretests'
+    /** Clusters: use the people's own pretests within matched clusters. */
+    | 'pretests-within-matched-clusters';
   title: string;
   /** What the remedy buys, plain language with numbers. */
   summary: string;
@@ -172,7 +199,13 @@ export interface UnmeasuredBias {
 export interface AnalyticResults {
   /** The one-pretest model (pretest and outcome as the plan states them; with covariates, beta is the outcome's slope on the true pretest alone). */
   model: ModelParameters;
-  reliability: { programme: number; comparison: number; sem: number };
+  /**
+   * Within-group reliabilities of people's pretest scores and the SEM; with
+   * clusters also `clusterMean`: the comparison group's cluster-mean
+   * reliability λ (ICC(2) for a new cohort at posttest), which the
+   * matched-cluster artefact beta(1 − λ)Delta uses.
+   */
+  reliability: { programme: number; comparison: number; sem: number; clusterMean?: number };
   tau: number;
   /**
    * Per analysis. With the covariate model (usesCovariateModel: covariates
@@ -199,6 +232,32 @@ export interface AnalyticResults {
   procedure: ProcedureBasis;
   /** How the groups were formed and what that means for the analyses. */
   design: DesignSummary;
+  /** Present only for the clusters design. */
+  clusters?: ClusterSummary;
+}
+
+/** The clusters design's own figures (src/core/clusters). */
+export interface ClusterSummary {
+  /** People per cluster, per group. */
+  size: { programme: number; comparison: number };
+  /** Clusters in each pool. */
+  clustersPerGroup: { programme: number; comparison: number };
+  cohort: 'same' | 'new';
+  level: 'clusters' | 'people';
+  pretestICC: number;
+  posttestICC: number;
+  /** λ per group and pooled (cluster-count weighted). */
+  clusterMeanReliability: { programme: number; comparison: number; pooled: number };
+  /** Kish (1965) design effects 1 + (n − 1)·ICC of the comparison group, for the pretest and the posttest. */
+  designEffect: { pretest: number; posttest: number };
+  /** beta(1 − λ_C)Delta: the artefact of matching clusters on their observed means, points. */
+  matchedClusterArtefact: number;
+  /** beta(1 − λ_pooled)Delta: the artefact of ANCOVA on cluster means, points. */
+  clusterMeansAncovaArtefact: number;
+  /** beta(1 − rho_C)Delta: the artefact of matching people on their own pretests, points. */
+  personMatchingArtefact: number;
+  /** People per cluster whose mean reaches the break-even λ; null when none is needed or it cannot be reached. */
+  breakEvenClusterSize: number | null;
 }
 
 /** How the quick figures were obtained (see AnalyticResults.procedure). */

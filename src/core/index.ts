@@ -89,12 +89,24 @@ export { analyseCovariateAnalysis } from './multivariate/analyseCovariateAnalysi
 export {
   studyDesign,
   isSelectionDesign,
+  isClusterDesign,
   designAnalysisIds,
   headlineAnalysisId,
   type StudyDesign,
   type ExistingGroupsDesign,
   type SelectionDesign,
+  type ClustersDesign,
 } from './design/studyDesign';
+// Clusters (people in schools, classes, clinics): model, closed forms, presets.
+export { clusterModel, clusterModelFor, ClusterModelError, type ClusterModel, type ClusterGroup } from './clusters/clusterModel';
+export { analyseClusterPlan, clusterMeansModel, CLUSTER_ANALYSIS_NAMES } from './clusters/analyseClusterPlan';
+export { newCohortClusterMeanReliability, samePeopleClusterMeanReliability, averagedClusterMeanReliability } from './clusters/clusterMeanReliability';
+export { designEffect } from './clusters/designEffect';
+export { minimumDetectableEffect } from './clusters/minimumDetectableEffect';
+export { clusterSizeForReliability } from './clusters/clusterSizeForReliability';
+export { clusterArtefact, clusterExpectedEstimate } from './clusters/clusterEstimates';
+export { clusterStandardError } from './clusters/clusterStandardError';
+export { ICC_PRESETS, type IccPreset } from './clusters/iccPresets';
 export {
   selectionModel,
   selectionModelFor,

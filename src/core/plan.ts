@@ -78,6 +78,38 @@ export interface MatchingSpec {
    * 'mahalanobis' it is in Mahalanobis-distance units.
    */
   distance?: MatchingDistance;
+  /**
+   * With `clusters`: match whole clusters on their observed pretest means
+   * ('clusters'), or people across clusters on their own pretests ('people',
+   * the default; needs the same people at posttest). The caliper is then in
+   * SDs of the cluster means, or of the people's pretests, respectively.
+   */
+  level?: MatchingLevel;
+}
+
+/** What matching pairs up when people sit in clusters: whole clusters, or people. */
+export type MatchingLevel = 'clusters' | 'people';
+
+/** Whether the posttest is taken by the people who sat the pretest, or by a new cohort of the same clusters. */
+export type ClusterCohort = 'same' | 'new';
+
+/**
+ * People nested in clusters (schools, classes, clinics, wards). Both groups'
+ * pools are made of whole clusters of `size` people; `groups.<g>.poolSize`
+ * stays the number of PEOPLE and must be a multiple of `size`. ICCs are of
+ * observed scores within a group (the share of the within-group observed
+ * variance that lies between clusters); the pretest's reliability still
+ * refers to the within-group observed variance of people.
+ */
+export interface ClusterSpec {
+  /** People tested per cluster (whole number ≥ 2). */
+  size: number;
+  /** ICC of the observed pretest within a group, in (0, 1). */
+  pretestICC: number;
+  /** ICC of the observed posttest within the comparison group, in (0, 1); default pretestICC. */
+  posttestICC?: number;
+  /** 'same': the pretested people sit the posttest; 'new': a new cohort of the same clusters does. */
+  cohort: ClusterCohort;
 }
 
 /**
@@ -220,6 +252,8 @@ export interface Plan {
    * diagonal. Required when `covariates` is non-empty.
    */
   covariateCorrelations?: number[][];
+  /** People nested in clusters (optional; none = people sampled one by one). */
+  clusters?: ClusterSpec;
   /** Where values came from, by dotted field path (optional). */
   provenance?: Record<string, FieldProvenance>;
 }
@@ -228,7 +262,10 @@ export interface Plan {
  * Every analysis Meanward knows, in display order. Which of them a plan gets
  * depends on its design (designAnalysisIds in src/core/design): the first
  * four for two groups formed any way, regressionDiscontinuity as well when a
- * rule used an observed basis, prePostChange alone for a one-group study.
+ * rule used an observed basis, prePostChange alone for a one-group study,
+ * and, for people in clusters, the matched difference, ANCOVA and gain score
+ * on cluster means with personLevelAncova (a person-level regression with
+ * cluster-robust SEs).
  */
 export const ANALYSIS_IDS = [
   'matchedDifference',
@@ -237,6 +274,7 @@ export const ANALYSIS_IDS = [
   'correctedAncova',
   'regressionDiscontinuity',
   'prePostChange',
+  'personLevelAncova',
 ] as const;
 export type AnalysisId = (typeof ANALYSIS_IDS)[number];
 

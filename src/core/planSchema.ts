@@ -76,6 +76,11 @@ export const PLAN_LIMITS = {
    * cannot be computed.
    */
   screenerReliabilityMin: 0.000_001,
+  /** People tested per cluster: at least 2 (a cluster of one has no within-cluster spread). */
+  clusterSizeMin: 2,
+  clusterSizeMax: 10_000,
+  /** Fewest clusters per group: a group of one cluster has no between-cluster spread. */
+  clustersPerGroupMin: 2,
 } as const;
 
 /** Bounds of a mean, gap or effect in points: within ±PLAN_LIMITS.pointsMax. */
@@ -281,6 +286,12 @@ export const planSchema = z
         'What closeness is measured on: the observed pretest, the linear propensity score on all measured covariates, or the Mahalanobis distance on them (default "pretest").',
         ['pretest', 'propensity', 'mahalanobis'] as const,
       ).optional(),
+      level: oneOf(
+        'matching.level',
+        'Matching level',
+        'With clusters: match whole clusters on their observed pretest means, or people across clusters on their own pretests (default "people").',
+        ['clusters', 'people'] as const,
+      ).optional(),
     }),
     analysis: section('analysis', 'The analysis section', 'Significance level, assumed reliability, tolerance and target power.', {
       alpha: num('analysis.alpha', 'Significance level (alpha)', 'Two-sided significance level.', { gte: PLAN_LIMITS.alphaMin, lt: 0.5 }),
@@ -313,6 +324,22 @@ export const planSchema = z
         lte: PLAN_LIMITS.seedMax,
       }),
     }),
+    clusters: section('clusters', 'The clusters section', 'People nested in clusters (schools, classes, clinics): both pools are made of whole clusters.', {
+      size: num('clusters.size', 'Cluster size', 'People tested per cluster; each pool size must be a multiple of it.', {
+        integer: true,
+        gte: PLAN_LIMITS.clusterSizeMin,
+        lte: PLAN_LIMITS.clusterSizeMax,
+      }),
+      pretestICC: num('clusters.pretestICC', 'Pretest ICC', 'Intraclass correlation of the observed pretest within a group.', { gt: 0, lt: 1 }),
+      posttestICC: num('clusters.posttestICC', 'Posttest ICC', 'Intraclass correlation of the observed posttest within the comparison group (default: the pretest ICC).', {
+        gt: 0,
+        lt: 1,
+      }).optional(),
+      cohort: oneOf('clusters.cohort', 'Posttest cohort', 'Whether the posttest is taken by the same people as the pretest, or by a new cohort of the same clusters.', [
+        'same',
+        'new',
+      ] as const),
+    }).optional(),
     covariates: (() => {
       FIELD_RULES.covariates = { label: 'The covariates list', rule: `a list of at most ${PLAN_LIMITS.covariatesMax} covariates` };
       const c = 'covariates.*';

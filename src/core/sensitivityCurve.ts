@@ -10,7 +10,10 @@ import { covariateModelWithSem } from './multivariate/adjustCovariateModel';
 import { covariateExpectedEstimate } from './multivariate/covariateExpectedEstimate';
 import { deriveCovariateModel, matchingDistance, usesCovariateModel, type CovariateModel } from './multivariate/covariateModel';
 import { bandCrossings } from './bandCrossings';
-import { isSelectionDesign } from './design/studyDesign';
+import { isSelectionDesign, studyDesign } from './design/studyDesign';
+import { clusterModelFor } from './clusters/clusterModel';
+import { clusterArtefact } from './clusters/clusterEstimates';
+import { designAnalysisIds } from './design/studyDesign';
 import { selectionSensitivityCurve } from './design/selectionSensitivity';
 
 /** What the sensitivity curve varies. */
@@ -77,6 +80,43 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
   const tau = m.effect;
   const share = plan.analysis.tolerableBiasShare;
   const rhoA = plan.analysis.assumedReliability;
+  const design = studyDesign(plan);
+  if (design.kind === 'clusters') {
+    // Clusters: each point re-runs the clusters model with the changed SEM or gap; points where
+    // the ICC would contradict the changed reliability are left out.
+    const ids = designAnalysisIds(plan);
+    const refSD = plan.pretest.referenceSD ?? plan.groups.comparison.pretestSD;
+    const trueVarRef = Math.max(refSD * refSD - m.sem * m.sem, Number.MIN_VALUE);
+    const reliability = variable === 'reliability';
+    const pooledSD = Math.sqrt((m.observedSD.programme ** 2 + m.observedSD.comparison ** 2) / 2);
+    const w = Math.max(Math.abs(m.pretestGap), pooledSD);
+    const xs = reliability
+      ? Array.from({ length: points }, (_, i) => (i === points - 1 ? 1 : 0.3 + (0.7 * i) / (points - 1)))
+      : Array.from({ length: points }, (_, i) => m.pretestGap - w + (2 * w * i) / (points - 1));
+    const pts: SensitivityPoint[] = [];
+    for (const x of xs) {
+      const mx = reliability ? modelWithSem(m, Math.sqrt((trueVarRef * Math.max(0, 1 - x)) / x)) : modelWithPretestGap(m, x);
+      try {
+        const cm = clusterModelFor(design, mx);
+        pts.push({ x, bias: Object.fromEntries(ids.map((id) => [id, m.growthGap + clusterArtefact(id, cm)])) as AnalysisRecord<number> });
+      } catch {
+        // An ICC the changed pretest cannot carry: no point here.
+      }
+    }
+    const band = { lower: -share * Math.abs(tau), upper: share * Math.abs(tau) };
+    return assertFiniteOutput(
+      {
+        variable,
+        xLabel: reliability ? 'Pretest reliability in its reference population' : 'Pretest gap, programme minus comparison (points)',
+        current: reliability ? trueVarRef / (trueVarRef + m.sem * m.sem) : m.pretestGap,
+        points: pts,
+        effect: tau,
+        tolerableBand: band,
+        breakEvenX: bandCrossings(pts, band),
+      },
+      'sensitivity curve',
+    );
+  }
   const biasOf = (mx: ModelParameters): AnalysisRecord<number> =>
     Object.fromEntries(TWO_GROUP_ANALYSIS_IDS.map((id) => [id, expectedEstimate(id, mx, rhoA) - tau])) as AnalysisRecord<number>;
   // With covariates (or a propensity / Mahalanobis distance) every point comes from the

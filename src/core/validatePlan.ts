@@ -4,6 +4,7 @@ import { type CovariateCheckInput, covariateModelProblems } from './multivariate
 import { formatApart } from './inputChecks';
 import { showControlCharacters } from './visibleText';
 import { derivedGroups } from './design/derivedGroups';
+import { ClusterModelError, clusterModel } from './clusters/clusterModel';
 
 /** One thing wrong with a plan: the field (dotted path) and a message a researcher understands. */
 export interface PlanProblem {
@@ -87,8 +88,18 @@ function checkPlan(input: unknown): PlanCheck {
   }
   problems.push(...(selection ? selectionProblems(source, bad) : groupsProblems(source, bad)));
   problems.push(...crossFieldProblems(source, bad, selection));
+  problems.push(...clusterProblems(source, bad, selection));
   if (problems.length > 0 || !parsed.success) return { ok: false, problems };
   const plan = parsed.data as Plan;
+  if (plan.clusters !== undefined) {
+    // The two-level model itself: ICCs that contradict the reliability or the slope.
+    try {
+      clusterModel(plan);
+    } catch (e) {
+      if (e instanceof ClusterModelError) return fail(e.field, e.message);
+      throw e;
+    }
+  }
   if (!selection) return { ok: true, plan };
   // The selection model itself: a rule that leaves too few people in a group, or inputs that contradict each other.
   try {
@@ -176,6 +187,83 @@ function selectionProblems(input: Record<string, unknown>, bad: Set<string>): Pl
     out.push({
       field: 'matching.distance',
       message: `With a selection rule, matching is on the observed pretest only; got ${show(distance)}. Set the matching distance to "pretest".`,
+    });
+  }
+  return out;
+}
+
+/**
+ * What a clusters section needs and what it cannot yet be combined with:
+ * each pool a whole number (at least 2) of clusters; matching clusters needs
+ * a clusters section, matching people needs the same people at posttest; no
+ * selection rule, covariates or propensity/Mahalanobis distance yet.
+ */
+function clusterProblems(input: Record<string, unknown>, bad: Set<string>, selection: boolean): PlanProblem[] {
+  const out: PlanProblem[] = [];
+  const level = valueAt(input, 'matching.level');
+  const clusters = input.clusters;
+  if (clusters === undefined || bad.has('clusters')) {
+    if (level === 'clusters' && clusters === undefined) {
+      out.push({
+        field: 'matching.level',
+        message: 'Matching clusters needs a clusters section (size, pretestICC, cohort): without it there are no clusters to match. Add the clusters, or set the matching level to "people".',
+      });
+    }
+    return out;
+  }
+  if (selection) {
+    out.push({
+      field: 'clusters',
+      message: 'Clusters cannot yet be combined with a selection rule or a one-group design: remove the clusters section, or describe the groups as existing groups of clusters.',
+    });
+  }
+  if (Array.isArray(input.covariates) && input.covariates.length > 0) {
+    out.push({
+      field: 'covariates',
+      message: 'Covariates cannot yet be combined with clusters: remove the covariates, or remove the clusters section.',
+    });
+  }
+  const distance = valueAt(input, 'matching.distance');
+  if (distance !== undefined && distance !== 'pretest' && !bad.has('matching.distance')) {
+    out.push({
+      field: 'matching.distance',
+      message: `With clusters, matching is on the observed pretest only (cluster means, or people's own scores); got ${show(distance)}. Set the matching distance to "pretest".`,
+    });
+  }
+  const size = bad.has('clusters.size') ? undefined : valueAt(input, 'clusters.size');
+  if (typeof size === 'number' && Number.isInteger(size) && !selection) {
+    for (const who of ['programme', 'comparison'] as const) {
+      const field = `groups.${who}.poolSize`;
+      const pool = bad.has(field) ? undefined : valueAt(input, field);
+      if (typeof pool !== 'number' || !Number.isInteger(pool)) continue;
+      if (pool % size !== 0) {
+        const below = Math.floor(pool / size) * size;
+        out.push({
+          field,
+          message: `The ${who} pool size counts people and must be a whole number of clusters of ${size}; got ${pool} (${below > 0 ? `${below} or ${below + size}` : `${size}`} would do).`,
+        });
+      } else if (pool / size < PLAN_LIMITS.clustersPerGroupMin) {
+        out.push({
+          field,
+          message: `The ${who} group needs at least ${PLAN_LIMITS.clustersPerGroupMin} clusters, or nothing can be said about how its clusters vary; got ${pool / size} (${pool} people in clusters of ${size}).`,
+        });
+      }
+    }
+    const ratio = valueAt(input, 'matching.ratio');
+    const nC = valueAt(input, 'groups.comparison.poolSize');
+    if (level === 'clusters' && typeof ratio === 'number' && typeof nC === 'number' && nC % size === 0 && ratio > nC / size) {
+      out.push({
+        field: 'matching.ratio',
+        message: `Matching ratio must be at most the number of comparison clusters (${nC / size}) when clusters are matched; got ${ratio}.`,
+      });
+    }
+  }
+  const cohort = valueAt(input, 'clusters.cohort');
+  if ((level === undefined || level === 'people') && cohort === 'new' && !bad.has('matching.level')) {
+    out.push({
+      field: 'matching.level',
+      message:
+        'Matching people needs the same people at the posttest, but the clusters section says a new cohort sits it: nobody who is matched would be measured again. Set the matching level to "clusters" (match schools on their means), or the cohort to "same".',
     });
   }
   return out;

@@ -22,6 +22,7 @@ export const ESTIMATE_COLUMNS: Record<AnalysisId, string> = {
   correctedAncova: 'reliability_corrected_ancova',
   regressionDiscontinuity: 'regression_discontinuity',
   prePostChange: 'pre_post_change',
+  personLevelAncova: 'person_level_ancova',
 };
 
 /**

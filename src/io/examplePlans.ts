@@ -153,6 +153,29 @@ export const CLINIC_HIGH_READINGS: Plan = withRuleGroups(
   { programme: 'Patients invited to the course' },
 );
 
+/**
+ * Invented: schools that took up a reading programme, matched to comparison
+ * schools on last year's mean score. 25 pupils tested per school, ICC about
+ * .2, programme schools lower; this year's pupils (a new cohort) sit the
+ * posttest, so a school's mean from last year measures what predicts this
+ * year's with reliability ICC(2) = .86 whatever the test's own reliability.
+ */
+export const SCHOOLS_MATCHED_ON_MEANS: Plan = {
+  format: 'meanward-plan',
+  version: 1,
+  title: 'Invented example: a reading programme in 30 schools, matched to comparison schools on last year\u2019s mean score',
+  groups: {
+    programme: { label: 'Programme schools', poolSize: 750, pretestMean: 92, pretestSD: 15 },
+    comparison: { label: 'Comparison schools', poolSize: 2000, pretestMean: 100, pretestSD: 15 },
+  },
+  pretest: { reliability: 0.8, referenceSD: 15 },
+  outcome: { posttestSD: 15, prePostCorrelation: 0.8, growthGap: 0, hypothesisedEffect: 4, effectScale: 'points' },
+  matching: { method: 'nearest', caliper: 0.2, ratio: 1, replacement: false, order: 'random', level: 'clusters' },
+  analysis: { alpha: 0.05, assumedReliability: 0.8, tolerableBiasShare: 0.25, targetPower: 0.8 },
+  simulation: { replications: 1000, seed: 2025 },
+  clusters: { size: 25, pretestICC: 0.2, posttestICC: 0.25, cohort: 'new' },
+};
+
 /** The built-in examples, the demo first. Callers must copy a plan before changing it. */
 export const EXAMPLE_PLANS: readonly ExamplePlan[] = [
   {
@@ -203,5 +226,12 @@ export const EXAMPLE_PLANS: readonly ExamplePlan[] = [
     description:
       'Invented. Clinic patients whose blood-pressure reading was above 150 mmHg are invited to a lifestyle course and measured again afterwards, with no comparison group. One reading has reliability about .7, so people picked for high readings are expected to come down on re-measurement even if the course does nothing, and that fall can exceed the 5 mmHg the course hopes for.',
     plan: CLINIC_HIGH_READINGS,
+  },
+  {
+    id: 'schools-matched-on-means',
+    name: 'Schools matched on their means',
+    description:
+      'Invented. Thirty schools that took up a reading programme are matched to comparison schools on last year\u2019s mean score (25 pupils tested per school, ICC .2); this year\u2019s pupils sit the posttest. A school\u2019s mean is a fallible measure of the school, with reliability about .86 from which pupils were tested, so matched programme schools stay lower in truth and the artefact hides part of a 4-point benefit.',
+    plan: SCHOOLS_MATCHED_ON_MEANS,
   },
 ];

@@ -5,7 +5,7 @@ import { validatePlan, type PlanCheck } from '../core/validatePlan';
  * The plan with its keys in the file's fixed order (format, version, title,
  * groups, the optional design, assignment and population, pretest, outcome,
  * matching, analysis, simulation, then the optional covariates,
- * covariateCorrelations and provenance) and absent optional fields left out,
+ * covariateCorrelations, clusters and provenance) and absent optional fields left out,
  * so the same plan always gives the same text. With a selection rule the
  * groups written are the ones the rule forms (expected sizes, means and SDs,
  * for a reader of the file; only their labels are read back).
@@ -29,6 +29,7 @@ export function canonicalPlan(plan: Plan): Plan {
   };
   if (plan.matching.order !== undefined) matching.order = plan.matching.order;
   if (plan.matching.distance !== undefined) matching.distance = plan.matching.distance;
+  if (plan.matching.level !== undefined) matching.level = plan.matching.level;
   const analysis: Plan['analysis'] = {
     alpha: plan.analysis.alpha,
     assumedReliability: plan.analysis.assumedReliability,
@@ -77,6 +78,10 @@ export function canonicalPlan(plan: Plan): Plan {
     }));
   }
   if (plan.covariateCorrelations !== undefined) canonical.covariateCorrelations = plan.covariateCorrelations.map((row) => [...row]);
+  if (plan.clusters !== undefined) {
+    canonical.clusters = { size: plan.clusters.size, pretestICC: plan.clusters.pretestICC, cohort: plan.clusters.cohort };
+    if (plan.clusters.posttestICC !== undefined) canonical.clusters.posttestICC = plan.clusters.posttestICC;
+  }
   if (plan.provenance !== undefined) {
     // Keys sorted, so the same provenance always gives the same text; estimates only, never data rows.
     const provenance: NonNullable<Plan['provenance']> = {};

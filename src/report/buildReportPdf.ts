@@ -34,6 +34,7 @@ import {
 import { planInputRows, type InputSource } from './planInputRows';
 import { CONTINUATION, PLAN_BEGIN, PLAN_END } from './planJsonBlock';
 import { FONT_SANS, loadReportFonts, registerReportFonts, type ReportFonts } from './reportFonts';
+import { clusterCaution, CLUSTER_MODEL_LINES, CLUSTER_REFERENCES, clusterPowerCells, clusterSummarySentence, clusterSummaryTable, naiveComparisonTable } from './reportClusters';
 import { CAUTION_LINE, CAUTIONS, MODEL_LINES, REFERENCES, SELECTION_MODEL_LINES, SELECTION_REFERENCES, VERDICT_LABEL, VERDICT_TEXT } from './reportText';
 
 /** A chart to include: its SVG text (as rendered on screen) and how to read it. */
@@ -141,12 +142,16 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       : gap === 0
       ? `The two groups have the same pretest mean; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`
       : `On the pretest the programme group’s mean is ${formatPoints(Math.abs(gap))} points ${gap < 0 ? 'below' : 'above'} the comparison group’s; the pretest’s within-group reliability is ${formatReliability(analytic.reliability.programme)} in the programme group and ${formatReliability(analytic.reliability.comparison)} in the comparison group (SEM ${formatPoints(analytic.reliability.sem)} points).`;
+  const clusterLevel = analytic.clusters?.level === 'clusters';
   const planSentence = oneGroup
     ? `The study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points; with no programme at all the selected people are expected to change by ${formatSignedPoints(design.noProgrammeChange ?? 0)} points.`
+    : clusterLevel
+    ? `Each programme cluster is to be matched to ${plan.matching.ratio} comparison ${plan.matching.ratio === 1 ? 'cluster' : 'clusters'} on their observed pretest means within a caliper of ${plan.matching.caliper} SDs of the cluster means, and the study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points.`
     : `Each programme member is to be matched to ${plan.matching.ratio} comparison ${plan.matching.ratio === 1 ? 'person' : 'people'} within a caliper of ${caliperPhrase(plan)}, and the study hopes to detect an effect of ${formatSignedPoints(analytic.tau)} post-test points.`;
   const summary = [
     ...groupsSentence,
     reliabilitySentence,
+    clusterSummarySentence(analytic),
     planSentence,
     `Under the model, the ${lowerName(md.name)} is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a bias of ${formatSignedPoints(md.bias)} points${md.biasShare === null ? '' : ` (${formatShare(Math.abs(md.biasShare))} of the hoped-for effect${md.biasShare < 0 ? ', in the opposite direction' : ''})`}, so ${VERDICT_TEXT[md.verdict]}.`,
     best
@@ -206,6 +211,12 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     ],
   );
 
+  const clusterTable = clusterSummaryTable(analytic);
+  if (clusterTable.rows.length > 0) {
+    w.heading('People in clusters', 3);
+    w.table(clusterTable.columns, clusterTable.rows);
+  }
+
   // ---- Results -------------------------------------------------------------
   w.heading('Results by analysis');
   w.paragraph(`${procedureBasisNote(analytic)} “Bias” is the expected estimate minus the programme effect τ.`, {
@@ -217,6 +228,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     ...ids.map((id) => ({ header: an(id).name, width: 19, align: 'right' as const })),
   ];
   const row = (label: string, f: (id: AnalysisId) => string) => [label, ...ids.map(f)];
+  const clusterCells = clusterPowerCells(analytic);
   w.table(
     analysisCols,
     [
@@ -241,6 +253,12 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       row(`Per-group n for ${formatShare(plan.analysis.targetPower ?? 0.8)} power`, (id) =>
         !an(id).feasible ? 'not feasible' : an(id).requiredNPerGroup === null ? 'not reachable' : formatCount(an(id).requiredNPerGroup),
       ),
+      ...(clusterCells
+        ? [
+            row(`Clusters per group for ${formatShare(plan.analysis.targetPower ?? 0.8)} power`, clusterCells.needed),
+            row('Minimum detectable effect, artefact included (points)', clusterCells.mde),
+          ]
+        : []),
       ...(ids.some((id) => an(id).varianceInflation !== undefined)
         ? [
             row('Variance against a randomised study of the same size and split', (id) => {
@@ -313,6 +331,15 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       if (!isFeasible(s)) w.paragraph(`${label}: not computed. ${s.reason}`, { size: 9, muted: true });
     }
     for (const d of quickFiguresAgreement(analytic, sim)) w.note(d.note);
+    const naive = naiveComparisonTable(analytic, sim);
+    if (naive.rows.length > 0) {
+      w.heading('What ignoring the clustering costs (simulated)', 3);
+      w.paragraph(
+        'The same estimates with a person-level SE that ignores the clustering: its reported SE is too small, so its 95% intervals cover the true effect less often than 95%.',
+        { size: 9, muted: true },
+      );
+      w.table(naive.columns, naive.rows, { fontSize: 8 });
+    }
   }
   if (sim !== null && !oneGroup) {
     const mt = sim.matching;
@@ -329,8 +356,8 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       ],
       [
         [
-          'Programme members matched (mean per study)',
-          formatCount(P.poolSize),
+          clusterLevel ? 'Programme clusters matched (mean per study)' : 'Programme members matched (mean per study)',
+          formatCount(clusterLevel && analytic.clusters ? analytic.clusters.clustersPerGroup.programme : P.poolSize),
           withMcse(formatCount(mt.meanMatchedProgramme), mt.meanMatchedProgrammeMCSE, (x) => formatPoints(x, 1)),
         ],
         ['Share of the programme pool discarded', '—', withMcse(formatProbability(mt.discardedProgrammeShare), mt.discardedProgrammeShareMCSE, formatProbability)],
@@ -398,7 +425,10 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   // ---- Remedies ------------------------------------------------------------
   w.heading('Recommended design and remedies, ranked');
   const be = analytic.breakEven;
-  if (be.reliability !== null) {
+  if (be.reliability !== null && clusterLevel) {
+    // Clusters matched on their means: the break-even figure is the reliability of a cluster's mean (core's note says how to reach it).
+    w.paragraph(`Break-even reliability of a cluster’s mean (λ): ${formatReliability(be.reliability)}. ${be.note}`);
+  } else if (be.reliability !== null) {
     w.paragraph(
       be.alreadyMet
         ? `The pretest’s within-group reliability already meets the level at which the matched artefact stays within ${formatShare(plan.analysis.tolerableBiasShare)} of the hoped-for effect (${formatReliability(be.reliability)}).`
@@ -422,14 +452,20 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   w.heading('How this was computed');
   for (const line of MODEL_LINES) w.item('•', line, 9.5);
   if (design.kind === 'selection') for (const line of SELECTION_MODEL_LINES) w.item('•', line, 9.5);
+  if (design.kind === 'clusters') for (const line of CLUSTER_MODEL_LINES) w.item('•', line, 9.5);
   if ((plan.covariates?.length ?? 0) > 0) for (const line of COVARIATE_MODEL_LINES) w.item('•', line, 9.5);
   w.heading('References', 3);
-  const refs = design.kind === 'selection' ? [...REFERENCES, ...SELECTION_REFERENCES].sort() : REFERENCES;
+  const refs =
+    design.kind === 'selection'
+      ? [...REFERENCES, ...SELECTION_REFERENCES].sort()
+      : design.kind === 'clusters'
+        ? [...REFERENCES, ...CLUSTER_REFERENCES.filter((r) => !REFERENCES.includes(r))].sort()
+        : REFERENCES;
   for (const ref of refs) w.item('–', ref, 9);
 
   // ---- Cautions ------------------------------------------------------------
   w.heading('Cautions');
-  for (const c of CAUTIONS) w.item('•', c, 9.5);
+  for (const c of design.kind === 'clusters' ? CAUTIONS.map(clusterCaution) : CAUTIONS) w.item('•', c, 9.5);
   if ((plan.covariates?.length ?? 0) > 0) w.item('•', COVARIATE_CAUTION, 9.5);
 
   // ---- Reproducibility -----------------------------------------------------

@@ -102,6 +102,11 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
       add(`groups.${g}.pretestSD`, `${name}: pretest SD (within group)`, 'test points');
     }
   }
+  // People in clusters: the pool sizes above count people.
+  add('clusters.size', 'People tested per cluster', 'people');
+  add('clusters.pretestICC', 'Pretest ICC (within a group)', 'coefficient, 0–1');
+  add('clusters.posttestICC', 'Posttest ICC (comparison group)', 'coefficient, 0–1');
+  add('clusters.cohort', 'Who sits the posttest', '', (v) => (v === 'same' ? 'the same people, retested' : 'a new cohort of the same clusters'));
   add('pretest.reliability', 'Pretest reliability (as published)', 'coefficient, 0–1');
   add('pretest.referenceSD', 'SD of the population that reliability was estimated in', 'test points');
   add('pretest.sem', 'Standard error of measurement (SEM)', 'test points');
@@ -114,9 +119,19 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
   if (!oneGroup) {
     add('matching.method', 'Matching method', '', (v) => MATCHING_METHOD[v as Plan['matching']['method']] ?? String(v));
     add('matching.distance', 'Matching distance', '', (v) => DISTANCE_WORDS[v as MatchingDistance] ?? String(v));
-    add('matching.caliper', 'Caliper', plan.matching.distance === undefined || plan.matching.distance === 'pretest' ? 'SDs of the pooled pretest' : CALIPER_UNIT_WORDS[plan.matching.distance]);
-    add('matching.ratio', 'Comparison partners per programme member', 'people');
-    add('matching.replacement', 'Comparison people may be reused', '');
+    add('matching.level', 'What is matched', '', (v) => (v === 'clusters' ? 'clusters, on their observed pretest means' : 'people, across clusters'));
+    const clusterLevel = plan.clusters !== undefined && plan.matching.level === 'clusters';
+    add(
+      'matching.caliper',
+      'Caliper',
+      clusterLevel
+        ? 'SDs of the cluster means'
+        : plan.matching.distance === undefined || plan.matching.distance === 'pretest'
+          ? 'SDs of the pooled pretest'
+          : CALIPER_UNIT_WORDS[plan.matching.distance],
+    );
+    add('matching.ratio', clusterLevel ? 'Comparison partners per programme cluster' : 'Comparison partners per programme member', clusterLevel ? 'clusters' : 'people');
+    add('matching.replacement', clusterLevel ? 'Comparison clusters may be reused' : 'Comparison people may be reused', '');
     add('matching.order', 'Matching order', '', (v) => MATCHING_ORDER[v as NonNullable<Plan['matching']['order']>] ?? String(v));
   }
   add('analysis.alpha', 'Significance level (two-sided)', 'probability');

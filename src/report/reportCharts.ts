@@ -37,6 +37,10 @@ export const HOW_TO_READ: Record<ChartId, string> = {
 export const HOW_TO_READ_SELECTION_PRETEST =
   'The grey curve is the whole population’s observed pretest; the shaded area is the part the rule selects, drawn as its share of the population; the dashed curve is the same people measured again with no programme, nearer the population mean. The dotted line is the cut-off; where the rule did not look at the pretest itself, the curve on the right-hand scale is the chance of selection at each pretest score.';
 
+/** How to read the pretest chart when clusters are matched on their means. */
+export const HOW_TO_READ_CLUSTER_PRETEST =
+  'The curves are the spread of the clusters’ observed pretest means in each group; the shaded band is where matched clusters can be found, and each dot below is one cluster. Matched clusters come from the groups’ facing tails, so their true means fall back toward their own group’s mean.';
+
 /** How to read the balance chart per covariate (plans with covariates). */
 export const HOW_TO_READ_COVARIATE_BALANCE =
   'One row per variable, pretest first. Circles: the observed standardised mean difference before (hollow) and after matching (filled); diamond: the true-score difference after matching, which the observed balance hides. Dashed lines at 0.1 (strict) and 0.25 (lenient); the right column gives the variance ratio after matching, flagged when outside 0.5 to 2 (Rubin 2001; Stuart 2010).';
@@ -57,7 +61,12 @@ export function reportCharts(plan: Plan, analytic: AnalyticResults, simulation: 
   const add = (id: ChartId, draw: () => { svg: string; text: ChartText }) => {
     try {
       const { svg, text } = draw();
-      const howToRead = id === 'pretest' && isSelectionDesign(plan) ? HOW_TO_READ_SELECTION_PRETEST : HOW_TO_READ[id];
+      const howToRead =
+        id === 'pretest' && isSelectionDesign(plan)
+          ? HOW_TO_READ_SELECTION_PRETEST
+          : id === 'pretest' && plan.clusters !== undefined && plan.matching.level === 'clusters'
+            ? HOW_TO_READ_CLUSTER_PRETEST
+            : HOW_TO_READ[id];
       charts.push({ id, title: text.title, svg, caption: `${howToRead} ${text.sentences.join(' ')}` });
     } catch (e) {
       charts.push({

@@ -16,8 +16,14 @@ export const SLOT_ANCOVA_MATCHED = 4;
 export const SLOT_RD = 5;
 /** Slot of the one-group pre–post change. */
 export const SLOT_PRE_POST = 6;
-/** Number of slots: the six analyses plus ANCOVA in the matched sample. */
-export const SLOT_COUNT = 7;
+/** Slot of the person-level ANCOVA with cluster-robust (CR2) SEs (clusters only). */
+export const SLOT_PERSON = 7;
+/** Slot of the same person-level estimates with the naive OLS SE that ignores clustering (clusters only). */
+export const SLOT_PERSON_NAIVE = 8;
+/** Slot of the matched difference of people matched across clusters with the one-level SE that ignores clustering (clusters only). */
+export const SLOT_MATCHED_NAIVE = 9;
+/** Number of slots: the seven analyses, ANCOVA in the matched sample and the two naive figures of clustered designs. */
+export const SLOT_COUNT = 10;
 /** The slot of each of the four analyses (ANCOVA in the full pools for 'ancova'). */
 export const ANALYSIS_SLOT: Readonly<Record<AnalysisId, number>> = {
   matchedDifference: SLOT_MATCHED,
@@ -26,6 +32,7 @@ export const ANALYSIS_SLOT: Readonly<Record<AnalysisId, number>> = {
   correctedAncova: SLOT_CORRECTED,
   regressionDiscontinuity: SLOT_RD,
   prePostChange: SLOT_PRE_POST,
+  personLevelAncova: SLOT_PERSON,
 };
 
 /**

@@ -144,5 +144,7 @@ function describe(id: AnalysisId, sample: 'full' | 'matched'): string {
       return 'regression-discontinuity analysis';
     case 'prePostChange':
       return 'pre–post change';
+    case 'personLevelAncova':
+      return 'person-level ANCOVA';
   }
 }

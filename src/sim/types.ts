@@ -147,6 +147,14 @@ export interface SimulationResult {
    */
   balance?: CovariateBalance[];
   /**
+   * Clusters only: the person-level analyses as a naive analysis that ignores
+   * the clustering would report them — the same estimates with the OLS SE
+   * (personLevelAncova) or, when people are matched across clusters, the
+   * one-level matching-weights SE (matchedDifference) — so the coverage shows
+   * what ignoring the clustering costs. The cluster-aware figures are in `analyses`.
+   */
+  naivePersonLevel?: { personLevelAncova: SimAnalysisResult; matchedDifference?: SimAnalysisResult };
+  /**
    * Present (true) only when the run was stopped early, at a time limit, and summarised over the
    * replications that had finished (`replications`, always the first ones: 0 … replications − 1).
    */

@@ -7,6 +7,8 @@ import type { MeanwardDeps } from './deps';
 import { samePlan } from './samePlan';
 import type { MeanwardState } from './store';
 import { plainErrorMessage } from '../core/plainErrorMessage';
+import { ICC_PRESETS, type IccPreset } from '../core/clusters/iccPresets';
+import { PLAN_LIMITS } from '../core/planSchema';
 
 /**
  * The plan being edited: the raw draft, the last valid plan, the problems
@@ -43,6 +45,12 @@ export interface DraftSlice {
   commitDraft(): void;
   /** Switch between entering a reliability and entering an SEM; both texts are kept. */
   setPretestMode(mode: PretestMode): void;
+  /**
+   * Put a preset ICC (core's ICC_PRESETS) into the pretest or posttest ICC as a
+   * starting value, recording where it came from beside the field (typing over
+   * it drops that note). An unknown preset id changes nothing.
+   */
+  applyIccPreset(field: IccField, presetId: string): void;
   /** Replace the whole plan (example, file, link, reset). */
   replacePlan(plan: Plan): void;
   /**
@@ -50,6 +58,16 @@ export interface DraftSlice {
    * With how = 'typing' (a keystroke in a matrix cell) a valid draft waits as in typeField.
    */
   replaceDraft(draft: PlanDraft, how?: 'commit' | 'typing'): void;
+}
+
+/** The two ICC fields a preset can fill. */
+export type IccField = 'clusters.pretestICC' | 'clusters.posttestICC';
+
+/** The note recorded beside an ICC taken from a preset: its label and source (within the plan file's note limit). */
+export function iccPresetNote(preset: IccPreset): string {
+  const note = `Starting value from a preset: ${preset.label}. Source: ${preset.source}`;
+  const max = PLAN_LIMITS.provenanceNoteMaxLength;
+  return note.length <= max ? note : `${note.slice(0, max - 1)}\u2026`;
 }
 
 /** How long typing must pause before a valid typed draft becomes the plan (ms). */
@@ -218,6 +236,13 @@ export const createDraftSlice =
       setPretestMode: (mode) => {
         const d = get().draft;
         set(apply({ ...d, pretest: { ...d.pretest, mode } }));
+      },
+      applyIccPreset: (field, presetId) => {
+        const preset = ICC_PRESETS.find((p) => p.id === presetId);
+        if (!preset) return;
+        const next = setDraftField(get().draft, field, String(preset.icc));
+        const note: FieldProvenance = { source: 'entered', note: iccPresetNote(preset) };
+        set(apply(withDraftProvenance(next, { ...draftProvenance(next), [field]: note })));
       },
       replacePlan: (plan) => set(apply(withDraftProvenance(planToDraft(plan), plan.provenance))),
       replaceDraft: (draft, how = 'commit') => set(apply(draft, how)),

@@ -1,7 +1,9 @@
 import type {
   AssignmentBasis,
   AssignmentRule,
+  ClusterCohort,
   EffectScale,
+  MatchingLevel,
   MatchingDistance,
   MatchingMethod,
   MatchingOrder,
@@ -47,6 +49,22 @@ export interface AssignmentDraft {
 /** The one population a rule picks from, as typed (read when a rule forms the groups). */
 export type PopulationDraft = GroupDraft;
 
+/**
+ * People in clusters, as typed. Kept whatever the switch says, so turning
+ * clusters off and on again restores what was typed; read only when
+ * `inClusters` is on and the groups are existing groups.
+ */
+export interface ClusterDraft {
+  /** Whether people are sampled in clusters (schools, classes, clinics). */
+  inClusters: boolean;
+  /** People tested per cluster. */
+  size: string;
+  pretestICC: string;
+  /** Empty = the pretest ICC (the plan then omits it). */
+  posttestICC: string;
+  cohort: ClusterCohort;
+}
+
 export interface PlanDraft {
   title: string;
   groups: { programme: GroupDraft; comparison: GroupDraft };
@@ -76,6 +94,8 @@ export interface PlanDraft {
     order: MatchingOrder;
     /** What matching measures closeness on; 'pretest' is left out of the plan (the default). */
     distance: MatchingDistance;
+    /** With clusters: match whole clusters on their means, or people across clusters (written only with clusters). */
+    level: MatchingLevel;
   };
   analysis: { alpha: string; assumedReliability: string; tolerableBiasShare: string; targetPower: string };
   simulation: { replications: string; seed: string };
@@ -83,6 +103,8 @@ export interface PlanDraft {
   covariates: CovariateDraft[];
   /** Their observed correlation matrix as typed, pretest first: (1 + k) × (1 + k) texts. */
   covariateCorrelations: string[][];
+  /** People in clusters, as typed (see ClusterDraft). */
+  clusters: ClusterDraft;
 }
 
 /** A problem with one field (dotted path, or '' for the plan as a whole). */
@@ -101,6 +123,22 @@ export function emptySelectionDraft(): Pick<PlanDraft, 'design' | 'assignment' |
     population: { label: '', poolSize: '', pretestMean: '', pretestSD: '' },
     selectionLabels: { programme: '', comparison: '' },
   };
+}
+
+/** The clusters part of a draft for a plan without clusters (switched off, nothing typed). */
+export function emptyClusterDraft(): ClusterDraft {
+  // Same people and (the plan's default) people matched across clusters: a combination that is valid as it stands.
+  return { inClusters: false, size: '', pretestICC: '', posttestICC: '', cohort: 'same' };
+}
+
+/**
+ * Whether a draft's people sit in clusters that go into the plan: the switch
+ * is on and the groups are existing groups (a rule or a one-group study sets
+ * the clusters aside, kept in the draft). Covariates and a multivariate
+ * distance are then set aside too (they cannot yet be combined with clusters).
+ */
+export function draftUsesClusters(draft: Pick<PlanDraft, 'design' | 'assignment' | 'clusters'>): boolean {
+  return draft.clusters.inClusters && !draftUsesSelection(draft);
 }
 
 /**
@@ -188,6 +226,7 @@ export function planToDraft(plan: Plan): PlanDraft {
       replacement: plan.matching.replacement,
       order: plan.matching.order ?? 'random',
       distance: plan.matching.distance ?? 'pretest',
+      level: plan.matching.level ?? 'people',
     },
     analysis: {
       alpha: str(plan.analysis.alpha),
@@ -197,6 +236,15 @@ export function planToDraft(plan: Plan): PlanDraft {
     },
     simulation: { replications: str(plan.simulation.replications), seed: str(plan.simulation.seed) },
     ...covariatesToDraft(plan),
+    clusters: plan.clusters
+      ? {
+          inClusters: true,
+          size: str(plan.clusters.size),
+          pretestICC: str(plan.clusters.pretestICC),
+          posttestICC: str(plan.clusters.posttestICC),
+          cohort: plan.clusters.cohort,
+        }
+      : emptyClusterDraft(),
   };
 }
 
@@ -232,6 +280,12 @@ export const FIELD_NAMES: Record<string, string> = {
   'population.pretestSD': 'Pretest SD in the population',
   'selectionLabels.programme': 'Programme group name',
   'selectionLabels.comparison': 'Name of the people not selected',
+  'clusters.inClusters': 'People sampled in clusters',
+  'clusters.size': 'People tested per cluster',
+  'clusters.pretestICC': 'Pretest ICC',
+  'clusters.posttestICC': 'Posttest ICC',
+  'clusters.cohort': 'Who sits the posttest',
+  'matching.level': 'What is matched',
   'pretest.reliability': 'Reliability',
   'pretest.referenceSD': 'Reference SD',
   'pretest.sem': 'SEM',
@@ -250,7 +304,7 @@ export const FIELD_NAMES: Record<string, string> = {
 };
 
 /** Fields that may be left empty (the plan then omits them). */
-const OPTIONAL = new Set(['pretest.referenceSD', 'analysis.targetPower']);
+const OPTIONAL = new Set(['pretest.referenceSD', 'analysis.targetPower', 'clusters.posttestICC']);
 
 /**
  * Read one numeric text box. Accepts ordinary decimal notation with an
@@ -303,6 +357,7 @@ export function draftToCandidate(draft: PlanDraft): { candidate: unknown; proble
         }
       : { sem: num('pretest.sem', draft.pretest.sem) };
   const selection = draftUsesSelection(draft);
+  const clustered = draftUsesClusters(draft);
   const candidate = {
     format: 'meanward-plan',
     version: 1,
@@ -325,7 +380,9 @@ export function draftToCandidate(draft: PlanDraft): { candidate: unknown; proble
       order: draft.matching.order,
       // The default distance is left out, so a plan without covariates is exactly as before.
       // With a rule, matching is on the pretest alone: a multivariate distance stays in the draft for existing groups.
-      ...(!selection && draft.matching.distance !== undefined && draft.matching.distance !== 'pretest' ? { distance: draft.matching.distance } : {}),
+      // With clusters, matching is on the pretest too (cluster means or people's own scores), and the level is always written.
+      ...(!selection && !clustered && draft.matching.distance !== undefined && draft.matching.distance !== 'pretest' ? { distance: draft.matching.distance } : {}),
+      ...(clustered ? { level: draft.matching.level } : {}),
     },
     analysis: dropUndefined({
       alpha: num('analysis.alpha', draft.analysis.alpha),
@@ -337,8 +394,9 @@ export function draftToCandidate(draft: PlanDraft): { candidate: unknown; proble
       replications: num('simulation.replications', draft.simulation.replications),
       seed: num('simulation.seed', draft.simulation.seed),
     },
-    // Covariates cannot yet be combined with a rule: they stay in the draft, out of the plan.
-    ...(selection
+    ...(clustered ? { clusters: clustersCandidate(draft.clusters, num) } : {}),
+    // Covariates cannot yet be combined with a rule or with clusters: they stay in the draft, out of the plan.
+    ...(selection || clustered
       ? {}
       : covariatesToCandidate(draft, (field, raw, label) => {
           const r = readNumber(field, raw, label);
@@ -376,6 +434,16 @@ function selectionCandidate(draft: PlanDraft, num: (field: string, raw: string) 
       pretestSD: num('population.pretestSD', p.pretestSD),
     },
   };
+}
+
+/** The clusters section of a draft whose people sit in clusters (an empty posttest ICC is left out: it follows the pretest's). */
+function clustersCandidate(c: ClusterDraft, num: (field: string, raw: string) => number | undefined): Record<string, unknown> {
+  return dropUndefined({
+    size: num('clusters.size', c.size),
+    pretestICC: num('clusters.pretestICC', c.pretestICC),
+    posttestICC: num('clusters.posttestICC', c.posttestICC),
+    cohort: c.cohort,
+  });
 }
 
 function dropUndefined<T extends Record<string, unknown>>(o: T): Partial<T> {
@@ -429,6 +497,9 @@ export function isPlanDraft(x: unknown): x is PlanDraft {
   // Drafts saved before assignment rules existed have none of these parts (withDraftDefaults adds them).
   const selectionParts = [d.design, d.assignment, d.population, d.selectionLabels];
   if (selectionParts.some((x) => x !== undefined) && !isSelectionPart(d)) return false;
+  // Drafts saved before clusters existed have no clusters part and no matching level (withDraftDefaults adds them).
+  if (d.clusters !== undefined && !isClustersPart(d.clusters)) return false;
+  if (d.matching.level !== undefined && d.matching.level !== 'clusters' && d.matching.level !== 'people') return false;
   return (
     (d.pretest.mode === 'reliability' || d.pretest.mode === 'sem') &&
     (d.outcome.effectScale === 'points' || d.outcome.effectScale === 'sd') &&
@@ -452,16 +523,29 @@ function isSelectionPart(d: Record<string, unknown>): boolean {
   return typeof l.programme === 'string' && typeof l.comparison === 'string';
 }
 
+/** Whether a stored draft's clusters part has the right shape. */
+function isClustersPart(c: unknown): boolean {
+  if (typeof c !== 'object' || c === null) return false;
+  const x = c as Record<string, unknown>;
+  if (typeof x.inClusters !== 'boolean' || (x.cohort !== 'same' && x.cohort !== 'new')) return false;
+  return ['size', 'pretestICC', 'posttestICC'].every((f) => typeof x[f] === 'string');
+}
+
 /**
  * Fill in the parts a draft saved by an earlier version lacks (no covariates,
  * distance "pretest", existing groups); a complete draft is returned unchanged.
  */
 export function withDraftDefaults(draft: PlanDraft): PlanDraft {
-  const d = draft as Partial<PlanDraft> & Omit<PlanDraft, 'covariates' | 'covariateCorrelations' | 'design' | 'assignment' | 'population' | 'selectionLabels'>;
+  const d = draft as Partial<PlanDraft> &
+    Omit<PlanDraft, 'covariates' | 'covariateCorrelations' | 'design' | 'assignment' | 'population' | 'selectionLabels' | 'clusters' | 'matching'> & {
+      matching: Omit<PlanDraft['matching'], 'distance' | 'level'> & Partial<Pick<PlanDraft['matching'], 'distance' | 'level'>>;
+    };
   if (
     d.covariates !== undefined &&
     d.covariateCorrelations !== undefined &&
     d.matching.distance !== undefined &&
+    d.matching.level !== undefined &&
+    d.clusters !== undefined &&
     d.design !== undefined &&
     d.assignment !== undefined &&
     d.population !== undefined &&
@@ -472,12 +556,13 @@ export function withDraftDefaults(draft: PlanDraft): PlanDraft {
   const empty = emptySelectionDraft();
   return {
     ...d,
-    matching: { ...d.matching, distance: d.matching.distance ?? 'pretest' },
+    matching: { ...d.matching, distance: d.matching.distance ?? 'pretest', level: d.matching.level ?? 'people' },
     covariates: d.covariates ?? [],
     covariateCorrelations: d.covariateCorrelations ?? [['1']],
     design: d.design ?? empty.design,
     assignment: d.assignment ?? empty.assignment,
     population: d.population ?? empty.population,
     selectionLabels: d.selectionLabels ?? empty.selectionLabels,
+    clusters: d.clusters ?? emptyClusterDraft(),
   };
 }

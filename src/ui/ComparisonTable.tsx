@@ -5,7 +5,8 @@ import { procedureBasisNote } from '../core/procedureBasisNote';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { selectAnalysesInOrder, selectAnalytic, selectAnalyticStale, selectHighlight, selectSetHighlight } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
-import { fmt, fmtPct, fmtSigned } from './format';
+import { fmt, fmtInt, fmtPct, fmtSigned } from './format';
+import type { AnalyticAnalysis } from '../core/analyticResults';
 import { centralCutOffVarianceInflation } from '../core/design/centralCutOffVarianceInflation';
 import { verdictWords } from './VerdictPanel';
 
@@ -41,6 +42,48 @@ export function VarianceInflationNote({ inflation }: { inflation: number }) {
 }
 
 /**
+ * Under an analysis of a clusters design: its cluster-aware SE (and, for the
+ * person-level analysis, the naive SE that ignores clustering), the clusters
+ * per group the target power needs and the minimum detectable effect, all
+ * from core.
+ */
+function ClusterRowNote({ a }: { a: AnalyticAnalysis }) {
+  if (a.clustersPerGroupNeeded === undefined || !a.feasible) return null;
+  return (
+    <span className="cluster-note" data-testid={`cluster-note-${a.id}`}>
+      Cluster-aware SE {fmt(a.se)}
+      {a.df !== null && <> (df {fmtInt(a.df)})</>}
+      {a.naiveSE !== undefined && <>; ignoring the clustering it would be reported as {fmt(a.naiveSE)}</>}. For the target power:{' '}
+      {a.clustersPerGroupNeeded === null ? 'no number of clusters is enough' : `${fmtInt(a.clustersPerGroupNeeded)} clusters per group`}; minimum detectable
+      effect {fmtSigned(a.minimumDetectableEffect)} points.
+    </span>
+  );
+}
+
+/** The simulated figures of the same estimates with a naive person-level SE (what ignoring the clustering costs). */
+function NaiveRow({ name, s, tauZero }: { name: string; s: SimAnalysisResult; tauZero: boolean }) {
+  const f = isFeasible(s) ? s : null;
+  return (
+    <tr className="naive-row" data-testid={`naive-${s.id}`}>
+      <th scope="row">
+        <span className="swatch swatch-empty" aria-hidden="true" />
+        {name}, with a naive SE that ignores the clustering
+        <span className="assumption">
+          The same estimates; only the SE differs.{f && <> Its mean reported SE was {fmt(f.meanModelSE)} against an actual spread of {fmt(f.empiricalSE)}.</>}
+        </span>
+      </th>
+      <td>—</td>
+      <td>{f ? <SimFigure value={f.bias} mcse={f.biasMCSE} signed /> : '—'}</td>
+      <td>{f ? <SimFigure value={f.rmse} mcse={f.rmseMCSE} /> : '—'}</td>
+      <td>{f ? <SimFigure value={f.coverage} mcse={f.coverageMCSE} pct /> : '—'}</td>
+      <td>{f && tauZero ? <SimFigure value={f.rejectionRate} mcse={f.rejectionRateMCSE} pct /> : '—'}</td>
+      <td>{f && !tauZero ? <SimFigure value={f.rejectionRate} mcse={f.rejectionRateMCSE} pct /> : '—'}</td>
+      <td>{f && !tauZero ? <SimFigure value={f.wrongSignRate} mcse={f.wrongSignRateMCSE} pct /> : '—'}</td>
+    </tr>
+  );
+}
+
+/**
  * The design's analyses side by side: closed-form expectations and, after a
  * simulation, the simulated figures with their Monte Carlo SEs. Hovering or
  * focusing a row highlights that analysis in every chart.
@@ -59,6 +102,10 @@ export function ComparisonTable() {
   if (rows.length === 0 || !analytic) return null;
   const disagreements = simResult && !simStale && !stale ? quickFiguresAgreement(analytic, simResult) : [];
   const simAll = (id: AnalysisId): SimAnalysisResult | null => simResult?.analyses[id] ?? null;
+  // Clusters: the naive person-level figures of the same estimates, shown under their analysis after a simulation.
+  const naive = simResult && !simStale ? simResult.naivePersonLevel : undefined;
+  const naiveOf = (id: AnalysisId): SimAnalysisResult | undefined =>
+    id === 'personLevelAncova' ? naive?.personLevelAncova : id === 'matchedDifference' ? naive?.matchedDifference : undefined;
   return (
     <section className="comparison" aria-labelledby="comparison-heading">
       <h2 id="comparison-heading">{rows.length === 1 ? `The analysis: ${rows[0]!.name.toLowerCase()}` : `The ${COUNT_WORDS[rows.length] ?? rows.length} analyses compared`}</h2>
@@ -100,7 +147,8 @@ export function ComparisonTable() {
               const infeasible = all && !isFeasible(all) ? all.reason : null;
               const style = ANALYSIS_STYLES[a.id];
               const on = highlight === a.id;
-              return (
+              const naiveResult = naiveOf(a.id);
+              return [
                 <tr
                   key={a.id}
                   data-analysis={a.id}
@@ -118,6 +166,7 @@ export function ComparisonTable() {
                     <span className="row-verdict">{verdictWords(a.verdict).short}</span>
                     <span className="assumption">{a.assumption}</span>
                     {a.varianceInflation !== undefined && <VarianceInflationNote inflation={a.varianceInflation} />}
+                    <ClusterRowNote a={a} />
                     {!a.feasible && (
                       <span className="infeasible-reason" data-testid={`infeasible-${a.id}`}>
                         Not feasible: {a.infeasibleReason}
@@ -167,8 +216,9 @@ export function ComparisonTable() {
                       </>
                     )}
                   </td>
-                </tr>
-              );
+                </tr>,
+                naiveResult ? <NaiveRow key={`${a.id}-naive`} name={a.name} s={naiveResult} tauZero={tauZero} /> : null,
+              ];
             })}
           </tbody>
         </table>
@@ -183,6 +233,13 @@ export function ComparisonTable() {
       <p className="table-note">
         False-positive rate: how often the analysis declares an effect when the programme does nothing. Wrong-sign rate: how often a helpful
         programme comes out significantly harmful. Where two figures are stacked, the upper is expected and the lower simulated. Under each name: the condition under which that analysis is unbiased.
+        {analytic.clusters && (
+          <>
+            {' '}
+            With clusters, each SE counts the clusters as the units (cluster means, or person-level regression with cluster-robust CR2 SEs); a row
+            marked &ldquo;naive SE&rdquo; shows what a person-level analysis that ignores the clustering would claim: its coverage falls short of 95%.
+          </>
+        )}
       </p>
     </section>
   );

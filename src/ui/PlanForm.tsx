@@ -1,14 +1,15 @@
-import { useId, useMemo } from 'react';
+import { useId, useMemo, useState } from 'react';
 import { covariateFieldLabel } from '../state/covariateDraft';
-import { draftUsesSelection, FIELD_NAMES } from '../state/planDraft';
+import { draftUsesClusters, draftUsesSelection, FIELD_NAMES } from '../state/planDraft';
 import { selectAnalytic, selectAnalyticStale, selectProblems, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { CovariateEditor } from './CovariateEditor';
 import { CheckField, ChoiceField, NumberField, TextField } from './fields';
 import { moreProblemsLine, PROBLEMS_SHOWN } from '../core/capProblemList';
 import { fmt, fmtInt, fmtPct, fmtR } from './format';
-import { isSelectionDesign } from '../core/design/studyDesign';
+import { isClusterDesign, isSelectionDesign } from '../core/design/studyDesign';
 import { selectionModel } from '../core/design/selectionModel';
+import { ICC_PRESETS } from '../core/clusters/iccPresets';
 
 /** Move keyboard focus to a field by its plan path (from the problem list). */
 function focusField(path: string) {
@@ -27,8 +28,19 @@ export function PlanForm() {
   const covariates = useMeanwardStore((s) => s.draft.covariates);
   const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
   const oneGroup = useMeanwardStore((s) => s.draft.design === 'one-group');
+  const clustered = useMeanwardStore((s) => draftUsesClusters(s.draft));
   // Sections are numbered as shown.
-  const shown = ['assignment', 'groups', 'pretest', 'outcome', ...(selection ? [] : ['covariates']), ...(oneGroup ? [] : ['matching']), 'analysis', 'simulation'];
+  const shown = [
+    'assignment',
+    'groups',
+    ...(selection ? [] : ['clusters']),
+    'pretest',
+    'outcome',
+    ...(selection || clustered ? [] : ['covariates']),
+    ...(oneGroup ? [] : ['matching']),
+    'analysis',
+    'simulation',
+  ];
   const n = (key: string) => shown.indexOf(key) + 1;
   const commitDraft = useMeanwardStore((s) => s.commitDraft);
   // Covariate fields and matrix cells are named by number ("Covariate 2 SD"); whole-list problems stay as messages.
@@ -72,9 +84,10 @@ export function PlanForm() {
       )}
       <AssignmentSection n={n('assignment')} />
       {selection ? <PopulationSection n={n('groups')} /> : <GroupsSection n={n('groups')} />}
+      {!selection && <ClustersSection n={n('clusters')} />}
       <PretestSection n={n('pretest')} />
       <OutcomeSection n={n('outcome')} />
-      {!selection && <CovariatesSection n={n('covariates')} />}
+      {!selection && !clustered && <CovariatesSection n={n('covariates')} />}
       {!oneGroup && <MatchingSection n={n('matching')} />}
       <AnalysisSection n={n('analysis')} />
       <SimulationSection n={n('simulation')} />
@@ -95,13 +108,14 @@ function Section({ title, intro, children }: { title: string; intro?: string; ch
 
 function GroupColumn({ group, heading }: { group: 'programme' | 'comparison'; heading: string }) {
   const p = `groups.${group}`;
+  const clustered = useMeanwardStore((s) => draftUsesClusters(s.draft));
   // The column heading names the group on screen; screen readers hear it in each label.
   const who = <span className="visually-hidden">, {group} group</span>;
   return (
     <div className="group-column">
       <h3>{heading}</h3>
       <TextField path={`${p}.label`} label={<>Name{who}</>} hint="Shown in results and reports." />
-      <NumberField path={`${p}.poolSize`} label={<>Pool size{who}</>} unit="people" step={10} min={2} inputMode="numeric" hint="How many people are available to match from." />
+      <NumberField path={`${p}.poolSize`} label={<>Pool size{who}</>} unit="people" step={10} min={2} inputMode="numeric" hint={clustered ? 'People, not clusters: a whole number of clusters (see “People in clusters” below).' : 'How many people are available to match from.'} />
       <NumberField path={`${p}.pretestMean`} label={<>Pretest mean{who}</>} unit="points" step={1} hint="Average observed pretest score." />
       <NumberField path={`${p}.pretestSD`} label={<>Pretest SD{who}</>} unit="points" step={0.5} min={0} hint="Spread of observed scores within this group." />
     </div>
@@ -257,6 +271,159 @@ function GroupsSection({ n }: { n: number }) {
   );
 }
 
+/** Whether people sit in clusters, how many are tested per cluster, the ICCs, who sits the posttest and what is matched. */
+function ClustersSection({ n }: { n: number }) {
+  const on = useMeanwardStore((s) => s.draft.clusters.inClusters);
+  const hasCovariates = useMeanwardStore((s) => s.draft.covariates.length > 0);
+  const level = useMeanwardStore((s) => s.draft.matching.level);
+  const cohort = useMeanwardStore((s) => s.draft.clusters.cohort);
+  return (
+    <Section
+      title={`${n}. People in clusters`}
+      intro="Schools, classes, clinics or wards: when whole clusters are in the programme, a cluster's mean is what gets compared, and it is a fallible measure of the cluster."
+    >
+      <CheckField
+        path="clusters.inClusters"
+        label="People are sampled in clusters (schools, classes, clinics, wards)"
+        hint="Both groups are then made of whole clusters; the pool sizes above still count people."
+      />
+      {on && (
+        <>
+          <NumberField
+            path="clusters.size"
+            label="People tested per cluster"
+            unit="people"
+            step={1}
+            min={2}
+            inputMode="numeric"
+            hint="How many people in each cluster sit the test. Each pool size must be a whole number of clusters of this size."
+          />
+          <ClusterCounts />
+          <NumberField
+            path="clusters.pretestICC"
+            label="Pretest ICC"
+            unit="0 to 1"
+            step={0.01}
+            min={0.01}
+            max={0.99}
+            hint="Intraclass correlation of the observed pretest within a group: the share of its spread that lies between clusters."
+          />
+          <IccPresetPicker />
+          <NumberField
+            path="clusters.posttestICC"
+            label="Posttest ICC (optional)"
+            unit="0 to 1"
+            step={0.01}
+            min={0.01}
+            max={0.99}
+            hint="The same for the observed posttest in the comparison group; leave empty to use the pretest ICC."
+          />
+          <ChoiceField
+            path="clusters.cohort"
+            label="Who sits the posttest"
+            hint="A new cohort is typical when schools are compared on last year's results: the cluster mean then measures the cluster, not the people who will be measured again."
+            options={[
+              { value: 'same', label: 'The same people, retested' },
+              { value: 'new', label: 'A new cohort of the same clusters' },
+            ]}
+          />
+          <ChoiceField
+            path="matching.level"
+            label="What is matched"
+            hint={
+              level === 'people' && cohort === 'new'
+                ? 'Matching people needs the same people at the posttest: with a new cohort, match clusters on their means.'
+                : 'Whole clusters on their observed pretest means, or people across clusters on their own pretests.'
+            }
+            options={[
+              { value: 'clusters', label: 'Clusters, on their observed means' },
+              { value: 'people', label: 'People across clusters, on their own pretests' },
+            ]}
+          />
+          {hasCovariates && (
+            <p className="section-intro" data-testid="covariates-set-aside-clusters">
+              The covariates you entered cannot yet be combined with clusters. They are kept, and come back if you switch clusters off.
+            </p>
+          )}
+        </>
+      )}
+    </Section>
+  );
+}
+
+/** How many clusters each pool makes (core's cluster summary for the last complete plan). */
+function ClusterCounts() {
+  const plan = useMeanwardStore(selectValidPlan);
+  const analytic = useMeanwardStore(selectAnalytic);
+  const stale = useMeanwardStore(selectAnalyticStale);
+  const pending = useMeanwardStore((s) => s.draftPending);
+  const c = isClusterDesign(plan) ? analytic?.clusters : undefined;
+  return (
+    <div className={`derived${stale || pending ? ' is-stale' : ''}`} aria-live="polite" data-testid="cluster-counts">
+      <h3>What the pools make</h3>
+      {c ? (
+        <dl>
+          <dt>{plan.groups.programme.label}</dt>
+          <dd data-testid="cluster-count-programme">
+            {fmtInt(plan.groups.programme.poolSize)} people = {fmtInt(c.clustersPerGroup.programme)} clusters of {fmtInt(c.size.programme)}
+          </dd>
+          <dt>{plan.groups.comparison.label}</dt>
+          <dd data-testid="cluster-count-comparison">
+            {fmtInt(plan.groups.comparison.poolSize)} people = {fmtInt(c.clustersPerGroup.comparison)} clusters of {fmtInt(c.size.comparison)}
+          </dd>
+          <dt>Reliability of a cluster&rsquo;s mean (λ)</dt>
+          <dd data-testid="derived-cluster-lambda">{fmtR(c.clusterMeanReliability.comparison, 3)}</dd>
+        </dl>
+      ) : (
+        <p>Shown once the pool sizes are whole numbers of clusters and the plan is complete.</p>
+      )}
+      {stale && c && <p className="stale-note">These are for the last complete plan.</p>}
+    </div>
+  );
+}
+
+/** Typical ICCs (core's ICC_PRESETS) offered as starting values, each with where it came from. */
+function IccPresetPicker() {
+  const [chosen, setChosen] = useState(ICC_PRESETS[0]?.id ?? '');
+  const apply = useMeanwardStore((s) => s.applyIccPreset);
+  const id = useId();
+  const preset = ICC_PRESETS.find((p) => p.id === chosen);
+  return (
+    <div className="field icc-presets" data-testid="icc-presets">
+      <label htmlFor={id} className="field-label">
+        Typical ICCs to start from
+      </label>
+      <div className="field-input-row">
+        <select id={id} value={chosen} onChange={(e) => setChosen(e.target.value)} aria-describedby={`${id}-src`}>
+          {ICC_PRESETS.map((p) => (
+            <option key={p.id} value={p.id}>
+              {p.label}: {fmtR(p.icc, 2)}
+            </option>
+          ))}
+        </select>
+      </div>
+      <div className="icc-preset-buttons">
+        <button type="button" onClick={() => apply('clusters.pretestICC', chosen)}>
+          Use as pretest ICC
+        </button>
+        <button type="button" onClick={() => apply('clusters.posttestICC', chosen)}>
+          Use as posttest ICC
+        </button>
+      </div>
+      <p id={`${id}-src`} className="field-hint">
+        {preset ? (
+          <>
+            {preset.conditioning === 'unconditional'
+              ? 'Of raw scores, which is what the ICCs here describe. '
+              : 'Of scores adjusted for a pretest: what is left between schools after a person-level adjustment, shown for comparison. '}
+            Source: {preset.source}. A starting value: replace it with one for your own population.
+          </>
+        ) : null}
+      </p>
+    </div>
+  );
+}
+
 function PretestSection({ n }: { n: number }) {
   const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
   const plan = useMeanwardStore(selectValidPlan);
@@ -389,18 +556,23 @@ function MatchingSection({ n }: { n: number }) {
   const selection = useMeanwardStore((s) => draftUsesSelection(s.draft));
   // With a rule, matching is on the pretest alone (the draft keeps another distance for existing groups).
   const typedDistance = useMeanwardStore((s) => s.draft.matching.distance);
-  const distance = selection ? 'pretest' : typedDistance;
+  const clustered = useMeanwardStore((s) => draftUsesClusters(s.draft));
+  const clusterLevel = useMeanwardStore((s) => (draftUsesClusters(s.draft) && s.draft.matching.level === 'clusters'));
+  const distance = selection || clustered ? 'pretest' : typedDistance;
   const hasCovariates = useMeanwardStore((s) => s.draft.covariates.length > 0);
+  const member = clusterLevel ? 'programme cluster' : 'programme member';
   return (
     <Section
       title={`${n}. The matching plan`}
       intro={
-        distance === 'pretest'
+        clusterLevel
+          ? 'Matching clusters on their observed pretest means: each programme cluster gets comparison clusters with a similar mean.'
+          : distance === 'pretest'
           ? 'Matching on the observed pretest: each programme member gets comparison partners with a similar score.'
           : 'Matching on all measured variables at once: each programme member gets comparison partners who are close on the chosen distance.'
       }
     >
-      {!selection && (hasCovariates || distance !== 'pretest') && (
+      {!selection && !clustered && (hasCovariates || distance !== 'pretest') && (
         <ChoiceField
           path="matching.distance"
           label="Match on"
@@ -424,7 +596,7 @@ function MatchingSection({ n }: { n: number }) {
       <NumberField
         path="matching.caliper"
         label="Caliper"
-        unit={CALIPER_UNIT[distance] ?? CALIPER_UNIT.pretest}
+        unit={clusterLevel ? 'SDs of the cluster means' : (CALIPER_UNIT[distance] ?? CALIPER_UNIT.pretest)}
         step={0.05}
         min={0.01}
         hint={
@@ -432,11 +604,17 @@ function MatchingSection({ n }: { n: number }) {
             ? 'Largest allowed difference in the logit of the propensity score; 0.2 SD is a common choice (Austin 2011). Programme members with no partner this close are dropped.'
             : distance === 'mahalanobis'
               ? 'Largest allowed Mahalanobis distance between partners on the measured variables; programme members with no partner this close are dropped.'
+              : clusterLevel
+              ? 'Largest allowed difference between the observed pretest means of partner clusters; programme clusters with no partner this close are dropped.'
               : 'Largest allowed pretest difference between partners; programme members with no partner this close are dropped.'
         }
       />
-      <NumberField path="matching.ratio" label="Ratio (partners per programme member)" unit="1 to 5" step={1} min={1} max={5} inputMode="numeric" hint="Comparison partners for each programme member." />
-      <CheckField path="matching.replacement" label="Allow a comparison person to be reused (with replacement)" hint="Reuse keeps more programme members but repeats some comparison people." />
+      <NumberField path="matching.ratio" label={`Ratio (partners per ${member})`} unit="1 to 5" step={1} min={1} max={5} inputMode="numeric" hint={`Comparison partners for each ${member}.`} />
+      <CheckField
+        path="matching.replacement"
+        label={clusterLevel ? 'Allow a comparison cluster to be reused (with replacement)' : 'Allow a comparison person to be reused (with replacement)'}
+        hint={clusterLevel ? 'Reuse keeps more programme clusters but repeats some comparison clusters.' : 'Reuse keeps more programme members but repeats some comparison people.'}
+      />
       <ChoiceField
         path="matching.order"
         label="Matching order"

@@ -8,12 +8,19 @@ export function RemediesPanel() {
   const stale = useMeanwardStore(selectAnalyticStale);
   if (!analytic) return null;
   const be = analytic.breakEven;
+  // Clusters matched on their means: the break-even figure is the reliability of a cluster's mean (λ), and core's note says how to reach it.
+  const clusterLevel = analytic.clusters?.level === 'clusters';
   return (
     <section className={`remedies${stale ? ' is-stale' : ''}`} aria-labelledby="remedies-heading">
       <h2 id="remedies-heading">What would fix it</h2>
       <div className="break-even" data-testid="break-even">
         <h3>Break-even reliability</h3>
-        {be.reliability !== null ? (
+        {be.reliability !== null && clusterLevel ? (
+          <p data-testid="break-even-cluster">
+            The matched comparison stays within your tolerable share if the reliability of a cluster&rsquo;s observed mean (λ) is at least{' '}
+            <strong>{fmtR(be.reliability, 3)}</strong>. {be.note}
+          </p>
+        ) : be.reliability !== null ? (
           <p>
             The matched comparison stays within your tolerable share if the pretest&rsquo;s within-group reliability is at least{' '}
             <strong>{fmtR(be.reliability, 3)}</strong>

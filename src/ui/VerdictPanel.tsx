@@ -1,10 +1,11 @@
 import { requireAnalysis } from '../core/presentAnalyses';
+import { DEFAULT_TARGET_POWER } from '../core/analysisSettings';
 import { headlineAnalysisId } from '../core/design/studyDesign';
-import type { AnalyticAnalysis, AnalyticResults, ArtefactVerdict, DesignSummary, UnmeasuredBias } from '../core/analyticResults';
+import type { AnalyticAnalysis, AnalyticResults, ArtefactVerdict, ClusterSummary, DesignSummary, UnmeasuredBias } from '../core/analyticResults';
 import type { MatchingDistance, Plan } from '../core/plan';
 import { selectAnalytic, selectAnalyticStale, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
-import { fmt, fmtPct, fmtSigned } from './format';
+import { fmt, fmtInt, fmtPct, fmtR, fmtSigned } from './format';
 
 /** What an artefact does to the conclusion, in plain words. */
 const VERDICT_WORDS: Record<ArtefactVerdict, { short: string; heading: string; sentence: string }> = {
@@ -67,6 +68,47 @@ function DesignNote({ design }: { design: DesignSummary }) {
 }
 
 /**
+ * A clusters design's own figures (core's ClusterSummary and the headline
+ * analysis' clusters needed and minimum detectable effect): the reliability
+ * of a cluster's mean and whether the same people sit the posttest, the
+ * design effect, and what the target power takes in clusters.
+ */
+export function ClusterFacts({ c, m, targetPower }: { c: ClusterSummary; m: AnalyticAnalysis; targetPower: number }) {
+  const same = c.cohort === 'same';
+  return (
+    <ul className="verdict-clusters" data-testid="verdict-clusters">
+      <li data-testid="verdict-cluster-lambda">
+        <strong>Reliability of a cluster&rsquo;s observed mean: λ = {fmtR(c.clusterMeanReliability.comparison, 3)}</strong> (
+        {fmtInt(c.size.comparison)} people tested per cluster, pretest ICC {fmtR(c.pretestICC, 2)}).{' '}
+        <span data-testid="verdict-cohort">
+          {same
+            ? 'The same people sit the posttest, so λ counts the test’s measurement error and which people happen to be in each cluster.'
+            : 'A new cohort sits the posttest, not the people who were tested, so λ is ICC(2): it counts which people were tested, whatever the test’s own reliability.'}
+        </span>
+      </li>
+      <li data-testid="verdict-design-effect">
+        Design effect (Kish): <strong>{fmt(c.designEffect.posttest, 2)}</strong> for the posttest
+        {c.designEffect.pretest !== c.designEffect.posttest && <> ({fmt(c.designEffect.pretest, 2)} for the pretest)</>}: a person-level analysis that ignores
+        the clustering treats the people as that many times more informative than they are, so its SEs are too small.
+      </li>
+      {m.feasible && m.clustersPerGroupNeeded !== undefined && (
+        <li data-testid="verdict-clusters-needed">
+          For {fmtPct(targetPower, 0)} power with the artefact included:{' '}
+          {m.clustersPerGroupNeeded === null ? (
+            <strong>no number of clusters is enough</strong>
+          ) : (
+            <>
+              <strong>{fmtInt(m.clustersPerGroupNeeded)} clusters per group</strong> ({fmtInt(m.requiredNPerGroup)} people)
+            </>
+          )}
+          ; the smallest effect this plan detects with that power is <strong data-testid="verdict-mde">{fmtSigned(m.minimumDetectableEffect)} points</strong>.
+        </li>
+      )}
+    </ul>
+  );
+}
+
+/**
  * The one-group verdict's lead: the change expected with no programme at all
  * (regression toward the mean, plus any growth) set beside the hoped-for
  * effect, then what that does to the estimate.
@@ -123,6 +165,9 @@ export function VerdictPanel() {
   const tauZero = analytic.tau === 0;
   const oneGroup = analytic.design.shape === 'one-group';
   const selection = analytic.design.kind === 'selection';
+  const clusters = analytic.clusters;
+  const clusterLevel = clusters?.level === 'clusters';
+  const matchedOn = clusterLevel ? 'clusters’ observed pretest means' : MATCHED_ON[analytic.matchingDistance ?? 'pretest'];
   return (
     <section
       className={`verdict verdict-${m.verdict}${stale ? ' is-stale' : ''}${pending ? ' is-pending' : ''}`}
@@ -146,7 +191,7 @@ export function VerdictPanel() {
         <OneGroupLead m={m} analytic={analytic} plan={plan} />
       ) : (
         <p className="verdict-lead" data-testid="verdict-lead">
-          Matching on {MATCHED_ON[analytic.matchingDistance ?? 'pretest']} is expected to shift the estimated effect by{' '}
+          Matching on {matchedOn} is expected to shift the estimated effect by{' '}
           <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
           {tauZero ? (
             <> when the hoped-for effect is zero.</>
@@ -205,19 +250,28 @@ export function VerdictPanel() {
                 (Kelley). Any artefact left comes from other differences between the groups.
               </>
             ) : (
+              clusterLevel ? (
+              <>
+                Why: matched clusters share an observed mean, but each cluster&rsquo;s true mean is pulled back toward its own group&rsquo;s mean
+                (Kelley, with the cluster mean&rsquo;s reliability λ), so part of the {fmt(Math.abs(analytic.model.pretestGap), 1)}-point pretest gap
+                between the groups survives matching.
+              </>
+              ) : (
               <>
                 Why: matched people share an observed score, but each person&rsquo;s true score is pulled back toward their own group&rsquo;s mean
                 (Kelley), so part of the {fmt(Math.abs(analytic.model.pretestGap), 1)}-point pretest gap between the groups survives matching.
                 {selection && <> Which analyses this touches depends on what the rule looked at: see the table below.</>}
               </>
+              )
             )}
           </li>
         )}
       </ul>
+      {clusters && <ClusterFacts c={clusters} m={m} targetPower={plan.analysis.targetPower ?? DEFAULT_TARGET_POWER} />}
       {analytic.unmeasuredBias && (plan.covariates?.length ?? 0) > 0 && <UnmeasuredPart u={analytic.unmeasuredBias} tauZero={tauZero} />}
       <p className="caution" role="note">
         <strong>A planning aid, not a verdict on your study.</strong> These figures hold under the stated assumptions (normal scores, linear
-        relations, the reliability and correlations you entered). They do not replace advice from a statistician or review by an ethics board.
+        relations, the reliability and correlations you entered{clusters ? ', equal cluster sizes and the ICCs you entered' : ''}). They do not replace advice from a statistician or review by an ethics board.
       </p>
     </section>
   );

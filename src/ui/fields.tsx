@@ -23,7 +23,8 @@ function useFieldBinding<V>(path: string) {
   const typeField = useMeanwardStore((s) => s.typeField);
   // Where the value came from (e.g. a pilot file), when the plan records it.
   const recorded = useMeanwardStore((s) => draftProvenance(s.draft)?.[path]);
-  const source = recorded?.source === 'pilot' ? recorded : undefined;
+  // Values from a pilot file, and starting values taken from a preset (recorded as entered, with their source), say where they came from.
+  const source = recorded?.source === 'pilot' || recorded?.source === 'entered' ? recorded : undefined;
   const hintId = `${id}-hint`;
   const errId = `${id}-err`;
   const srcId = `${id}-src`;

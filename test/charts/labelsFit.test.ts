@@ -71,4 +71,12 @@ describe('chart labels stay inside the chart and apart', () => {
     const simulation = simulatePlan(plan, { replications: 120, seed: 20260704 });
     expect(problems({ plan, analytic: analysePlan(plan), simulation })).toEqual([]);
   });
+
+  it('the schools example with a seeded simulation (one dot per school, 120 replications)', () => {
+    const ex = EXAMPLE_PLANS.find((e) => e.plan.clusters !== undefined)!;
+    const plan = structuredClone(ex.plan);
+    const simulation = simulatePlan(plan, { replications: 120, seed: 20260704 });
+    expect(simulation.example.pairs.length).toBeGreaterThan(0);
+    expect(problems({ plan, analytic: analysePlan(plan), simulation })).toEqual([]);
+  });
 });

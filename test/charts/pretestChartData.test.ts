@@ -2,6 +2,10 @@ import { describe, expect, it } from 'vitest';
 import * as d3 from 'd3';
 import { groupsPretestChartData as pretestChartData } from '../../src/charts/pretestChartData';
 import { closedFormInput, simulatedInput } from './fixtures';
+import { groupsPretestChartData } from '../../src/charts/pretestChartData';
+import { analysePlan } from '../../src/core/analysePlan';
+import { SCHOOLS_MATCHED_ON_MEANS } from '../../src/io/examplePlans';
+import { simulatePlan } from '../../src/sim/simulatePlan';
 
 describe('pretestChartData', () => {
   it('closed form: matched true-score means are mu_g + rho_g (xbar - mu_g) at the programme mean', () => {
@@ -74,5 +78,30 @@ describe('pretestChartData', () => {
 
   it('is deterministic (same input, same data)', () => {
     expect(pretestChartData(simulatedInput())).toEqual(pretestChartData(simulatedInput()));
+  });
+});
+
+describe('pretest chart of clusters matched on their means (invented schools example)', () => {
+  it('draws the cluster means: SD and reliability are those of a cluster mean, and the hidden gap is Thorndike’s (1 − λ)Δ', () => {
+    const plan = structuredClone(SCHOOLS_MATCHED_ON_MEANS);
+    const data = groupsPretestChartData({ plan, analytic: analysePlan(plan), simulation: null });
+    expect(data.units).toBe('clusters');
+    // Var of an observed cluster mean = ICC·SD² + (1 − ICC)·SD²/n = 45 + 180/25 = 52.2 (common practice); SD 7.225.
+    expect(data.groups.comparison.observedSD).toBeCloseTo(Math.sqrt(52.2), 10);
+    // λ = ICC(2) = 25 × .2 / (1 + 24 × .2) = 5/5.8 (Bliese 2000), new cohort.
+    expect(data.groups.comparison.reliability).toBeCloseTo(5 / 5.8, 10);
+    // Exact matching on the observed mean leaves (1 − λ)Δ of the true gap, Δ = −8 (Thorndike 1942 at cluster level): −1.103.
+    expect(data.kelley.hiddenGap).toBeCloseTo((1 - 5 / 5.8) * -8, 10);
+    expect(data.xLabel).toMatch(/mean of a cluster/);
+  });
+
+  it('with a seeded simulation, one mark per matched school from the example replication', () => {
+    const plan = structuredClone(SCHOOLS_MATCHED_ON_MEANS);
+    const simulation = simulatePlan(plan, { replications: 20, seed: 3 });
+    const data = groupsPretestChartData({ plan, analytic: analysePlan(plan), simulation });
+    expect(data.example?.programme.length).toBe(simulation.example.pairs.length);
+    // At most the 30 programme schools (ratio 1): marks are schools, not pupils.
+    expect(data.example!.programme.length).toBeLessThanOrEqual(30);
+    expect(data.example!.programme.length + data.example!.discarded).toBe(30);
   });
 });

@@ -18,7 +18,7 @@ import { rankRemedies } from '../../src/core/rankRemedies';
 import { validatePlan } from '../../src/core/validatePlan';
 import { demoPlan } from '../../src/io/demoPlan';
 import { EXAMPLE_PLANS } from '../../src/io/examplePlans';
-import { isSelectionDesign } from '../../src/core/design/studyDesign';
+import { isClusterDesign, isSelectionDesign } from '../../src/core/design/studyDesign';
 import { drawnBasePlan, drawnCovariates } from './drawnCovariatePlan';
 import { covariate, identity, oneFactor, planWithCovariates } from './multivariateFixture';
 
@@ -50,7 +50,7 @@ function unequalDemo(): Plan {
 
 describe('plans without covariates keep the one-pretest path exactly', () => {
   // Existing groups only: with a rule, matching is on the pretest by design and no covariate path exists.
-  const cases: Array<[string, Plan]> = EXAMPLE_PLANS.filter((e) => !e.plan.covariates && !isSelectionDesign(e.plan)).flatMap((e) => {
+  const cases: Array<[string, Plan]> = EXAMPLE_PLANS.filter((e) => !e.plan.covariates && !isSelectionDesign(e.plan) && !isClusterDesign(e.plan)).flatMap((e) => {
     const unset = structuredClone(e.plan);
     delete unset.matching.distance;
     const pretest = structuredClone(e.plan);

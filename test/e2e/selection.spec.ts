@@ -5,65 +5,19 @@
 // same core functions run in Node (2-decimal display; tolerance 0.01 for the
 // quick simulation of the planned procedure, exact for closed forms).
 import AxeBuilder from '@axe-core/playwright';
-import { expect, test, type Page } from '@playwright/test';
+import { expect, test } from '@playwright/test';
 import { analysePlan } from '../../src/core/analysePlan';
 import { demoPlan } from '../../src/io/demoPlan';
 import { CLINIC_HIGH_READINGS, SCREENED_READING_SUPPORT } from '../../src/io/examplePlans';
 import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
 import { fmtSigned } from '../../src/ui/format';
-import { clippedChartLabels, openFreshPlanner, shownNumber, trackForeignRequests, waitForPlannedFigures } from './plannerHelpers';
+import { choose, clippedChartLabels, openFreshPlanner, shownNumber, startAtPlanTitle, trackForeignRequests, typeInto, waitForPlannedFigures } from './plannerHelpers';
 
 const SHOTS = 'test-results/screens';
 
 test.beforeEach(async ({ page }) => {
   await openFreshPlanner(page);
 });
-
-/** The accessible name of the focused element (its label's text), for moving by Tab. */
-async function focusedName(page: Page): Promise<string> {
-  return page.evaluate(() => {
-    const el = document.activeElement as HTMLElement | null;
-    if (!el) return '';
-    const id = el.id;
-    const label = id ? document.querySelector(`label[for="${CSS.escape(id)}"]`) : null;
-    return (label?.textContent ?? el.getAttribute('aria-label') ?? el.textContent ?? '').trim();
-  });
-}
-
-/** Press Tab (forwards only) until the focused control's label starts with `name`; fails after 250 presses. */
-async function tabTo(page: Page, name: string): Promise<void> {
-  for (let i = 0; i < 250; i++) {
-    if ((await focusedName(page)).startsWith(name)) return;
-    await page.keyboard.press('Tab');
-  }
-  throw new Error(`No control labelled "${name}" reached by Tab.`);
-}
-
-/** Tab to a text box, select its contents and type a value, as a keyboard user would. */
-async function typeInto(page: Page, name: string, value: string): Promise<void> {
-  await tabTo(page, name);
-  await page.keyboard.press('Control+A');
-  await page.keyboard.type(value);
-}
-
-/** Tab to a drop-down and move through its options with the arrow keys until `option` is chosen. */
-async function choose(page: Page, name: string, option: string): Promise<void> {
-  await tabTo(page, name);
-  const current = () => page.evaluate(() => (document.activeElement as HTMLSelectElement).selectedOptions[0]?.textContent ?? '');
-  for (const key of ['ArrowDown', 'ArrowUp']) {
-    for (let i = 0; i < 6; i++) {
-      if ((await current()) === option) return;
-      await page.keyboard.press(key);
-    }
-  }
-  throw new Error(`"${name}" has no option "${option}" within reach of the arrow keys.`);
-}
-
-/** Start from the top of the form with the keyboard: focus the page, then Tab forwards from the plan title. */
-async function startAtPlanTitle(page: Page): Promise<void> {
-  await page.keyboard.press('Tab');
-  await tabTo(page, 'Plan title');
-}
 
 test('a screened cut-off study, entered by keyboard: the verdict names the rule, five analyses, no axe violations', async ({ page }) => {
   const foreign = trackForeignRequests(page);

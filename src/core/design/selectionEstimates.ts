@@ -147,5 +147,7 @@ export function selectionArtefact(
       return selectionMatchedFigures(m).artefact;
     case 'prePostChange':
       return (m.programme.mean[SEL_OUTCOME] as number) - (m.programme.mean[SEL_PRETEST] as number);
+    case 'personLevelAncova':
+      throw new Error('The person-level ANCOVA belongs to clustered designs, not to a selection rule.');
   }
 }

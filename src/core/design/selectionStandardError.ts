@@ -129,6 +129,8 @@ export function selectionStandardError(
       out = { ...at(n), design: at, nProgramme: n, nComparison: n * k };
       break;
     }
+    case 'personLevelAncova':
+      throw new Error('The person-level ANCOVA belongs to clustered designs, not to a selection rule.');
     case 'prePostChange': {
       const v = gainVariance(m.programme);
       const at = (n: number) => ({ se: Math.sqrt(v / Math.max(2, n)), df: Math.max(1, n - 1) });

@@ -14,6 +14,7 @@ const SHORT: Record<AnalysisId, string> = {
   correctedAncova: 'the reliability-corrected ANCOVA',
   regressionDiscontinuity: 'regression discontinuity',
   prePostChange: 'the pre–post change',
+  personLevelAncova: 'the person-level ANCOVA',
 };
 
 /**

@@ -1,4 +1,4 @@
-import type { AnalysisId, AssignmentBasis, Plan, SelectionSide, StudyShape } from '../plan';
+import type { AnalysisId, AssignmentBasis, ClusterCohort, MatchingLevel, Plan, SelectionSide, StudyShape } from '../plan';
 import { TWO_GROUP_ANALYSIS_IDS } from '../plan';
 
 /**
@@ -11,12 +11,15 @@ import { TWO_GROUP_ANALYSIS_IDS } from '../plan';
  *    (observed pretest, a separate screener, or the true score) decides who
  *    is in the programme; shape 'two-groups' compares the selected with the
  *    rest, 'one-group' re-measures the selected only.
- * Clusters will be a third kind here. Adding a design means: a case in
+ *  - 'clusters': two existing groups whose people sit in clusters (schools,
+ *    classes, clinics); clusters or people are matched, and the analyses work
+ *    on cluster means or at person level with cluster-robust SEs.
+ * Adding a design means: a case in
  * StudyDesign and studyDesign(), its analyses in designAnalysisIds, its
  * closed forms behind analysePlan's dispatch (src/core/analysePlan.ts) and
  * its pool drawer behind the engine's (src/sim/multivariate/createPlanSimulation.ts).
  */
-export type StudyDesign = ExistingGroupsDesign | SelectionDesign;
+export type StudyDesign = ExistingGroupsDesign | SelectionDesign | ClustersDesign;
 
 export interface ExistingGroupsDesign {
   kind: 'existing-groups';
@@ -37,6 +40,27 @@ export interface SelectionDesign {
 }
 
 /**
+ * Two existing groups made of whole clusters. Sizes are kept per group (and
+ * the code reads them per group) so that unequal cluster sizes can come later;
+ * today every cluster in a plan has `clusters.size` people.
+ */
+export interface ClustersDesign {
+  kind: 'clusters';
+  shape: 'two-groups';
+  /** People tested per cluster, per group. */
+  clusterSize: { programme: number; comparison: number };
+  /** Clusters in each pool (poolSize / clusterSize). */
+  clusterCount: { programme: number; comparison: number };
+  /** ICC of the observed pretest within a group. */
+  pretestICC: number;
+  /** ICC of the observed posttest within the comparison group (default pretestICC). */
+  posttestICC: number;
+  cohort: ClusterCohort;
+  /** What matching pairs up (default 'people'). */
+  level: MatchingLevel;
+}
+
+/**
  * The plan's design, with defaults filled in.
  * Reference: none (plan reading). @param plan a validated plan.
  * @returns the design. @throws Error when a selection rule lacks a field validation requires.
@@ -45,6 +69,23 @@ export interface SelectionDesign {
 export function studyDesign(plan: Plan): StudyDesign {
   const a = plan.assignment;
   const shape = plan.design ?? 'two-groups';
+  const c = plan.clusters;
+  if (c !== undefined && (a === undefined || a.rule === 'existing-groups') && shape === 'two-groups') {
+    const size = { programme: c.size, comparison: c.size };
+    return {
+      kind: 'clusters',
+      shape: 'two-groups',
+      clusterSize: size,
+      clusterCount: {
+        programme: Math.floor(plan.groups.programme.poolSize / size.programme),
+        comparison: Math.floor(plan.groups.comparison.poolSize / size.comparison),
+      },
+      pretestICC: c.pretestICC,
+      posttestICC: c.posttestICC ?? c.pretestICC,
+      cohort: c.cohort,
+      level: plan.matching.level ?? 'people',
+    };
+  }
   if ((a === undefined || a.rule === 'existing-groups') && shape === 'two-groups') return { kind: 'existing-groups', shape: 'two-groups' };
   if (a === undefined || a.rule === 'existing-groups' || a.basis === undefined || a.cutOff === undefined || a.side === undefined) {
     throw new Error('A one-group study or a selection rule needs assignment.rule ("cut-off" or "probability"), basis, cutOff and side.');
@@ -66,15 +107,26 @@ export function isSelectionDesign(plan: Plan): boolean {
   return studyDesign(plan).kind === 'selection';
 }
 
+/** Whether the plan's people sit in clusters (the clusters design). */
+export function isClusterDesign(plan: Plan): boolean {
+  return studyDesign(plan).kind === 'clusters';
+}
+
+/** The analyses of a clusters design, in display order. */
+export const CLUSTER_ANALYSIS_IDS = ['matchedDifference', 'ancova', 'gainScore', 'personLevelAncova'] as const;
+
 /**
  * The analyses a design has, in display order: the four two-group analyses
- * for existing groups; the same plus regressionDiscontinuity for a rule on
+ * for existing groups; for clusters the matched difference (of cluster
+ * means, or of people), ANCOVA and the gain score on cluster means, and the
+ * person-level ANCOVA with cluster-robust SEs; the same plus regressionDiscontinuity for a rule on
  * an observed basis (pretest or screener); prePostChange alone for a one-group study.
  * @example designAnalysisIds(demoPlan()) // ['matchedDifference', 'ancova', 'gainScore', 'correctedAncova']
  */
 export function designAnalysisIds(plan: Plan): AnalysisId[] {
   const d = studyDesign(plan);
   if (d.kind === 'existing-groups') return [...TWO_GROUP_ANALYSIS_IDS];
+  if (d.kind === 'clusters') return [...CLUSTER_ANALYSIS_IDS];
   if (d.shape === 'one-group') return ['prePostChange'];
   return d.basis === 'true-score' ? [...TWO_GROUP_ANALYSIS_IDS] : [...TWO_GROUP_ANALYSIS_IDS, 'regressionDiscontinuity'];
 }

@@ -41,6 +41,9 @@ import { isFeasible, type SimAnalysisResult, type SimMatchingSummary, type Simul
 import { Xoshiro128StarStar } from '../xoshiro128StarStar';
 import { clearPoolsMatching, createPoolsMatching, matchPoolsOnPretest, type PoolsMatching } from './matchPoolsOnPretest';
 import { createDrawnPools, type DrawnPools, type PoolDrawer } from './poolDrawer';
+import { ClusterWork } from './clusterAnalyses';
+import { summariseAnalysis } from '../summariseAnalysis';
+import { SLOT_MATCHED_NAIVE, SLOT_PERSON_NAIVE } from '../analysisRecords';
 
 
 // One group's moments in the full sample (offsets within a block of G_COUNT).
@@ -104,8 +107,23 @@ export function createPoolsSimulation(plan: Plan, options: SimulationOptions, dr
     summarisePretestMatchingRecords(rec, recOk, count, Math.max(1, plan.groups.programme.poolSize), true);
   return steppedSimulationRun(total, seed, runner, (count) => {
     const result = assembleSimulationResult(plan, seed, count, runner.records, matching(count), runner.example);
+    if (runner.cluster) result.naivePersonLevel = naivePersonLevel(runner, count);
     return explainNoOverlap(result, runner.noOverlap, count);
   });
+}
+
+/**
+ * Clusters: the person-level figures with the naive SEs that ignore the
+ * clustering (OLS for the person-level ANCOVA; the one-level matching-weights
+ * SE when people are matched across clusters), summarised like the others.
+ */
+function naivePersonLevel(runner: PoolsRunner, count: number): NonNullable<SimulationResult['naivePersonLevel']> {
+  const r = runner.records;
+  const at = (id: 'personLevelAncova' | 'matchedDifference', slot: number, sample: 'full' | 'matched') =>
+    summariseAnalysis(id, r.est[slot] as Float64Array, r.se[slot] as Float64Array, r.flags[slot] as Uint8Array, count, r.tau, sample);
+  const out: NonNullable<SimulationResult['naivePersonLevel']> = { personLevelAncova: at('personLevelAncova', SLOT_PERSON_NAIVE, 'full') };
+  if (runner.cluster && !runner.cluster.layout.matchClusters) out.matchedDifference = at('matchedDifference', SLOT_MATCHED_NAIVE, 'matched');
+  return out;
 }
 
 /**
@@ -161,6 +179,8 @@ class PoolsRunner {
   /** 1 where the replication's two groups had no overlap in the observed pretest (nobody could be matched). */
   readonly noOverlap: Uint8Array;
   example: SimulationResult['example'] | null = null;
+  /** Clusters only: the cluster means and the person-level work (null for other designs). */
+  readonly cluster: ClusterWork | null;
 
   constructor(plan: Plan, drawer: PoolDrawer, ids: readonly AnalysisId[], total: number, seed: number) {
     this.seed = seed;
@@ -192,11 +212,13 @@ class PoolsRunner {
     for (let r = 0; r < M_COUNT; r++) this.rec.push(new Float64Array(total));
     this.recOk = new Uint8Array(total);
     this.noOverlap = new Uint8Array(total);
+    this.cluster = drawer.clusters ? new ClusterWork(drawer.clusters) : null;
+    if (this.cluster && this.cluster.layout.matchClusters) this.stacked.columns = [this.cluster.units.observed];
   }
 
   /** Full-sample moments of rows [from, to) into block `at` of g (two passes: means, then centred sums). */
-  private groupMoments(from: number, to: number, at: number): void {
-    const { observed: x, outcome: y, trueScore: t, basis: b } = this.pools;
+  private groupMoments(pools: DrawnPools, from: number, to: number, at: number): void {
+    const { observed: x, outcome: y, trueScore: t, basis: b } = pools;
     const g = this.g;
     const withBasis = this.doRD;
     const n = to - from;
@@ -274,11 +296,15 @@ class PoolsRunner {
     this.rng.reseed(this.seed, i);
     this.normal.reset();
     this.drawer.draw(this.normal, this.rng, pools);
-    const nC = pools.nComparison;
-    const nP = pools.nProgramme;
+    // Clusters: the full-sample analyses run on the cluster means; matching on them or on people.
+    const cluster = this.cluster;
+    if (cluster) cluster.fillClusters(pools);
+    const units = cluster ? cluster.units : pools;
+    const nC = units.nComparison;
+    const nP = units.nProgramme;
     const N = nC + nP;
-    this.groupMoments(0, nC, 0);
-    this.groupMoments(nC, N, G_COUNT);
+    this.groupMoments(units, 0, nC, 0);
+    this.groupMoments(units, nC, N, G_COUNT);
     const P = G_COUNT;
     const sxxP = g[P + G_SXX] as number, sxyP = g[P + G_SXY] as number, syyP = g[P + G_SYY] as number;
     const sxxC = g[G_SXX] as number, sxyC = g[G_SXY] as number, syyC = g[G_SYY] as number;
@@ -292,6 +318,38 @@ class PoolsRunner {
     if (this.doGain && gainScoreEstimate(nP, myP - mxP, syyP - 2 * sxyP + sxxP, nC, myC - mxC, syyC - 2 * sxyC + sxxC, out)) records.record(SLOT_GAIN, i, out[0] as number, out[1] as number, out[2] as number);
     if (this.doRD && regressionDiscontinuityEstimate(this.fillMoments(true), out)) records.record(SLOT_RD, i, out[0] as number, out[1] as number, out[2] as number);
     if (this.doPrePost && prePostChangeEstimate(nP, myP - mxP, syyP - 2 * sxyP + sxxP, out)) records.record(SLOT_PRE_POST, i, out[0] as number, out[1] as number, out[2] as number);
+    if (cluster) {
+      cluster.personLevel(i, records);
+      if (!cluster.layout.matchClusters) this.matchPeopleAcrossClusters(i, cluster);
+      else this.matchAndBalance(i, units);
+      return;
+    }
+    this.matchAndBalance(i, pools);
+  }
+
+  /** People matched across clusters: balance and matching on the people, then the cluster-robust SE. */
+  private matchPeopleAcrossClusters(i: number, cluster: ClusterWork): void {
+    const pools = this.pools;
+    this.groupMoments(pools, 0, pools.nComparison, 0);
+    this.groupMoments(pools, pools.nComparison, pools.nComparison + pools.nProgramme, G_COUNT);
+    // Pooled within-group slope of Y on X over all people: the cluster-robust SE uses Y − bX.
+    const g = this.g;
+    const sxx = (g[G_SXX] as number) + (g[G_COUNT + G_SXX] as number);
+    const slope = sxx > 0 ? ((g[G_SXY] as number) + (g[G_COUNT + G_SXY] as number)) / sxx : 0;
+    this.matchAndBalance(i, pools);
+    if (this.doMatch) cluster.peopleMatched(i, this.records, this.ws, pools, slope);
+  }
+
+  /** Balance before matching, matching on the observed pretest and the matched-sample analyses, on `pools` (people, or cluster means). */
+  private matchAndBalance(i: number, pools: DrawnPools): void {
+    const g = this.g;
+    const nC = pools.nComparison;
+    const nP = pools.nProgramme;
+    const P = G_COUNT;
+    const sxxP = g[P + G_SXX] as number;
+    const sxxC = g[G_SXX] as number, sxyC = g[G_SXY] as number, syyC = g[G_SYY] as number;
+    const mxP = g[P + G_MX] as number;
+    const mxC = g[G_MX] as number;
 
     // Balance before matching.
     const rec = this.rec;
@@ -320,11 +378,11 @@ class PoolsRunner {
         this.noOverlap[i] = 0;
         // Caliper in pooled SDs of this replication's observed pretest (Cochran & Rubin 1973).
         this.settings.caliper = this.caliperSD * obsPooledSD;
-        m = matchPoolsOnPretest(pools.observed, nC, nP, this.settings, this.rng, this.ws, this.drawer.sortedByPretest);
+        m = matchPoolsOnPretest(pools.observed, nC, nP, this.settings, this.rng, this.ws, this.drawer.sortedByPretest && pools === this.pools);
       }
       // The comparison group's conditional variance of Y given X (full pool): the reuse terms' sigma².
       const sigma2C = sxxC > 0 && nC > 2 ? Math.max(0, syyC - (sxyC * sxyC) / sxxC) / (nC - 2) : 0;
-      ok = this.matchedSample(i, m, nC, nP, sigma2C, obsPooledSD, truePooledSD);
+      ok = this.matchedSample(pools, i, m, nC, nP, sigma2C, obsPooledSD, truePooledSD);
       if (i === 0) this.example = exampleReplication(this.ws, pools, nC, pools);
     } else if (this.doMatch) {
       clearPoolsMatching(this.ws, nC, nP);
@@ -338,8 +396,8 @@ class PoolsRunner {
    * The matched difference, ANCOVA in the stacked matched sample and the balance after matching
    * (the one-pretest engine's formulas, rows by pool position). Returns the replication's balance flags.
    */
-  private matchedSample(i: number, m: number, nC: number, nP: number, sigma2C: number, obsPooledSD: number, truePooledSD: number): number {
-    const { pools, ws, weights, moments, out, g, rec, k } = this;
+  private matchedSample(pools: DrawnPools, i: number, m: number, nC: number, nP: number, sigma2C: number, obsPooledSD: number, truePooledSD: number): number {
+    const { ws, weights, moments, out, g, rec, k } = this;
     const { observed: x, trueScore: t, outcome: y } = pools;
     const P = G_COUNT;
     const cx0 = g[G_MX] as number, cy0 = g[G_MY] as number, ct0 = g[G_MT] as number;

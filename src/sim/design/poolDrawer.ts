@@ -1,5 +1,6 @@
 import type { NormalSampler } from '../normalSampler';
 import type { RandomSource } from '../randomSource';
+import type { ClusterLayout } from './clusterPoolDrawer';
 
 /**
  * One replication's people, as a design's drawer leaves them for the pools
@@ -45,6 +46,12 @@ export interface PoolDrawer {
    * as a sorted sample), so matching needs no sort.
    */
   readonly sortedByPretest: boolean;
+  /**
+   * Present when people sit in clusters (clusterPoolDrawer): where each
+   * cluster's rows are. The engine then runs the full-sample analyses on the
+   * cluster means, matches clusters or people, and adds the person-level ANCOVA.
+   */
+  readonly clusters?: ClusterLayout;
   /**
    * Draw one replication's people into `pools` (and set its two sizes), using
    * only `normal` and `rng` (already reseeded for the replication), so the same

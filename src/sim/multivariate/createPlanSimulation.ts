@@ -4,6 +4,7 @@ import type { Plan } from '../../core/plan';
 import { createSimulation, type SimulationOptions, type SimulationRun } from '../createSimulation';
 import { createPoolsSimulation } from '../design/createPoolsSimulation';
 import { selectionPoolDrawer } from '../design/selectionPoolDrawer';
+import { clusterPoolDrawer } from '../design/clusterPoolDrawer';
 import { createMultivariateSimulation } from './createMultivariateSimulation';
 
 /**
@@ -15,6 +16,8 @@ import { createMultivariateSimulation } from './createMultivariateSimulation';
  *  - two existing groups with covariates, or matching on a propensity score or
  *    Mahalanobis distance (usesCovariateModel): the several-covariate engine
  *    (createMultivariateSimulation);
+ *  - people in clusters (a clusters section): the pools engine with the
+ *    cluster drawer (createPoolsSimulation + clusterPoolDrawer);
  *  - every other plan: the one-pretest engine (createSimulation), untouched, so
  *    a plan without covariates gives exactly the numbers it always gave.
  * A new design adds a pool drawer (src/sim/design/) and one case here.
@@ -30,6 +33,8 @@ export function createPlanSimulation(plan: Plan, options: SimulationOptions = {}
   switch (design.kind) {
     case 'selection':
       return createPoolsSimulation(plan, options, selectionPoolDrawer(plan));
+    case 'clusters':
+      return createPoolsSimulation(plan, options, clusterPoolDrawer(plan));
     case 'existing-groups':
       return usesCovariateModel(plan) ? createMultivariateSimulation(plan, options) : createSimulation(plan, options);
   }
