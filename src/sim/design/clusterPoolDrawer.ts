@@ -38,7 +38,9 @@ export interface ClusterPoolDrawer extends PoolDrawer {
  * outcome Y = d_g + tau·[P] + beta·T* + w_j + N(0, σ²_e), T* = T for the same
  * people, or mu_g + u_j + v' with a new person's own v' for a new cohort (row
  * i then holds a pretest taker's X and T and a posttest taker's Y). Rows are
- * drawn plainly (no sorted samples); `trueScore` is the pretest taker's T.
+ * drawn plainly (no sorted samples); `trueScore` is the pretest taker's T for the
+ * same people, and the cluster's true mean for a new cohort (what balance after
+ * matching must compare: the part of the pretest the posttest takers share).
  *
  * @param plan a validated plan with a clusters section.
  * @returns the drawer (capacity = both pools' people).
@@ -121,7 +123,9 @@ class ClusterDrawer implements ClusterPoolDrawer {
       const sw = this.withinSD[c] as number;
       for (let i = start[c] as number, end = start[c + 1] as number; i < end; i++) {
         const t = clusterMean + sw * (z[i] as number);
-        trueScore[i] = t;
+        // The true score the balance figures compare: the person's own for the same people; for a new
+        // cohort the cluster's true mean, the only part of the pretest the posttest takers share.
+        trueScore[i] = sameCohort ? t : clusterMean;
         observed[i] = t + sem * (z[N + i] as number);
         const taker = sameCohort ? t : clusterMean + sw * (z[3 * N + i] as number);
         outcome[i] = yBase + beta * taker + outcomePersonSD * (z[2 * N + i] as number);
