@@ -16,6 +16,7 @@ import { formatSimulationTable } from './formatSimulationTable';
 import { createProgressBar, type ProgressStream } from './progressBar';
 import { simulationJson, type SimulationJson } from './simulationJson';
 import { runPilotCommand } from './pilotCommand';
+import { runMethodsCommand } from './methodsCommand';
 import { readInputFile } from './readInputFile';
 import { capProblemList } from '../core/capProblemList';
 import { plainErrorMessage } from '../core/plainErrorMessage';
@@ -48,6 +49,7 @@ Usage:
                  (--pretest COLUMN | --items COL,COL,...) [--combine sum|mean]
                  [--retest COLUMN] [--posttest COLUMN] [--delimiter ,|tab|;]
                  [--no-header] [--json]
+  meanward methods <plan.json> [--format md|docx] [-o FILE]
   meanward demo            print the built-in demo plan (an invented example)
   meanward --help          this text
 
@@ -74,6 +76,12 @@ pilot: estimate plan inputs from a pilot (or earlier-wave) CSV/TSV file: group
   --no-header          the first row is data; columns are "column 1", "column 2", ...
   --json               print the estimates as one JSON object
   The file never leaves this machine. See docs/pilot-data.md.
+
+methods: a methods paragraph for a proposal or pre-registration (design,
+  matching, reliability and its source, the expected artefact, power,
+  references and the planning caution), from the same figures as "run --no-sim".
+  --format md    Markdown (the default), on stdout or in -o FILE
+  --format docx  a Word document; needs -o FILE
 
 With covariates in the plan, the matched difference is for the plan's matching
 distance, ANCOVA adjusts for every measured covariate, and the results add the
@@ -125,6 +133,15 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
     const bad = firstNonFinite(pilot.estimates, 'estimates');
     if (bad !== null) return failWith(io, [`${FAULT_LINE} (The pilot estimate ${bad} is not a finite number.)`], EXIT_INTERNAL);
     io.stdout.write(visibleOutput(pilot.output, cmd.json));
+    return EXIT_OK;
+  }
+
+  if (cmd.command === 'methods') {
+    // The text and its figures come from src/core (methodsText over analysePlannedProcedure); this only writes it.
+    const methods = await runMethodsCommand(cmd);
+    if (!methods.ok) return failWith(io, methods.problems);
+    if (methods.wrote !== null) io.stderr.write(`meanward: wrote the methods text to ${showControlCharacters(methods.wrote)}.\n`);
+    else io.stdout.write(visibleOutput(methods.stdout, false));
     return EXIT_OK;
   }
 
