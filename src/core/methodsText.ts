@@ -233,12 +233,12 @@ function designParagraph(plan: Plan, r: AnalyticResults, cite: Cite): MethodsPar
   const matched = r.analyses.matchedDifference;
   if (matched !== undefined) {
     const m = plan.matching;
+    const unit = r.clusters?.level === 'clusters' ? 'cluster' : 'member';
     const ratio = m.ratio === 1 ? 'one comparison partner' : `${m.ratio} comparison partners`;
     const how = m.method === 'nearest' ? 'the nearest available' : 'drawn at random from those';
     const order = m.replacement
       ? 'with replacement'
-      : `without replacement, programme members choosing ${m.order === 'lowest-first' ? 'lowest score first' : m.order === 'highest-first' ? 'highest score first' : 'in random order'}`;
-    const unit = r.clusters?.level === 'clusters' ? 'cluster' : 'member';
+      : `without replacement, programme ${unit}s choosing ${m.order === 'lowest-first' ? 'lowest score first' : m.order === 'highest-first' ? 'highest score first' : 'in random order'}`;
     p.push(
       `Each programme ${unit} will be matched to ${ratio.replace('partner', unit === 'cluster' ? 'cluster' : 'partner')} (${how} within a caliper of `, input(m.caliper, 'matching.caliper'),
       ` ${caliperUnit(plan, r)}) on ${matchingBasis(plan, r, cite)}, ${order} ${cite('cochranRubin')}. `,
@@ -328,12 +328,11 @@ function artefactParagraph(plan: Plan, r: AnalyticResults, cite: Cite): MethodsP
     if (a.biasShare !== null) p.push(' (', res(a.biasShare, 'share', `analyses.${id}.biasShare`), ' of the effect)');
     p.push(i === list.length - 1 ? '. ' : '; ');
   });
-  const cites = list.some(([id]) => id === 'ancova' || id === 'correctedAncova') ? ` ${cite('lord', 'porter')}` : '';
   if (plan.outcome.growthGap !== 0) {
     p.push('These include an assumed growth gap of ', input(plan.outcome.growthGap, 'outcome.growthGap'), ' points between the groups that is not the programme’s effect. ');
   }
   if (list.some(([id]) => id === 'correctedAncova')) {
-    p.push(`The reliability-corrected ANCOVA assumes a reliability of `, input(plan.analysis.assumedReliability, 'analysis.assumedReliability'), `${cites}. `);
+    p.push(`The reliability-corrected ANCOVA assumes a reliability of `, input(plan.analysis.assumedReliability, 'analysis.assumedReliability'), ` ${cite('lord', 'porter')}. `);
   }
   if (list.some(([id]) => id === 'regressionDiscontinuity')) {
     p.push(`A regression discontinuity estimate is less precise than a randomised comparison of the same size ${cite('goldberger')}. `);
