@@ -28,7 +28,7 @@ const LANES = [
 const BOTTOM = 56;
 const LINE = lineHeight(FONT.tick);
 /** Wide charts: the variable's header column and the lane-name column, in px. */
-const HEAD_W = 164;
+const HEAD_W = 172;
 const LANE_LABEL_W = 84;
 /** Compact charts: a lane is a text line (name and values) over its bars. */
 const COMPACT_LANE_H = 32;
