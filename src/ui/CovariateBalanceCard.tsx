@@ -19,8 +19,8 @@ const drawCovariateBalance: DrawChart<CovariateBalanceChartData> = (svg, data, w
  * note where the variance ratio falls outside 0.5–2, with its text and table
  * alternative (the table keeps the trade's terms). Its figures come from the
  * simulation of this plan when there is one, else from core's closed form
- * (exact matching, unlimited pool). Table rows that look balanced but are not,
- * or whose spread differs, are flagged.
+ * (exact matching, unlimited pool). Table rows whose variance ratio falls
+ * outside 0.5–2 are flagged (the ratio shown in the warning colour).
  */
 export function CovariateBalanceCard({ input, simulationOutOfDate }: { input: ChartInput; simulationOutOfDate: boolean }) {
   const built = useMemo(
@@ -42,7 +42,7 @@ export function CovariateBalanceCard({ input, simulationOutOfDate }: { input: Ch
           Balance on each covariate appears once the plan is complete{simulationOutOfDate ? ' (the last simulation is for an earlier plan)' : ''}.
         </p>
       }
-      rowClassName={(i) => (data?.rows[i]?.varianceRatioOutside || data?.rows[i]?.status === 'hidden' ? 'is-flagged' : undefined)}
+      rowClassName={(i) => (data?.rows[i]?.varianceRatioOutside ? 'is-flagged' : undefined)}
     />
   );
 }
