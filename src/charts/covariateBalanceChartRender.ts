@@ -1,108 +1,176 @@
 import * as d3 from 'd3';
 import type { ChartSize, RenderOptions } from './chartTypes';
-import type { CovariateBalanceChartData } from './covariateBalanceChartData';
-import { covariateBalanceChartText } from './covariateBalanceChartText';
+import type { CovariateBalanceChartData, CovariateBalanceRow, CovariateBalanceStatus } from './covariateBalanceChartData';
+import { COVARIATE_BALANCE_STATUS_WORDS, covariateBalanceChartText } from './covariateBalanceChartText';
 import { ANALYSIS_STYLES, DIMMED_OPACITY, GROUP_COLOURS } from './palette';
-import {
-  COMPACT_WIDTH,
-  FONT,
-  add,
-  axisBottom,
-  axisLabelLines,
-  fmt,
-  labelWidth,
-  lineHeight,
-  linkSeries,
-  markerPath,
-  prepareSvg,
-  text,
-  wrapLabel,
-} from './svgHelpers';
+import { COMPACT_WIDTH, FONT, add, axisBottom, axisLabelLines, fmt, labelWidth, lineHeight, linkSeries, prepareSvg, text, wrapLabel } from './svgHelpers';
+
+/**
+ * Colours: what the study sees (observed values) in the comparison grey, what
+ * lies underneath (true scores) in the matched-difference rust; the "before"
+ * bar of each lane is a pale tint of its colour, "after" is solid.
+ */
+const SEEN = { solid: GROUP_COLOURS.comparison, pale: '#d6d6d6' };
+const UNDER = { solid: ANALYSIS_STYLES.matchedDifference.colour, pale: ANALYSIS_STYLES.matchedDifference.tint };
+const FLAG = '#8a3b12';
+const STATUS_COLOUR: Record<CovariateBalanceStatus, string> = {
+  hidden: ANALYSIS_STYLES.matchedDifference.colour,
+  balanced: '#2f6b3a',
+  apart: FLAG,
+  unmeasured: FLAG,
+};
+
+const LANES = [
+  { key: 'seen', label: 'as measured', colours: SEEN },
+  { key: 'under', label: 'true score', colours: UNDER },
+] as const;
 
 const BOTTOM = 56;
-const ROW_H = 46;
-const COMPACT_ROW_H = 66;
+const LINE = lineHeight(FONT.tick);
+/** Wide charts: the variable's header column and the lane-name column, in px. */
+const HEAD_W = 172;
+const LANE_LABEL_W = 84;
+/** Compact charts: a lane is a text line (name and values) over its bars. */
+const COMPACT_LANE_H = 32;
+const WIDE_LANE_H = 22;
 
-/** Colours: observed values in the comparison grey, true scores in the matched-difference rust, flags in the warning brown. */
-const OBSERVED = GROUP_COLOURS.comparison;
-const TRUE_SCORE = ANALYSIS_STYLES.matchedDifference.colour;
-const FLAG = '#8a3b12';
+/** Cut a line that is still too wide after wrapping (a single long word) with "...". */
+function fitLine(line: string, maxWidth: number, size: number, bold: boolean): string {
+  if (labelWidth(line, size, bold) <= maxWidth) return line;
+  let s = line;
+  while (s.length > 1 && labelWidth(`${s}...`, size, bold) > maxWidth) s = s.slice(0, -1);
+  return `${s}...`;
+}
+
+function wrapFit(content: string, maxWidth: number, size: number = FONT.tick, bold = false): string[] {
+  return wrapLabel(content, maxWidth, size, bold).map((l) => fitLine(l, maxWidth, size, bold));
+}
+
+/** One header line of a row: its text and how it is drawn. */
+interface HeadLine {
+  text: string;
+  attrs: Record<string, string | number>;
+}
+
+interface RowLayout {
+  top: number;
+  height: number;
+  head: HeadLine[];
+}
 
 interface CovariateBalanceLayout {
   compact: boolean;
-  left: number;
-  right: number;
+  /** The plot's horizontal range (bars and axis). */
+  plotLeft: number;
+  plotRight: number;
   titleLines: string[];
   subLines: string[];
   subY: number;
-  legend: { x: number; y: number; item: number }[];
-  ratioNote: string[];
-  ratioNoteY: number;
-  thresholds: { value: number; label: string; y: number }[];
+  legend: { x: number; y: number; item: number; label: string }[];
   top: number;
-  rowH: number;
+  rows: RowLayout[];
   height: number;
 }
 
-const LEGEND = ['Observed, before', 'Observed, after', 'True score, after (hidden)'];
+function tagOf(r: CovariateBalanceRow): string {
+  return !r.measured ? 'not measured' : r.exact ? 'matched exactly' : '';
+}
+
+function spreadNote(r: CovariateBalanceRow): string {
+  return r.varianceRatioOutside && r.varianceRatio !== null ? `spread differs: variance ratio ${fmt(r.varianceRatio, 2)}` : '';
+}
+
+/** The header lines of a row: name (and tag), what the balance amounts to, and a spread note when the variance ratio is off. */
+function rowHead(r: CovariateBalanceRow, maxWidth: number, compact: boolean): HeadLine[] {
+  const name = { 'font-size': FONT.label, 'font-weight': 'bold', fill: '#222222' };
+  const tag = tagOf(r);
+  const lines: HeadLine[] = [];
+  if (compact) {
+    for (const l of wrapFit(tag ? `${r.name} (${tag})` : r.name, maxWidth, FONT.label, true)) lines.push({ text: l, attrs: name });
+  } else {
+    for (const l of wrapFit(r.name, maxWidth, FONT.label, true)) lines.push({ text: l, attrs: name });
+    if (tag) lines.push({ text: tag, attrs: { fill: r.measured ? GROUP_COLOURS.muted : FLAG, 'font-style': 'italic' } });
+  }
+  for (const l of wrapFit(COVARIATE_BALANCE_STATUS_WORDS[r.status], maxWidth, FONT.tick, true)) {
+    lines.push({ text: l, attrs: { fill: STATUS_COLOUR[r.status], 'font-weight': 'bold' } });
+  }
+  const spread = spreadNote(r);
+  if (spread) for (const l of wrapFit(spread, maxWidth)) lines.push({ text: l, attrs: { fill: FLAG } });
+  return lines;
+}
+
+const LEGEND_LABELS = (data: CovariateBalanceChartData) => [
+  'before matching',
+  'after matching',
+  `within ${fmt(data.thresholds[0], 1)} either way: looks balanced`,
+];
 
 function layoutCovariateBalance(data: CovariateBalanceChartData, width: number): CovariateBalanceLayout {
   const compact = width < COMPACT_WIDTH;
-  const left = compact ? 20 : 160;
-  const right = compact ? 28 : 112;
-  const titleLines = wrapLabel(data.title, width - 24, FONT.title, true);
+  const plotLeft = compact ? 20 : 12 + HEAD_W + 8 + LANE_LABEL_W;
+  const plotRight = compact ? width - 20 : width - 12 - valueWidth(data);
+  const titleLines = wrapFit(data.title, width - 24, FONT.title, true);
   const sub =
     data.source === 'simulation' ? `From ${data.replications} simulated studies (mean over replications)` : 'Closed form: exact matching from an unlimited comparison pool';
-  const subLines = wrapLabel(sub, width - 24);
+  const subLines = wrapFit(sub, width - 24);
   const subY = 18 + (titleLines.length - 1) * lineHeight(FONT.title) + 18;
-  // Legend: shape and fill tell the three figures apart, not colour alone; items flow onto more rows.
+  // Legend: pale and solid bars, and the band; items flow onto more rows (long ones wrap no further: they are short).
   let lx = 12;
-  let ly = subY + (subLines.length - 1) * lineHeight(FONT.tick) + 20;
+  let ly = subY + (subLines.length - 1) * LINE + 20;
   const legend: CovariateBalanceLayout['legend'] = [];
-  LEGEND.forEach((label, item) => {
+  LEGEND_LABELS(data).forEach((label0, item) => {
+    const label = fitLine(label0, width - 24 - 22, FONT.tick, false);
     const w = 22 + labelWidth(label) + 14;
     if (lx + w > width - 8 && lx > 12) {
       lx = 12;
       ly += 18;
     }
-    legend.push({ x: lx, y: ly, item });
+    legend.push({ x: lx, y: ly, item, label });
     lx += w;
   });
-  // Narrow: the variance ratio sits on each row's name line, explained once under the legend.
-  const ratioNote = compact
-    ? wrapLabel(`Variance ratio after matching (ok ${fmt(data.varianceRatioRange[0], 1)} to ${fmt(data.varianceRatioRange[1], 0)}) at the right of each name.`, width - 24)
-    : [];
-  const ratioNoteY = ly + 20;
-  const headerBottom = compact ? ratioNoteY + (ratioNote.length - 1) * lineHeight(FONT.tick) : ly + 4;
-  const x = d3.scaleLinear().domain([0, data.xMax]).range([left, width - right]);
-  const shown = [
-    { value: data.thresholds[0], label: `${fmt(data.thresholds[0], 2)} strict` },
-    { value: data.thresholds[1], label: `${fmt(data.thresholds[1], 2)} lenient` },
-  ].filter((t) => t.value <= data.xMax);
-  const collide = shown.length === 2 && x(shown[0]!.value) + 3 + labelWidth(shown[0]!.label) + 6 > x(shown[1]!.value) + 3;
-  // Wide charts head the right column with two lines ("Variance ratio" / its range) just above the rows.
-  const top = Math.max(headerBottom + 26 + (collide ? 14 : 0), compact ? 0 : ly + 40);
-  const thresholds = shown.map((t, i) => ({ ...t, y: top - 10 - (collide && i === 1 ? 14 : 0) }));
-  const rowH = compact ? COMPACT_ROW_H : ROW_H;
+  const top = ly + 16;
+  let y = top;
+  const rows = data.rows.map((r) => {
+    const head = rowHead(r, compact ? width - 24 : HEAD_W, compact);
+    const headH = head.length * LINE;
+    const height = compact ? 8 + headH + 2 * COMPACT_LANE_H + 4 : Math.max(12 + headH, 14 + 2 * WIDE_LANE_H);
+    const row = { top: y, height, head };
+    y += height;
+    return row;
+  });
   const bottom = BOTTOM + (axisLabelLines(data.xLabel, width).length - 1) * lineHeight(FONT.label);
-  const height = Math.ceil(top + bottom + rowH * data.rows.length);
-  return { compact, left, right, titleLines, subLines, subY, legend, ratioNote, ratioNoteY, thresholds, top, rowH, height };
+  return { compact, plotLeft, plotRight, titleLines, subLines, subY, legend, top, rows, height: Math.ceil(y + bottom) };
 }
 
-/** Height that gives every variable its own row at a readable size, at a width (layout only; default the PDF's 720 px). */
+/** "0.00 (was -0.50)": the figure after matching, and before. */
+function laneValue(after: number, before: number): string {
+  return `${fmt(after, 2)} (was ${fmt(before, 2)})`;
+}
+
+/** Width of the widest lane value, for the wide layout's right column. */
+function valueWidth(data: CovariateBalanceChartData): number {
+  const widest = Math.max(
+    ...data.rows.flatMap((r) => [labelWidth(laneValue(r.observedAfter, r.observedBefore), FONT.tick, true), labelWidth(laneValue(r.trueAfter, r.trueBefore), FONT.tick, true)]),
+  );
+  return Math.ceil(widest) + 8;
+}
+
+/** Height that gives every variable its own block at a readable size, at a width (layout only; default the PDF's 720 px). */
 export function covariateBalanceChartHeight(data: CovariateBalanceChartData, width = 720): number {
   return layoutCovariateBalance(data, width).height;
 }
 
 /**
- * Draw the per-covariate balance chart into `svg`: one row per variable
- * (pretest first), |SMD| of the observed values before (hollow circle) and
- * after matching (filled circle), and of the true scores after matching
- * (diamond), with reference lines at 0.1 and 0.25 and, at the right, the
- * variance ratio after matching, flagged when outside 0.5 to 2. Unmeasured
- * covariates are labelled so. Matching concerns the matched-difference
- * analysis, so that analysis' highlight emphasises this chart. Narrow charts
- * put each variable's name (and its variance ratio) above its row.
+ * Draw the per-covariate balance chart into `svg`: one block per variable
+ * (pretest first), each with two lanes, "as measured" (the observed values)
+ * above "true score" (what the matching cannot see). In each lane a pale bar
+ * runs from zero to the signed SMD before matching and a solid bar to the SMD
+ * after, with the figures written beside it; a shaded band marks the ±0.1
+ * zone where a difference looks balanced. Each block names what the balance
+ * amounts to ("looks balanced, is not", ...) and notes a variance ratio
+ * outside 0.5 to 2. Matching concerns the matched-difference analysis, so that
+ * analysis' highlight emphasises this chart. Narrow charts stack each
+ * variable's name, and each lane's name and figures, above the bars.
  */
 export function renderCovariateBalanceChart(svg: SVGSVGElement, data: CovariateBalanceChartData, opts: RenderOptions): void {
   const alt = covariateBalanceChartText(data);
@@ -110,84 +178,61 @@ export function renderCovariateBalanceChart(svg: SVGSVGElement, data: CovariateB
   const L = layoutCovariateBalance(data, width);
   const height = Math.max(opts.height, L.height);
   const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
-  const { left, right, top, compact } = L;
-  const x = d3.scaleLinear().domain([0, data.xMax]).range([left, width - right]);
+  const { compact, plotLeft, plotRight, top } = L;
+  const x = d3.scaleLinear().domain([data.xMin, data.xMax]).range([plotLeft, plotRight]);
   L.titleLines.forEach((l, i) => text(root, 12, 18 + i * lineHeight(FONT.title), l, { 'font-size': FONT.title, 'font-weight': 'bold' }));
-  L.subLines.forEach((l, i) => text(root, 12, L.subY + i * lineHeight(FONT.tick), l, { fill: GROUP_COLOURS.muted }));
-  for (const { x: lx, y: ly, item } of L.legend) {
-    if (item === 0) add(root, 'circle', { cx: lx + 6, cy: ly, r: 5, fill: '#ffffff', stroke: OBSERVED, 'stroke-width': 1.5 });
-    else if (item === 1) add(root, 'circle', { cx: lx + 6, cy: ly, r: 5, fill: OBSERVED });
-    else add(root, 'path', { d: markerPath('diamond', lx + 6, ly, 5), fill: TRUE_SCORE });
-    text(root, lx + 16, ly + 4, LEGEND[item]!);
-  }
-  if (compact) {
-    L.ratioNote.forEach((l, i) => text(root, 12, L.ratioNoteY + i * lineHeight(FONT.tick), l, { fill: GROUP_COLOURS.muted }));
-  } else {
-    text(root, width - right + 10, top - 18, 'Variance ratio', { 'font-weight': 'bold' });
-    text(root, width - right + 10, top - 5, `ok ${fmt(data.varianceRatioRange[0], 1)} to ${fmt(data.varianceRatioRange[1], 0)}`, { fill: GROUP_COLOURS.muted });
+  L.subLines.forEach((l, i) => text(root, 12, L.subY + i * LINE, l, { fill: GROUP_COLOURS.muted }));
+  for (const { x: lx, y: ly, item, label } of L.legend) {
+    if (item === 0) add(root, 'rect', { x: lx, y: ly - 6, width: 14, height: 12, fill: SEEN.pale });
+    else if (item === 1) add(root, 'rect', { x: lx, y: ly - 3, width: 14, height: 6, fill: SEEN.solid });
+    else add(root, 'rect', { x: lx, y: ly - 7, width: 14, height: 14, fill: GROUP_COLOURS.band });
+    text(root, lx + 20, ly + 4, label);
   }
 
-  const rowH = L.rowH;
-  const plotBottom = top + rowH * data.rows.length;
-  // Alternate row shading first, so the reference lines stay visible on top of it.
-  data.rows.forEach((_, i) => {
-    if (i % 2 === 1) add(root, 'rect', { x: 4, y: top + rowH * i, width: width - 8, height: rowH, fill: '#f4f5f6' });
+  const plotBottom = L.rows.length > 0 ? L.rows[L.rows.length - 1]!.top + L.rows[L.rows.length - 1]!.height : top;
+  // Row shading first, then the band and the zero line, so both stay visible on top of it.
+  L.rows.forEach((row, i) => {
+    if (i % 2 === 1) add(root, 'rect', { x: 4, y: row.top, width: width - 8, height: row.height, fill: '#f4f5f6' });
   });
-  for (const t of L.thresholds) {
-    add(root, 'line', { x1: x(t.value), x2: x(t.value), y1: t.y + 2, y2: plotBottom, stroke: GROUP_COLOURS.threshold, 'stroke-dasharray': '4 3' });
-    text(root, x(t.value) + 3, t.y, t.label, { fill: GROUP_COLOURS.muted });
-  }
+  const [strict] = data.thresholds;
+  add(root, 'rect', { x: x(-strict), y: top, width: x(strict) - x(-strict), height: plotBottom - top, fill: GROUP_COLOURS.band, opacity: 0.7 });
+  add(root, 'line', { x1: x(0), x2: x(0), y1: top, y2: plotBottom, stroke: '#444444', 'stroke-width': 1 });
 
   const emph = opts.highlight === null || opts.highlight === 'matchedDifference';
   const plot = add(root, 'g', { opacity: emph ? 1 : DIMMED_OPACITY + 0.4 });
   linkSeries(plot, 'matchedDifference', opts, false);
-  const clamp = (v: number) => x(Math.min(Math.abs(v), data.xMax));
+  const at = (v: number) => x(Math.max(data.xMin, Math.min(data.xMax, v)));
   data.rows.forEach((r, i) => {
-    const rowTop = top + rowH * i;
-    // Wide: the name in the left margin, centred on the row; narrow: on a line of its own at the row's top.
-    const yy = compact ? rowTop + 40 : rowTop + rowH / 2;
-    const row = add(plot, 'g');
-    row.attr('data-covariate', r.name);
-    const vr = r.varianceRatio === null ? 'n/a' : fmt(r.varianceRatio, 2);
-    const vrText = r.varianceRatioOutside ? `${vr}  outside!` : vr;
-    const vrAttrs = { fill: r.varianceRatioOutside ? FLAG : '#222222', 'font-weight': r.varianceRatioOutside ? 'bold' : 'normal' };
-    const tag = !r.measured ? 'not measured' : r.exact ? 'matched exactly' : '';
-    if (compact) {
-      const vrLabel = `VR ${vrText}`;
-      const room = width - 24 - labelWidth(vrLabel, FONT.tick, true) - 12;
-      const full = tag ? `${r.name} (${tag})` : r.name;
-      const shown = labelWidth(full, FONT.label, true) <= room ? full : r.name;
-      const name = labelWidth(shown, FONT.label, true) <= room ? shown : `${shown.slice(0, Math.max(4, Math.floor(room / (FONT.label * 0.65)) - 3))}...`;
-      text(row, 12, rowTop + 14, name, { 'font-size': FONT.label, 'font-weight': 'bold', fill: '#222222' });
-      text(row, width - 12, rowTop + 14, vrLabel, { ...vrAttrs, 'text-anchor': 'end' });
-    } else {
-      const name = r.name.length > 22 ? `${r.name.slice(0, 21)}...` : r.name;
-      text(row, 12, yy + (r.measured && !r.exact ? 4 : -2), name, { 'font-size': FONT.label, 'font-weight': 'bold', fill: '#222222' });
-      if (!r.measured) text(row, 12, yy + 12, 'not measured', { fill: FLAG, 'font-style': 'italic' });
-      else if (r.exact) text(row, 12, yy + 12, 'matched exactly', { fill: GROUP_COLOURS.muted });
-      text(row, width - right + 10, yy + 4, vrText, vrAttrs);
-    }
-    add(row, 'line', { x1: left, x2: width - right, y1: yy, y2: yy, stroke: '#e0e0e0' });
-    const xb = clamp(r.observedBefore);
-    const xa = clamp(r.observedAfter);
-    const xt = clamp(r.trueAfter);
-    // Observed: before → after on the row's upper lane; the true score sits on the lower lane.
-    const yo = yy - 4;
-    const yt = yy + 11;
-    if (Math.abs(xb - xa) > 10) add(row, 'line', { x1: xb, x2: xa, y1: yo, y2: yo, stroke: OBSERVED, 'stroke-width': 1.5 });
-    add(row, 'circle', { cx: xb, cy: yo, r: 5, fill: '#ffffff', stroke: OBSERVED, 'stroke-width': 1.5 });
-    // The before value sits above its hollow circle (the after value is in the text alternative and usually near 0).
-    const before = fmt(r.observedBefore, 2);
-    const bw = labelWidth(before);
-    text(row, Math.min(Math.max(xb, 4 + bw / 2), width - 4 - bw / 2), yo - 9, before, { 'text-anchor': 'middle', fill: GROUP_COLOURS.muted });
-    add(row, 'circle', { cx: xa, cy: yo, r: 5, fill: OBSERVED });
-    // Label the after value too when it is visibly off zero and clear of the before label.
-    if (Math.abs(r.observedAfter) >= 0.05 && Math.abs(xb - xa) > 34) {
-      text(row, xa, yo - 9, fmt(r.observedAfter, 2), { 'text-anchor': 'middle', fill: OBSERVED, 'font-weight': 'bold' });
-    }
-    add(row, 'line', { x1: xa, x2: xt, y1: yo, y2: yt, stroke: TRUE_SCORE, 'stroke-width': 1, 'stroke-dasharray': '2 2' });
-    add(row, 'path', { d: markerPath('diamond', xt, yt, 5.5), fill: TRUE_SCORE });
-    text(row, Math.min(xt + 9, width - right - 34), yt + 4, fmt(r.trueAfter, 2), { fill: TRUE_SCORE, 'font-weight': 'bold' });
+    const R = L.rows[i]!;
+    const g = add(plot, 'g');
+    g.attr('data-covariate', r.name).attr('data-status', r.status);
+    R.head.forEach((h, k) => text(g, 12, R.top + 16 + k * LINE, h.text, h.attrs));
+    const figures: [number, number][] = [
+      [r.observedBefore, r.observedAfter],
+      [r.trueBefore, r.trueAfter],
+    ];
+    LANES.forEach((lane, k) => {
+      const [before, after] = figures[k]!;
+      const value = laneValue(after, before);
+      let mid: number;
+      if (compact) {
+        const lineY = R.top + 8 + R.head.length * LINE + k * COMPACT_LANE_H + 12;
+        text(g, 12, lineY, lane.label, { fill: lane.colours.solid, 'font-weight': 'bold' });
+        text(g, width - 12, lineY, value, { fill: lane.colours.solid, 'font-weight': 'bold', 'text-anchor': 'end' });
+        mid = lineY + 11;
+      } else {
+        mid = R.top + 14 + WIDE_LANE_H * (k + 0.5);
+        text(g, 12 + HEAD_W + 8, mid + 4, lane.label, { fill: lane.colours.solid, 'font-weight': 'bold' });
+        text(g, plotRight + 8, mid + 4, value, { fill: lane.colours.solid, 'font-weight': 'bold' });
+      }
+      const x0 = x(0);
+      const xb = at(before);
+      const xa = at(after);
+      add(g, 'rect', { x: Math.min(x0, xb), y: mid - 7, width: Math.abs(xb - x0), height: 14, fill: lane.colours.pale });
+      add(g, 'rect', { x: Math.min(x0, xa), y: mid - 3, width: Math.abs(xa - x0), height: 6, fill: lane.colours.solid });
+      // An end cap, so a figure near zero still shows where it lies.
+      add(g, 'line', { x1: xa, x2: xa, y1: mid - 7, y2: mid + 7, stroke: lane.colours.solid, 'stroke-width': 2 });
+    });
   });
   axisBottom(root, x, plotBottom + 4, data.xLabel, 6);
 }

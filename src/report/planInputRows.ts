@@ -1,4 +1,5 @@
-import type { AssignmentBasis, AssignmentRule, MatchingDistance, Plan, ProvenanceSource, StudyShape } from '../core/plan';
+import type { AssignmentBasis, AssignmentRule, MatchingDistance, MatchingMethod, MatchingOrder, Plan, ProvenanceSource, StudyShape } from '../core/plan';
+import { MATCHING_WORDS } from '../core/matchingWords';
 import { isSelectionDesign, studyDesign } from '../core/design/studyDesign';
 import { DEMO_PLAN } from '../io/demoPlan';
 import { EXAMPLE_PLANS } from '../io/examplePlans';
@@ -29,16 +30,6 @@ const FROM_PLAN: Record<ProvenanceSource, InputSource> = {
 function at(obj: unknown, path: string): unknown {
   return path.split('.').reduce<unknown>((o, k) => (o && typeof o === 'object' ? (o as Record<string, unknown>)[k] : undefined), obj);
 }
-
-const MATCHING_METHOD: Record<Plan['matching']['method'], string> = {
-  nearest: 'nearest neighbour within the caliper',
-  'random-within-caliper': 'random partner within the caliper',
-};
-const MATCHING_ORDER: Record<NonNullable<Plan['matching']['order']>, string> = {
-  random: 'random order',
-  'lowest-first': 'lowest pretest first',
-  'highest-first': 'highest pretest first',
-};
 
 const DESIGN_WORDS: Record<StudyShape, string> = {
   'two-groups': 'two groups compared',
@@ -117,10 +108,11 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
   add('outcome.effectScale', 'Effect expressed in', '', (v) => (v === 'sd' ? 'post-test SDs (standardised)' : 'post-test points'));
   // A one-group study matches nobody: its matching settings are kept in the file but not listed.
   if (!oneGroup) {
-    add('matching.method', 'Matching method', '', (v) => MATCHING_METHOD[v as Plan['matching']['method']] ?? String(v));
+    const clusterLevel = plan.clusters !== undefined && plan.matching.level === 'clusters';
+    const methodWords = MATCHING_WORDS.method[plan.matching.distance === undefined || plan.matching.distance === 'pretest' ? 'pretest' : 'distance'];
+    add('matching.method', MATCHING_WORDS.methodQuestion(clusterLevel), '', (v) => methodWords[v as MatchingMethod] ?? String(v));
     add('matching.distance', 'Matching distance', '', (v) => DISTANCE_WORDS[v as MatchingDistance] ?? String(v));
     add('matching.level', 'What is matched', '', (v) => (v === 'clusters' ? 'clusters, on their observed pretest means' : 'people, across clusters'));
-    const clusterLevel = plan.clusters !== undefined && plan.matching.level === 'clusters';
     add(
       'matching.caliper',
       'Caliper',
@@ -130,9 +122,9 @@ export function planInputRows(plan: Plan, provenance?: Partial<Record<string, In
           ? 'SDs of the pooled pretest'
           : CALIPER_UNIT_WORDS[plan.matching.distance],
     );
-    add('matching.ratio', clusterLevel ? 'Comparison partners per programme cluster' : 'Comparison partners per programme member', clusterLevel ? 'clusters' : 'people');
-    add('matching.replacement', clusterLevel ? 'Comparison clusters may be reused' : 'Comparison people may be reused', '');
-    add('matching.order', 'Matching order', '', (v) => MATCHING_ORDER[v as NonNullable<Plan['matching']['order']>] ?? String(v));
+    add('matching.ratio', MATCHING_WORDS.ratioLabel(clusterLevel), clusterLevel ? 'clusters' : 'people');
+    add('matching.replacement', MATCHING_WORDS.replacementQuestion(clusterLevel), '');
+    add('matching.order', MATCHING_WORDS.orderQuestion, '', (v) => MATCHING_WORDS.order[v as MatchingOrder] ?? String(v));
   }
   add('analysis.alpha', 'Significance level (two-sided)', 'probability');
   if (!oneGroup) add('analysis.assumedReliability', 'Reliability assumed by the corrected ANCOVA (ρ′)', 'coefficient, 0–1');

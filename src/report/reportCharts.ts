@@ -43,7 +43,7 @@ export const HOW_TO_READ_CLUSTER_PRETEST =
 
 /** How to read the balance chart per covariate (plans with covariates). */
 export const HOW_TO_READ_COVARIATE_BALANCE =
-  'One row per variable, pretest first. Circles: the observed standardised mean difference before (hollow) and after matching (filled); diamond: the true-score difference after matching, which the observed balance hides. Dashed lines at 0.1 (strict) and 0.25 (lenient); the right column gives the variance ratio after matching, flagged when outside 0.5 to 2 (Rubin 2001; Stuart 2010).';
+  'One block per variable, pretest first, each with two lanes: "as measured" (the observed values) and "true score" (what the matching cannot see). In each lane the pale bar runs from zero to the standardised mean difference (SMD, programme minus comparison) before matching and the solid bar to the SMD after, with both figures written beside it; the shaded band is the zone within 0.1 either way, where a difference is commonly read as balanced. Each block says what its balance amounts to, and notes a variance ratio after matching outside 0.5 to 2 (Rubin 2001; Stuart 2010).';
 
 /** Chart size in the PDF (CSS px, which svg2pdf scales to the page width). */
 const SIZE = { width: 720, height: 400 };

@@ -116,7 +116,7 @@ export function writeCovariateBalance(w: PdfWriter, balance: readonly CovariateB
   if (table.rows.length === 0) return;
   w.heading('Balance on each covariate (simulated)', 3);
   w.paragraph(
-    `Standardised mean differences (programme minus comparison, pooled SD of the full pools) before and after matching, means over ${formatCount(replications)} simulated studies with their Monte Carlo SEs. Below 0.1 is strict balance and below 0.25 lenient; a variance ratio outside 0.5–2 flags poor balance of spread (Rubin 2001; Stuart 2010). The true-score column is what the observed balance hides.`,
+    `Standardised mean differences (SMD: programme minus comparison, pooled SD of the full pools) before and after matching, means over ${formatCount(replications)} simulated studies with their Monte Carlo SEs. An SMD below 0.1 is commonly read as balanced and below 0.25 as roughly balanced; a variance ratio outside 0.5–2 says the spread differs (Rubin 2001; Stuart 2010). The true-score column is what the observed balance hides: a variable can look balanced as measured and not be.`,
     { size: 9, muted: true },
   );
   w.table(table.columns, table.rows, { boldFirstColumn: true, fontSize: 8 });

@@ -13,11 +13,14 @@ const drawCovariateBalance: DrawChart<CovariateBalanceChartData> = (svg, data, w
 };
 
 /**
- * The balance chart per covariate (pretest first): observed SMD before and
- * after matching, true-score SMD after matching, the 0.1 and 0.25 lines and
- * variance ratios flagged outside 0.5–2, with its text and table
- * alternative. Its figures come from the simulation of this plan when there
- * is one, else from core's closed form (exact matching, unlimited pool).
+ * The balance chart per covariate (pretest first): each variable as two
+ * lanes, as measured and on the true scores, with the SMD before and after
+ * matching, a plain verdict per variable ("looks balanced, is not", ...) and a
+ * note where the variance ratio falls outside 0.5–2, with its text and table
+ * alternative (the table keeps the trade's terms). Its figures come from the
+ * simulation of this plan when there is one, else from core's closed form
+ * (exact matching, unlimited pool). Table rows whose variance ratio falls
+ * outside 0.5–2 are flagged (the ratio shown in the warning colour).
  */
 export function CovariateBalanceCard({ input, simulationOutOfDate }: { input: ChartInput; simulationOutOfDate: boolean }) {
   const built = useMemo(

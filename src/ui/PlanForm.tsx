@@ -10,6 +10,7 @@ import { fmt, fmtInt, fmtPct, fmtR } from './format';
 import { isClusterDesign, isSelectionDesign } from '../core/design/studyDesign';
 import { selectionModel } from '../core/design/selectionModel';
 import { ICC_PRESETS } from '../core/clusters/iccPresets';
+import { MATCHING_WORDS, matchingChoices } from '../core/matchingWords';
 
 /** Move keyboard focus to a field by its plan path (from the problem list). */
 function focusField(path: string) {
@@ -586,12 +587,9 @@ function MatchingSection({ n }: { n: number }) {
       )}
       <ChoiceField
         path="matching.method"
-        label="Method"
-        hint="Nearest score first, or a random partner among those within the caliper."
-        options={[
-          { value: 'nearest', label: distance === 'pretest' ? 'Nearest pretest score' : 'Nearest partner on the chosen distance' },
-          { value: 'random-within-caliper', label: 'Random partner within the caliper' },
-        ]}
+        label={MATCHING_WORDS.methodQuestion(clusterLevel)}
+        hint="Among the candidates within the caliper: always the closest, or any one of them drawn at random."
+        options={matchingChoices(MATCHING_WORDS.method[distance === 'pretest' ? 'pretest' : 'distance'])}
       />
       <NumberField
         path="matching.caliper"
@@ -601,29 +599,29 @@ function MatchingSection({ n }: { n: number }) {
         min={0.01}
         hint={
           distance === 'propensity'
-            ? 'Largest allowed difference in the logit of the propensity score; 0.2 SD is a common choice (Austin 2011). Programme members with no partner this close are dropped.'
+            ? 'How far apart partners may be: the largest allowed difference in the logit of the propensity score; 0.2 SD is a common choice (Austin 2011). Programme members with no partner this close are dropped.'
             : distance === 'mahalanobis'
-              ? 'Largest allowed Mahalanobis distance between partners on the measured variables; programme members with no partner this close are dropped.'
+              ? 'How far apart partners may be: the largest allowed Mahalanobis distance on the measured variables. Programme members with no partner this close are dropped.'
               : clusterLevel
-              ? 'Largest allowed difference between the observed pretest means of partner clusters; programme clusters with no partner this close are dropped.'
-              : 'Largest allowed pretest difference between partners; programme members with no partner this close are dropped.'
+              ? 'How far apart partners may be: the largest allowed difference between the observed pretest means of partner clusters. Programme clusters with no partner this close are dropped.'
+              : 'How far apart partners may be: the largest allowed pretest difference. Programme members with no partner this close are dropped.'
         }
       />
-      <NumberField path="matching.ratio" label={`Ratio (partners per ${member})`} unit="1 to 5" step={1} min={1} max={5} inputMode="numeric" hint={`Comparison partners for each ${member}.`} />
+      <NumberField path="matching.ratio" label={MATCHING_WORDS.ratioLabel(clusterLevel)} unit="1 to 5" step={1} min={1} max={5} inputMode="numeric" hint={`How many comparison ${clusterLevel ? 'clusters' : 'people'} each ${member} is matched to.`} />
       <CheckField
         path="matching.replacement"
-        label={clusterLevel ? 'Allow a comparison cluster to be reused (with replacement)' : 'Allow a comparison person to be reused (with replacement)'}
-        hint={clusterLevel ? 'Reuse keeps more programme clusters but repeats some comparison clusters.' : 'Reuse keeps more programme members but repeats some comparison people.'}
+        label={MATCHING_WORDS.replacementQuestion(clusterLevel)}
+        hint={
+          clusterLevel
+            ? 'Ticked (matching with replacement): more programme clusters find a partner, but some comparison clusters count twice.'
+            : 'Ticked (matching with replacement): more programme members find a partner, but some comparison people count twice.'
+        }
       />
       <ChoiceField
         path="matching.order"
-        label="Matching order"
-        hint="Without replacement, who picks first matters: early members get the closest partners."
-        options={[
-          { value: 'random', label: 'Random order' },
-          { value: 'lowest-first', label: 'Lowest pretest first' },
-          { value: 'highest-first', label: 'Highest pretest first' },
-        ]}
+        label={MATCHING_WORDS.orderQuestion}
+        hint={`Matters when each comparison ${clusterLevel ? 'cluster' : 'person'} can be used only once: whoever picks first gets the closest partners.`}
+        options={matchingChoices(MATCHING_WORDS.order)}
       />
     </Section>
   );

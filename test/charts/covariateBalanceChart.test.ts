@@ -3,18 +3,25 @@ import { describe, expect, it } from 'vitest';
 import type { ChartInput } from '../../src/charts/chartTypes';
 import {
   covariateBalanceChartData,
+  covariateBalanceStatus,
   hasCovariateBalance,
   SMD_THRESHOLDS,
   VARIANCE_RATIO_RANGE,
 } from '../../src/charts/covariateBalanceChartData';
 import { covariateBalanceChartHeight, covariateBalanceChartSvgString } from '../../src/charts/covariateBalanceChartRender';
 import { covariateBalanceChartText } from '../../src/charts/covariateBalanceChartText';
+import { fmt } from '../../src/charts/svgHelpers';
 import { analysePlan } from '../../src/core/analysePlan';
 import type { Plan } from '../../src/core/plan';
 import { simulatePlan } from '../../src/sim/simulatePlan';
 import type { SimulationResult } from '../../src/sim/types';
 import { inventedCovariatePlan } from '../inventedCovariatePlan';
 import { closedFormInput } from './fixtures';
+
+/** A drawn row's text, one space between its text elements (wrapped lines read as one). */
+function linesOf(node: Element): string {
+  return [...node.querySelectorAll('text')].map((t) => t.textContent).join(' ');
+}
 
 /** The shared invented plan, matched on the pretest alone unless told (so the covariates are not matched on). */
 function covariatePlan(distance: 'pretest' | 'mahalanobis' = 'pretest'): Plan {
@@ -70,7 +77,7 @@ describe('covariateBalanceChartData', () => {
     expect(Math.abs(d.rows[2]!.observedBefore - -0.5)).toBeLessThan(1e-12);
   });
 
-  it('draws reference lines at 0.1 and 0.25 and flags variance ratios outside 0.5 to 2 (Rubin 2001; Stuart 2010)', () => {
+  it('flags variance ratios outside 0.5 to 2 in the text, the table and the row, not as a column (Rubin 2001; Stuart 2010)', () => {
     expect(SMD_THRESHOLDS).toEqual([0.1, 0.25]);
     expect(VARIANCE_RATIO_RANGE).toEqual([0.5, 2]);
     const input = closedForm();
@@ -81,14 +88,56 @@ describe('covariateBalanceChartData', () => {
     const d = covariateBalanceChartData({ ...input, analytic });
     expect(d.rows.map((r) => r.varianceRatioOutside)).toEqual([true, false, true]);
     const text = covariateBalanceChartText(d);
-    expect(text.sentences.join(' ')).toContain('Variance ratio after matching outside 0.5–2 (poor balance of spread): Pretest (0.49) and Motivation (2.01).');
-    expect(text.table.rows.map((r) => r[4])).toEqual(['0.49 (outside 0.5–2)', '0.50', '2.01 (outside 0.5–2)']);
-    // The drawn chart shows the flag beside the flagged rows only.
+    expect(text.sentences.join(' ')).toContain('Spread differs after matching (variance ratio outside 0.5–2): Pretest (0.49) and Motivation (2.01).');
+    expect(text.table.columns.at(-1)).toBe('Variance ratio after');
+    expect(text.table.rows.map((r) => r.at(-1))).toEqual(['0.49 (outside 0.5–2)', '0.50', '2.01 (outside 0.5–2)']);
+    // The drawn chart notes the spread in the flagged rows only, in plain words with the trade's term.
     const svg = new DOMParser().parseFromString(covariateBalanceChartSvgString(d, 760), 'image/svg+xml');
-    const rowText = (name: string) => svg.querySelector(`[data-covariate="${name}"]`)!.textContent!;
-    expect(rowText('Pretest')).toContain('0.49  outside!');
-    expect(rowText('Attendance')).not.toContain('outside');
-    expect(rowText('Motivation')).toContain('2.01  outside!');
+    const rowText = (name: string) => linesOf(svg.querySelector(`[data-covariate="${name}"]`)!);
+    expect(rowText('Pretest')).toContain('spread differs: variance ratio 0.49');
+    expect(rowText('Attendance')).not.toContain('spread differs');
+    expect(rowText('Motivation')).toContain('spread differs: variance ratio 2.01');
+  });
+
+  it('names what each row amounts to on the 0.1 convention (common practice: Austin 2009), including the boundary', () => {
+    // |SMD| below 0.1 counts as balanced; 0.1 itself does not (Austin 2009: "less than 0.1").
+    expect(covariateBalanceStatus({ measured: true, observedAfter: 0.0999, trueAfter: 0.1 })).toBe('hidden');
+    expect(covariateBalanceStatus({ measured: true, observedAfter: -0.05, trueAfter: -0.0999 })).toBe('balanced');
+    expect(covariateBalanceStatus({ measured: true, observedAfter: -0.1, trueAfter: 0 })).toBe('apart');
+    expect(covariateBalanceStatus({ measured: false, observedAfter: 0, trueAfter: 0 })).toBe('unmeasured');
+    // The invented plan matched on the pretest alone: the pretest looks balanced (observed 0) but its
+    // true scores still differ by (1 − rho)·Delta / SD_T = −0.29 (Thorndike 1942; Kelley 1947, computed
+    // above); Attendance is not matched on and stays apart; Motivation is never measured.
+    const d = covariateBalanceChartData(closedForm());
+    expect(d.rows.map((r) => r.status)).toEqual(['hidden', 'apart', 'unmeasured']);
+    const t = covariateBalanceChartText(d);
+    expect(t.table.rows.map((r) => r[1])).toEqual(['looks balanced, is not', 'still apart as measured', "out of matching's reach"]);
+    const svg = new DOMParser().parseFromString(covariateBalanceChartSvgString(d, 760), 'image/svg+xml');
+    expect(svg.querySelector('[data-covariate="Pretest"]')!.getAttribute('data-status')).toBe('hidden');
+    expect(linesOf(svg.querySelector('[data-covariate="Pretest"]')!)).toContain('looks balanced, is not');
+  });
+
+  it('draws each variable as two lanes, as measured and true score, with the figures before and after matching', () => {
+    const d = covariateBalanceChartData(closedForm());
+    // The signed axis holds every figure and the ±0.2 around zero, in round tenths.
+    const all = d.rows.flatMap((r) => [r.observedBefore, r.observedAfter, r.trueBefore, r.trueAfter]);
+    expect(d.xMin).toBeLessThanOrEqual(Math.min(-0.2, ...all));
+    expect(d.xMax).toBeGreaterThanOrEqual(Math.max(0.2, ...all));
+    expect(Math.abs(d.xMin * 10 - Math.round(d.xMin * 10))).toBeLessThan(1e-9);
+    for (const width of [320, 760]) {
+      const svg = new DOMParser().parseFromString(covariateBalanceChartSvgString(d, width), 'image/svg+xml');
+      for (const r of d.rows) {
+        const row = svg.querySelector(`[data-covariate="${r.name}"]`)!;
+        const content = linesOf(row);
+        expect(content).toContain('as measured');
+        expect(content).toContain('true score');
+        // The same figures as the table, before and after, in each lane.
+        expect(content).toContain(`${fmt(r.observedAfter, 2)} (was ${fmt(r.observedBefore, 2)})`);
+        expect(content).toContain(`${fmt(r.trueAfter, 2)} (was ${fmt(r.trueBefore, 2)})`);
+        // Two bars per lane (pale before, solid after).
+        expect(row.querySelectorAll('rect')).toHaveLength(4);
+      }
+    }
   });
 
   it("with a simulation: uses the engine's balance, which agrees with core's closed form", () => {
@@ -125,10 +174,18 @@ describe('covariateBalanceChartData', () => {
     const d = covariateBalanceChartData(closedForm());
     const t = covariateBalanceChartText(d);
     const all = t.sentences.join(' ');
-    expect(all).toMatch(/Pretest \(observed 0\.00, true -0\.29\) looks balanced on the observed values but not on the true scores/);
-    expect(all).toContain('Not measured, so matching cannot balance it: Motivation');
+    expect(all).toMatch(/Looks balanced, is not: after matching, Pretest \(observed SMD 0\.00, true-score SMD -0\.29\) is within 0\.10 as measured but not on the true scores/);
+    expect(all).toContain('Not measured, so matching cannot reach it: Motivation');
     expect(all).toContain('closed-form values for exact matching');
-    expect(t.table.columns).toEqual(['Variable', 'Observed SMD before', 'Observed SMD after', 'True-score SMD after', 'Variance ratio after']);
+    expect(t.table.columns).toEqual([
+      'Variable',
+      'After matching',
+      'Observed SMD before',
+      'Observed SMD after',
+      'True-score SMD before',
+      'True-score SMD after',
+      'Variance ratio after',
+    ]);
     expect(t.table.rows.map((r) => r[0])).toEqual(['Pretest', 'Attendance', 'Motivation (not measured)']);
     expect(all).not.toMatch(/NaN|Infinity/);
   });
@@ -143,9 +200,10 @@ describe('covariateBalanceChartData', () => {
     expect(svg.getAttribute('role')).toBe('img');
     expect(svg.querySelector('desc')!.textContent).toContain('Motivation');
     expect(svg.querySelectorAll('[data-covariate]')).toHaveLength(3);
-    // Reference-line labels and the unmeasured tag are drawn as text (vector, readable in the PDF).
-    expect(svg.textContent).toContain('0.10 strict');
-    expect(svg.textContent).toContain('0.25 lenient');
+    // The band's legend and the unmeasured tag are drawn as text (vector, readable in the PDF);
+    // no dashed reference lines any more (our own look: a shaded band around zero).
+    expect(svg.textContent).toContain('within 0.1 either way: looks balanced');
+    expect(svg.querySelectorAll('[stroke-dasharray]')).toHaveLength(0);
     expect(svg.querySelector('[data-covariate="Motivation"]')!.textContent).toContain('not measured');
     // PDF-safe: no NaN, no Unicode minus (the chart font is Latin-1), no interactive attributes in exports.
     expect(text).not.toMatch(/NaN|Infinity|\u2212|tabindex/);

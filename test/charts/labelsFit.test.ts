@@ -19,6 +19,7 @@ import { analysePlan } from '../../src/core/analysePlan';
 import { usesCovariateModel } from '../../src/core/multivariate/covariateModel';
 import { EXAMPLE_PLANS } from '../../src/io/examplePlans';
 import { simulatePlan } from '../../src/sim/simulatePlan';
+import { inventedCovariatePlan } from '../inventedCovariatePlan';
 import { simulatedInput } from './fixtures';
 import { clippedLabels, overlappingLabels } from './textExtent';
 
@@ -70,6 +71,15 @@ describe('chart labels stay inside the chart and apart', () => {
     const plan = structuredClone(ex.plan);
     const simulation = simulatePlan(plan, { replications: 120, seed: 20260704 });
     expect(problems({ plan, analytic: analysePlan(plan), simulation })).toEqual([]);
+  });
+
+  it('the balance chart per covariate with every kind of row (looks balanced but is not, apart, unmeasured) and a spread flag', () => {
+    const plan = inventedCovariatePlan({ distance: 'pretest' });
+    const analytic = analysePlan(plan);
+    // A variance ratio outside 0.5–2 adds a note line to its row; the note must fit too.
+    const flagged = { ...analytic, covariateBalance: analytic.covariateBalance!.map((b, i) => (i === 1 ? { ...b, varianceRatioAfter: 2.31 } : b)) };
+    expect(covariateBalanceChartData({ plan, analytic: flagged, simulation: null }).rows.map((r) => r.status)).toEqual(['hidden', 'apart', 'unmeasured']);
+    expect(problems({ plan, analytic: flagged, simulation: null })).toEqual([]);
   });
 
   it('the schools example with a seeded simulation (one dot per school, 120 replications)', () => {

@@ -92,8 +92,10 @@ describe('PDF summary of a plan with covariates, with a simulation', () => {
     ].join(' ');
     expect(all).toContain(row);
     // The chart is drawn as vector text, with its caption; the pretest-only balance chart is not repeated.
-    expect(all).toMatch(/Figure \d\. Balance on each covariate: observed after matching, and on the true scores/);
-    expect(all).toContain('0.25 lenient');
+    // Changed on purpose (our own look): the title names both lanes, and the drawn chart labels them.
+    expect(all).toMatch(/Figure \d\. Balance on each covariate: as measured, and underneath on the true scores/);
+    expect(all).toContain('as measured');
+    expect(all).toContain('within 0.1 either way: looks balanced');
     expect(all).not.toContain('Balance: looks balanced on the observed pretest, is not on the true score');
   });
 
@@ -130,6 +132,6 @@ describe('report charts for a plan with covariates', () => {
     expect(charts.map((c) => c.id)).toEqual(['pretest', 'estimates', 'sensitivity', 'covariateBalance']);
     const balance = charts[3]!;
     expect(balance.svg).toContain('Closed form: exact matching from an unlimited comparison pool');
-    expect(balance.caption).toContain('Not measured, so matching cannot balance it: Motivation');
+    expect(balance.caption).toContain('Not measured, so matching cannot reach it: Motivation');
   });
 });

@@ -112,7 +112,7 @@ describe('PDF summary: one group picked for high readings (invented example)', (
     expect(flat).toContain('Under the model, the pre–post change of the selected group is expected to be');
     // No matching in a one-group study: no matching sentence, no matching inputs, no balance chart.
     expect(flat).not.toContain('Each programme member is to be matched');
-    expect(flat).not.toContain('Matching order');
+    expect(flat).not.toContain('Who picks first');
     expect(flat).not.toMatch(/Balance: /);
   });
 });
