@@ -16,6 +16,7 @@ import { formatSimulationTable } from './formatSimulationTable';
 import { createProgressBar, type ProgressStream } from './progressBar';
 import { simulationJson, type SimulationJson } from './simulationJson';
 import { runPilotCommand } from './pilotCommand';
+import { formatComparisonTable, runCompareCommand } from './compareCommand';
 import { readInputFile } from './readInputFile';
 import { capProblemList } from '../core/capProblemList';
 import { plainErrorMessage } from '../core/plainErrorMessage';
@@ -48,6 +49,7 @@ Usage:
                  (--pretest COLUMN | --items COL,COL,...) [--combine sum|mean]
                  [--retest COLUMN] [--posttest COLUMN] [--delimiter ,|tab|;]
                  [--no-header] [--json]
+  meanward compare <a.json> <b.json> [... up to 6] [--json]
   meanward demo            print the built-in demo plan (an invented example)
   meanward --help          this text
 
@@ -74,6 +76,11 @@ pilot: estimate plan inputs from a pilot (or earlier-wave) CSV/TSV file: group
   --no-header          the first row is data; columns are "column 1", "column 2", ...
   --json               print the estimates as one JSON object
   The file never leaves this machine. See docs/pilot-data.md.
+
+compare: two to six plan files side by side (closed forms, each plan's
+  headline analysis): artefact and its share of the effect, false-positive
+  rate, power, programme members used, share discarded, and whom the estimate
+  describes. --json prints one JSON array, one object per file.
 
 With covariates in the plan, the matched difference is for the plan's matching
 distance, ANCOVA adjusts for every measured covariate, and the results add the
@@ -125,6 +132,19 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
     const bad = firstNonFinite(pilot.estimates, 'estimates');
     if (bad !== null) return failWith(io, [`${FAULT_LINE} (The pilot estimate ${bad} is not a finite number.)`], EXIT_INTERNAL);
     io.stdout.write(visibleOutput(pilot.output, cmd.json));
+    return EXIT_OK;
+  }
+
+  if (cmd.command === 'compare') {
+    // Figures come from comparePlans (src/core); this only reads and formats.
+    const compared = await runCompareCommand(cmd);
+    if (!compared.ok) return failWith(io, compared.problems);
+    const bad = firstNonFinite(compared.rows, 'rows');
+    if (bad !== null) return failWith(io, [`${FAULT_LINE} (The figure ${bad} is not a finite number.)`], EXIT_INTERNAL);
+    if (cmd.json) {
+      const out = compared.rows.map((row, i) => ({ file: cmd.files[i], title: compared.plans[i]!.title, ...row, caution: PLANNING_CAUTION }));
+      io.stdout.write(visibleOutput(`${JSON.stringify(out, null, 2)}\n`, true));
+    } else io.stdout.write(visibleOutput(`${formatComparisonTable(compared.rows)}\n\n${PLANNING_CAUTION}\n`, false));
     return EXIT_OK;
   }
 

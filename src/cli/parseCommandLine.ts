@@ -1,5 +1,6 @@
 import { PLAN_LIMITS } from '../core/planSchema';
 import { parsePilotCommandLine, type PilotCommandLine } from './pilotCommandLine';
+import { parseCompareCommandLine, type CompareCommandLine } from './compareCommand';
 
 /** What the command line asked for, after checking every flag. */
 export type CommandLine =
@@ -20,7 +21,8 @@ export type CommandLine =
       /** --max-seconds N: stop the simulation after about N seconds and summarise what has run (labelled partial). */
       maxSeconds?: number;
     }
-  | PilotCommandLine;
+  | PilotCommandLine
+  | CompareCommandLine;
 
 export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; problems: string[] };
 
@@ -38,8 +40,9 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
     return { ok: true, value: { command: 'demo' } };
   }
   if (command === 'pilot') return parsePilotCommandLine(rest);
+  if (command === 'compare') return parseCompareCommandLine(rest);
   if (command !== 'run') {
-    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot" and "demo"; see "meanward --help".`] };
+    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot", "compare" and "demo"; see "meanward --help".`] };
   }
   const problems: string[] = [];
   const files: string[] = [];
