@@ -6,6 +6,7 @@ import { NoticeBar } from './NoticeBar';
 import { PilotPanel } from './PilotPanel';
 import { PlanForm } from './PlanForm';
 import { RemediesPanel } from './RemediesPanel';
+import { VariantsPanel } from './VariantsPanel';
 import { SimulationPanel } from './SimulationPanel';
 import { VerdictPanel } from './VerdictPanel';
 
@@ -42,6 +43,7 @@ export function App() {
           <ComparisonTable />
           <ChartsPanel />
           <RemediesPanel />
+          <VariantsPanel />
         </div>
       </main>
       <footer className="app-footer">
