@@ -1,4 +1,6 @@
-import type { PlanComparisonRow } from '../core/comparePlans';
+import { comparePlans, type CandidatePlan, type PlanComparisonRow } from '../core/comparePlans';
+import { planComparisonChartData, planComparisonChartSize, planComparisonChartSvg, planComparisonChartText } from '../charts/planComparisonChart';
+import type { ReportChart } from './buildReportPdf';
 import { showControlCharacters } from '../core/visibleText';
 import { formatCount, formatProbability, formatShare, formatSignedPoints } from './format';
 import type { PdfWriter } from './pdfWriter';
@@ -40,4 +42,23 @@ export function writeComparison(w: PdfWriter, comparison: ReportComparison): voi
   );
   w.heading('Whom each estimate describes', 3);
   for (const r of comparison.rows) w.item('•', `${showControlCharacters(r.name)}: ${showControlCharacters(r.estimand)}`, 9.5);
+}
+
+/**
+ * The comparison for the PDF from the chosen variants: comparePlans' rows and
+ * the comparison chart as SVG (needs a DOM). Null when fewer than two are chosen.
+ */
+export function reportComparison(candidates: readonly CandidatePlan[]): (ReportComparison & { chart: ReportChart }) | null {
+  if (candidates.length < 2) return null;
+  const rows = comparePlans(candidates);
+  const data = planComparisonChartData(rows, candidates[0]!.plan.analysis.tolerableBiasShare);
+  return {
+    rows,
+    chart: {
+      id: 'comparison',
+      title: data.title,
+      svg: planComparisonChartSvg(data, planComparisonChartSize(640, rows.length)),
+      caption: `${planComparisonChartText(data).sentences.join(' ')} Bars inside the shaded band stay within the tolerable share; the dotted line marks 80% power.`,
+    },
+  };
 }
