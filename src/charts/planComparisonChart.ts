@@ -39,7 +39,7 @@ export function planComparisonChartText(data: PlanComparisonChartData): ChartTex
 
 /** The chart's height for a number of variants. */
 export function planComparisonChartSize(width: number, count: number): ChartSize {
-  return { width, height: 90 + count * 46 + (width < 520 ? count * 16 : 0) };
+  return { width, height: 90 + count * 46 + (width < 520 ? count * 16 + 36 : 0) };
 }
 
 /**
@@ -51,32 +51,40 @@ export function renderPlanComparisonChart(svg: SVGSVGElement, data: PlanComparis
   const desc = planComparisonChartText(data).sentences.join(' ');
   const root = prepareSvg(svg, opts, data.title, desc);
   const narrow = opts.width < 520;
-  const left = narrow ? 12 : Math.min(200, opts.width * 0.3);
-  const gap = 24;
-  const right = 12;
-  const top = 44;
+  const left = narrow ? 8 : Math.min(200, opts.width * 0.3);
+  const gap = narrow ? 16 : 28;
+  const right = 8;
+  const top = narrow ? 62 : 44;
   const rowH = 46 + (narrow ? 16 : 0);
   const plotW = (opts.width - left - right - gap) / 2;
+  // Room inside each plot for the value labels beside the bars.
+  const pad = 34;
   const x0 = left;
   const x1 = left + plotW + gap;
-  text(root, 8, 18, data.title, { 'font-size': FONT.title, 'font-weight': 'bold' });
+  if (narrow) {
+    const [head, tail] = data.title.split(': ');
+    text(root, 8, 18, `${head}:`, { 'font-size': FONT.title, 'font-weight': 'bold' });
+    text(root, 8, 34, tail ?? '', { 'font-size': FONT.title, 'font-weight': 'bold' });
+  } else text(root, 8, 18, data.title, { 'font-size': FONT.title, 'font-weight': 'bold' });
   const shares = data.rows.flatMap((r) => (r.artefactShare === null ? [] : [r.artefactShare]));
   const tol = data.tolerableShare ?? 0;
   const ext = Math.max(0.3, tol * 1.2, ...shares.map(Math.abs)) * 1.05;
-  const sx = d3.scaleLinear().domain([-ext, ext]).range([x0, x0 + plotW]).nice();
-  const px = d3.scaleLinear().domain([0, 1]).range([x1, x1 + plotW]);
+  const sx = d3.scaleLinear().domain([-ext, ext]).range([x0 + pad, x0 + plotW - pad]).nice();
+  const px = d3.scaleLinear().domain([0, 1]).range([x1, x1 + plotW - 6]);
   const bottom = top + data.rows.length * rowH;
-  text(root, x0, top - 10, 'Artefact, share of the effect', { 'font-size': FONT.label });
-  text(root, x1, top - 10, 'Power (tick: without the artefact)', { 'font-size': FONT.label });
+  text(root, x0, top - 10, narrow ? 'Artefact / effect' : 'Artefact, share of the effect', { 'font-size': FONT.label });
+  text(root, x1, top - 10, narrow ? 'Power' : 'Power (tick: without the artefact)', { 'font-size': FONT.label });
   if (data.tolerableShare !== null) {
     add(root, 'rect', { x: sx(-tol), y: top, width: sx(tol) - sx(-tol), height: bottom - top, fill: '#e3f1e6' });
   }
   add(root, 'line', { x1: sx(0), x2: sx(0), y1: top, y2: bottom, stroke: '#555555', 'stroke-width': 1 });
-  for (const t of sx.ticks(4)) {
-    text(root, sx(t), bottom + 14, `${Math.round(t * 100)}%`.replace('\u2212', '-'), { 'text-anchor': 'middle' });
+  for (const t of sx.ticks(narrow ? 2 : 4)) {
+    text(root, sx(t), bottom + 14, `${Math.round(t * 100)}%`, { 'text-anchor': 'middle' });
   }
-  for (const t of [0, 0.5, 0.8, 1]) text(root, px(t), bottom + 14, `${Math.round(t * 100)}%`, { 'text-anchor': 'middle' });
+  for (const t of narrow ? [0.5, 1] : [0.5, 0.8, 1]) text(root, px(t), bottom + 14, `${Math.round(t * 100)}%`, { 'text-anchor': t === 1 ? 'end' : 'middle' });
+  add(root, 'line', { x1: px(0), x2: px(0), y1: top, y2: bottom, stroke: '#555555', 'stroke-width': 1 });
   add(root, 'line', { x1: px(0.8), x2: px(0.8), y1: top, y2: bottom, stroke: '#999999', 'stroke-dasharray': '2 3' });
+  if (narrow) text(root, 8, bottom + 30, 'Shaded: tolerable. Tick: power without the artefact.', { 'font-size': FONT.note });
   data.rows.forEach((r, i) => {
     const y = top + i * rowH + (narrow ? 16 : 0);
     const label = `${r.name}`;
@@ -91,7 +99,8 @@ export function renderPlanComparisonChart(svg: SVGSVGElement, data: PlanComparis
     }
     if (r.power !== null) {
       add(root, 'rect', { x: px(0), y: y + 8, width: px(r.power) - px(0), height: 20, fill: '#3b6ea5' });
-      text(root, Math.min(px(r.power) + 4, x1 + plotW - 30), y + 22, pct(r.power));
+      const inside = r.power > 0.75;
+      text(root, inside ? px(r.power) - 4 : px(r.power) + 4, y + 22, pct(r.power), inside ? { 'text-anchor': 'end', fill: '#ffffff' } : {});
     }
     if (r.powerWithoutBias !== null) add(root, 'line', { x1: px(r.powerWithoutBias), x2: px(r.powerWithoutBias), y1: y + 4, y2: y + 32, stroke: '#111111', 'stroke-width': 2 });
   });

@@ -53,8 +53,8 @@ export function RemediesPanel() {
               </p>
               <p className="assumption">Assumes: {r.assumption}</p>
               {canTry && APPLICABLE_REMEDY_IDS.includes(r.id) && (
-                <button type="button" className="try-remedy" onClick={() => tryRemedy(r.id)} aria-describedby={`remedy-title-${r.id}`}>
-                  Try this: add it as a variant
+                <button type="button" className="try-remedy" onClick={() => tryRemedy(r.id)} aria-label={`Try this: ${r.title}`}>
+                  Try this (adds a variant)
                 </button>
               )}
             </li>
