@@ -151,5 +151,14 @@ export function applyRemedy(plan: Plan, remedyId: RemedyId): ApplyRemedyResult {
     default:
       return { ok: false, reason: `"${remedy.title}" cannot be applied automatically.` };
   }
+  dropStaleProvenance(next, plan);
   return { ok: true, remedy, plan: next, analysisId, changes, variantName: `Try: ${remedy.title}` };
+}
+
+/** Provenance notes of fields the remedy changed no longer describe them: drop those (by dotted path). */
+function dropStaleProvenance(next: Plan, before: Plan): void {
+  if (next.provenance === undefined) return;
+  const valueAt = (p: Plan, path: string): unknown => path.split('.').reduce<unknown>((o, k) => (o as Record<string, unknown> | undefined)?.[k], p);
+  const kept = Object.entries(next.provenance).filter(([path]) => JSON.stringify(valueAt(next, path)) === JSON.stringify(valueAt(before, path)));
+  next.provenance = Object.fromEntries(kept);
 }

@@ -131,3 +131,16 @@ describe('comparePlans', () => {
     expect(() => comparePlans(Array.from({ length: 7 }, () => c))).toThrow('2 to 6');
   });
 });
+
+describe('applyRemedy and provenance', () => {
+  it('drops the source note of a changed field and keeps the others (common practice: a note must describe its value)', () => {
+    const plan = demoPlan();
+    plan.analysis.assumedReliability = 0.85;
+    plan.provenance = {
+      'analysis.assumedReliability': { source: 'entered', note: 'from the manual' },
+      'outcome.posttestSD': { source: 'entered', note: 'from a pilot' },
+    };
+    const r = applied(plan, 'corrected-ancova');
+    expect(Object.keys(r.plan.provenance!)).toEqual(['outcome.posttestSD']);
+  });
+});
