@@ -17,6 +17,7 @@ import { createProgressBar, type ProgressStream } from './progressBar';
 import { simulationJson, type SimulationJson } from './simulationJson';
 import { runPilotCommand } from './pilotCommand';
 import { runMethodsCommand } from './methodsCommand';
+import { formatComparisonTable, runCompareCommand } from './compareCommand';
 import { readInputFile } from './readInputFile';
 import { capProblemList } from '../core/capProblemList';
 import { plainErrorMessage } from '../core/plainErrorMessage';
@@ -50,6 +51,7 @@ Usage:
                  [--retest COLUMN] [--posttest COLUMN] [--delimiter ,|tab|;]
                  [--no-header] [--json]
   meanward methods <plan.json> [--format md|docx] [-o FILE]
+  meanward compare <a.json> <b.json> [... up to 6] [--json]
   meanward demo            print the built-in demo plan (an invented example)
   meanward --help          this text
 
@@ -82,6 +84,10 @@ methods: a methods paragraph for a proposal or pre-registration (design,
   references and the planning caution), from the same figures as "run --no-sim".
   --format md    Markdown (the default), on stdout or in -o FILE
   --format docx  a Word document; needs -o FILE
+compare: two to six plan files side by side (closed forms, each plan's
+  headline analysis): artefact and its share of the effect, false-positive
+  rate, power, programme members used, share discarded, and whom the estimate
+  describes. --json prints one JSON array, one object per file.
 
 With covariates in the plan, the matched difference is for the plan's matching
 distance, ANCOVA adjusts for every measured covariate, and the results add the
@@ -142,6 +148,18 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
     if (!methods.ok) return failWith(io, methods.problems);
     if (methods.wrote !== null) io.stderr.write(`meanward: wrote the methods text to ${showControlCharacters(methods.wrote)}.\n`);
     else io.stdout.write(visibleOutput(methods.stdout, false));
+    return EXIT_OK;
+  }
+  if (cmd.command === 'compare') {
+    // Figures come from comparePlans (src/core); this only reads and formats.
+    const compared = await runCompareCommand(cmd);
+    if (!compared.ok) return failWith(io, compared.problems);
+    const bad = firstNonFinite(compared.rows, 'rows');
+    if (bad !== null) return failWith(io, [`${FAULT_LINE} (The figure ${bad} is not a finite number.)`], EXIT_INTERNAL);
+    if (cmd.json) {
+      const out = compared.rows.map((row, i) => ({ file: cmd.files[i], title: compared.plans[i]!.title, ...row, caution: PLANNING_CAUTION }));
+      io.stdout.write(visibleOutput(`${JSON.stringify(out, null, 2)}\n`, true));
+    } else io.stdout.write(visibleOutput(`${formatComparisonTable(compared.rows)}\n\n${PLANNING_CAUTION}\n`, false));
     return EXIT_OK;
   }
 

@@ -1,6 +1,7 @@
 import { PLAN_LIMITS } from '../core/planSchema';
 import { parsePilotCommandLine, type PilotCommandLine } from './pilotCommandLine';
 import { parseMethodsCommandLine, type MethodsCommandLine } from './methodsCommandLine';
+import { parseCompareCommandLine, type CompareCommandLine } from './compareCommand';
 
 /** What the command line asked for, after checking every flag. */
 export type CommandLine =
@@ -22,7 +23,8 @@ export type CommandLine =
       maxSeconds?: number;
     }
   | PilotCommandLine
-  | MethodsCommandLine;
+  | MethodsCommandLine
+  | CompareCommandLine;
 
 export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; problems: string[] };
 
@@ -41,8 +43,9 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   }
   if (command === 'pilot') return parsePilotCommandLine(rest);
   if (command === 'methods') return parseMethodsCommandLine(rest);
+  if (command === 'compare') return parseCompareCommandLine(rest);
   if (command !== 'run') {
-    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot", "methods" and "demo"; see "meanward --help".`] };
+    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot", "methods", "compare" and "demo"; see "meanward --help".`] };
   }
   const problems: string[] = [];
   const files: string[] = [];

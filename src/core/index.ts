@@ -147,3 +147,5 @@ export { analysisSettings } from './analysisSettings';
 export { withPlannedFigures } from './withPlannedFigures';
 export { bandCrossings } from './bandCrossings';
 export { presentAnalysisIds, presentAnalyses, requireAnalysis } from './presentAnalyses';
+export { applyRemedy, APPLICABLE_REMEDY_IDS, type AppliedRemedy, type ApplyRemedyResult, type RemedyId } from './applyRemedy';
+export { comparePlans, comparisonRow, estimandText, COMPARE_MIN_PLANS, COMPARE_MAX_PLANS, type CandidatePlan, type PlanComparisonRow } from './comparePlans';

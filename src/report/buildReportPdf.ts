@@ -23,6 +23,7 @@ import {
   withMcse,
 } from './format';
 import { PdfWriter, type TableColumn } from './pdfWriter';
+import { writeComparison, type ReportComparison } from './reportComparison';
 import {
   caliperPhrase,
   COVARIATE_CAUTION,
@@ -58,6 +59,8 @@ export interface ReportInput {
   provenance?: Partial<Record<string, InputSource>>;
   /** Embedded fonts; loaded from src/report/fonts when omitted. */
   fonts?: ReportFonts;
+  /** Candidate plans compared (comparePlans' rows), printed after the remedies; its chart, when given, joins the charts. */
+  comparison?: ReportComparison & { chart?: ReportChart };
 }
 
 /** Title printed at the top of every summary. */
@@ -87,7 +90,8 @@ function samePlan(a: Plan, b: Plan): boolean {
  *   // bytes starts with "%PDF-"
  */
 export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
-  const { plan, analytic, charts, appVersion, generatedAt } = input;
+  const { plan, analytic, appVersion, generatedAt } = input;
+  const charts = input.comparison?.chart ? [...input.charts, input.comparison.chart] : input.charts;
   const simulationForOtherPlan = input.simulation !== null && !samePlan(input.simulation.plan, plan);
   const sim = simulationForOtherPlan ? null : input.simulation;
   const fonts = input.fonts ?? (await loadReportFonts());
@@ -447,6 +451,8 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     ];
     w.item(`${i + 1}.`, parts.join(' '));
   });
+
+  if (input.comparison && input.comparison.rows.length > 0) writeComparison(w, input.comparison);
 
   // ---- Method and references ----------------------------------------------
   w.heading('How this was computed');

@@ -33,7 +33,7 @@ export function isShareFragment(fragment: string): boolean {
 }
 
 /** What replaced the whole plan (for the undo message). */
-export type ReplaceSource = 'demo' | 'example' | 'file' | 'link' | 'pilot';
+export type ReplaceSource = 'demo' | 'example' | 'file' | 'link' | 'pilot' | 'variant';
 
 export interface Notice {
   kind: 'info' | 'error';
@@ -201,6 +201,7 @@ const REDONE: Record<ReplaceSource, string> = {
   file: 'Put the plan from the file back.',
   link: 'Put the plan from the shared link back.',
   pilot: 'Put the pilot values back into the plan.',
+  variant: 'Put the variant back in the form.',
 };
 
 /** What a replace took the plan from, in the undo message ("before the …"). */
@@ -210,6 +211,7 @@ const REPLACED_BY: Record<ReplaceSource, string> = {
   file: 'the plan file',
   link: 'the shared link',
   pilot: 'the pilot values',
+  variant: 'opening the variant',
 };
 
 /** The persistence slice over the injected storage and parsers; `restored` is what restoreDrafts found at start-up. */

@@ -10,9 +10,10 @@ import { createPersistenceSlice, restoreDrafts, type PersistenceSlice } from './
 import { createPilotSlice, defaultPilotDeps, type PilotDeps, type PilotSlice } from './pilotSlice';
 import { planToDraft } from './planDraft';
 import { createSimulationSlice, type SimulationSlice } from './simulationSlice';
+import { createVariantsSlice, type VariantsSlice } from './variantsSlice';
 
 /** The whole planner state: one slice per file, combined here. */
-export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice & CovariateSlice & PilotSlice;
+export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice & CovariateSlice & PilotSlice & VariantsSlice;
 export type MeanwardStore = StoreApi<MeanwardState>;
 
 export interface CreateStoreOptions {
@@ -43,11 +44,13 @@ export function createMeanwardStore({ deps, demo, restore = true, pilot }: Creat
     ...createPersistenceSlice(deps, demo, restored)(...a),
     ...createCovariateSlice(...a),
     ...createPilotSlice({ ...defaultPilotDeps(), ...pilot })(...a),
+    ...createVariantsSlice(deps)(...a),
   }));
   store.subscribe((state, prev) => {
     if (state.draft !== prev.draft) state.autosave();
     if (state.validPlan !== prev.validPlan || state.problems !== prev.problems) state.refreshSimulationStale();
     if (state.validPlan !== prev.validPlan) requestPlannedFigures(store, deps);
+    if (state.validPlan !== prev.validPlan) state.followValidPlan(state.validPlan);
   });
   requestPlannedFigures(store, deps);
   return store;

@@ -7,6 +7,7 @@ import { PilotPanel } from './PilotPanel';
 import { PlanForm } from './PlanForm';
 import { RemediesPanel } from './RemediesPanel';
 import { MethodsPanel } from './MethodsPanel';
+import { VariantsPanel } from './VariantsPanel';
 import { SimulationPanel } from './SimulationPanel';
 import { VerdictPanel } from './VerdictPanel';
 
@@ -44,6 +45,7 @@ export function App() {
           <ChartsPanel />
           <RemediesPanel />
           <MethodsPanel />
+          <VariantsPanel />
         </div>
       </main>
       <footer className="app-footer">

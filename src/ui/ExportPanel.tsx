@@ -22,6 +22,10 @@ export function ExportPanel() {
   const analytic = useMeanwardStore((s) => s.analytic);
   const simState = useMeanwardStore((s) => s.simulation);
   const [status, setStatus] = useState<Status>({ kind: 'idle' });
+  const variants = useMeanwardStore((s) => s.variants);
+  const compareIds = useMeanwardStore((s) => s.compareIds);
+  const compared = compareIds.map((id) => variants.find((v) => v.id === id)).filter((v) => v !== undefined);
+  const [withComparison, setWithComparison] = useState(true);
   const [charts, setCharts] = useState<ReportChart[] | null>(null);
   const reasonId = useId();
   const simReasonId = useId();
@@ -70,8 +74,15 @@ export function ExportPanel() {
   const onPdf = () =>
     run('Making the PDF summary', async () => {
       if (!analytic) throw new Error('the plan has not been analysed');
-      const [{ buildReportPdf }, drawn] = await Promise.all([import('../report/buildReportPdf'), loadCharts()]);
+      const [{ buildReportPdf }, drawn, { reportComparison }] = await Promise.all([
+        import('../report/buildReportPdf'),
+        loadCharts(),
+        import('../report/reportComparison'),
+      ]);
+      const comparison =
+        withComparison && compared.length >= 2 ? reportComparison(compared.map((v) => ({ name: v.name, plan: v.plan, analysisId: v.analysisId }))) : null;
       const bytes = await buildReportPdf({
+        ...(comparison ? { comparison } : {}),
         plan,
         analytic,
         simulation: sim,
@@ -126,6 +137,12 @@ export function ExportPanel() {
         <p id={reasonId} className="export-reason" role="note">
           {planReason}
         </p>
+      )}
+      {compared.length >= 2 && (
+        <label className="export-option">
+          <input type="checkbox" checked={withComparison} onChange={(e) => setWithComparison(e.target.checked)} /> Include the comparison of the{' '}
+          {compared.length} candidate plans ticked in &ldquo;Candidate plans side by side&rdquo;
+        </label>
       )}
       <div className="export-buttons" role="group" aria-label="Download" style={{ display: 'flex', flexWrap: 'wrap', gap: '0.5rem', margin: '0.4rem 0' }}>
         <button type="button" className="primary" onClick={() => void onPdf()} disabled={planReason !== null} aria-disabled={busy || undefined} aria-describedby={planReason ? reasonId : undefined}>

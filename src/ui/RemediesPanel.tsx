@@ -1,12 +1,17 @@
 import { selectAnalytic, selectAnalyticStale } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
+import { APPLICABLE_REMEDY_IDS } from '../core/applyRemedy';
+import { studyDesign } from '../core/design/studyDesign';
 import { fmt, fmtPct, fmtR, fmtSigned } from './format';
 
 /** Design changes that remove the artefact, best first (from analysePlan), and the break-even reliability. */
 export function RemediesPanel() {
   const analytic = useMeanwardStore(selectAnalytic);
   const stale = useMeanwardStore(selectAnalyticStale);
+  const tryRemedy = useMeanwardStore((s) => s.tryRemedy);
+  const plan = useMeanwardStore((s) => s.validPlan);
   if (!analytic) return null;
+  const canTry = studyDesign(plan).kind === 'existing-groups';
   const be = analytic.breakEven;
   // Clusters matched on their means: the break-even figure is the reliability of a cluster's mean (λ), and core's note says how to reach it.
   const clusterLevel = analytic.clusters?.level === 'clusters';
@@ -39,7 +44,7 @@ export function RemediesPanel() {
         <ol className="remedy-list">
           {analytic.remedies.map((r) => (
             <li key={r.id} data-remedy={r.id}>
-              <h3>{r.title}</h3>
+              <h3 id={`remedy-title-${r.id}`}>{r.title}</h3>
               <p>{r.summary}</p>
               <p className="remedy-figures">
                 Remaining artefact: <strong>{fmtSigned(r.remainingBias)} points</strong>
@@ -47,6 +52,11 @@ export function RemediesPanel() {
                 {r.discardedShare !== null && <>; programme members left unmatched: about {fmtPct(r.discardedShare, 0)}</>}.
               </p>
               <p className="assumption">Assumes: {r.assumption}</p>
+              {canTry && APPLICABLE_REMEDY_IDS.includes(r.id) && (
+                <button type="button" className="try-remedy" onClick={() => tryRemedy(r.id)} aria-label={`Try this: ${r.title}`}>
+                  Try this (adds a variant)
+                </button>
+              )}
             </li>
           ))}
         </ol>
