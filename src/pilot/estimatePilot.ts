@@ -11,7 +11,11 @@ import {
   type PilotEstimates,
   type PilotMapping,
   type PilotWarning,
+  type PrePostByGroup,
+  type ReverseItems,
 } from './types';
+import { correlationDifference } from './correlationDifference';
+import { widenLongTable } from './widenLongTable';
 
 /** Confidence level of every interval in the pilot estimates. */
 export const PILOT_CONFIDENCE_LEVEL = 0.95;
@@ -77,7 +81,10 @@ const NO_GROUP = -1;
  *     pretest: { kind: 'items', columns: ['q1', 'q2', 'q3'], combine: 'sum' } })
  *   // { groups: { programme: { n, pretestMean, pretestSD }, … }, reliability: { alpha: { value, lower, upper, … } }, … }
  */
-export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileName?: string): PilotEstimates {
+export function estimatePilot(givenTable: ParsedTable, givenMapping: PilotMapping, fileName?: string): PilotEstimates {
+  const long = givenMapping.layout?.kind === 'long' ? widenLongTable(givenTable, givenMapping) : undefined;
+  const table = long?.table ?? givenTable;
+  const mapping = long?.mapping ?? givenMapping;
   const cols = resolveColumns(table, mapping);
   const data = readPilotColumns(table, mapping, cols);
   const groups = assignGroups(table, mapping, cols, data.total);
@@ -95,20 +102,23 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
   }
   if (retest?.testRetest) reliability.testRetest = retest.testRetest;
   warnings.push(...pilotWarnings(reliability, items?.itemTotal, groups));
+  const prePostByGroup = comparePrePostByGroup(pretest);
 
   const result: PilotEstimates = {
     ...(fileName !== undefined ? { fileName } : {}),
-    mapping: structuredCopy(mapping),
+    mapping: structuredCopy(givenMapping),
     rowsRead: groups.rowsRead,
     rowsUsed: groups.N,
     rowsDropped: groups.rowsRead - groups.N,
-    droppedReason: droppedRowsReason(groups, data, retest?.rows ?? 0, post?.rows ?? 0),
+    droppedReason: (long ? `${long.note} ` : '') + droppedRowsReason(groups, data, retest?.rows ?? 0, post?.rows ?? 0),
     groups: { programme: pretest.programme, comparison: pretest.comparison, comparisonValue: groups.comparisonValues.join(', ') },
     gap: { points: pretest.gapPoints, smd: pretest.gapPoints / pretest.pooledWithinSD },
     pooledWithinSD: pretest.pooledWithinSD,
     reliability,
     ...(post?.prePostCorrelation ? { prePostCorrelation: post.prePostCorrelation } : {}),
+    ...(prePostByGroup ? { prePostByGroup } : {}),
     ...(items ? { itemTotal: items.itemTotal } : {}),
+    ...(long ? { longFile: long.counts } : {}),
     warnings,
   };
   assertAllFinite(result, 'estimates');
@@ -136,11 +146,40 @@ function readPilotColumns(table: ParsedTable, mapping: PilotMapping, cols: Resol
   const rowNumber = rowNumberOf(table);
   const readColumn = (index: number, name: string): Float64Array => readNumericColumn(table, index, name, decimalComma, rowNumber);
   const items = cols.items.map((c, j) => readColumn(c, cols.itemNames[j]!));
+  if (mapping.pretest.kind === 'items' && mapping.pretest.reverse) {
+    reverseItems(items, cols.itemNames, mapping.pretest.reverse, rowNumber);
+  }
   const totalColumn = cols.total === undefined ? undefined : readColumn(cols.total, cols.totalName!);
   const retest = cols.retest === undefined ? undefined : readColumn(cols.retest, mapping.retest!);
   const posttest = cols.posttest === undefined ? undefined : readColumn(cols.posttest, mapping.posttest!);
   const total = totalColumn ?? combineItems(items, mapping, table.rows.length);
   return { items, total, ...(retest ? { retest } : {}), ...(posttest ? { posttest } : {}) };
+}
+
+/**
+ * Reverse the reverse-keyed items in place: x → maximum + minimum − x
+ * (common practice for Likert-type items). A score outside [minimum, maximum]
+ * is refused: it cannot be on the stated scale, and reversing it would give a
+ * score that is not either.
+ */
+function reverseItems(items: Float64Array[], names: string[], reverse: ReverseItems, rowNumber: (i: number) => number): void {
+  const { minimum, maximum } = reverse;
+  for (const column of reverse.columns) {
+    const j = names.indexOf(column);
+    const x = items[j]!;
+    for (let i = 0; i < x.length; i++) {
+      const v = x[i]!;
+      if (Number.isNaN(v)) continue;
+      if (v < minimum || v > maximum) {
+        throw new PilotDataError(
+          'out-of-scale',
+          `Item "${column}" is to be reversed on the scale ${formatScore(minimum)} to ${formatScore(maximum)}, but row ${rowNumber(i)} holds ${formatScore(v)}, outside that scale. Check the scale's lowest and highest possible scores, or the cell.`,
+          { column, row: rowNumber(i) },
+        );
+      }
+      x[i] = maximum + minimum - v;
+    }
+  }
 }
 
 /** A row's number as a spreadsheet shows it (the file's line number). */
@@ -425,6 +464,37 @@ function posttestEstimates(
   return { rows };
 }
 
+/** Gap between the groups' pre–post correlations from which they are said to differ (whatever the test says). */
+export const PRE_POST_GAP_NOTED = 0.1;
+
+/**
+ * The two groups' pre–post correlations side by side (when both exist, each
+ * from 4 or more pairs), with Fisher's z test of the difference, in words:
+ * the plan takes the comparison group's, and a merged slope would hide a gap.
+ */
+function comparePrePostByGroup(pretest: PretestEstimates): PrePostByGroup | undefined {
+  const { programme: p, comparison: c } = pretest;
+  if (p.prePostCorrelation === undefined || c.prePostCorrelation === undefined || p.nPrePost === undefined || c.nPrePost === undefined) return undefined;
+  if (p.nPrePost < 4 || c.nPrePost < 4) return undefined;
+  const d = correlationDifference(p.prePostCorrelation, p.nPrePost, c.prePostCorrelation, c.nPrePost);
+  const differ = d.p < 0.05 || Math.abs(d.difference) >= PRE_POST_GAP_NOTED;
+  const both = `The pre–post correlation is ${formatCoefficient(p.prePostCorrelation)} in the programme group (n = ${p.nPrePost}) and ${formatCoefficient(c.prePostCorrelation)} in the comparison group (n = ${c.nPrePost}); Fisher's z = ${d.z.toFixed(2).replace('-', '−')}, p = ${formatCoefficient(d.p, 3)}.`;
+  const used = `The plan uses the comparison group's ${formatCoefficient(c.prePostCorrelation)} (its pre–post correlation describes the comparison group).`;
+  const message = differ
+    ? `${both} They differ, so one slope does not fit both groups: the pooled within-group value is shown for reference only, not used. ${used} Consider whether the programme changes how the pretest predicts the outcome.`
+    : `${both} They are similar. ${used}`;
+  return {
+    programme: { value: p.prePostCorrelation, n: p.nPrePost },
+    comparison: { value: c.prePostCorrelation, n: c.nPrePost },
+    difference: d.difference,
+    z: d.z,
+    p: d.p,
+    differ,
+    used: 'comparison',
+    message,
+  };
+}
+
 // ── Step 6: warnings in plain words, and what was left out ──────────────────
 
 /** The warnings about the estimates themselves (the estimating steps add their own before these). */
@@ -574,6 +644,7 @@ function resolveColumns(table: ParsedTable, mapping: PilotMapping): ResolvedColu
       out.itemNames.push(c);
       claim(c, `item ${j + 1} of ${p.columns.length}`);
     });
+    if (p.reverse !== undefined) checkReverse(p.reverse, p.columns);
   } else {
     throw new PilotDataError('bad-mapping', 'The pretest must be a total-score column or a list of item columns.');
   }
@@ -587,6 +658,34 @@ function resolveColumns(table: ParsedTable, mapping: PilotMapping): ResolvedColu
     claim(mapping.posttest, 'the posttest');
   }
   return out;
+}
+
+/** The reverse-keyed items must be among the pretest's items, on a scale whose lowest score is below its highest. */
+function checkReverse(reverse: ReverseItems, itemColumns: string[]): void {
+  const { minimum, maximum, columns } = reverse;
+  if (!Array.isArray(columns) || columns.length === 0) {
+    throw new PilotDataError('bad-mapping', 'Name the items to reverse; none was given.');
+  }
+  const notItems = columns.filter((c) => !itemColumns.includes(c));
+  if (notItems.length > 0) {
+    throw new PilotDataError(
+      'bad-mapping',
+      `Only pretest items can be reversed, and ${joinQuoted(notItems)} ${notItems.length === 1 ? 'is not one of them' : 'are not among them'}. The items are ${joinQuoted(itemColumns)}.`,
+      { column: notItems[0]! },
+    );
+  }
+  const twice = columns.filter((c, i) => columns.indexOf(c) !== i);
+  if (twice.length > 0) {
+    throw new PilotDataError('bad-mapping', `Item ${joinQuoted([...new Set(twice)])} is named more than once among the items to reverse; name it once.`, {
+      column: twice[0]!,
+    });
+  }
+  if (!Number.isFinite(minimum) || !Number.isFinite(maximum) || !(minimum < maximum)) {
+    throw new PilotDataError(
+      'bad-mapping',
+      `Reversing an item needs the scale's lowest and highest possible scores, lowest first and below the highest (e.g. 1 to 6); got ${Number.isFinite(minimum) ? formatScore(minimum) : String(minimum)} to ${Number.isFinite(maximum) ? formatScore(maximum) : String(maximum)}.`,
+    );
+  }
 }
 
 function readNumericColumn(
@@ -821,13 +920,19 @@ function structuredCopy(m: PilotMapping): PilotMapping {
   const pretest =
     m.pretest.kind === 'total'
       ? { kind: 'total' as const, column: m.pretest.column }
-      : { kind: 'items' as const, columns: [...m.pretest.columns], combine: m.pretest.combine };
+      : {
+          kind: 'items' as const,
+          columns: [...m.pretest.columns],
+          combine: m.pretest.combine,
+          ...(m.pretest.reverse ? { reverse: { ...m.pretest.reverse, columns: [...m.pretest.reverse.columns] } } : {}),
+        };
   return {
     group: m.group,
     programmeValue: m.programmeValue,
     pretest,
     ...(m.retest ? { retest: m.retest } : {}),
     ...(m.posttest ? { posttest: m.posttest } : {}),
+    ...(m.layout ? { layout: { ...m.layout } } : {}),
   };
 }
 
