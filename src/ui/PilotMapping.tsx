@@ -227,6 +227,7 @@ export function PilotMappingForm() {
                     <label key={name}>
                       <input
                         type="checkbox"
+                        aria-label={`Reverse ${name}`}
                         checked={m.reverseColumns.includes(name)}
                         onChange={(e) =>
                           set({ reverseColumns: e.target.checked ? [...m.reverseColumns, name] : m.reverseColumns.filter((n) => n !== name) })
