@@ -478,7 +478,7 @@ function comparePrePostByGroup(pretest: PretestEstimates): PrePostByGroup | unde
   if (p.nPrePost < 4 || c.nPrePost < 4) return undefined;
   const d = correlationDifference(p.prePostCorrelation, p.nPrePost, c.prePostCorrelation, c.nPrePost);
   const differ = d.p < 0.05 || Math.abs(d.difference) >= PRE_POST_GAP_NOTED;
-  const both = `The pre–post correlation is ${formatCoefficient(p.prePostCorrelation)} in the programme group (n = ${p.nPrePost}) and ${formatCoefficient(c.prePostCorrelation)} in the comparison group (n = ${c.nPrePost}); Fisher's z = ${d.z.toFixed(2).replace('-', '−')}, p = ${formatCoefficient(d.p, 3)}.`;
+  const both = `The pre–post correlation is ${formatCoefficient(p.prePostCorrelation)} in the programme group (n = ${p.nPrePost}) and ${formatCoefficient(c.prePostCorrelation)} in the comparison group (n = ${c.nPrePost}); Fisher's z = ${d.z.toFixed(2).replace('-', '−')}, p ${d.p < 0.001 ? '< .001' : `= ${formatCoefficient(d.p, 3)}`}.`;
   const used = `The plan uses the comparison group's ${formatCoefficient(c.prePostCorrelation)} (its pre–post correlation describes the comparison group).`;
   const message = differ
     ? `${both} They differ, so one slope does not fit both groups: the pooled within-group value is shown for reference only, not used. ${used} Consider whether the programme changes how the pretest predicts the outcome.`
