@@ -8,7 +8,7 @@ import { formatResultsTable, PLANNING_CAUTION } from './formatResultsTable';
 import { parseCommandLine } from './parseCommandLine';
 import { createPlanSimulation } from '../sim/multivariate/createPlanSimulation';
 import { estimateRunSeconds } from '../sim/estimateRunSeconds';
-import { fmtDuration, fmtInt } from '../ui/format';
+import { fmtDuration, fmtInt } from '../format/numbers';
 import type { SimulationResult } from '../sim/types';
 import { analysePlannedProcedure } from '../sim/analysePlannedProcedure';
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';

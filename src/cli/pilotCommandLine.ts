@@ -13,7 +13,7 @@ export interface PilotCommandLine {
 }
 
 export const PILOT_USAGE =
-  'meanward pilot <file.csv> --group COLUMN --programme VALUE (--pretest COLUMN | --items COL,COL,...) [--combine sum|mean] [--retest COLUMN] [--posttest COLUMN] [--delimiter ,|tab|;] [--no-header] [--json]';
+  'meanward pilot <file.csv> --group COLUMN --programme VALUE (--pretest COLUMN | --items COL,COL,...) [--combine sum|mean] [--reverse COL,COL,... --scale MIN-MAX] [--retest COLUMN] [--posttest COLUMN] [--id COLUMN --occasion COLUMN --pre VALUE [--re VALUE] [--post VALUE]] [--delimiter ,|tab|;] [--no-header] [--json]';
 
 const DELIMITER_WORDS: Record<string, Delimiter> = {
   ',': ',',
@@ -42,6 +42,13 @@ export function parsePilotCommandLine(rest: readonly string[]): { ok: true; valu
   let retest: string | undefined;
   let posttest: string | undefined;
   let delimiter: Delimiter | undefined;
+  let reverse: string[] | undefined;
+  let scale: { minimum: number; maximum: number } | undefined;
+  let id: string | undefined;
+  let occasion: string | undefined;
+  let preOccasion: string | undefined;
+  let reOccasion: string | undefined;
+  let postOccasion: string | undefined;
   let noHeader = false;
   let json = false;
   for (let i = 0; i < rest.length; i++) {
@@ -95,6 +102,36 @@ export function parsePilotCommandLine(rest: readonly string[]): { ok: true; valu
         else if (v !== undefined) problems.push(`--combine (how items make the pretest score) must be "sum" or "mean"; got ${JSON.stringify(v)}.`);
         break;
       }
+      case '--reverse': {
+        const v = takeValue('the reverse-keyed item columns, separated by commas');
+        if (v !== undefined) reverse = v.split(',').map((x) => x.trim());
+        if (reverse?.some((x) => x === '')) problems.push(`--reverse has an empty column name in ${JSON.stringify(v)}; separate names by single commas.`);
+        break;
+      }
+      case '--scale': {
+        const v = takeValue("the items' lowest and highest possible scores");
+        if (v === undefined) break;
+        const m = /^\s*(-?\d+(?:\.\d+)?)\s*(?:-|–|to|,|:)\s*(-?\d+(?:\.\d+)?)\s*$/.exec(v);
+        if (!m) problems.push(`--scale must be the lowest and highest possible item scores, e.g. "--scale 1-6"; got ${JSON.stringify(v)}.`);
+        else if (!(Number(m[1]) < Number(m[2]))) problems.push(`--scale: the lowest possible score (${m[1]}) must be below the highest (${m[2]}), e.g. "--scale 1-6"; got ${JSON.stringify(v)}.`);
+        else scale = { minimum: Number(m[1]), maximum: Number(m[2]) };
+        break;
+      }
+      case '--id':
+        id = takeValue('the name of the column that identifies each person (long files)');
+        break;
+      case '--occasion':
+        occasion = takeValue('the name of the column that says which occasion a row holds (long files)');
+        break;
+      case '--pre':
+        preOccasion = takeValue('the value of the occasion column that marks the pretest');
+        break;
+      case '--re':
+        reOccasion = takeValue('the value of the occasion column that marks the retest');
+        break;
+      case '--post':
+        postOccasion = takeValue('the value of the occasion column that marks the posttest');
+        break;
       case '--retest':
         retest = takeValue('the name of the retest column');
         break;
@@ -112,7 +149,7 @@ export function parsePilotCommandLine(rest: readonly string[]): { ok: true; valu
       default:
         if (a.startsWith('-') && a !== '-') {
           problems.push(
-            `Unknown option ${JSON.stringify(a)}. "meanward pilot" takes --group, --programme, --pretest or --items, --combine, --retest, --posttest, --delimiter, --no-header and --json.`,
+            `Unknown option ${JSON.stringify(a)}. "meanward pilot" takes --group, --programme, --pretest or --items, --combine, --reverse with --scale, --retest, --posttest, --id, --occasion, --pre, --re, --post, --delimiter, --no-header and --json.`,
           );
         } else files.push(a);
     }
@@ -128,13 +165,42 @@ export function parsePilotCommandLine(rest: readonly string[]): { ok: true; valu
     problems.push('The pretest is required: --pretest COLUMN (a total score) or --items COL,COL,... (item scores).');
   }
   if (combine !== undefined && items === undefined) problems.push('--combine applies to --items only.');
+  if (reverse !== undefined && items === undefined) problems.push('--reverse applies to --items only: name reverse-keyed items among the --items columns.');
+  if (reverse !== undefined && items !== undefined) {
+    const notItems = reverse.filter((c) => !items!.includes(c));
+    if (notItems.length > 0) problems.push(`--reverse names ${notItems.map((c) => JSON.stringify(c)).join(', ')}, not among the --items columns (${items.join(', ')}).`);
+  }
+  if (reverse !== undefined && scale === undefined && !seen.has('--scale')) problems.push('--reverse needs --scale MIN-MAX, the lowest and highest possible item scores (e.g. --scale 1-6): a reversed score is MAX + MIN − score.');
+  if (scale !== undefined && reverse === undefined) problems.push('--scale is used to reverse items: give --reverse COL,COL,... too.');
+  const long = id !== undefined || occasion !== undefined || preOccasion !== undefined || reOccasion !== undefined || postOccasion !== undefined;
+  if (long) {
+    if (id === undefined && !seen.has('--id')) problems.push('A long file (one row per person per occasion) needs --id COLUMN, the column that identifies each person.');
+    if (occasion === undefined && !seen.has('--occasion')) problems.push('A long file needs --occasion COLUMN, the column that says which occasion each row holds.');
+    if (preOccasion === undefined && !seen.has('--pre')) problems.push('A long file needs --pre VALUE, the value of the occasion column that marks the pretest.');
+    if (retest !== undefined || posttest !== undefined) problems.push('In a long file the retest and posttest are occasions: use --re VALUE and --post VALUE instead of --retest and --posttest.');
+  }
   if (problems.length > 0) return { ok: false, problems };
   const mapping: PilotMapping = {
     group: group!,
     programmeValue: programme!,
-    pretest: items !== undefined ? { kind: 'items', columns: items, combine: combine ?? 'sum' } : { kind: 'total', column: pretest! },
+    pretest:
+      items !== undefined
+        ? { kind: 'items', columns: items, combine: combine ?? 'sum', ...(reverse !== undefined && scale ? { reverse: { columns: reverse, ...scale } } : {}) }
+        : { kind: 'total', column: pretest! },
     ...(retest !== undefined ? { retest } : {}),
     ...(posttest !== undefined ? { posttest } : {}),
+    ...(long
+      ? {
+          layout: {
+            kind: 'long' as const,
+            id: id!,
+            occasion: occasion!,
+            pretestOccasion: preOccasion!,
+            ...(reOccasion !== undefined ? { retestOccasion: reOccasion } : {}),
+            ...(postOccasion !== undefined ? { posttestOccasion: postOccasion } : {}),
+          },
+        }
+      : {}),
   };
   return { ok: true, value: { command: 'pilot', file: files[0]!, mapping, ...(delimiter ? { delimiter } : {}), noHeader, json } };
 }
@@ -147,6 +213,16 @@ function example(flag: string): string {
       return 'mean';
     case '--delimiter':
       return 'tab';
+    case '--reverse':
+      return 'A1,A3';
+    case '--scale':
+      return '1-6';
+    case '--pre':
+      return 'pre';
+    case '--re':
+      return 'retest';
+    case '--post':
+      return 'post';
     case '--programme':
     case '--program':
       return 'support';

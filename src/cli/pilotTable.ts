@@ -1,3 +1,4 @@
+import { pilotReliabilityOptions } from '../pilot/pilotPlanUpdate';
 import type { PilotEstimates } from '../pilot/types';
 import { fmtPoints, fmtReliability, PLANNING_CAUTION } from './formatResultsTable';
 import { showControlCharacters as visible } from '../core/visibleText';
@@ -52,6 +53,9 @@ export function formatPilotTable(est: PilotEstimates): string {
   if (est.prePostCorrelation) {
     lines.push(`Pre–post correlation, within groups: ${fmtReliability(est.prePostCorrelation.value)} (n = ${est.prePostCorrelation.n})`);
   }
+  if (est.prePostByGroup) {
+    lines.push(`${est.prePostByGroup.differ ? 'Note: ' : ''}${est.prePostByGroup.message}`);
+  }
 
   const rel = est.reliability;
   const relRows: string[][] = [];
@@ -77,6 +81,9 @@ export function formatPilotTable(est: PilotEstimates): string {
   lines.push('', 'Reliability of the pretest');
   if (relRows.length === 0) lines.push('  none: map item columns (--items) or a retest column (--retest) to estimate it.');
   else lines.push(...alignColumns([['', 'estimate', '95% CI', ''], ...relRows], 3).map((l) => `  ${l}`));
+  const choices = pilotReliabilityOptions(est);
+  const suggested = choices.find((o) => o.recommended);
+  if (suggested && choices.length > 1) lines.push(`  For the plan: ${suggested.label} is suggested. ${suggested.why}`);
 
   if (est.itemTotal && est.itemTotal.length > 0) {
     lines.push('', 'Corrected item–total correlations (within groups)');

@@ -11,7 +11,11 @@ import {
   type PilotEstimates,
   type PilotMapping,
   type PilotWarning,
+  type PrePostByGroup,
+  type ReverseItems,
 } from './types';
+import { correlationDifference } from './correlationDifference';
+import { widenLongTable } from './widenLongTable';
 
 /** Confidence level of every interval in the pilot estimates. */
 export const PILOT_CONFIDENCE_LEVEL = 0.95;
@@ -52,6 +56,12 @@ const NO_GROUP = -1;
  * Linear in rows × mapped columns, two passes, one Float64Array per mapped
  * column; pure, and the result is plain data (structured-clone friendly).
  *
+ * Steps, each a named function below: resolve the columns (`resolveColumns`),
+ * read them as numbers (`readPilotColumns`), place rows in groups
+ * (`assignGroups`, listwise), the pretest moments (`pretestEstimates`), the
+ * estimates (`itemEstimates`, `testRetestEstimate`, `posttestEstimates`), the
+ * warnings (`pilotWarnings`) and the note on rows left out (`droppedRowsReason`).
+ *
  * @param table a table from parseDelimitedText (cells as text).
  * @param mapping which column is the group (and which value is the programme
  *   group; every other non-empty value is the comparison group), the pretest
@@ -71,21 +81,151 @@ const NO_GROUP = -1;
  *     pretest: { kind: 'items', columns: ['q1', 'q2', 'q3'], combine: 'sum' } })
  *   // { groups: { programme: { n, pretestMean, pretestSD }, … }, reliability: { alpha: { value, lower, upper, … } }, … }
  */
-export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileName?: string): PilotEstimates {
+export function estimatePilot(givenTable: ParsedTable, givenMapping: PilotMapping, fileName?: string): PilotEstimates {
+  const long = givenMapping.layout?.kind === 'long' ? widenLongTable(givenTable, givenMapping) : undefined;
+  const table = long?.table ?? givenTable;
+  const mapping = long?.mapping ?? givenMapping;
   const cols = resolveColumns(table, mapping);
-  const nRows = table.rows.length;
-  const rowNumber = (i: number): number =>
-    table.lineNumbers?.[i] ?? i + 1 + (table.hasHeader ? 1 : 0) + (table.commentLines ?? 0);
-  const decimalComma = table.delimiter === ';';
+  const data = readPilotColumns(table, mapping, cols);
+  const groups = assignGroups(table, mapping, cols, data.total);
+  const warnings: PilotWarning[] = [];
+  const pretest = pretestEstimates(mapping, cols, data.total, groups);
+  const items = data.items.length > 0 ? itemEstimates(data.items, cols, groups, warnings) : undefined;
+  const retest = data.retest ? testRetestEstimate(data.total, data.retest, mapping, groups, warnings) : undefined;
+  const post = data.posttest ? posttestEstimates(data.total, data.posttest, mapping, groups, pretest, warnings) : undefined;
 
-  // ── Numbers (any bad cell in a mapped column stops here, before anything is estimated) ──
+  const reliability: PilotEstimates['reliability'] = {};
+  if (items) {
+    reliability.alpha = items.alpha;
+    reliability.alphaByGroup = items.alphaByGroup;
+    if (items.splitHalf) reliability.splitHalf = items.splitHalf;
+  }
+  if (retest?.testRetest) reliability.testRetest = retest.testRetest;
+  warnings.push(...pilotWarnings(reliability, items?.itemTotal, groups));
+  const prePostByGroup = comparePrePostByGroup(pretest);
+
+  const result: PilotEstimates = {
+    ...(fileName !== undefined ? { fileName } : {}),
+    mapping: structuredCopy(givenMapping),
+    rowsRead: groups.rowsRead,
+    rowsUsed: groups.N,
+    rowsDropped: groups.rowsRead - groups.N,
+    droppedReason: (long ? `${long.note} ` : '') + droppedRowsReason(groups, data, retest?.rows ?? 0, post?.rows ?? 0),
+    groups: { programme: pretest.programme, comparison: pretest.comparison, comparisonValue: groups.comparisonValues.join(', ') },
+    gap: { points: pretest.gapPoints, smd: pretest.gapPoints / pretest.pooledWithinSD },
+    pooledWithinSD: pretest.pooledWithinSD,
+    reliability,
+    ...(post?.prePostCorrelation ? { prePostCorrelation: post.prePostCorrelation } : {}),
+    ...(prePostByGroup ? { prePostByGroup } : {}),
+    ...(items ? { itemTotal: items.itemTotal } : {}),
+    ...(long ? { longFile: long.counts } : {}),
+    warnings,
+  };
+  assertAllFinite(result, 'estimates');
+  return result;
+}
+
+// ── Step 2: read the mapped columns as numbers ──────────────────────────────
+
+/** The mapped columns as numbers (NaN = missing) and the pretest score of each row. */
+interface PilotColumns {
+  /** One array per item column (empty when the pretest is a total column). */
+  items: Float64Array[];
+  /** The pretest score per row: the total column, or the items' sum or mean (NaN when any item is missing). */
+  total: Float64Array;
+  retest?: Float64Array;
+  posttest?: Float64Array;
+}
+
+/**
+ * Read every mapped column as numbers; any bad cell in a mapped column stops
+ * here, before anything is estimated. Then form the pretest score per row.
+ */
+function readPilotColumns(table: ParsedTable, mapping: PilotMapping, cols: ResolvedColumns): PilotColumns {
+  const decimalComma = table.delimiter === ';';
+  const rowNumber = rowNumberOf(table);
   const readColumn = (index: number, name: string): Float64Array => readNumericColumn(table, index, name, decimalComma, rowNumber);
   const items = cols.items.map((c, j) => readColumn(c, cols.itemNames[j]!));
+  if (mapping.pretest.kind === 'items' && mapping.pretest.reverse) {
+    reverseItems(items, cols.itemNames, mapping.pretest.reverse, rowNumber);
+  }
   const totalColumn = cols.total === undefined ? undefined : readColumn(cols.total, cols.totalName!);
   const retest = cols.retest === undefined ? undefined : readColumn(cols.retest, mapping.retest!);
   const posttest = cols.posttest === undefined ? undefined : readColumn(cols.posttest, mapping.posttest!);
+  const total = totalColumn ?? combineItems(items, mapping, table.rows.length);
+  return { items, total, ...(retest ? { retest } : {}), ...(posttest ? { posttest } : {}) };
+}
 
-  // ── Groups ──
+/**
+ * Reverse the reverse-keyed items in place: x → maximum + minimum − x
+ * (common practice for Likert-type items). A score outside [minimum, maximum]
+ * is refused: it cannot be on the stated scale, and reversing it would give a
+ * score that is not either.
+ */
+function reverseItems(items: Float64Array[], names: string[], reverse: ReverseItems, rowNumber: (i: number) => number): void {
+  const { minimum, maximum } = reverse;
+  for (const column of reverse.columns) {
+    const j = names.indexOf(column);
+    const x = items[j]!;
+    for (let i = 0; i < x.length; i++) {
+      const v = x[i]!;
+      if (Number.isNaN(v)) continue;
+      if (v < minimum || v > maximum) {
+        throw new PilotDataError(
+          'out-of-scale',
+          `Item "${column}" is to be reversed on the scale ${formatScore(minimum)} to ${formatScore(maximum)}, but row ${rowNumber(i)} holds ${formatScore(v)}, outside that scale. Check the scale's lowest and highest possible scores, or the cell.`,
+          { column, row: rowNumber(i) },
+        );
+      }
+      x[i] = maximum + minimum - v;
+    }
+  }
+}
+
+/** A row's number as a spreadsheet shows it (the file's line number). */
+function rowNumberOf(table: ParsedTable): (i: number) => number {
+  return (i) => table.lineNumbers?.[i] ?? i + 1 + (table.hasHeader ? 1 : 0) + (table.commentLines ?? 0);
+}
+
+/** The pretest score per row from the items: their sum, or their mean (NaN when any item is missing). */
+function combineItems(items: Float64Array[], mapping: PilotMapping, nRows: number): Float64Array {
+  const k = items.length;
+  const total = new Float64Array(nRows);
+  const scale = mapping.pretest.kind === 'items' && mapping.pretest.combine === 'mean' ? 1 / k : 1;
+  for (let i = 0; i < nRows; i++) {
+    let s = 0;
+    for (let j = 0; j < k; j++) s += items[j]![i]!;
+    total[i] = s * scale; // NaN when any item is missing
+  }
+  return total;
+}
+
+// ── Step 3: place rows in groups (listwise over group and pretest) ───────────
+
+/** Which group each row is in, after the listwise rule, with the counts the messages need. */
+interface PilotGroups {
+  /** PROGRAMME, COMPARISON or NO_GROUP (no label, or an incomplete pretest) per row. */
+  group: Int8Array;
+  /** Usable rows per group, indexed by COMPARISON and PROGRAMME. */
+  n: number[];
+  N: number;
+  rowsRead: number;
+  /** Number of pretest items (0 for a total column). */
+  k: number;
+  programmeValue: string;
+  comparisonValues: string[];
+  /** Rows per group value in the file, in file order. */
+  valueRows: Map<string, number>;
+  /** Usable rows per comparison value. */
+  usableByValue: Map<string, number>;
+  noGroup: number;
+  noPretest: number;
+  /** "programme group ("…")" or "comparison group ("…", "…")", for messages. */
+  whoName(g: number): string;
+}
+
+function assignGroups(table: ParsedTable, mapping: PilotMapping, cols: ResolvedColumns, total: Float64Array): PilotGroups {
+  const nRows = table.rows.length;
   const programmeValue = mapping.programmeValue.trim();
   const group = new Int8Array(nRows);
   const valueRows = new Map<string, number>(); // rows per group value, in file order
@@ -101,17 +241,6 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
   checkGroupValues(valueRows, programmeValue, mapping.group);
   const comparisonValues = [...valueRows.keys()].filter((v) => v !== programmeValue);
 
-  // ── Pretest per row (listwise over the pretest columns) ──
-  const k = items.length;
-  const total = totalColumn ?? new Float64Array(nRows);
-  if (!totalColumn) {
-    const scale = mapping.pretest.kind === 'items' && mapping.pretest.combine === 'mean' ? 1 / k : 1;
-    for (let i = 0; i < nRows; i++) {
-      let s = 0;
-      for (let j = 0; j < k; j++) s += items[j]![i]!;
-      total[i] = s * scale; // NaN when any item is missing
-    }
-  }
   let noGroup = 0;
   let noPretest = 0;
   const usableByValue = new Map<string, number>();
@@ -135,6 +264,7 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
   }
   const whoName = (g: number) =>
     g === PROGRAMME ? `programme group ("${programmeValue}")` : `comparison group (${comparisonValues.map((v) => `"${v}"`).join(', ')})`;
+  const k = cols.items.length;
   for (const g of [PROGRAMME, COMPARISON]) {
     if (n[g]! < 2) {
       const rowsOfGroup = g === PROGRAMME ? valueRows.get(programmeValue)! : sumOf(comparisonValues.map((v) => valueRows.get(v)!));
@@ -145,10 +275,34 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
       );
     }
   }
-  const N = n[0]! + n[1]!;
+  return {
+    group,
+    n,
+    N: n[0]! + n[1]!,
+    rowsRead: nRows,
+    k,
+    programmeValue,
+    comparisonValues,
+    valueRows,
+    usableByValue,
+    noGroup,
+    noPretest,
+    whoName,
+  };
+}
 
-  // ── Pretest mean and SD per group; pooled within-group SD ──
-  const pre = groupMoments(total, group);
+// ── Step 4: pretest moments: mean and SD per group, pooled within-group SD ──
+
+interface PretestEstimates {
+  programme: GroupEstimates;
+  comparison: GroupEstimates;
+  gapPoints: number;
+  pooledWithinSD: number;
+}
+
+function pretestEstimates(mapping: PilotMapping, cols: ResolvedColumns, total: Float64Array, groups: PilotGroups): PretestEstimates {
+  const { n, N, whoName } = groups;
+  const pre = groupMoments(total, groups.group);
   for (const g of [PROGRAMME, COMPARISON]) {
     if (pre.constant[g]) {
       const what = cols.total === undefined ? `pretest total (the ${mapping.pretest.kind === 'items' ? mapping.pretest.combine : 'sum'} of the items)` : `pretest column "${cols.totalName}"`;
@@ -169,125 +323,188 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
   });
   const programme = groupEstimates(PROGRAMME);
   const comparison = groupEstimates(COMPARISON);
-  const gapPoints = programme.pretestMean - comparison.pretestMean;
+  return { programme, comparison, gapPoints: programme.pretestMean - comparison.pretestMean, pooledWithinSD };
+}
 
-  const warnings: PilotWarning[] = [];
-  const reliability: PilotEstimates['reliability'] = {};
-  let itemTotal: PilotEstimates['itemTotal'];
+// ── Step 5: estimates: items (alpha, split-half, item–total), retest, posttest ─
 
-  // ── Items: alpha (pooled and per group), split-half, item–total ──
-  if (k > 0) {
-    const it = itemMoments(items, group, k);
-    const constantItems = cols.itemNames.filter((_, j) => it.constant[j]);
-    if (constantItems.length > 0) {
-      throw new PilotDataError(
-        'constant-item',
-        `${constantItems.length === 1 ? 'Item column' : 'Item columns'} ${joinQuoted(constantItems)} ${constantItems.length === 1 ? 'has' : 'have'} the same value in every used row of each group, so ${constantItems.length === 1 ? 'it carries' : 'they carry'} no information about differences between people. Leave ${constantItems.length === 1 ? 'it' : 'them'} out of the items.`,
-        { column: constantItems[0]! },
-      );
-    }
-    cols.itemNames.forEach((column, j) =>
-      requireSpread(it.ssItem[j]! + it.ssItem[k + j]!, N - 1, `Item column "${column}"`, 'both groups together', column),
+interface ItemEstimates {
+  alpha: NonNullable<PilotEstimates['reliability']['alpha']>;
+  alphaByGroup: NonNullable<PilotEstimates['reliability']['alphaByGroup']>;
+  splitHalf?: NonNullable<PilotEstimates['reliability']['splitHalf']>;
+  itemTotal: NonNullable<PilotEstimates['itemTotal']>;
+}
+
+/** Alpha (pooled within groups and per group, Feldt CIs), the odd–even split-half and corrected item–total correlations. */
+function itemEstimates(items: Float64Array[], cols: ResolvedColumns, groups: PilotGroups, warnings: PilotWarning[]): ItemEstimates {
+  const { n, N, k } = groups;
+  const it = itemMoments(items, groups.group, k);
+  const constantItems = cols.itemNames.filter((_, j) => it.constant[j]);
+  if (constantItems.length > 0) {
+    throw new PilotDataError(
+      'constant-item',
+      `${constantItems.length === 1 ? 'Item column' : 'Item columns'} ${joinQuoted(constantItems)} ${constantItems.length === 1 ? 'has' : 'have'} the same value in every used row of each group, so ${constantItems.length === 1 ? 'it carries' : 'they carry'} no information about differences between people. Leave ${constantItems.length === 1 ? 'it' : 'them'} out of the items.`,
+      { column: constantItems[0]! },
     );
-    const ssItemsPooled = sumOf(Array.from({ length: k }, (_, j) => it.ssItem[j]! + it.ssItem[k + j]!));
-    const ssSumPooled = it.ssSum[0]! + it.ssSum[1]!;
-    const alphaPooled = Math.min(1, cronbachAlpha(k, ssItemsPooled, ssSumPooled));
-    reliability.alpha = { ...feldtInterval(alphaPooled, N - 2, k, PILOT_CONFIDENCE_LEVEL), n: N, items: k };
-    const byGroup = (g: number) => {
-      let s = 0;
-      for (let j = 0; j < k; j++) s += it.ssItem[g * k + j]!;
-      const a = Math.min(1, cronbachAlpha(k, s, it.ssSum[g]!));
-      return { ...feldtInterval(a, n[g]! - 1, k, PILOT_CONFIDENCE_LEVEL), n: n[g]! };
-    };
-    reliability.alphaByGroup = { programme: byGroup(PROGRAMME), comparison: byGroup(COMPARISON) };
-
-    itemTotal = cols.itemNames.map((column, j) => {
-      const ssj = it.ssItem[j]! + it.ssItem[k + j]!;
-      const cpj = it.cpItemSum[j]!;
-      const ssRest = ssSumPooled - 2 * cpj + ssj;
-      if (!(ssRest > 1e-12 * ssSumPooled)) {
-        throw new PilotDataError(
-          'constant-column',
-          `The items other than "${column}" add up to the same value in every used row of each group, so "${column}" cannot be compared with the rest of the test. Check the item columns.`,
-          { column },
-        );
-      }
-      return { column, correctedCorrelation: clampCorrelation((cpj - ssj) / (Math.sqrt(ssj) * Math.sqrt(ssRest))) };
-    });
-
-    if (it.ssOdd > 0 && it.ssEven > 0) {
-      const half = clampCorrelation(it.cpOddEven / (Math.sqrt(it.ssOdd) * Math.sqrt(it.ssEven)));
-      if (half > 0) reliability.splitHalf = { halfCorrelation: half, spearmanBrown: spearmanBrown(half, 2), n: N };
-      else {
-        warnings.push({
-          code: 'split-half-not-positive',
-          message: `The odd-numbered and even-numbered items do not correlate positively (r = ${formatCoefficient(half)}), so no split-half reliability is given. Check the items for reverse-keyed ones.`,
-        });
-      }
-    }
   }
+  cols.itemNames.forEach((column, j) =>
+    requireSpread(it.ssItem[j]! + it.ssItem[k + j]!, N - 1, `Item column "${column}"`, 'both groups together', column),
+  );
+  const ssItemsPooled = sumOf(Array.from({ length: k }, (_, j) => it.ssItem[j]! + it.ssItem[k + j]!));
+  const ssSumPooled = it.ssSum[0]! + it.ssSum[1]!;
+  const alphaPooled = Math.min(1, cronbachAlpha(k, ssItemsPooled, ssSumPooled));
+  const alpha = { ...feldtInterval(alphaPooled, N - 2, k, PILOT_CONFIDENCE_LEVEL), n: N, items: k };
+  const byGroup = (g: number) => {
+    let s = 0;
+    for (let j = 0; j < k; j++) s += it.ssItem[g * k + j]!;
+    const a = Math.min(1, cronbachAlpha(k, s, it.ssSum[g]!));
+    return { ...feldtInterval(a, n[g]! - 1, k, PILOT_CONFIDENCE_LEVEL), n: n[g]! };
+  };
+  const alphaByGroup = { programme: byGroup(PROGRAMME), comparison: byGroup(COMPARISON) };
 
-  // ── Test–retest (pairwise) ──
-  let rowsRetest = 0;
-  if (retest) {
-    const pr = pairMoments(total, retest, group);
-    rowsRetest = pr.n[0]! + pr.n[1]!;
-    if (pr.constantY[0] && pr.constantY[1] && rowsRetest > 0) {
+  const itemTotal = cols.itemNames.map((column, j) => {
+    const ssj = it.ssItem[j]! + it.ssItem[k + j]!;
+    const cpj = it.cpItemSum[j]!;
+    const ssRest = ssSumPooled - 2 * cpj + ssj;
+    if (!(ssRest > 1e-12 * ssSumPooled)) {
       throw new PilotDataError(
         'constant-column',
-        `The retest column "${mapping.retest}" has the same value in every used row of each group, so it cannot show how consistently people score.`,
-        { column: mapping.retest! },
+        `The items other than "${column}" add up to the same value in every used row of each group, so "${column}" cannot be compared with the rest of the test. Check the item columns.`,
+        { column },
       );
     }
-    const ssx = pr.ssx[0]! + pr.ssx[1]!;
-    const ssy = pr.ssy[0]! + pr.ssy[1]!;
-    if (rowsRetest >= 5 && ssx > 0 && ssy > 0) {
-      const r = clampCorrelation((pr.cp[0]! + pr.cp[1]!) / (Math.sqrt(ssx) * Math.sqrt(ssy)));
-      reliability.testRetest = fisherZInterval(r, rowsRetest, 1, PILOT_CONFIDENCE_LEVEL);
-    } else {
+    return { column, correctedCorrelation: clampCorrelation((cpj - ssj) / (Math.sqrt(ssj) * Math.sqrt(ssRest))) };
+  });
+
+  let splitHalf: ItemEstimates['splitHalf'];
+  if (it.ssOdd > 0 && it.ssEven > 0) {
+    const half = clampCorrelation(it.cpOddEven / (Math.sqrt(it.ssOdd) * Math.sqrt(it.ssEven)));
+    if (half > 0) splitHalf = { halfCorrelation: half, spearmanBrown: spearmanBrown(half, 2), n: N };
+    else {
       warnings.push({
-        code: 'retest-too-few',
-        message: `Only ${rowsRetest} used row${rowsRetest === 1 ? ' has' : 's have'} both a pretest and a retest score ("${mapping.retest}"): at least 5 are needed, so no test–retest correlation is given.`,
+        code: 'split-half-not-positive',
+        message: `The odd-numbered and even-numbered items do not correlate positively (r = ${formatCoefficient(half)}), so no split-half reliability is given. Check the items for reverse-keyed ones.`,
       });
     }
   }
+  return { alpha, alphaByGroup, ...(splitHalf ? { splitHalf } : {}), itemTotal };
+}
 
-  // ── Posttest SD and pre–post correlation (pairwise) ──
-  let prePostCorrelation: PilotEstimates['prePostCorrelation'];
-  let rowsPost = 0;
-  if (posttest) {
-    const pp = pairMoments(total, posttest, group);
-    rowsPost = pp.n[0]! + pp.n[1]!;
-    if (pp.constantY[0] && pp.constantY[1] && rowsPost > 0) {
-      throw new PilotDataError(
-        'constant-column',
-        `The posttest column "${mapping.posttest}" has the same value in every used row of each group, so it has no SD and no correlation with the pretest.`,
-        { column: mapping.posttest! },
-      );
-    }
-    for (const [g, est] of [
-      [PROGRAMME, programme],
-      [COMPARISON, comparison],
-    ] as const) {
-      est.nPrePost = pp.n[g]!;
-      if (pp.n[g]! >= 3 && pp.ssx[g]! > 0 && pp.ssy[g]! > 0) {
-        est.posttestSD = Math.sqrt(pp.ssy[g]! / (pp.n[g]! - 1));
-        est.prePostCorrelation = clampCorrelation(pp.cp[g]! / (Math.sqrt(pp.ssx[g]!) * Math.sqrt(pp.ssy[g]!)));
-      } else {
-        warnings.push({
-          code: 'posttest-too-few',
-          message: `In the ${whoName(g)} only ${pp.n[g]} used row${pp.n[g] === 1 ? ' has' : 's have'} a posttest score ("${mapping.posttest}")${pp.n[g]! >= 3 ? ', and the scores do not vary' : ''}: at least 3 varying scores are needed, so that group's posttest SD and pre–post correlation are not given.`,
-        });
-      }
-    }
-    const ssx = pp.ssx[0]! + pp.ssx[1]!;
-    const ssy = pp.ssy[0]! + pp.ssy[1]!;
-    if (rowsPost >= 4 && ssx > 0 && ssy > 0) {
-      prePostCorrelation = { value: clampCorrelation((pp.cp[0]! + pp.cp[1]!) / (Math.sqrt(ssx) * Math.sqrt(ssy))), n: rowsPost };
+/** The pooled within-group pretest–retest correlation with its Fisher z CI (pairwise), and the rows it used. */
+function testRetestEstimate(
+  total: Float64Array,
+  retest: Float64Array,
+  mapping: PilotMapping,
+  groups: PilotGroups,
+  warnings: PilotWarning[],
+): { testRetest?: NonNullable<PilotEstimates['reliability']['testRetest']>; rows: number } {
+  const pr = pairMoments(total, retest, groups.group);
+  const rows = pr.n[0]! + pr.n[1]!;
+  if (pr.constantY[0] && pr.constantY[1] && rows > 0) {
+    throw new PilotDataError(
+      'constant-column',
+      `The retest column "${mapping.retest}" has the same value in every used row of each group, so it cannot show how consistently people score.`,
+      { column: mapping.retest! },
+    );
+  }
+  const ssx = pr.ssx[0]! + pr.ssx[1]!;
+  const ssy = pr.ssy[0]! + pr.ssy[1]!;
+  if (rows >= 5 && ssx > 0 && ssy > 0) {
+    const r = clampCorrelation((pr.cp[0]! + pr.cp[1]!) / (Math.sqrt(ssx) * Math.sqrt(ssy)));
+    return { testRetest: fisherZInterval(r, rows, 1, PILOT_CONFIDENCE_LEVEL), rows };
+  }
+  warnings.push({
+    code: 'retest-too-few',
+    message: `Only ${rows} used row${rows === 1 ? ' has' : 's have'} both a pretest and a retest score ("${mapping.retest}"): at least 5 are needed, so no test–retest correlation is given.`,
+  });
+  return { rows };
+}
+
+/**
+ * Posttest SD and pre–post correlation per group (written into `pretest`'s
+ * group estimates) and pooled within groups (pairwise), and the rows used.
+ */
+function posttestEstimates(
+  total: Float64Array,
+  posttest: Float64Array,
+  mapping: PilotMapping,
+  groups: PilotGroups,
+  pretest: PretestEstimates,
+  warnings: PilotWarning[],
+): { prePostCorrelation?: NonNullable<PilotEstimates['prePostCorrelation']>; rows: number } {
+  const pp = pairMoments(total, posttest, groups.group);
+  const rows = pp.n[0]! + pp.n[1]!;
+  if (pp.constantY[0] && pp.constantY[1] && rows > 0) {
+    throw new PilotDataError(
+      'constant-column',
+      `The posttest column "${mapping.posttest}" has the same value in every used row of each group, so it has no SD and no correlation with the pretest.`,
+      { column: mapping.posttest! },
+    );
+  }
+  for (const [g, est] of [
+    [PROGRAMME, pretest.programme],
+    [COMPARISON, pretest.comparison],
+  ] as const) {
+    est.nPrePost = pp.n[g]!;
+    if (pp.n[g]! >= 3 && pp.ssx[g]! > 0 && pp.ssy[g]! > 0) {
+      est.posttestSD = Math.sqrt(pp.ssy[g]! / (pp.n[g]! - 1));
+      est.prePostCorrelation = clampCorrelation(pp.cp[g]! / (Math.sqrt(pp.ssx[g]!) * Math.sqrt(pp.ssy[g]!)));
+    } else {
+      warnings.push({
+        code: 'posttest-too-few',
+        message: `In the ${groups.whoName(g)} only ${pp.n[g]} used row${pp.n[g] === 1 ? ' has' : 's have'} a posttest score ("${mapping.posttest}")${pp.n[g]! >= 3 ? ', and the scores do not vary' : ''}: at least 3 varying scores are needed, so that group's posttest SD and pre–post correlation are not given.`,
+      });
     }
   }
+  const ssx = pp.ssx[0]! + pp.ssx[1]!;
+  const ssy = pp.ssy[0]! + pp.ssy[1]!;
+  if (rows >= 4 && ssx > 0 && ssy > 0) {
+    return { prePostCorrelation: { value: clampCorrelation((pp.cp[0]! + pp.cp[1]!) / (Math.sqrt(ssx) * Math.sqrt(ssy))), n: rows }, rows };
+  }
+  return { rows };
+}
 
-  // ── Warnings in plain words ──
+/** Gap between the groups' pre–post correlations from which they are said to differ (whatever the test says). */
+export const PRE_POST_GAP_NOTED = 0.1;
+
+/**
+ * The two groups' pre–post correlations side by side (when both exist, each
+ * from 4 or more pairs), with Fisher's z test of the difference, in words:
+ * the plan takes the comparison group's, and a merged slope would hide a gap.
+ */
+function comparePrePostByGroup(pretest: PretestEstimates): PrePostByGroup | undefined {
+  const { programme: p, comparison: c } = pretest;
+  if (p.prePostCorrelation === undefined || c.prePostCorrelation === undefined || p.nPrePost === undefined || c.nPrePost === undefined) return undefined;
+  if (p.nPrePost < 4 || c.nPrePost < 4) return undefined;
+  const d = correlationDifference(p.prePostCorrelation, p.nPrePost, c.prePostCorrelation, c.nPrePost);
+  const differ = d.p < 0.05 || Math.abs(d.difference) >= PRE_POST_GAP_NOTED;
+  const both = `The pre–post correlation is ${formatCoefficient(p.prePostCorrelation)} in the programme group (n = ${p.nPrePost}) and ${formatCoefficient(c.prePostCorrelation)} in the comparison group (n = ${c.nPrePost}); Fisher's z = ${d.z.toFixed(2).replace('-', '−')}, p ${d.p < 0.001 ? '< .001' : `= ${formatCoefficient(d.p, 3)}`}.`;
+  const used = `The plan uses the comparison group's ${formatCoefficient(c.prePostCorrelation)} (its pre–post correlation describes the comparison group).`;
+  const message = differ
+    ? `${both} They differ, so one slope does not fit both groups: the pooled within-group value is shown for reference only, not used. ${used} Consider whether the programme changes how the pretest predicts the outcome.`
+    : `${both} They are similar. ${used}`;
+  return {
+    programme: { value: p.prePostCorrelation, n: p.nPrePost },
+    comparison: { value: c.prePostCorrelation, n: c.nPrePost },
+    difference: d.difference,
+    z: d.z,
+    p: d.p,
+    differ,
+    used: 'comparison',
+    message,
+  };
+}
+
+// ── Step 6: warnings in plain words, and what was left out ──────────────────
+
+/** The warnings about the estimates themselves (the estimating steps add their own before these). */
+function pilotWarnings(
+  reliability: PilotEstimates['reliability'],
+  itemTotal: PilotEstimates['itemTotal'],
+  groups: PilotGroups,
+): PilotWarning[] {
+  const { n, whoName, programmeValue, comparisonValues, valueRows, usableByValue } = groups;
+  const warnings: PilotWarning[] = [];
   const alpha = reliability.alpha;
   if (alpha && alpha.value < RELIABILITY_FLOOR) {
     warnings.push({
@@ -334,9 +551,12 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
       message: `The comparison group pools every group value other than "${programmeValue}": ${joinList(list)}. If some of these rows should not be in the comparison group, remove them from the file.`,
     });
   }
+  return warnings;
+}
 
-  // ── What was left out, and which rule each figure uses ──
-  const rowsUsed = N;
+/** Plain words: which rows were left out and why, and which rows the pairwise figures use. */
+function droppedRowsReason(groups: PilotGroups, data: PilotColumns, rowsRetest: number, rowsPost: number): string {
+  const { rowsRead: nRows, N: rowsUsed, noGroup, noPretest, k } = groups;
   const rowsDropped = nRows - rowsUsed;
   const parts: string[] = [];
   if (noGroup > 0) parts.push(`${noGroup} without a group label`);
@@ -346,30 +566,13 @@ export function estimatePilot(table: ParsedTable, mapping: PilotMapping, fileNam
       ? `No rows were left out: all ${nRows} have a group label and a complete pretest.`
       : `${rowsDropped} of ${nRows} rows were left out of every estimate: ${joinList(parts)} (listwise deletion over the group and pretest columns).`;
   const pairwise: string[] = [];
-  if (retest) pairwise.push(`the test–retest correlation uses the ${rowsRetest} of the ${rowsUsed} used rows that also have a retest score`);
-  if (posttest) pairwise.push(`the posttest SD and pre–post correlation use the ${rowsPost} that also have a posttest score`);
+  if (data.retest) pairwise.push(`the test–retest correlation uses the ${rowsRetest} of the ${rowsUsed} used rows that also have a retest score`);
+  if (data.posttest) pairwise.push(`the posttest SD and pre–post correlation use the ${rowsPost} that also have a posttest score`);
   if (pairwise.length > 0) droppedReason += ` Pairwise: ${pairwise.join('; ')}.`;
-
-  const result: PilotEstimates = {
-    ...(fileName !== undefined ? { fileName } : {}),
-    mapping: structuredCopy(mapping),
-    rowsRead: nRows,
-    rowsUsed,
-    rowsDropped,
-    droppedReason,
-    groups: { programme, comparison, comparisonValue: comparisonValues.join(', ') },
-    gap: { points: gapPoints, smd: gapPoints / pooledWithinSD },
-    pooledWithinSD,
-    reliability,
-    ...(prePostCorrelation ? { prePostCorrelation } : {}),
-    ...(itemTotal ? { itemTotal } : {}),
-    warnings,
-  };
-  assertAllFinite(result, 'estimates');
-  return result;
+  return droppedReason;
 }
 
-// ─────────────────────────────────────────────────────────────────────────────
+// ── Step 1: resolve the mapping's column names to indices ───────────────────
 
 interface ResolvedColumns {
   group: number;
@@ -441,6 +644,7 @@ function resolveColumns(table: ParsedTable, mapping: PilotMapping): ResolvedColu
       out.itemNames.push(c);
       claim(c, `item ${j + 1} of ${p.columns.length}`);
     });
+    if (p.reverse !== undefined) checkReverse(p.reverse, p.columns);
   } else {
     throw new PilotDataError('bad-mapping', 'The pretest must be a total-score column or a list of item columns.');
   }
@@ -454,6 +658,34 @@ function resolveColumns(table: ParsedTable, mapping: PilotMapping): ResolvedColu
     claim(mapping.posttest, 'the posttest');
   }
   return out;
+}
+
+/** The reverse-keyed items must be among the pretest's items, on a scale whose lowest score is below its highest. */
+function checkReverse(reverse: ReverseItems, itemColumns: string[]): void {
+  const { minimum, maximum, columns } = reverse;
+  if (!Array.isArray(columns) || columns.length === 0) {
+    throw new PilotDataError('bad-mapping', 'Name the items to reverse; none was given.');
+  }
+  const notItems = columns.filter((c) => !itemColumns.includes(c));
+  if (notItems.length > 0) {
+    throw new PilotDataError(
+      'bad-mapping',
+      `Only pretest items can be reversed, and ${joinQuoted(notItems)} ${notItems.length === 1 ? 'is not one of them' : 'are not among them'}. The items are ${joinQuoted(itemColumns)}.`,
+      { column: notItems[0]! },
+    );
+  }
+  const twice = columns.filter((c, i) => columns.indexOf(c) !== i);
+  if (twice.length > 0) {
+    throw new PilotDataError('bad-mapping', `Item ${joinQuoted([...new Set(twice)])} is named more than once among the items to reverse; name it once.`, {
+      column: twice[0]!,
+    });
+  }
+  if (!Number.isFinite(minimum) || !Number.isFinite(maximum) || !(minimum < maximum)) {
+    throw new PilotDataError(
+      'bad-mapping',
+      `Reversing an item needs the scale's lowest and highest possible scores, lowest first and below the highest (e.g. 1 to 6); got ${Number.isFinite(minimum) ? formatScore(minimum) : String(minimum)} to ${Number.isFinite(maximum) ? formatScore(maximum) : String(maximum)}.`,
+    );
+  }
 }
 
 function readNumericColumn(
@@ -688,13 +920,19 @@ function structuredCopy(m: PilotMapping): PilotMapping {
   const pretest =
     m.pretest.kind === 'total'
       ? { kind: 'total' as const, column: m.pretest.column }
-      : { kind: 'items' as const, columns: [...m.pretest.columns], combine: m.pretest.combine };
+      : {
+          kind: 'items' as const,
+          columns: [...m.pretest.columns],
+          combine: m.pretest.combine,
+          ...(m.pretest.reverse ? { reverse: { ...m.pretest.reverse, columns: [...m.pretest.reverse.columns] } } : {}),
+        };
   return {
     group: m.group,
     programmeValue: m.programmeValue,
     pretest,
     ...(m.retest ? { retest: m.retest } : {}),
     ...(m.posttest ? { posttest: m.posttest } : {}),
+    ...(m.layout ? { layout: { ...m.layout } } : {}),
   };
 }
 

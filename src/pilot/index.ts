@@ -6,7 +6,9 @@
 export * from './types';
 export { parseDelimitedText } from './parseDelimitedText';
 export { estimatePilot, PILOT_CONFIDENCE_LEVEL, RELIABILITY_FLOOR, SMALL_GROUP_SIZE } from './estimatePilot';
-export { pilotPlanUpdate } from './pilotPlanUpdate';
+export { applyPilotOffer, pilotPlanUpdate, pilotReliabilityOptions, type PilotPlanUpdateOptions } from './pilotPlanUpdate';
+export { correlationDifference } from './correlationDifference';
+export { widenLongTable } from './widenLongTable';
 export { pessimisticPlan, pessimisticPlanResult, type PessimisticPlanResult } from './pessimisticPlan';
 export { cronbachAlpha } from './cronbachAlpha';
 export { feldtInterval } from './feldtInterval';

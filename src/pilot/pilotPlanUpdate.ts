@@ -2,7 +2,16 @@ import type { FieldProvenance, Plan } from '../core/plan';
 import { PLAN_LIMITS } from '../core/planSchema';
 import { validatePlan } from '../core/validatePlan';
 import { formatCoefficient } from './formatPilotNumber';
-import type { AppliedPilotField, PilotEstimates, PilotPlanUpdate, SkippedPilotField } from './types';
+import { designAnalysisIds } from '../core/design/studyDesign';
+import type {
+  AppliedPilotField,
+  PilotEstimates,
+  PilotOffer,
+  PilotPlanUpdate,
+  PilotReliabilityOption,
+  PilotReliabilitySource,
+  SkippedPilotField,
+} from './types';
 
 /** One candidate write: the plan paths it sets, how, and its provenance. */
 interface Candidate {
@@ -44,14 +53,15 @@ interface Candidate {
  *   pilotPlanUpdate(demoPlan(), est).plan.provenance['pretest.reliability'].note
  *   // "from pilot file cohort.csv, Cronbach's alpha within groups = .81 (95% CI .77 to .85, Feldt), n = 212, 8 items"
  */
-export function pilotPlanUpdate(plan: Plan, est: PilotEstimates): PilotPlanUpdate {
+export function pilotPlanUpdate(plan: Plan, est: PilotEstimates, options: PilotPlanUpdateOptions = {}): PilotPlanUpdate {
   const before = validatePlan(plan);
   if (!before.ok) {
     throw new Error(
       `Pilot values can only be written into a valid plan; this one has ${before.problems.length === 1 ? 'a problem' : 'problems'}: ${before.problems.map((p) => p.message).join(' ')}`,
     );
   }
-  const candidates = pilotCandidates(est);
+  const source = chosenReliabilitySource(est, options.reliability);
+  const candidates = pilotCandidates(est, source);
   const m = candidates.length;
 
   // Largest passing subset; among equal sizes the one keeping earlier candidates (bit i = candidate i).
@@ -79,7 +89,114 @@ export function pilotPlanUpdate(plan: Plan, est: PilotEstimates): PilotPlanUpdat
       : `Not written: ${check.problems.map((p) => p.message).join(' ')}`;
     skipped.push({ path: c.path, value: c.value, reason });
   });
-  return { plan: withCandidates(plan, candidates, chosen), applied, skipped };
+  const after = withCandidates(plan, candidates, chosen);
+  const reliabilityWritten = applied.some((a) => a.path === 'pretest.reliability');
+  return {
+    plan: after,
+    applied,
+    skipped,
+    offers: reliabilityWritten ? correctedAncovaOffers(after) : [],
+    ...(reliabilityWritten && source ? { reliabilitySource: source } : {}),
+  };
+}
+
+/** Options of pilotPlanUpdate. */
+export interface PilotPlanUpdateOptions {
+  /**
+   * Which reliability to write: 'alpha' or 'test-retest'. Left out: alpha
+   * when items were mapped, else test–retest (as before this option existed);
+   * the planner passes the researcher's choice, which starts at the
+   * recommended one (see pilotReliabilityOptions).
+   */
+  reliability?: PilotReliabilitySource;
+}
+
+/**
+ * The reliabilities the pilot offers for the plan, each with why it fits or
+ * not. Alpha counts only disagreement between items at one sitting as error;
+ * the test–retest correlation also counts day-to-day fluctuation, which is
+ * the error that makes a group picked on one day's scores drift back on
+ * another day (regression toward the mean), so it is recommended when a
+ * retest was mapped (Lord & Novick 1968, ch. 3 and 9, from memory; the
+ * distinction is common practice).
+ *
+ * @returns the options (alpha first when present), exactly one recommended; empty when none was estimated.
+ */
+export function pilotReliabilityOptions(est: PilotEstimates): PilotReliabilityOption[] {
+  const out: PilotReliabilityOption[] = [];
+  const a = est.reliability.alpha;
+  const t = est.reliability.testRetest;
+  if (a) {
+    out.push({
+      source: 'alpha',
+      value: a.value,
+      label: `Cronbach's alpha within groups, ${formatCoefficient(a.value)} (${pct(a.level)} CI ${formatCoefficient(a.lower)} to ${formatCoefficient(a.upper)})`,
+      why: t
+        ? 'Counts only disagreement between the items at one sitting as error. Day-to-day ups and downs are not counted, yet they are what regresses when groups differ on one day\'s scores, so alpha usually overstates the reliability that matters here.'
+        : 'Counts only disagreement between the items at one sitting as error; day-to-day ups and downs, which also regress, are not counted, so the artefact may be larger than planned. Map a retest column to compare.',
+      recommended: !t,
+    });
+  }
+  if (t) {
+    out.push({
+      source: 'test-retest',
+      value: t.value,
+      label: `test–retest correlation within groups, ${formatCoefficient(t.value)} (${pct(t.level)} CI ${formatCoefficient(t.lower)} to ${formatCoefficient(t.upper)})`,
+      why: 'Counts day-to-day ups and downs as error as well as item disagreement: that error is what regresses toward the mean between pretest and posttest, so this is the figure recommended for the plan (if real change between the two sittings is small).',
+      recommended: true,
+    });
+  }
+  return out;
+}
+
+/** The source written: the one asked for when it was estimated, else the default (alpha, then test–retest). */
+function chosenReliabilitySource(est: PilotEstimates, asked: PilotReliabilitySource | undefined): PilotReliabilitySource | undefined {
+  if (asked === 'test-retest' && est.reliability.testRetest) return 'test-retest';
+  if (asked === 'alpha' && est.reliability.alpha) return 'alpha';
+  if (est.reliability.alpha) return 'alpha';
+  if (est.reliability.testRetest) return 'test-retest';
+  return undefined;
+}
+
+/**
+ * When the plan has a corrected ANCOVA and its assumed reliability differs
+ * from the pretest reliability just written, ask whether to use that value
+ * there too (the correction removes the artefact only when the assumed value
+ * matches the pretest's reliability; Porter 1967, from memory).
+ */
+function correctedAncovaOffers(plan: Plan): PilotOffer[] {
+  const r = plan.pretest.reliability;
+  if (typeof r !== 'number' || !designAnalysisIds(plan).includes('correctedAncova')) return [];
+  const current = plan.analysis.assumedReliability;
+  if (current === r) return [];
+  const proposed = r;
+  const check = structuredClone(plan);
+  check.analysis.assumedReliability = proposed;
+  if (!validatePlan(check).ok) return [];
+  return [
+    {
+      path: 'analysis.assumedReliability',
+      current,
+      proposed,
+      message: `The corrected ANCOVA still assumes a reliability of ${formatCoefficient(current, 3)}, but the pretest reliability is now ${formatCoefficient(proposed, 3)} from the pilot. The correction removes the artefact only when the value it assumes matches the pretest's reliability. Use ${formatCoefficient(proposed, 3)} for the corrected ANCOVA too?`,
+      note: clip(`${plan.provenance?.['pretest.reliability']?.note ?? 'from the pilot file'} (also assumed by the corrected ANCOVA)`),
+    },
+  ];
+}
+
+/**
+ * Accept an offer from pilotPlanUpdate: the plan with that one value and its
+ * provenance written; the input is not changed.
+ * @throws Error when the result would not pass validatePlan (the message lists why).
+ */
+export function applyPilotOffer(plan: Plan, offer: PilotOffer): Plan {
+  if (offer.path !== 'analysis.assumedReliability') throw new Error(`Unknown pilot offer for ${offer.path}.`);
+  const out = structuredClone(plan);
+  out.analysis.assumedReliability = offer.proposed;
+  out.provenance = { ...(out.provenance ?? {}), [offer.path]: { source: 'pilot', note: offer.note } };
+  const check = validatePlan(out);
+  if (!check.ok) throw new Error(`The corrected ANCOVA's assumed reliability was not changed: ${check.problems.map((p) => p.message).join(' ')}`);
+  return out;
 }
 
 /** The plan with the candidates in `mask` written (a deep copy; the input is untouched). */
@@ -95,7 +212,7 @@ function withCandidates(plan: Plan, candidates: Candidate[], mask: number): Plan
   return out;
 }
 
-function pilotCandidates(est: PilotEstimates): Candidate[] {
+function pilotCandidates(est: PilotEstimates, source: PilotReliabilitySource | undefined): Candidate[] {
   const from = fileNote(est.fileName);
   const { programme, comparison } = est.groups;
   const out: Candidate[] = [];
@@ -121,7 +238,7 @@ function pilotCandidates(est: PilotEstimates): Candidate[] {
     }),
   );
 
-  const rel = reliabilityChoice(est);
+  const rel = reliabilityChoice(est, source);
   if (rel) {
     const referenceSD = est.pooledWithinSD;
     out.push({
@@ -165,7 +282,7 @@ function pilotCandidates(est: PilotEstimates): Candidate[] {
       simple(
         'outcome.prePostCorrelation',
         r,
-        `comparison group pre–post correlation = ${formatCoefficient(r)}, n = ${comparison.nPrePost}`,
+        `comparison group pre–post correlation = ${formatCoefficient(r)}, n = ${comparison.nPrePost}${est.prePostByGroup?.differ ? ` (programme group's ${formatCoefficient(est.prePostByGroup.programme.value)} differs; not merged)` : ''}`,
         (p, v) => {
           p.outcome.prePostCorrelation = v;
         },
@@ -175,12 +292,13 @@ function pilotCandidates(est: PilotEstimates): Candidate[] {
   return out;
 }
 
-/** Alpha when items were mapped, else test–retest when mapped; with its note and interval. */
+/** The chosen reliability (alpha or test–retest) with its note and interval. */
 function reliabilityChoice(
   est: PilotEstimates,
+  source: PilotReliabilitySource | undefined,
 ): { value: number; note: string; interval: { lower: number; upper: number; level: number } } | undefined {
   const a = est.reliability.alpha;
-  if (a) {
+  if (a && source === 'alpha') {
     return {
       value: a.value,
       note: `Cronbach's alpha within groups = ${formatCoefficient(a.value)} (${pct(a.level)} CI ${formatCoefficient(a.lower)} to ${formatCoefficient(a.upper)}, Feldt), n = ${a.n}, ${a.items} items`,
@@ -188,7 +306,7 @@ function reliabilityChoice(
     };
   }
   const t = est.reliability.testRetest;
-  if (t) {
+  if (t && source === 'test-retest') {
     return {
       value: t.value,
       note: `test–retest correlation within groups = ${formatCoefficient(t.value)} (${pct(t.level)} CI ${formatCoefficient(t.lower)} to ${formatCoefficient(t.upper)}, Fisher z), n = ${t.n}`,

@@ -41,7 +41,37 @@ export interface ParsedTable {
 /** Where the pretest comes from: one total-score column, or item columns combined. */
 export type PretestSource =
   | { kind: 'total'; column: string }
-  | { kind: 'items'; columns: string[]; combine: 'sum' | 'mean' };
+  | { kind: 'items'; columns: string[]; combine: 'sum' | 'mean'; reverse?: ReverseItems };
+
+/**
+ * Reverse-keyed items: each score x in these columns is read as
+ * maximum + minimum − x before anything is estimated. Scores outside
+ * [minimum, maximum] are refused (they cannot be on the stated scale).
+ */
+export interface ReverseItems {
+  /** Item columns to reverse (each must be one of the pretest's item columns). */
+  columns: string[];
+  /** Lowest possible score of an item, e.g. 1 on a 1–6 scale. */
+  minimum: number;
+  /** Highest possible score of an item, e.g. 6 on a 1–6 scale. */
+  maximum: number;
+}
+
+/**
+ * A long file: one row per person per occasion. The rows of one person share
+ * the `id` value; the `occasion` column says which measurement a row holds.
+ * The pretest columns (total or items) are read from the row at
+ * `pretestOccasion`; the retest and posttest are the same score (total, or
+ * the items combined) at `retestOccasion` and `posttestOccasion`.
+ */
+export interface LongLayout {
+  kind: 'long';
+  id: string;
+  occasion: string;
+  pretestOccasion: string;
+  retestOccasion?: string;
+  posttestOccasion?: string;
+}
 
 /** Which columns mean what. Column names as in `ParsedTable.columns`. */
 export interface PilotMapping {
@@ -54,6 +84,8 @@ export interface PilotMapping {
   retest?: string;
   /** Optional column with the posttest / outcome. */
   posttest?: string;
+  /** A long file (one row per person per occasion); absent = one row per person. */
+  layout?: LongLayout;
 }
 
 /** An estimate with a two-sided confidence interval at `level` (e.g. 0.95). */
@@ -109,9 +141,33 @@ export interface PilotEstimates {
   };
   /** Pooled within-group pretest–posttest correlation. */
   prePostCorrelation?: { value: number; n: number };
+  /**
+   * The two groups' pre–post correlations side by side, when both are
+   * estimated: the difference, Fisher's z test of it (two independent
+   * correlations), whether they differ (two-sided p < .05 or a gap of .10 or
+   * more), which one the plan uses (the comparison group's) and why, in words.
+   */
+  prePostByGroup?: PrePostByGroup;
+  /** For a long file: rows in the file and people (ids) they were gathered into. */
+  longFile?: { rows: number; people: number };
   /** Corrected item–total correlation per item (pooled within group). */
   itemTotal?: { column: string; correctedCorrelation: number }[];
   warnings: PilotWarning[];
+}
+
+/** The two groups' pre–post correlations compared (see PilotEstimates.prePostByGroup). */
+export interface PrePostByGroup {
+  programme: { value: number; n: number };
+  comparison: { value: number; n: number };
+  /** Programme minus comparison. */
+  difference: number;
+  /** Fisher's z statistic for the difference of two independent correlations, and its two-sided p. */
+  z: number;
+  p: number;
+  differ: boolean;
+  /** The plan's outcome.prePostCorrelation is the comparison group's. */
+  used: 'comparison';
+  message: string;
 }
 
 /** One plan field written from the pilot estimates. */
@@ -133,11 +189,46 @@ export interface SkippedPilotField {
   reason: string;
 }
 
+/** Which pilot reliability goes into the plan's pretest reliability. */
+export type PilotReliabilitySource = 'alpha' | 'test-retest';
+
+/** One reliability the researcher can choose to write into the plan, with why (or why not). */
+export interface PilotReliabilityOption {
+  source: PilotReliabilitySource;
+  value: number;
+  /** e.g. "Cronbach's alpha within groups, .81 (95% CI .77 to .85)". */
+  label: string;
+  /** Plain words: what this coefficient counts as error, and so when it fits. */
+  why: string;
+  /** The one suggested: test–retest when a retest was mapped (day-to-day error is what regresses), else alpha. */
+  recommended: boolean;
+}
+
+/**
+ * A further change the researcher is asked about, not made silently: e.g.
+ * the corrected ANCOVA's assumed reliability, when the pretest reliability
+ * changes. `applyPilotOffer` makes it.
+ */
+export interface PilotOffer {
+  /** Dotted plan path, e.g. "analysis.assumedReliability". */
+  path: string;
+  current: number;
+  proposed: number;
+  /** The question in plain words, with both values and why. */
+  message: string;
+  /** Provenance note written when accepted. */
+  note: string;
+}
+
 /** What `pilotPlanUpdate` returns: the new plan (always valid) and what was and was not written. */
 export interface PilotPlanUpdate {
   plan: Plan;
   applied: AppliedPilotField[];
   skipped: SkippedPilotField[];
+  /** Changes to ask about (never made by pilotPlanUpdate itself). */
+  offers: PilotOffer[];
+  /** Which reliability was written into pretest.reliability, when one was. */
+  reliabilitySource?: PilotReliabilitySource;
 }
 
 /** Kind of bad input, stable for the UI. */
@@ -157,7 +248,9 @@ export type PilotDataErrorCode =
   | 'constant-column'
   | 'tiny-spread'
   | 'too-few-rows'
-  | 'bad-mapping';
+  | 'bad-mapping'
+  | 'out-of-scale'
+  | 'long-layout';
 
 /** Bad pilot file or mapping. The message names the column or row, the rule and the value. */
 export class PilotDataError extends Error {

@@ -1,11 +1,11 @@
 /**
  * Number formatting for the PDF summary and the exports. It delegates to the
- * planner's own display formatters (src/ui/format.ts), so the PDF shows every
+ * shared display formatters (src/format/numbers.ts, also used by the planner), so the PDF shows every
  * figure exactly as the screen does: fixed decimals, a true minus sign (−),
  * never "-0.00", and "—" for a figure that is missing or not finite (never
  * "NaN" or "Infinity"). Formatting only: no statistic is computed here.
  */
-import { fmt, fmtInt, fmtPct, fmtR, fmtSigned } from '../ui/format';
+import { fmt, fmtInt, fmtPct, fmtR, fmtSigned } from '../format/numbers';
 
 /** What is shown in place of a missing or non-finite figure. */
 export const NOT_AVAILABLE = '—';

@@ -2,14 +2,16 @@ import type { StateCreator } from 'zustand';
 import type { Plan } from '../core/plan';
 import { createPilotReader, type PilotReader } from '../pilot/pilotClient';
 import { pessimisticPlanResult, type PessimisticPlanResult } from '../pilot/pessimisticPlan';
-import { pilotPlanUpdate } from '../pilot/pilotPlanUpdate';
+import { applyPilotOffer, pilotPlanUpdate, pilotReliabilityOptions, type PilotPlanUpdateOptions } from '../pilot/pilotPlanUpdate';
 import type { ColumnFacts, PilotTableSummary } from '../pilot/pilotWorkerProtocol';
 import type {
   AppliedPilotField,
   Delimiter,
   PilotEstimates,
   PilotMapping,
+  PilotOffer,
   PilotPlanUpdate,
+  PilotReliabilitySource,
   SkippedPilotField,
 } from '../pilot/types';
 import type { DraftStorage } from './deps';
@@ -31,7 +33,7 @@ export function defaultPilotDeps(): PilotDeps {
   } catch {
     session = null; // blocked (some private modes): mappings are kept in the store only
   }
-  return { reader: createPilotReader(), planUpdate: pilotPlanUpdate, pessimisticPlan: pessimisticPlanResult, session };
+  return { reader: createPilotReader(), planUpdate: pilotPlanUpdate, pessimisticPlan: pessimisticPlanResult, applyOffer: applyPilotOffer, session };
 }
 
 /** sessionStorage key of the remembered column mappings (by the file's column names; never any rows). */
@@ -56,6 +58,18 @@ export interface PilotMappingDraft {
   combine: 'sum' | 'mean';
   retest: string;
   posttest: string;
+  /** Item columns to reverse (maximum + minimum − score). */
+  reverseColumns: string[];
+  /** The items' lowest and highest possible scores, as typed (needed to reverse). */
+  scaleMin: string;
+  scaleMax: string;
+  /** One row per person ('wide') or one row per person per occasion ('long'). */
+  layout: 'wide' | 'long';
+  idColumn: string;
+  occasionColumn: string;
+  pretestOccasion: string;
+  retestOccasion: string;
+  posttestOccasion: string;
 }
 
 /** A bad file or mapping, as shown: the message names the column or row. */
@@ -85,6 +99,10 @@ export interface PilotState {
   estimates: PilotEstimates | null;
   problem: PilotProblem | null;
   lastApply: PilotApplyReport | null;
+  /** Which reliability goes into the plan; null = the recommended one (pilotReliabilityOptions). */
+  reliabilitySource: PilotReliabilitySource | null;
+  /** Questions left by the last "Use these values" (e.g. the corrected ANCOVA's assumed reliability). */
+  offers: PilotOffer[];
   /** The latest status in plain words, for the panel's live region. */
   announcement: string;
 }
@@ -110,13 +128,21 @@ export interface PilotSlice {
   previewPilotUpdate(): PilotPreview | null;
   /** Forget the file and its estimates. */
   clearPilot(): void;
+  /** Choose which reliability "Use these values" writes (alpha or test–retest). */
+  setPilotReliabilitySource(source: PilotReliabilitySource): void;
+  /** Accept a question left by "Use these values" (writes that one value through the draft). */
+  acceptPilotOffer(path: string): void;
+  /** Leave the value as it is and drop the question. */
+  dismissPilotOffer(path: string): void;
 }
 
 /** The pure functions the slice needs from src/pilot, and where it keeps the session's mappings. */
 export interface PilotDeps {
   reader: PilotReader;
-  planUpdate(plan: Plan, estimates: PilotEstimates): PilotPlanUpdate;
+  planUpdate(plan: Plan, estimates: PilotEstimates, options?: PilotPlanUpdateOptions): PilotPlanUpdate;
   pessimisticPlan(plan: Plan): PessimisticPlanResult;
+  /** Accept an offer (applyPilotOffer); optional for tests that never accept one. */
+  applyOffer?(plan: Plan, offer: PilotOffer): Plan;
   /** window.sessionStorage in the browser (null: mappings are kept in the store only). */
   session: DraftStorage | null;
 }
@@ -128,6 +154,15 @@ const EMPTY_MAPPING: PilotMappingDraft = {
   pretestColumn: '',
   itemColumns: [],
   combine: 'sum',
+  reverseColumns: [],
+  scaleMin: '',
+  scaleMax: '',
+  layout: 'wide',
+  idColumn: '',
+  occasionColumn: '',
+  pretestOccasion: '',
+  retestOccasion: '',
+  posttestOccasion: '',
   retest: '',
   posttest: '',
 };
@@ -142,8 +177,25 @@ const initialPilot = (): PilotState => ({
   estimates: null,
   problem: null,
   lastApply: null,
+  reliabilitySource: null,
+  offers: [],
   announcement: '',
 });
+
+/** The reliability choice for pilotPlanUpdate: the researcher's, else the recommended one. */
+function reliabilityOption(p: PilotState): PilotPlanUpdateOptions {
+  if (p.reliabilitySource) return { reliability: p.reliabilitySource };
+  const recommended = p.estimates ? pilotReliabilityOptions(p.estimates).find((o) => o.recommended) : undefined;
+  return recommended ? { reliability: recommended.source } : {};
+}
+
+/** After the pessimistic step the reliability changed again: the offers propose the plan's new value. */
+function offersAfter(plan: Plan, offers: PilotOffer[]): PilotOffer[] {
+  const r = plan.pretest.reliability;
+  return offers
+    .map((o) => (o.path === 'analysis.assumedReliability' && typeof r === 'number' ? { ...o, proposed: r, message: o.message.replace(/now [.0-9]+ from the pilot/, `now ${String(Number(r.toFixed(3))).replace(/^0\./, '.')} from the pilot`) } : o))
+    .filter((o) => o.proposed !== o.current);
+}
 
 /** A name that identifies a file's layout: its column names in order. */
 function layoutKey(summary: PilotTableSummary): string {
@@ -155,7 +207,11 @@ function readRemembered(session: DraftStorage | null): Record<string, PilotMappi
   try {
     const raw = session.getItem(PILOT_MAPPING_KEY);
     const parsed: unknown = raw ? JSON.parse(raw) : {};
-    return parsed && typeof parsed === 'object' ? (parsed as Record<string, PilotMappingDraft>) : {};
+    if (!parsed || typeof parsed !== 'object') return {};
+    // Mappings remembered before a field existed get its empty value.
+    const out: Record<string, PilotMappingDraft> = {};
+    for (const [key, m] of Object.entries(parsed as Record<string, Partial<PilotMappingDraft>>)) out[key] = { ...EMPTY_MAPPING, ...m };
+    return out;
   } catch {
     return {};
   }
@@ -164,7 +220,7 @@ function readRemembered(session: DraftStorage | null): Record<string, PilotMappi
 /** A remembered mapping still fits when every column it names is in the file. */
 function fits(m: PilotMappingDraft, summary: PilotTableSummary): boolean {
   const names = new Set(summary.columns.map((c) => c.name));
-  const used = [m.group, m.pretestColumn, m.retest, m.posttest, ...m.itemColumns].filter((c) => c !== '');
+  const used = [m.group, m.pretestColumn, m.retest, m.posttest, m.idColumn, m.occasionColumn, ...m.itemColumns].filter((c) => c !== '');
   return used.every((c) => names.has(c)) && m.group !== '';
 }
 
@@ -183,7 +239,7 @@ export function guessPilotMapping(summary: PilotTableSummary): PilotMappingDraft
   // Score columns are picked by name even when a cell holds text: estimating then names the bad cell,
   // rather than the column being left out without a word.
   const scores = cols.filter((c) => c !== group);
-  const programmeValue = group ? (group.distinct.find((v) => /prog|treat|interv|pilot|yes/i.test(v)) ?? group.distinct[0] ?? '') : '';
+  const programmeValue = group ? guessProgrammeValue(group.distinct) : '';
   const isItem = (c: ColumnFacts) => /item|^q\d|^i\d|_q\d|_i\d/i.test(c.name);
   // "pretest" contains "retest": a retest name must not follow a p.
   const retest = scores.find((c) => /(^|[^p])re-?test|repeat|second/i.test(c.name));
@@ -205,20 +261,75 @@ export function guessPilotMapping(summary: PilotTableSummary): PilotMappingDraft
   };
 }
 
+/** Values that name a comparison group, never guessed as the programme's. */
+const COMPARISON_WORDS = /compar|control|usual|wait|none|no[ -]?(programme|program|support|treat)|^no$|^0$|reference|standard/i;
+/** Values that name a programme group. */
+const PROGRAMME_WORDS = /prog|treat|interv|pilot|support|tutor|course|^yes$|^1$|received|took part|participa/i;
+
+/**
+ * The programme group's value, guessed from the group values' names: a value
+ * that reads like a programme and not like a comparison; with no such value,
+ * nothing ('' : the researcher chooses). Never the first value by default.
+ */
+export function guessProgrammeValue(values: readonly string[]): string {
+  return values.find((v) => PROGRAMME_WORDS.test(v) && !COMPARISON_WORDS.test(v)) ?? '';
+}
+
 /** The mapping for src/pilot, or a message saying what is still to choose. */
 export function mappingFromDraft(m: PilotMappingDraft): { mapping: PilotMapping } | { message: string } {
   if (m.group === '') return { message: 'Choose the column that holds each row’s group.' };
   if (m.programmeValue === '') return { message: `Choose which value of “${m.group}” marks the programme group.` };
   if (m.pretestKind === 'total' && m.pretestColumn === '') return { message: 'Choose the pretest column (the total score).' };
   if (m.pretestKind === 'items' && m.itemColumns.length === 0) return { message: 'Tick the pretest’s item columns.' };
+  let reverse: { columns: string[]; minimum: number; maximum: number } | undefined;
+  const reversed = m.pretestKind === 'items' ? m.reverseColumns.filter((c) => m.itemColumns.includes(c)) : [];
+  if (reversed.length > 0) {
+    const scale = parseScale(m.scaleMin, m.scaleMax);
+    if ('message' in scale) return scale;
+    reverse = { columns: reversed, ...scale };
+  }
   const mapping: PilotMapping = {
     group: m.group,
     programmeValue: m.programmeValue,
-    pretest: m.pretestKind === 'total' ? { kind: 'total', column: m.pretestColumn } : { kind: 'items', columns: m.itemColumns, combine: m.combine },
+    pretest:
+      m.pretestKind === 'total'
+        ? { kind: 'total', column: m.pretestColumn }
+        : { kind: 'items', columns: m.itemColumns, combine: m.combine, ...(reverse ? { reverse } : {}) },
   };
+  if (m.layout === 'long') {
+    if (m.idColumn === '') return { message: 'Choose the column that identifies each person in the long file.' };
+    if (m.occasionColumn === '') return { message: 'Choose the column that says which occasion each row holds.' };
+    if (m.pretestOccasion === '') return { message: `Choose which value of “${m.occasionColumn}” marks the pretest.` };
+    mapping.layout = {
+      kind: 'long',
+      id: m.idColumn,
+      occasion: m.occasionColumn,
+      pretestOccasion: m.pretestOccasion,
+      ...(m.retestOccasion !== '' ? { retestOccasion: m.retestOccasion } : {}),
+      ...(m.posttestOccasion !== '' ? { posttestOccasion: m.posttestOccasion } : {}),
+    };
+    return { mapping };
+  }
   if (m.retest !== '') mapping.retest = m.retest;
   if (m.posttest !== '') mapping.posttest = m.posttest;
   return { mapping };
+}
+
+/**
+ * The items' scale as typed ("1" and "6"), or a message saying what is wrong.
+ * Text is kept as typed in the draft; only this reading turns it into numbers.
+ */
+export function parseScale(minText: string, maxText: string): { minimum: number; maximum: number } | { message: string } {
+  const read = (t: string) => (/^\s*[+-]?(\d+\.?\d*|\.\d+)\s*$/.test(t) ? Number(t) : Number.NaN);
+  const minimum = read(minText);
+  const maximum = read(maxText);
+  if (minText.trim() === '' || maxText.trim() === '') {
+    return { message: 'To reverse items, give the lowest and highest possible score of an item (e.g. 1 and 6).' };
+  }
+  if (Number.isNaN(minimum)) return { message: `The lowest possible score must be a number, e.g. 1; got “${minText.trim()}”.` };
+  if (Number.isNaN(maximum)) return { message: `The highest possible score must be a number, e.g. 6; got “${maxText.trim()}”.` };
+  if (!(minimum < maximum)) return { message: `The lowest possible score (${minText.trim()}) must be below the highest (${maxText.trim()}).` };
+  return { minimum, maximum };
 }
 
 function problemFrom(stage: PilotProblem['stage'], err: unknown): PilotProblem {
@@ -331,7 +442,7 @@ export const createPilotSlice =
       if (!estimates) return;
       try {
         const before = s.validPlan;
-        const update = deps.planUpdate(before, estimates);
+        const update = deps.planUpdate(before, estimates, reliabilityOption(s.pilot));
         let after = update.plan;
         if (pessimistic) {
           const low = deps.pessimisticPlan(update.plan);
@@ -354,10 +465,14 @@ export const createPilotSlice =
         const n = applied.length;
         const skippedText = update.skipped.length > 0 ? ` ${update.skipped.length} left as they were (see why below).` : '';
         const filled = `${n === 1 ? 'One plan field' : `${n} plan fields`} filled from “${estimates.fileName ?? s.pilot.fileName ?? 'the pilot file'}”${pessimistic ? ', with the reliability at the lower end of its confidence interval' : ''}.`;
+        // The corrected ANCOVA's assumed reliability is asked about, never changed silently.
+        const offers = pessimistic ? offersAfter(after, update.offers) : update.offers;
+        const asked = offers.length > 0 ? ` ${offers[0]!.message}` : '';
         patch({
           lastApply: { applied, skipped: update.skipped, pessimistic },
+          offers,
           problem: null,
-          announcement: `${filled}${skippedText}`,
+          announcement: `${filled}${skippedText}${asked}`,
         });
         // Like every replace, it can be undone: the draft before, exactly as typed.
         get().offerUndo(s.draft, 'pilot', filled);
@@ -385,7 +500,7 @@ export const createPilotSlice =
         // A new group column means a new programme value (unless given).
         if (p.group !== undefined && p.group !== s.mapping.group && p.programmeValue === undefined) {
           const col = s.summary?.columns.find((c) => c.name === p.group);
-          mapping.programmeValue = col?.distinct[0] ?? '';
+          mapping.programmeValue = col ? guessProgrammeValue(col.distinct) : '';
         }
         estimateSeq++;
         patch({
@@ -407,7 +522,7 @@ export const createPilotSlice =
         }
         const seq = ++estimateSeq;
         remember(s.summary, s.mapping);
-        patch({ status: 'estimating', problem: null, estimates: null, lastApply: null, announcement: 'Estimating…' });
+        patch({ status: 'estimating', problem: null, estimates: null, lastApply: null, offers: [], reliabilitySource: null, announcement: 'Estimating…' });
         try {
           const estimates = await deps.reader.estimate(m.mapping);
           if (seq !== estimateSeq) return;
@@ -431,7 +546,7 @@ export const createPilotSlice =
         const s = get();
         if (!s.pilot.estimates) return null;
         try {
-          const update = deps.planUpdate(s.validPlan, s.pilot.estimates);
+          const update = deps.planUpdate(s.validPlan, s.pilot.estimates, reliabilityOption(s.pilot));
           return { update, pessimistic: deps.pessimisticPlan(update.plan) };
         } catch {
           return null; // apply() reports the reason if the researcher presses the button
@@ -443,6 +558,30 @@ export const createPilotSlice =
         estimateSeq++;
         deps.reader.forget();
         set((s) => ({ pilot: { ...initialPilot(), readOptions: s.pilot.readOptions, announcement: 'The pilot file was closed and forgotten.' } }));
+      },
+      setPilotReliabilitySource: (source) => {
+        patch({ reliabilitySource: source, lastApply: null, offers: [] });
+      },
+      acceptPilotOffer: (path) => {
+        get().commitDraft();
+        const s = get();
+        const offer = s.pilot.offers.find((o) => o.path === path);
+        if (!offer || !deps.applyOffer) return;
+        try {
+          const before = s.validPlan;
+          const after = deps.applyOffer(before, offer);
+          get().replaceDraft(writePlanChangesIntoDraft(s.draft, before, after, [offer.path]));
+          const done = `The corrected ANCOVA now assumes a reliability of ${draftText(offer.proposed)}, as the pretest.`;
+          patch({ offers: s.pilot.offers.filter((o) => o.path !== path), problem: null, announcement: done });
+          get().offerUndo(s.draft, 'pilot', done);
+        } catch (err) {
+          const problem = problemFrom('apply', err);
+          patch({ problem, announcement: `Your plan is unchanged. ${problem.message}` });
+        }
+      },
+      dismissPilotOffer: (path) => {
+        const s = get().pilot;
+        patch({ offers: s.offers.filter((o) => o.path !== path), announcement: 'The corrected ANCOVA keeps its assumed reliability.' });
       },
     };
   };

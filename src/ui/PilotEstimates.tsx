@@ -1,4 +1,5 @@
-import { useMemo } from 'react';
+import { useId, useMemo } from 'react';
+import { pilotReliabilityOptions } from '../pilot/pilotPlanUpdate';
 import type { Plan } from '../core/plan';
 import type { GroupEstimates, Interval } from '../pilot/types';
 import { FIELD_NAMES } from '../state/planDraft';
@@ -108,6 +109,11 @@ export function PilotEstimatesView() {
               </tbody>
             </table>
           </div>
+          {e.prePostByGroup && (
+            <p className={e.prePostByGroup.differ ? 'pilot-note is-warning' : 'pilot-note'} data-testid="pilot-prepost-by-group">
+              {e.prePostByGroup.message}
+            </p>
+          )}
           <dl className="pilot-gap" data-testid="pilot-gap">
             <dt>Pretest gap, programme minus comparison</dt>
             <dd>
@@ -182,12 +188,68 @@ export function PilotEstimatesView() {
         </div>
       </div>
 
+      <PilotReliabilityChoice />
       <PilotIntoPlan />
       {lastApply && <PilotApplyReport />}
+      <PilotOffers />
       <p className="caution">
         Pilot estimates carry the pilot’s sampling error and its population; a small or unusual pilot can mislead. They inform the plan; they
         do not replace a statistician’s judgement.
       </p>
+    </div>
+  );
+}
+
+/**
+ * Which reliability goes into the plan: alpha, or the test–retest figure when
+ * a retest was mapped, each with why (src/pilot's pilotReliabilityOptions).
+ */
+function PilotReliabilityChoice() {
+  const e = useMeanwardStore((s) => s.pilot.estimates)!;
+  const chosen = useMeanwardStore((s) => s.pilot.reliabilitySource);
+  const choose = useMeanwardStore((s) => s.setPilotReliabilitySource);
+  const name = useId();
+  const options = pilotReliabilityOptions(e);
+  if (options.length === 0) return null;
+  const current = chosen ?? options.find((o) => o.recommended)?.source;
+  return (
+    <fieldset className="pilot-reliability-choice" data-testid="pilot-reliability-choice">
+      <legend>Reliability for the plan</legend>
+      {options.map((o) => (
+        <label key={o.source} className="pilot-choice">
+          <input type="radio" name={name} value={o.source} checked={current === o.source} onChange={() => choose(o.source)} />
+          <span>
+            <strong>
+              {o.label}
+              {o.recommended ? ' (suggested)' : ''}
+            </strong>
+            <span className="field-hint"> {o.why}</span>
+          </span>
+        </label>
+      ))}
+    </fieldset>
+  );
+}
+
+/** Questions left by "Use these values": asked, never answered silently. */
+function PilotOffers() {
+  const offers = useMeanwardStore((s) => s.pilot.offers);
+  const accept = useMeanwardStore((s) => s.acceptPilotOffer);
+  const dismiss = useMeanwardStore((s) => s.dismissPilotOffer);
+  if (offers.length === 0) return null;
+  return (
+    <div className="pilot-offers" role="group" aria-label="Also change?" data-testid="pilot-offers">
+      {offers.map((o) => (
+        <div key={o.path} className="pilot-offer" data-path={o.path}>
+          <p>{o.message}</p>
+          <button type="button" className="primary" onClick={() => accept(o.path)}>
+            Use {fmtR(o.proposed, 3)} for the corrected ANCOVA
+          </button>{' '}
+          <button type="button" onClick={() => dismiss(o.path)}>
+            Keep {fmtR(o.current, 3)}
+          </button>
+        </div>
+      ))}
     </div>
   );
 }

@@ -25,11 +25,29 @@ export function PilotMappingForm() {
   const status = useMeanwardStore((s) => s.pilot.status);
   const set = useMeanwardStore((s) => s.setPilotMapping);
   const estimate = useMeanwardStore((s) => s.estimateFromPilot);
-  const ids = { group: useId(), value: useId(), total: useId(), combine: useId(), retest: useId(), posttest: useId(), kind: useId() };
+  const ids = {
+    group: useId(),
+    value: useId(),
+    total: useId(),
+    combine: useId(),
+    retest: useId(),
+    posttest: useId(),
+    kind: useId(),
+    layout: useId(),
+    id: useId(),
+    occasion: useId(),
+    preOcc: useId(),
+    retestOcc: useId(),
+    postOcc: useId(),
+    min: useId(),
+    max: useId(),
+  };
   const cols = summary.columns;
   const groupCol = cols.find((c) => c.name === m.group);
   const others = groupCol ? groupCol.distinct.filter((v) => v !== m.programmeValue) : [];
   const scoreCols = cols.filter((c) => c.name !== m.group);
+  const occasionCol = cols.find((c) => c.name === m.occasionColumn);
+  const occasionValues = occasionCol?.distinct ?? [];
   return (
     <form
       className="pilot-mapping"
@@ -60,7 +78,7 @@ export function PilotMappingForm() {
             Programme group is
           </label>
           <select id={ids.value} value={m.programmeValue} onChange={(e) => set({ programmeValue: e.target.value })} disabled={!groupCol}>
-            {!groupCol && <option value="">— choose the group column first —</option>}
+            {!groupCol ? <option value="">— choose the group column first —</option> : <option value="">— choose —</option>}
             {groupCol?.distinct.map((v) => (
               <option key={v} value={v}>
                 {v}
@@ -78,6 +96,71 @@ export function PilotMappingForm() {
           </p>
         </div>
       </div>
+
+      <fieldset className="pilot-layout">
+        <legend>Rows in the file</legend>
+        <div className="mode-switch" role="radiogroup" aria-label="Rows in the file">
+          <label>
+            <input type="radio" name={ids.layout} checked={m.layout === 'wide'} onChange={() => set({ layout: 'wide' })} />
+            One row per person
+          </label>
+          <label>
+            <input type="radio" name={ids.layout} checked={m.layout === 'long'} onChange={() => set({ layout: 'long' })} />
+            One row per person per occasion
+          </label>
+        </div>
+        {m.layout === 'long' && (
+          <div className="pilot-map-grid">
+            <div className="field">
+              <label htmlFor={ids.id} className="field-label">
+                Person column
+              </label>
+              <select id={ids.id} value={m.idColumn} onChange={(e) => set({ idColumn: e.target.value })}>
+                <option value="">— choose —</option>
+                {cols.map(columnOption)}
+              </select>
+              <p className="field-hint">Rows with the same value here belong to one person.</p>
+            </div>
+            <div className="field">
+              <label htmlFor={ids.occasion} className="field-label">
+                Occasion column
+              </label>
+              <select
+                id={ids.occasion}
+                value={m.occasionColumn}
+                onChange={(e) => set({ occasionColumn: e.target.value, pretestOccasion: '', retestOccasion: '', posttestOccasion: '' })}
+              >
+                <option value="">— choose —</option>
+                {cols.map(columnOption)}
+              </select>
+            </div>
+            {(
+              [
+                ['pretestOccasion', ids.preOcc, 'Pretest occasion', false],
+                ['retestOccasion', ids.retestOcc, 'Retest occasion (optional)', true],
+                ['posttestOccasion', ids.postOcc, 'Posttest occasion (optional)', true],
+              ] as const
+            ).map(([key, id, label, optional]) => (
+              <div className="field" key={key}>
+                <label htmlFor={id} className="field-label">
+                  {label}
+                </label>
+                <select id={id} value={m[key]} onChange={(e) => set({ [key]: e.target.value })} disabled={!occasionCol}>
+                  <option value="">{optional ? 'none' : '— choose —'}</option>
+                  {occasionValues.map((v) => (
+                    <option key={v} value={v}>
+                      {v}
+                    </option>
+                  ))}
+                </select>
+              </div>
+            ))}
+            <p className="field-hint">
+              The pretest columns are read from each person’s pretest row; the retest and posttest are the same score at those occasions.
+            </p>
+          </div>
+        )}
+      </fieldset>
 
       <fieldset className="pilot-pretest">
         <legend>Pretest</legend>
@@ -135,11 +218,46 @@ export function PilotMappingForm() {
                 <option value="mean">mean</option>
               </select>
             </div>
+            {m.itemColumns.length > 0 && (
+              <fieldset className="pilot-items pilot-reverse" data-testid="pilot-reverse">
+                <legend>Reverse-keyed items ({m.reverseColumns.filter((c) => m.itemColumns.includes(c)).length} ticked)</legend>
+                <p className="field-hint">A ticked item is read as highest + lowest possible score − score, so a high score means the same on every item.</p>
+                <div className="pilot-item-list">
+                  {m.itemColumns.map((name) => (
+                    <label key={name}>
+                      <input
+                        type="checkbox"
+                        aria-label={`Reverse ${name}`}
+                        checked={m.reverseColumns.includes(name)}
+                        onChange={(e) =>
+                          set({ reverseColumns: e.target.checked ? [...m.reverseColumns, name] : m.reverseColumns.filter((n) => n !== name) })
+                        }
+                      />
+                      {name}
+                    </label>
+                  ))}
+                </div>
+                <div className="pilot-map-grid">
+                  <div className="field">
+                    <label htmlFor={ids.min} className="field-label">
+                      Lowest possible item score
+                    </label>
+                    <input id={ids.min} type="text" inputMode="decimal" value={m.scaleMin} onChange={(e) => set({ scaleMin: e.target.value })} placeholder="e.g. 1" />
+                  </div>
+                  <div className="field">
+                    <label htmlFor={ids.max} className="field-label">
+                      Highest possible item score
+                    </label>
+                    <input id={ids.max} type="text" inputMode="decimal" value={m.scaleMax} onChange={(e) => set({ scaleMax: e.target.value })} placeholder="e.g. 6" />
+                  </div>
+                </div>
+              </fieldset>
+            )}
           </>
         )}
       </fieldset>
 
-      <div className="pilot-map-grid">
+      {m.layout === 'wide' && <div className="pilot-map-grid">
         <div className="field">
           <label htmlFor={ids.retest} className="field-label">
             Retest column (optional)
@@ -160,7 +278,7 @@ export function PilotMappingForm() {
           </select>
           <p className="field-hint">Gives the posttest SD and the pre–post correlation.</p>
         </div>
-      </div>
+      </div>}
       <button type="submit" className="primary" disabled={status === 'estimating' || status === 'reading'}>
         {status === 'estimating' ? 'Estimating…' : 'Estimate'}
       </button>

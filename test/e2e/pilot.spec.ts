@@ -59,10 +59,20 @@ test('import an invented pilot file, map its columns, use the estimates: the pla
   await expect(page.getByTestId('pilot-alpha')).toContainText('95% CI');
   await expect(page.getByTestId('pilot-status')).toContainText('Nothing is in the plan until you choose “Use these values”.');
   await expect(page.getByTestId('verdict-bias')).toHaveText(biasBefore);
+  // With a retest mapped, test–retest is suggested for the plan (with why); the researcher picks alpha here.
+  const choice = page.getByTestId('pilot-reliability-choice');
+  await expect(choice.getByRole('radio', { name: /^test–retest correlation within groups.*\(suggested\)/ })).toBeChecked();
+  await expect(choice).toContainText('day-to-day ups and downs');
+  await expect(page.getByTestId('pilot-prepost-by-group')).toContainText('The plan uses the comparison group');
   await page.getByTestId('pilot-panel').screenshot({ path: `${SHOTS}/pilot-estimates.png` });
+  await choice.getByRole('radio', { name: /^Cronbach's alpha within groups/ }).check();
 
   await page.getByRole('button', { name: 'Use these values' }).click();
   await expect(page.getByTestId('pilot-apply-report')).toBeVisible();
+  // The corrected ANCOVA's assumed reliability is asked about, not changed.
+  const offers = page.getByTestId('pilot-offers');
+  await expect(offers).toContainText('The corrected ANCOVA still assumes a reliability of');
+  await offers.screenshot({ path: `${SHOTS}/pilot-ancova-question.png` });
 
   // The same file, estimated and written in Node by the same pure functions:
   // the page must show those values (6 significant digits in the boxes).

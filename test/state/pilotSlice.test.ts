@@ -183,7 +183,8 @@ describe('pilot slice: into the plan', () => {
     const storage = memoryStorage();
     const s = store({ storage });
     await readAndEstimate(s);
-    const expected = pilotPlanUpdate(s.getState().validPlan, s.getState().pilot.estimates!);
+    // With a retest mapped, the suggested reliability is the test–retest correlation (the researcher may choose alpha).
+    const expected = pilotPlanUpdate(s.getState().validPlan, s.getState().pilot.estimates!, { reliability: 'test-retest' });
     s.getState().applyPilotEstimates();
     const st = s.getState();
     expect(st.problems).toEqual([]);
@@ -222,8 +223,10 @@ describe('pilot slice: into the plan', () => {
     await readAndEstimate(s);
     const draft = s.getState().draft;
     const preview = s.getState().previewPilotUpdate()!;
-    expect(preview.update).toEqual(pilotPlanUpdate(s.getState().validPlan, s.getState().pilot.estimates!));
-    expect(preview.pessimistic.ok && preview.pessimistic.reliability).toBe(s.getState().pilot.estimates!.reliability.alpha!.lower);
+    expect(preview.update).toEqual(pilotPlanUpdate(s.getState().validPlan, s.getState().pilot.estimates!, { reliability: 'test-retest' }));
+    expect(preview.pessimistic.ok && preview.pessimistic.reliability).toBe(s.getState().pilot.estimates!.reliability.testRetest!.lower);
+    s.getState().setPilotReliabilitySource('alpha');
+    expect(s.getState().previewPilotUpdate()!.update).toEqual(pilotPlanUpdate(s.getState().validPlan, s.getState().pilot.estimates!, { reliability: 'alpha' }));
     expect(s.getState().draft).toBe(draft);
   });
 
@@ -241,6 +244,7 @@ describe('pilot slice: into the plan', () => {
     s.getState().setPretestMode('sem');
     s.getState().setField('pretest.sem', '5');
     await readAndEstimate(s);
+    s.getState().setPilotReliabilitySource('alpha');
     s.getState().applyPilotEstimates();
     expect(s.getState().draft.pretest.mode).toBe('reliability');
     expectWritten(s.getState().validPlan.pretest.reliability, s.getState().pilot.estimates!.reliability.alpha!.value);
@@ -250,6 +254,7 @@ describe('pilot slice: into the plan', () => {
   it('the pessimistic button plans with the lower end of alpha’s Feldt interval and says so in the note', async () => {
     const s = store();
     await readAndEstimate(s);
+    s.getState().setPilotReliabilitySource('alpha');
     s.getState().applyPessimisticPilotEstimates();
     const alpha = s.getState().pilot.estimates!.reliability.alpha!;
     const plan = s.getState().validPlan;

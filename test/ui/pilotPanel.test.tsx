@@ -91,8 +91,19 @@ describe('pilot panel', () => {
     expect(preview.getByRole('row', { name: /^Programme pretest mean/ })).toHaveTextContent(`Programme pretest mean44.00${fmt(e.groups.programme.pretestMean)}`);
     expect(preview.getAllByRole('row')).toHaveLength(1 + 8); // header + 4 group values, reliability, reference SD, posttest SD, pre–post r
 
+    // With a retest mapped, the test–retest figure is suggested for the plan, with why; the researcher may choose alpha.
+    const choice = within(panel.getByTestId('pilot-reliability-choice'));
+    expect(choice.getByRole('radio', { name: /^test–retest correlation within groups.*\(suggested\)/ })).toBeChecked();
+    expect(choice.getByText(/day-to-day ups and downs as error/)).toBeInTheDocument();
+    await user.click(choice.getByRole('radio', { name: /^Cronbach's alpha within groups/ }));
+
     await user.click(panel.getByRole('button', { name: 'Use these values' }));
     const plan = store.getState().validPlan;
+    // The corrected ANCOVA's assumed reliability is asked about, not changed.
+    const assumedBefore = plan.analysis.assumedReliability;
+    expect(assumedBefore).not.toBe(plan.pretest.reliability);
+    const offers = panel.getByTestId('pilot-offers');
+    expect(offers).toHaveTextContent(/The corrected ANCOVA still assumes a reliability of/);
     expectWritten(plan.groups.programme.pretestMean, e.groups.programme.pretestMean);
     const meanBox = screen.getByRole('textbox', { name: /^Pretest mean, programme group/ });
     expectWritten((meanBox as HTMLInputElement).value, e.groups.programme.pretestMean);
@@ -108,6 +119,9 @@ describe('pilot panel', () => {
     const report = panel.getByTestId('pilot-apply-report');
     expect(within(report).getByText('Programme pretest mean')).toBeInTheDocument();
     expect(panel.getByTestId('pilot-status')).toHaveTextContent(/plan fields filled from “wave1-invented\.csv”/);
+    await user.click(within(offers).getByRole('button', { name: /for the corrected ANCOVA$/ }));
+    expect(store.getState().validPlan.analysis.assumedReliability).toBe(Number(plan.pretest.reliability!.toPrecision(6)));
+    expect(panel.queryByTestId('pilot-offers')).toBeNull();
 
     // Typing over a pilot value removes its note: the plan no longer credits the pilot.
     await user.clear(meanBox);
@@ -129,6 +143,7 @@ describe('pilot panel', () => {
     expect(await panel.findByTestId('pilot-file-facts')).toHaveTextContent('dropped-invented.csv');
     await user.click(await panel.findByRole('button', { name: 'Estimate' }));
     await panel.findByTestId('pilot-estimates');
+    await user.click(panel.getByRole('radio', { name: /^Cronbach's alpha within groups/ }));
     const lower = store.getState().pilot.estimates!.reliability.alpha!.lower;
     // The button names the value it will plan with: alpha's lower Feldt limit, 3 decimals.
     await user.click(panel.getByRole('button', { name: `Plan with the pessimistic reliability (${fmt(lower, 3).replace(/^0/, '')})` }));
@@ -142,7 +157,9 @@ describe('pilot panel', () => {
     const panel = await openPanel(user);
     const bad = inventedPilot({ seed: 8, programme: 30, comparison: 30, items: 4, posttest: true, badCell: { row: 20, column: 'item3', text: 'absent' } });
     const draftBefore = store.getState().draft;
-    const values = screen.getAllByRole('textbox').map((b) => (b as HTMLInputElement).value);
+    // The plan's boxes (the pilot panel's own boxes, e.g. the items' scale, are not the plan).
+    const planBoxes = () => screen.getAllByRole('textbox').filter((b) => b.closest('[data-testid="pilot-panel"]') === null);
+    const values = planBoxes().map((b) => (b as HTMLInputElement).value);
     await user.upload(panel.getByLabelText('Pilot data file (CSV or TSV)'), fileOf(bad.text, 'bad-invented.csv'));
     await panel.findByTestId('pilot-file-facts');
     // The column with text is offered, marked, and chosen by its name: estimating names the cell.
@@ -156,7 +173,7 @@ describe('pilot panel', () => {
     // Said once: the polite status region stays quiet while the alert speaks.
     expect(panel.getByTestId('pilot-status')).toHaveTextContent(/^$/);
     expect(store.getState().draft).toBe(draftBefore);
-    expect(screen.getAllByRole('textbox').map((b) => (b as HTMLInputElement).value)).toEqual(values);
+    expect(planBoxes().map((b) => (b as HTMLInputElement).value)).toEqual(values);
   });
 
   it('a file that cannot be read says so and offers the picker again', async () => {
