@@ -110,7 +110,8 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   // 2. Reliability-corrected ANCOVA: what is left at the reliability the researcher assumed,
   // and the pooled within-group reliability it would need to assume to leave nothing.
   const rhoTrue = m.reliability.pooled;
-  const rhoAssumed = plan.analysis.assumedReliability;
+  // An assumed figure equal to the pooled one up to rounding (12 decimals) is taken as that figure.
+  const rhoAssumed = Math.abs(plan.analysis.assumedReliability - rhoTrue) < 1e-12 ? rhoTrue : plan.analysis.assumedReliability;
   const corrected = (r: number): number => (cov ? covariateCorrectedAncovaEstimate(cov, r) : correctedAncovaEstimate(m, r));
   const biasCorr = corrected(rhoAssumed) - tau;
   const biasAtTrue = corrected(rhoTrue) - tau;
