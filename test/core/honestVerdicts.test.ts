@@ -144,3 +144,28 @@ describe('required n only for analyses whose artefact is tolerable', () => {
     expect(two).toContain('2 comparison partners each');
   });
 });
+
+describe('one break-even scale in the text and the chart', () => {
+  it('the sensitivity chart marks the break-even on the within-group scale the text uses, and says what it holds fixed', async () => {
+    const { sensitivityCurve } = await import('../../src/core/sensitivityCurve');
+    // A reference population wider than the groups, so the two scales would differ (.922 within vs higher in the reference).
+    const plan = demoWith((p) => { p.pretest = { reliability: 0.8, referenceSD: 12 }; });
+    const r = analysePlan(plan);
+    const curve = sensitivityCurve(plan, 'reliability');
+    expect(r.breakEven.reliability).not.toBeNull();
+    expect(curve.breakEvenX).toHaveLength(1);
+    expect(curve.breakEvenX[0]).toBeCloseTo(r.breakEven.reliability!, 12);
+    expect(curve.current).toBeCloseTo(r.reliability.comparison, 12);
+    expect(curve.xLabel).toBe('Within-group pretest reliability (comparison group)');
+    expect(curve.holdsFixed).toMatch(/true scores.*stay fixed/);
+    // At the break-even x the curve's matched-difference bias is at the band's edge: beta(1 − x)Delta = −share·tau
+    // (Thorndike 1942; common practice), checked on a fine grid by interpolation.
+    const fine = sensitivityCurve(plan, 'reliability', 1001);
+    const i = fine.points.findIndex((p) => p.x >= curve.breakEvenX[0]!);
+    const a = fine.points[i - 1]!;
+    const b = fine.points[i]!;
+    const t = (curve.breakEvenX[0]! - a.x) / (b.x - a.x);
+    const biasAt = a.bias.matchedDifference! + t * (b.bias.matchedDifference! - a.bias.matchedDifference!);
+    expect(Math.abs(biasAt)).toBeCloseTo(0.25 * 2.5, 3);
+  });
+});
