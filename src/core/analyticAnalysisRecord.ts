@@ -68,6 +68,7 @@ export function analyticAnalysisRecord(a: AnalysisInputs, s: AnalysisSettings): 
   const parts = {
     regressionArtefact,
     regressionArtefactShare: shareOfEffect(regressionArtefact, tau),
+    regressionArtefactSD: regressionArtefact / a.posttestSD,
     growthGap,
     growthGapShare: shareOfEffect(growthGap, tau),
     growthGapNote: growthGapNote(regressionArtefact, growthGap, bias),

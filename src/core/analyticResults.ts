@@ -48,6 +48,8 @@ export interface AnalyticAnalysis {
   verdict: ArtefactVerdict;
   /** The part of `bias` due to regression toward the mean and the analysis (bias − growthGap), points. */
   regressionArtefact: number;
+  /** regressionArtefact / posttest SD (comparison group). */
+  regressionArtefactSD: number;
   /** regressionArtefact / tau; null when tau = 0. */
   regressionArtefactShare: number | null;
   /** The part of `bias` due to the assumed growth gap (outcome.growthGap), points. */
