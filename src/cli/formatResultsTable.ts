@@ -1,3 +1,4 @@
+import { DEFAULT_TARGET_POWER } from '../core/analysisSettings';
 import type { AnalyticResults } from '../core/analyticResults';
 import { presentAnalyses } from '../core/presentAnalyses';
 import type { Plan } from '../core/plan';
@@ -67,6 +68,18 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
       );
     }
   }
+  // Verdicts: the regression artefact and the growth gap apart, whether each analysis is tolerable and why,
+  // and the sample size for the target power (none for a biased analysis), all from core.
+  const power = plan.analysis.targetPower ?? DEFAULT_TARGET_POWER;
+  lines.push('');
+  lines.push(`Verdicts (n per group for ${fmtPercent(power)} power)`);
+  for (const [, a] of presentAnalyses(results.analyses)) {
+    const n = a.requiredNNote ?? (!a.feasible ? 'not feasible' : a.requiredNPerGroup === null ? 'not reachable' : `${a.requiredNPerGroup} per group`);
+    const parts = a.growthGap === 0 ? '' : ` Regression artefact ${fmtPoints(a.regressionArtefact)} (${fmtPercent(a.regressionArtefactShare)}), growth gap ${fmtPoints(a.growthGap)} (${fmtPercent(a.growthGapShare)}).`;
+    lines.push(`  ${a.name}: ${a.tolerability.reason}${parts} n: ${n}.`);
+    if (a.growthGapNote) lines.push(`    ${a.growthGapNote}`);
+  }
+  if (results.requiredNCounts) lines.push(`  ${results.requiredNCounts}`);
   lines.push(...clusterAnalysisLines(results));
   lines.push(...covariateLines(results));
   lines.push('');
