@@ -165,7 +165,7 @@ function clusterLines(plan: Plan, results: AnalyticResults): string[] {
   const head = results.analyses.matchedDifference;
   if (head && head.clustersPerGroupNeeded !== undefined && head.feasible) {
     out.push(
-      `${head.name}: ${head.clustersPerGroupNeeded === null ? 'no number of clusters per group reaches the target power' : `${head.clustersPerGroupNeeded} clusters per group for the target power`}; ` +
+      `${head.name}: ${head.requiredNNote !== null ? `${head.requiredNNote} (no number of clusters per group is offered)` : head.clustersPerGroupNeeded === null ? 'no number of clusters per group reaches the target power' : `${head.clustersPerGroupNeeded} clusters per group for the target power`}; ` +
         `minimum detectable effect ${head.minimumDetectableEffect === null || head.minimumDetectableEffect === undefined ? 'n/a' : fmtPoints(head.minimumDetectableEffect)} points with the artefact included.`,
     );
   }
@@ -178,7 +178,7 @@ function clusterAnalysisLines(results: AnalyticResults): string[] {
   const out: string[] = [];
   for (const [, a] of presentAnalyses(results.analyses)) {
     if (!a.feasible || a.clustersPerGroupNeeded === undefined) continue;
-    const needed = a.clustersPerGroupNeeded === null ? 'no number of clusters is enough' : `${a.clustersPerGroupNeeded} clusters per group needed`;
+    const needed = a.requiredNNote !== null ? a.requiredNNote : a.clustersPerGroupNeeded === null ? 'no number of clusters is enough' : `${a.clustersPerGroupNeeded} clusters per group needed`;
     const mde = a.minimumDetectableEffect === null || a.minimumDetectableEffect === undefined ? 'n/a' : fmtPoints(a.minimumDetectableEffect);
     const naive = a.naiveSE === undefined ? '' : `; ignoring the clustering its SE would be reported as ${fmtPoints(a.naiveSE)}`;
     out.push(`  ${a.name}: cluster-aware SE ${a.se === null ? '—' : fmtPoints(a.se)}${a.df === null ? '' : ` (df ${a.df.toFixed(0)})`}${naive}; ${needed}; MDE ${mde} points.`);
