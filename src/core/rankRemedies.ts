@@ -177,7 +177,7 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
 
   if (cov) remedies.push(...covariateRemedies(cov, m, matching, distance, matchedBias, shareOf));
 
-  return rankRemedyList(remedies.map(withEstimand), tau, plan.analysis.tolerableBiasShare);
+  return rankRemedyList(remedies.map(withEstimand), tau, plan.analysis.tolerableBiasShare, m.growthGap);
 }
 
 /** Above this share of the programme pool discarded, a remedy's estimate describes too few programme members to rank with the others. */
@@ -206,12 +206,16 @@ function withEstimand(r: Remedy): Remedy {
  * rest. Within each tier, by |remaining artefact| and then by discarded share.
  * Reference: none (this project's ranking rule).
  * @param remedies the remedies. @param tau hoped-for effect, points. @param tolerableShare share of |tau| tolerated.
+ * @param growthGap the plan's assumed growth gap, points (left out of the judgement; default 0).
  * @returns a new, sorted array.
  * @throws never.
  * @example a remedy leaving 0 points but discarding 66% ranks after one leaving 0.3 of a 2.5-point effect and discarding 5%
  */
-export function rankRemedyList(remedies: Remedy[], tau: number, tolerableShare: number): Remedy[] {
-  const tolerable = (r: Remedy): boolean => Math.abs(r.remainingBias) <= (tau === 0 ? 1e-9 : tolerableShare * Math.abs(tau) + 1e-12);
+export function rankRemedyList(remedies: Remedy[], tau: number, tolerableShare: number, growthGap = 0): Remedy[] {
+  // Judged on the regression artefact each remedy leaves (its remaining bias without the assumed growth
+  // gap), as the verdict is: a guessed growth gap that offsets an artefact must not lift a remedy.
+  const artefact = (r: Remedy): number => r.remainingBias - growthGap;
+  const tolerable = (r: Remedy): boolean => Math.abs(artefact(r)) <= (tau === 0 ? 1e-9 : tolerableShare * Math.abs(tau) + 1e-12);
   const tier = (r: Remedy): number => {
     if (!tolerable(r)) return 2;
     return (r.discardedShare ?? 0) > DISCARD_LIMIT || r.feasibility ? 1 : 0;
@@ -220,7 +224,7 @@ export function rankRemedyList(remedies: Remedy[], tau: number, tolerableShare: 
   return [...remedies].sort((a, b) => {
     const t = tier(a) - tier(b);
     if (t !== 0) return t;
-    const d = Math.abs(a.remainingBias) - Math.abs(b.remainingBias);
+    const d = Math.abs(artefact(a)) - Math.abs(artefact(b));
     if (Math.abs(d) > tol) return d;
     return (a.discardedShare ?? 0) - (b.discardedShare ?? 0);
   });

@@ -612,7 +612,7 @@ function MatchingSection({ n }: { n: number }) {
         }
       />
       {distance === 'mahalanobis' && caliperSuggestion && (
-        <p className="field-note" data-testid="caliper-unit-note" role="note">
+        <p className="field-hint caliper-unit-note" data-testid="caliper-unit-note" role="note">
           {caliperSuggestion.note} Suggested caliper: <strong>{caliperSuggestion.value.toFixed(2)}</strong>.
         </p>
       )}

@@ -164,15 +164,19 @@ function RequiredN({ m, analytic, targetPower }: { m: AnalyticAnalysis; analytic
     <li data-testid="verdict-required-n">
       At the target power of <strong>{fmtPct(targetPower, 0)}</strong>:{' '}
       {m.requiredNNote !== null ? (
-        <strong data-testid="verdict-required-n-value">{m.requiredNNote}</strong>
+        <>
+          <strong data-testid="verdict-required-n-value">{m.requiredNNote}</strong>.
+        </>
       ) : m.requiredNPerGroup === null ? (
-        <strong data-testid="verdict-required-n-value">no sample size reaches it</strong>
+        <>
+          <strong data-testid="verdict-required-n-value">no sample size reaches it</strong>.
+        </>
       ) : (
         <>
-          <strong data-testid="verdict-required-n-value">{fmtInt(m.requiredNPerGroup)} per group</strong> needed.
+          <strong data-testid="verdict-required-n-value">{fmtInt(m.requiredNPerGroup)} per group</strong> needed.{' '}
+          {analytic.requiredNCounts && <span className="verdict-per-group">{analytic.requiredNCounts}</span>}
         </>
-      )}{' '}
-      {analytic.requiredNCounts && <span className="verdict-per-group">{analytic.requiredNCounts}</span>}
+      )}
     </li>
   );
 }

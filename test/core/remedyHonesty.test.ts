@@ -97,3 +97,14 @@ describe('switching to Mahalanobis matching puts the caliper in a new unit', () 
     if (remedy) expect(remedy.caliperSuggestion?.value).toBe(s.value);
   });
 });
+
+describe('an assumed growth gap does not lift a remedy', () => {
+  it('with the demo and a growth gap of +1.5, remedies that leave the −2.00 artefact rank after the corrected ANCOVA', () => {
+    const plan = demoWith((p) => { p.outcome.growthGap = 1.5; });
+    const list = rankRemedies(plan);
+    // Corrected ANCOVA at the pooled reliability leaves no regression artefact (Porter 1967): it ranks first.
+    expect(list[0]!.id).toBe('corrected-ancova');
+    const pool = list.findIndex((x) => x.id === 'larger-pools');
+    expect(pool).toBeGreaterThan(list.findIndex((x) => x.id === 'more-reliable-pretest'));
+  });
+});
