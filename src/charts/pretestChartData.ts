@@ -1,3 +1,4 @@
+import { MATCHED_ON } from '../core/matchedOnWords';
 import { expectedMatchedRegion } from '../core/expectedMatchedRegion';
 import { matchedSampleMeans } from '../core/matchedSampleMeans';
 import { matchedTrueScoreMeans, type MatchedTrueScoreMeans } from '../core/matchedTrueScoreMeans';
@@ -144,11 +145,14 @@ export function groupsPretestChartData({ plan, analytic, simulation }: ChartInpu
     region = r ? { ...r, source: 'closed-form' } : null;
   }
   const clusters = units === 'clusters';
+  const distance = plan.matching.distance ?? 'pretest';
   return {
     chart: 'pretest',
     title: clusters
       ? 'Cluster means on the pretest: matched on the observed mean, apart on the true mean'
-      : 'Pretest distributions: matched on the observed score, apart on the true score',
+      : distance === 'pretest'
+        ? 'Pretest distributions: matched on the observed score, apart on the true score'
+        : `Pretest distributions: matched on ${MATCHED_ON[distance]}, apart on the true pretest score`,
     xLabel: clusters ? 'Observed pretest mean of a cluster (test points)' : 'Observed pretest score (test points)',
     xDomain: [lo, hi],
     yMax,

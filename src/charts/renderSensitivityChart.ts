@@ -35,7 +35,8 @@ interface SensitivityLayout {
 }
 
 function coincideNotes(data: SensitivityChartData): string[] {
-  return data.coincident.map(([a, b]) => `${ANALYSIS_STYLES[a].shortLabel} and ${ANALYSIS_STYLES[b].shortLabel} coincide on this axis (one line hides the other).`);
+  // What the curve holds fixed comes first (core's sensitivityCurve says it).
+  return [data.holdsFixed, ...data.coincident.map(([a, b]) => `${ANALYSIS_STYLES[a].shortLabel} and ${ANALYSIS_STYLES[b].shortLabel} coincide on this axis (one line hides the other).`)];
 }
 
 function layoutSensitivity(data: SensitivityChartData, width: number): SensitivityLayout {
@@ -140,7 +141,7 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
   };
   for (const be of data.breakEvenX) {
     add(root, 'line', { x1: x(be), x2: x(be), y1: top, y2: height - bottom, stroke: '#2f6b3a', 'stroke-width': 1.5, 'stroke-dasharray': '6 2' });
-    const label = `Break-even ${fmt(be, digits)}`;
+    const label = `Break-even ${fmt(be, data.mode === 'reliability' ? 3 : digits)}`;
     const p = inPlot(x(be), 'end', label);
     text(root, p.x, placeFree(p.x, top + 12, 14, label, p.anchor, true), label, { 'text-anchor': p.anchor, fill: '#2f6b3a', 'font-weight': 'bold', ...halo });
   }

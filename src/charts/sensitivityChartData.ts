@@ -36,6 +36,8 @@ export interface SensitivityChartData {
   yDomain: [number, number];
   /** Pairs of analyses whose curves are identical on this axis (drawn on top of each other). */
   coincident: [AnalysisId, AnalysisId][];
+  /** What the curve holds fixed while x varies (core's sensitivityCurve), shown with the chart. */
+  holdsFixed: string;
 }
 
 const SENSITIVITY_TITLES: Record<SensitivityVariable, string> = {
@@ -92,7 +94,9 @@ export function sensitivityChartData({ plan, analytic }: ChartInput, mode: Sensi
     chart: 'sensitivity',
     mode,
     title: SENSITIVITY_TITLES[mode],
-    xLabel: mode === 'reliability' ? 'Pretest reliability in its reference population (0 to 1)' : mode === 'screenerReliability' ? 'Screener reliability in the population (0 to 1)' : curve.xLabel,
+    // The axis says which reliability scale it is (core's label): within-group for existing groups, the
+    // same scale as the break-even figure in the text; the reference population for selection designs.
+    xLabel: mode === 'reliability' || mode === 'screenerReliability' ? `${curve.xLabel} (0 to 1)` : curve.xLabel,
     yLabel: 'Expected bias (posttest points)',
     series,
     tau: curve.effect,
@@ -103,5 +107,6 @@ export function sensitivityChartData({ plan, analytic }: ChartInput, mode: Sensi
     xDomain: [Math.min(...xs), Math.max(...xs)],
     yDomain: [y0 - pad, y1 + pad],
     coincident,
+    holdsFixed: curve.holdsFixed,
   };
 }

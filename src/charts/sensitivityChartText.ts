@@ -33,8 +33,9 @@ export function sensitivityChartText(data: SensitivityChartData): ChartText {
     `Expected bias of each analysis as the ${what} varies. Biases within +/- ${fmt(data.band.upper, 2)} points (${fmt(data.tolerableShare * 100, 0)}% of the hoped-for effect of ${fmt(data.tau, 2)}) are tolerated.`,
     `This plan: ${what} ${fmt(data.current, d)}; expected biases ${data.series.map((s) => `${s.name} ${fmt(s.currentBias, 2)}`).join(', ')} points.`,
     data.breakEvenX.length > 0
-      ? `${whose} reaches the edge of the tolerated band at ${what} ${data.breakEvenX.map((v) => fmt(v, d)).join(' and ')}.`
+      ? `${whose} reaches the edge of the tolerated band at ${what} ${data.breakEvenX.map((v) => fmt(v, data.mode === 'reliability' ? 3 : d)).join(' and ')}.`
       : 'No break-even value lies on this axis.',
+    `Axis: ${data.xLabel}. ${data.holdsFixed}`,
     PLANNING_CAUTION,
     ...data.coincident.map(([a, b]) => `${ANALYSIS_STYLES[a].shortLabel} and ${ANALYSIS_STYLES[b].shortLabel} have the same expected bias all along this axis.`),
   ];

@@ -1,3 +1,4 @@
+import { DEFAULT_TARGET_POWER } from '../core/analysisSettings';
 import type { AnalyticResults } from '../core/analyticResults';
 import { presentAnalyses } from '../core/presentAnalyses';
 import type { Plan } from '../core/plan';
@@ -67,6 +68,18 @@ export function formatResultsTable(plan: Plan, results: AnalyticResults): string
       );
     }
   }
+  // Verdicts: the regression artefact and the growth gap apart, whether each analysis is tolerable and why,
+  // and the sample size for the target power (none for a biased analysis), all from core.
+  const power = plan.analysis.targetPower ?? DEFAULT_TARGET_POWER;
+  lines.push('');
+  lines.push(`Verdicts (n per group for ${fmtPercent(power)} power)`);
+  for (const [, a] of presentAnalyses(results.analyses)) {
+    const n = a.requiredNNote ?? (!a.feasible ? 'not feasible' : a.requiredNPerGroup === null ? 'not reachable' : `${a.requiredNPerGroup} per group`);
+    const parts = a.growthGap === 0 ? '' : ` Regression artefact ${fmtPoints(a.regressionArtefact)} (${fmtPercent(a.regressionArtefactShare)}), growth gap ${fmtPoints(a.growthGap)} (${fmtPercent(a.growthGapShare)}).`;
+    lines.push(`  ${a.name}: ${a.tolerability.reason}${parts} n: ${n}.`);
+    if (a.growthGapNote) lines.push(`    ${a.growthGapNote}`);
+  }
+  if (results.requiredNCounts) lines.push(`  ${results.requiredNCounts}`);
   lines.push(...clusterAnalysisLines(results));
   lines.push(...covariateLines(results));
   lines.push('');
@@ -152,7 +165,7 @@ function clusterLines(plan: Plan, results: AnalyticResults): string[] {
   const head = results.analyses.matchedDifference;
   if (head && head.clustersPerGroupNeeded !== undefined && head.feasible) {
     out.push(
-      `${head.name}: ${head.clustersPerGroupNeeded === null ? 'no number of clusters per group reaches the target power' : `${head.clustersPerGroupNeeded} clusters per group for the target power`}; ` +
+      `${head.name}: ${head.requiredNNote !== null ? `${head.requiredNNote} (no number of clusters per group is offered)` : head.clustersPerGroupNeeded === null ? 'no number of clusters per group reaches the target power' : `${head.clustersPerGroupNeeded} clusters per group for the target power`}; ` +
         `minimum detectable effect ${head.minimumDetectableEffect === null || head.minimumDetectableEffect === undefined ? 'n/a' : fmtPoints(head.minimumDetectableEffect)} points with the artefact included.`,
     );
   }
@@ -165,7 +178,7 @@ function clusterAnalysisLines(results: AnalyticResults): string[] {
   const out: string[] = [];
   for (const [, a] of presentAnalyses(results.analyses)) {
     if (!a.feasible || a.clustersPerGroupNeeded === undefined) continue;
-    const needed = a.clustersPerGroupNeeded === null ? 'no number of clusters is enough' : `${a.clustersPerGroupNeeded} clusters per group needed`;
+    const needed = a.requiredNNote !== null ? a.requiredNNote : a.clustersPerGroupNeeded === null ? 'no number of clusters is enough' : `${a.clustersPerGroupNeeded} clusters per group needed`;
     const mde = a.minimumDetectableEffect === null || a.minimumDetectableEffect === undefined ? 'n/a' : fmtPoints(a.minimumDetectableEffect);
     const naive = a.naiveSE === undefined ? '' : `; ignoring the clustering its SE would be reported as ${fmtPoints(a.naiveSE)}`;
     out.push(`  ${a.name}: cluster-aware SE ${a.se === null ? '—' : fmtPoints(a.se)}${a.df === null ? '' : ` (df ${a.df.toFixed(0)})`}${naive}; ${needed}; MDE ${mde} points.`);

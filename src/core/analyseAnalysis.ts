@@ -15,6 +15,8 @@ export interface AnalysisSettings {
   assumedReliability: number;
   /** Share of |tau| an artefact may reach (≥ 0). */
   tolerableBiasShare: number;
+  /** The plan's assumed growth gap (outcome.growthGap), points: the part of every bias that is not the regression artefact (default 0). */
+  growthGap?: number;
   /** Target power for the required n, in (alpha, 1). */
   targetPower: number;
   /** Comparison partners per matched programme member (≥ 1). */

@@ -1,3 +1,5 @@
+import { requiredNCounts } from './requiredNCounts';
+import { mahalanobisCaliperSuggestion } from './multivariate/mahalanobisCaliperSuggestion';
 import type { AnalyticAnalysis, AnalyticResults, BreakEven } from './analyticResults';
 import type { ModelParameters } from './modelParameters';
 import { TWO_GROUP_ANALYSIS_IDS, type AnalysisRecord, type Plan } from './plan';
@@ -46,6 +48,11 @@ export { DEFAULT_TARGET_POWER } from './analysisSettings';
  * @example analysePlan(demoPlan()).analyses.matchedDifference.bias // −2 (0.8·0.25·(−10))
  */
 export function analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults {
+  return { ...analysePlanForDesign(plan, planned), requiredNCounts: requiredNCounts(plan) };
+}
+
+/** analysePlan's one branch on the design (see the design seam in DEVELOPERS.md). */
+function analysePlanForDesign(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults {
   if (isSelectionDesign(plan)) return analyseSelectionPlan(plan, planned);
   if (isClusterDesign(plan)) return analyseClusterPlan(plan, planned);
   if (usesCovariateModel(plan)) return analyseCovariatePlan(plan, planned);
@@ -96,6 +103,7 @@ function analyseCovariatePlan(plan: Plan, planned: PlannedProcedureEstimates | u
     },
     covariateModel: cm,
     covariateBalance: expectedCovariateBalance(cm, distance),
+    ...(distance === 'mahalanobis' ? { caliperSuggestion: mahalanobisCaliperSuggestion(cm, m, plan.matching) } : {}),
   };
   return assertFiniteOutput(results, 'results');
 }

@@ -21,6 +21,7 @@ export function analysisSettings(plan: Plan, matchedProgramme: number): Analysis
     alpha: plan.analysis.alpha,
     assumedReliability: plan.analysis.assumedReliability,
     tolerableBiasShare: plan.analysis.tolerableBiasShare,
+    growthGap: plan.outcome.growthGap,
     targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
     ratio: plan.matching.ratio,
     matchedProgramme,

@@ -1,4 +1,4 @@
-import type { AnalyticAnalysis } from './analyticResults';
+import type { AnalyticAnalysis, ArtefactVerdict } from './analyticResults';
 import type { AnalysisId } from './plan';
 import type { AnalysisSettings } from './analyseAnalysis';
 import type { DesignAtN } from './requiredNPerGroup';
@@ -6,6 +6,11 @@ import { classifyArtefact } from './classifyArtefact';
 import { falsePositiveRate, twoSidedPower, wrongSignRate } from './power';
 import { requiredNPerGroup } from './requiredNPerGroup';
 import { shareOfEffect } from './shareOfEffect';
+import { judgeTolerable } from './judgeTolerable';
+import { growthGapNote } from './artefactParts';
+
+/** What the required n says for an analysis whose regression artefact is not tolerable. */
+export const BIASED_REQUIRED_N_NOTE = 'biased: more people do not help';
 
 /** What an analysis contributes before the shared power and verdict arithmetic. */
 export interface AnalysisInputs {
@@ -57,6 +62,17 @@ export interface AnalysisInputs {
 export function analyticAnalysisRecord(a: AnalysisInputs, s: AnalysisSettings): AnalyticAnalysis {
   const { estimate, tau } = a;
   const bias = estimate - tau;
+  // The bias in two parts: the assumed growth gap and the regression artefact (the rest).
+  const growthGap = s.growthGap ?? 0;
+  const regressionArtefact = bias - growthGap;
+  const parts = {
+    regressionArtefact,
+    regressionArtefactShare: shareOfEffect(regressionArtefact, tau),
+    regressionArtefactSD: regressionArtefact / a.posttestSD,
+    growthGap,
+    growthGapShare: shareOfEffect(growthGap, tau),
+    growthGapNote: growthGapNote(regressionArtefact, growthGap, bias),
+  };
   const base = {
     id: a.id,
     name: a.name,
@@ -68,12 +84,24 @@ export function analyticAnalysisRecord(a: AnalysisInputs, s: AnalysisSettings): 
     bias,
     biasSD: bias / a.posttestSD,
     biasShare: shareOfEffect(bias, tau),
-    verdict: classifyArtefact(tau, bias, s.tolerableBiasShare),
+    ...parts,
+  };
+  const judge = (rates: { falsePositiveRate: number | null; power: number | null; powerWithoutBias: number | null }) => {
+    const tolerability = judgeTolerable({ tau, regressionArtefact, tolerableShare: s.tolerableBiasShare, alpha: s.alpha, ...rates });
+    // The direction comes from the regression artefact when it is too large; when only an
+    // error rate fails, from the whole shift (which is what the error rates reflect).
+    let verdict: ArtefactVerdict = 'negligible';
+    if (!tolerability.artefactWithinShare) verdict = classifyArtefact(tau, regressionArtefact, s.tolerableBiasShare);
+    else if (!tolerability.tolerable) verdict = classifyArtefact(tau, bias, 0);
+    return { verdict, tolerability };
   };
   if (a.precision === null) {
     if (!a.infeasibleReason) throw new Error(`The ${a.name} has no standard error, and no reason was given.`);
+    const judged = judge({ falsePositiveRate: null, power: null, powerWithoutBias: null });
     return {
       ...base,
+      ...judged,
+      requiredNNote: judged.tolerability.artefactWithinShare ? null : BIASED_REQUIRED_N_NOTE,
       feasible: false,
       infeasibleReason: a.infeasibleReason,
       se: null,
@@ -88,18 +116,27 @@ export function analyticAnalysisRecord(a: AnalysisInputs, s: AnalysisSettings): 
     };
   }
   const { se, df, design } = a.precision;
+  const power = twoSidedPower(estimate, se, df, s.alpha);
+  const powerWithoutBias = twoSidedPower(tau, se, df, s.alpha);
+  const fpr = falsePositiveRate(bias, se, df, s.alpha);
+  const judged = judge({ falsePositiveRate: fpr, power, powerWithoutBias });
+  const biased = !judged.tolerability.artefactWithinShare;
   return {
     ...base,
+    ...judged,
     feasible: true,
     infeasibleReason: null,
     se,
     df,
     nProgramme: a.nProgramme,
     nComparison: a.nComparison,
-    power: twoSidedPower(estimate, se, df, s.alpha),
-    powerWithoutBias: twoSidedPower(tau, se, df, s.alpha),
-    falsePositiveRate: falsePositiveRate(bias, se, df, s.alpha),
+    power,
+    powerWithoutBias,
+    falsePositiveRate: fpr,
     wrongSignRate: wrongSignRate(tau, bias, se, df, s.alpha),
-    requiredNPerGroup: requiredNPerGroup(estimate, tau, design, s.alpha, s.targetPower),
+    // Only for analyses whose regression artefact is tolerable: for the others more people
+    // only make a biased estimate more precise.
+    requiredNPerGroup: biased ? null : requiredNPerGroup(estimate, tau, design, s.alpha, s.targetPower),
+    requiredNNote: biased ? BIASED_REQUIRED_N_NOTE : null,
   };
 }

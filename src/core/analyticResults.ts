@@ -2,6 +2,8 @@ import type { AnalysisId, AnalysisRecord, MatchingDistance } from './plan';
 import type { ModelParameters } from './modelParameters';
 import type { CovariateModel } from './multivariate/covariateModel';
 import type { ExpectedCovariateBalance } from './multivariate/expectedCovariateBalance';
+import type { Tolerability } from './judgeTolerable';
+import type { CaliperSuggestion } from './multivariate/mahalanobisCaliperSuggestion';
 
 /** How an expected artefact changes the study's conclusion about a hoped-for effect. */
 export type ArtefactVerdict =
@@ -38,7 +40,28 @@ export interface AnalyticAnalysis {
   biasSD: number;
   /** bias / tau; null when tau = 0. */
   biasShare: number | null;
+  /**
+   * What the artefact does to the conclusion, judged on the regression
+   * artefact (the growth gap left out) and the error rates: 'negligible'
+   * only when `tolerability.tolerable`.
+   */
   verdict: ArtefactVerdict;
+  /** The part of `bias` due to regression toward the mean and the analysis (bias − growthGap), points. */
+  regressionArtefact: number;
+  /** regressionArtefact / posttest SD (comparison group). */
+  regressionArtefactSD: number;
+  /** regressionArtefact / tau; null when tau = 0. */
+  regressionArtefactShare: number | null;
+  /** The part of `bias` due to the assumed growth gap (outcome.growthGap), points. */
+  growthGap: number;
+  /** growthGap / tau; null when tau = 0. */
+  growthGapShare: number | null;
+  /** A plain sentence when the growth gap offsets the regression artefact; null otherwise. */
+  growthGapNote: string | null;
+  /** The three conditions of "tolerable" and which failed, with a plain reason. */
+  tolerability: Tolerability;
+  /** "biased: more people do not help" when the regression artefact is not tolerable (requiredNPerGroup is then null); null otherwise. */
+  requiredNNote: string | null;
   /**
    * Whether the analysis can be carried out with the planned pools. Only the
    * matched difference can be infeasible: when fewer than 2 programme members
@@ -64,7 +87,11 @@ export interface AnalyticAnalysis {
   falsePositiveRate: number | null;
   /** P(significant with the sign opposite to the hoped-for effect); null when tau = 0 or not feasible. */
   wrongSignRate: number | null;
-  /** Per-group n for the plan's target power given tau + bias; null when unreachable or not feasible. */
+  /**
+   * Per-group n for the plan's target power given tau + bias; null when
+   * unreachable, not feasible, or the regression artefact is not tolerable
+   * (see requiredNNote; what "per group" counts: requiredNCounts in the results).
+   */
   requiredNPerGroup: number | null;
   /**
    * Regression discontinuity only: the variance of its estimate relative to a
@@ -178,6 +205,14 @@ export interface Remedy {
   /** Approximate share of the programme pool discarded; null when not applicable. */
   discardedShare: number | null;
   assumption: string;
+  /** Whom the estimate then describes, when the remedy discards programme members (the matched members, not the programme); null or absent otherwise. */
+  estimand?: string | null;
+  /** Why the remedy is unrealistic and what is feasible instead (e.g. more than 4 parallel forms); null or absent when realistic. */
+  feasibility?: string | null;
+  /** Corrected ANCOVA only: the pooled within-group reliability the correction needs to leave no artefact. */
+  neededReliability?: number;
+  /** Matching on more variables with the Mahalanobis distance: the caliper in the new unit to use instead. */
+  caliperSuggestion?: CaliperSuggestion;
 }
 
 /**
@@ -234,6 +269,10 @@ export interface AnalyticResults {
   design: DesignSummary;
   /** Present only for the clusters design. */
   clusters?: ClusterSummary;
+  /** Mahalanobis matching only: the caliper is in a new unit; a value that keeps the matched share (mahalanobisCaliperSuggestion). */
+  caliperSuggestion?: CaliperSuggestion;
+  /** What "per group" counts in every analysis' requiredNPerGroup, one or two plain sentences (requiredNCounts). */
+  requiredNCounts?: string;
 }
 
 /** The clusters design's own figures (src/core/clusters). */

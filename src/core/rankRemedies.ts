@@ -18,10 +18,15 @@ import { covariateMatchedShare } from './multivariate/covariateMatchedShare';
 import { type CovariateModel, deriveCovariateModel, matchingDistance, usesCovariateModel } from './multivariate/covariateModel';
 import { joinNames } from './multivariate/covariateModelProblems';
 import { unmeasuredBias } from './multivariate/unmeasuredBias';
+import { mahalanobisCaliperSuggestion } from './multivariate/mahalanobisCaliperSuggestion';
 
 const pts = formatPointsText;
 const pct = (x: number): string => `${Math.round(x * 100)}%`;
 const rel = (x: number): string => x.toFixed(2);
+const rel3 = (x: number): string => x.toFixed(3);
+
+/** More parallel forms than this is flagged as unrealistic (common practice: few tests have more than 3–4 forms). */
+export const MAX_REALISTIC_PARALLEL_FORMS = 4;
 
 /**
  * Design changes that would shrink or remove the regression artefact, ranked
@@ -73,6 +78,19 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   const mk = modelWithSem(m, m.sem / Math.sqrt(k));
   const cmk = cov ? covariateModelWithSem(cov, 0, m.sem / Math.sqrt(k)) : null;
   const biasK = matchedBiasOf(mk, cmk);
+  // More than MAX_REALISTIC_PARALLEL_FORMS forms is rarely feasible: say so, and what the feasible number buys.
+  let feasibility: string | null = null;
+  if (k > MAX_REALISTIC_PARALLEL_FORMS) {
+    const kf = MAX_REALISTIC_PARALLEL_FORMS;
+    const mf = modelWithSem(m, m.sem / Math.sqrt(kf));
+    const cmf = cov ? covariateModelWithSem(cov, 0, m.sem / Math.sqrt(kf)) : null;
+    const biasF = matchedBiasOf(mf, cmf);
+    const shareF = shareOf(biasF);
+    feasibility =
+      `Unrealistic: few tests have more than 3–4 parallel forms, and every extra sitting costs time and goodwill. ` +
+      `What is feasible: ${kf} forms raise the within-group reliability to ${rel(mf.reliability.comparison)} and leave ` +
+      `${pts(biasF)} points${shareF === null ? '' : ` (${pct(Math.abs(shareF))} of the effect)`}; combine that with another remedy.`;
+  }
   remedies.push({
     id: 'more-reliable-pretest',
     title: k === 1 ? 'Keep the pretest: it is reliable enough' : `Average ${k} parallel pretests`,
@@ -86,24 +104,29 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
     remainingBiasShare: shareOf(biasK),
     discardedShare: 1 - matchedShareOf(mk, cmk, matching),
     assumption: 'The forms are parallel (same true score, independent errors of equal size) and the extra testing is feasible.',
+    feasibility,
   });
 
-  // 2. Reliability-corrected ANCOVA with the true pooled reliability.
+  // 2. Reliability-corrected ANCOVA: what is left at the reliability the researcher assumed,
+  // and the pooled within-group reliability it would need to assume to leave nothing.
   const rhoTrue = m.reliability.pooled;
+  // An assumed figure equal to the pooled one up to rounding (12 decimals) is taken as that figure.
+  const rhoAssumed = Math.abs(plan.analysis.assumedReliability - rhoTrue) < 1e-12 ? rhoTrue : plan.analysis.assumedReliability;
   const corrected = (r: number): number => (cov ? covariateCorrectedAncovaEstimate(cov, r) : correctedAncovaEstimate(m, r));
-  const biasCorr = corrected(rhoTrue) - tau;
-  const rhoOff = Math.min(1, rhoTrue + 0.05);
-  const biasOff = corrected(rhoOff) - tau;
+  const biasCorr = corrected(rhoAssumed) - tau;
+  const biasAtTrue = corrected(rhoTrue) - tau;
   remedies.push({
     id: 'corrected-ancova',
     title: 'Reliability-corrected ANCOVA on the full sample',
     summary:
-      `With the true within-group reliability (${rel(rhoTrue)})${cov ? " and the covariates' stated reliabilities" : ''} the artefact is ${pts(biasCorr)} points; ` +
-      `it is sensitive to that figure: assuming ${rel(rhoOff)} instead leaves ${pts(biasOff)} points.`,
+      `At the reliability you assumed (${rel3(rhoAssumed)})${cov ? " and the covariates' stated reliabilities" : ''} the artefact left is ${pts(biasCorr)} points. ` +
+      `It would be ${pts(biasAtTrue)} points only if the assumed figure equalled the pooled within-group reliability of these groups, ${rel3(rhoTrue)}: ` +
+      'a norm-sample or whole-population reliability is higher than that and leaves an artefact.',
     remainingBias: biasCorr,
     remainingBiasShare: shareOf(biasCorr),
     discardedShare: 0,
-    assumption: 'The within-group reliability is known accurately for these groups, not only for a norm sample.',
+    assumption: `The within-group reliability is known accurately for these groups (the correction needs ${rel3(rhoTrue)}), not only for a norm sample.`,
+    neededReliability: rhoTrue,
   });
 
   // 3. Gain score.
@@ -154,9 +177,54 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
 
   if (cov) remedies.push(...covariateRemedies(cov, m, matching, distance, matchedBias, shareOf));
 
-  const tol = 1e-9 * Math.max(1, Math.abs(tau), Math.abs(matchedBias));
-  return remedies.sort((a, b) => {
-    const d = Math.abs(a.remainingBias) - Math.abs(b.remainingBias);
+  return rankRemedyList(remedies.map(withEstimand), tau, plan.analysis.tolerableBiasShare, m.growthGap);
+}
+
+/** Above this share of the programme pool discarded, a remedy's estimate describes too few programme members to rank with the others. */
+export const DISCARD_LIMIT = 0.2;
+
+/**
+ * The estimand a remedy's estimate describes, stated when it discards
+ * programme members: the matched programme members, not the programme.
+ */
+function withEstimand(r: Remedy): Remedy {
+  if (r.discardedShare === null || !(r.discardedShare > 0.005)) return { ...r, estimand: null };
+  const kept = 1 - r.discardedShare;
+  return {
+    ...r,
+    estimand:
+      `The estimate would describe the matched programme members (about ${pct(kept)} of the programme pool), not the programme as a whole` +
+      (r.discardedShare > DISCARD_LIMIT ? `: about ${pct(r.discardedShare)} of the programme pool is discarded.` : '.'),
+  };
+}
+
+/**
+ * Remedies best first, counting the discarded share and realism, not only
+ * the artefact left: first those that leave a tolerable artefact, discard at
+ * most DISCARD_LIMIT of the programme pool and are realistic; then those that
+ * leave a tolerable artefact but discard more or are unrealistic; then the
+ * rest. Within each tier, by |remaining artefact| and then by discarded share.
+ * Reference: none (this project's ranking rule).
+ * @param remedies the remedies. @param tau hoped-for effect, points. @param tolerableShare share of |tau| tolerated.
+ * @param growthGap the plan's assumed growth gap, points (left out of the judgement; default 0).
+ * @returns a new, sorted array.
+ * @throws never.
+ * @example a remedy leaving 0 points but discarding 66% ranks after one leaving 0.3 of a 2.5-point effect and discarding 5%
+ */
+export function rankRemedyList(remedies: Remedy[], tau: number, tolerableShare: number, growthGap = 0): Remedy[] {
+  // Judged on the regression artefact each remedy leaves (its remaining bias without the assumed growth
+  // gap), as the verdict is: a guessed growth gap that offsets an artefact must not lift a remedy.
+  const artefact = (r: Remedy): number => r.remainingBias - growthGap;
+  const tolerable = (r: Remedy): boolean => Math.abs(artefact(r)) <= (tau === 0 ? 1e-9 : tolerableShare * Math.abs(tau) + 1e-12);
+  const tier = (r: Remedy): number => {
+    if (!tolerable(r)) return 2;
+    return (r.discardedShare ?? 0) > DISCARD_LIMIT || r.feasibility ? 1 : 0;
+  };
+  const tol = 1e-9 * Math.max(1, Math.abs(tau));
+  return [...remedies].sort((a, b) => {
+    const t = tier(a) - tier(b);
+    if (t !== 0) return t;
+    const d = Math.abs(artefact(a)) - Math.abs(artefact(b));
     if (Math.abs(d) > tol) return d;
     return (a.discardedShare ?? 0) - (b.discardedShare ?? 0);
   });
@@ -176,14 +244,16 @@ function covariateRemedies(
   const others = cov.measuredIndices.filter((j) => j > 0 && !cov.exact[j]);
   if (distance === 'pretest' && others.length > 0) {
     const bias = covariateMatchedEstimate(cov, 'mahalanobis') - tau;
+    const caliper = mahalanobisCaliperSuggestion(cov, m, matching);
     out.push({
       id: 'match-all-measured',
       title: 'Match on all measured covariates (propensity score or Mahalanobis distance)',
       summary:
         `Matching on the pretest together with ${joinNames(others.map((j) => cov.names[j] as string))} changes the ` +
         `matched-difference artefact from ${pts(matchedBias)} to ${pts(bias)} points; what is left comes from measurement ` +
-        'error in the covariates and from anything never measured.',
+        `error in the covariates and from anything never measured. ${caliper.note}`,
       remainingBias: bias,
+      caliperSuggestion: caliper,
       remainingBiasShare: shareOf(bias),
       discardedShare: 1 - covariateMatchedShare(cov, m, matching, 'mahalanobis'),
       assumption:
@@ -196,6 +266,7 @@ function covariateRemedies(
     const all = covariateModelWithMeasured(cov, unmeasured);
     const d = distance === 'pretest' ? 'mahalanobis' : distance;
     const bias = covariateMatchedEstimate(all, d) - tau;
+    const caliper = distance === 'pretest' ? mahalanobisCaliperSuggestion(all, m, matching) : null;
     const names = joinNames(unmeasured.map((j) => cov.names[j] as string));
     out.push({
       id: 'measure-confounders',
@@ -203,8 +274,9 @@ function covariateRemedies(
       summary:
         `No analysis of the measured covariates removes the ${pts(hidden)} points carried by ${names}. Measured with ` +
         `the stated reliabilit${unmeasured.length === 1 ? 'y' : 'ies'} and matched on with everything else, the ` +
-        `matched-difference artefact would be ${pts(bias)} points (now ${pts(matchedBias)}).`,
+        `matched-difference artefact would be ${pts(bias)} points (now ${pts(matchedBias)}).` + (caliper ? ` ${caliper.note}` : ''),
       remainingBias: bias,
+      ...(caliper ? { caliperSuggestion: caliper } : {}),
       remainingBiasShare: shareOf(bias),
       discardedShare: 1 - covariateMatchedShare(all, m, matching, d),
       assumption: `${names} can be measured for both groups before the programme starts, with the reliability stated in the plan.`,

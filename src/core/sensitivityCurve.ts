@@ -38,16 +38,28 @@ export interface SensitivityCurve {
   tolerableBand: { lower: number; upper: number };
   /** x values at which the matched-difference artefact reaches the band's edge (growth gap aside); may be empty. */
   breakEvenX: number[];
+  /** What the curve holds fixed while x varies, one plain sentence (shown with the chart). */
+  holdsFixed: string;
 }
+
+/** The reliability axis of existing-groups plans: the same scale as the break-even figure (breakEvenReliability). */
+export const WITHIN_GROUP_RELIABILITY_LABEL = 'Within-group pretest reliability (comparison group)';
+
+/** What the reliability curve of existing-groups plans holds fixed. */
+export const WITHIN_GROUP_RELIABILITY_FIXED =
+  'Only the pretest’s measurement error changes along the curve: true scores, the groups’ true gap and the outcome stay fixed, so the observed pretest SDs grow as the reliability falls.';
+
+/** What the pretest-gap curve holds fixed. */
+const GAP_FIXED = 'Only the programme group’s pretest mean moves along the curve: the comparison group, the reliability and the outcome model stay fixed.';
 
 /**
  * Expected bias of each analysis as one design feature varies, for charts.
  *
- * - 'reliability': x is the pretest's reliability in its reference population
- *   (SD = plan.pretest.referenceSD, default the comparison pretest SD), on a
- *   grid from 0.3 to 1. True scores and the outcome model stay fixed; the SEM
- *   is referenceSD·sqrt(1 − x) (Lord & Novick 1968, from memory), and each
- *   group's within-group reliability follows.
+ * - 'reliability': x is the comparison group's within-group pretest
+ *   reliability (the scale of the break-even figure), on a grid from 0.3 to
+ *   1. True scores and the outcome model stay fixed; the SEM is
+ *   SD_T,C·sqrt((1 − x)/x) (Lord & Novick 1968, from memory), so the
+ *   observed SDs change with x (holdsFixed says so).
  * - 'pretestGap': x is the programme-minus-comparison pretest gap, on a grid
  *   symmetric around the current gap (± max(|gap|, pooled pretest SD)).
  * - 'cutOff', 'screenerReliability': selection designs only (see
@@ -63,8 +75,7 @@ export interface SensitivityCurve {
  * @returns the curve, band and break-even x values (all finite).
  * @throws Error when points is out of range or the plan's inputs contradict each other.
  * @example demo plan, 'reliability': at x = 1 the matched-difference bias is 0,
- *   at x = 0.75 it is −2 points; break-even x = 0.921875 (the
- *   reference population has the groups' SD, so it equals the within-group break-even)
+ *   at x = 0.75 it is −2 points; break-even x = 0.921875 (= breakEven.reliability)
  */
 export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, points = 41): SensitivityCurve {
   if (!Number.isInteger(points) || points < 3 || points > 1001) {
@@ -85,8 +96,8 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
     // Clusters: each point re-runs the clusters model with the changed SEM or gap; points where
     // the ICC would contradict the changed reliability are left out.
     const ids = designAnalysisIds(plan);
-    const refSD = plan.pretest.referenceSD ?? plan.groups.comparison.pretestSD;
-    const trueVarRef = Math.max(refSD * refSD - m.sem * m.sem, Number.MIN_VALUE);
+    // x is the comparison group's within-group reliability (the break-even's scale): SEM² = trueVar_C (1 − x)/x.
+    const trueVarC = Math.max(m.trueSD.comparison ** 2, Number.MIN_VALUE);
     const reliability = variable === 'reliability';
     const pooledSD = Math.sqrt((m.observedSD.programme ** 2 + m.observedSD.comparison ** 2) / 2);
     const w = Math.max(Math.abs(m.pretestGap), pooledSD);
@@ -95,7 +106,7 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
       : Array.from({ length: points }, (_, i) => m.pretestGap - w + (2 * w * i) / (points - 1));
     const pts: SensitivityPoint[] = [];
     for (const x of xs) {
-      const mx = reliability ? modelWithSem(m, Math.sqrt((trueVarRef * Math.max(0, 1 - x)) / x)) : modelWithPretestGap(m, x);
+      const mx = reliability ? modelWithSem(m, Math.sqrt((trueVarC * Math.max(0, 1 - x)) / x)) : modelWithPretestGap(m, x);
       try {
         const cm = clusterModelFor(design, mx);
         pts.push({ x, bias: Object.fromEntries(ids.map((id) => [id, m.growthGap + clusterArtefact(id, cm)])) as AnalysisRecord<number> });
@@ -107,12 +118,13 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
     return assertFiniteOutput(
       {
         variable,
-        xLabel: reliability ? 'Pretest reliability in its reference population' : 'Pretest gap, programme minus comparison (points)',
-        current: reliability ? trueVarRef / (trueVarRef + m.sem * m.sem) : m.pretestGap,
+        xLabel: reliability ? WITHIN_GROUP_RELIABILITY_LABEL : 'Pretest gap, programme minus comparison (points)',
+        current: reliability ? m.reliability.comparison : m.pretestGap,
         points: pts,
         effect: tau,
         tolerableBand: band,
         breakEvenX: bandCrossings(pts, band),
+        holdsFixed: reliability ? WITHIN_GROUP_RELIABILITY_FIXED : GAP_FIXED,
       },
       'sensitivity curve',
     );
@@ -131,13 +143,12 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
   let result: SensitivityCurve;
   const band = { lower: -share * Math.abs(tau), upper: share * Math.abs(tau) };
   if (variable === 'reliability') {
-    const refSD = plan.pretest.referenceSD ?? plan.groups.comparison.pretestSD;
     // A better or worse instrument changes the SEM, not the people: the true-score
-    // variance of the reference population (and of each group) stays fixed, so the
-    // reference reliability x means SEM² = trueVarRef (1 − x)/x (Lord & Novick 1968,
-    // reliability as true over observed variance).
-    const trueVarRef = Math.max(refSD * refSD - m.sem * m.sem, Number.MIN_VALUE);
-    const semAt = (x: number): number => Math.sqrt((trueVarRef * Math.max(0, 1 - x)) / x);
+    // variance of each group stays fixed. x is the comparison group's within-group
+    // reliability, the scale of the break-even figure (breakEvenReliability), so
+    // SEM² = trueVar_C (1 − x)/x (Lord & Novick 1968, reliability as true over observed variance).
+    const trueVarC = Math.max(m.trueSD.comparison ** 2, Number.MIN_VALUE);
+    const semAt = (x: number): number => Math.sqrt((trueVarC * Math.max(0, 1 - x)) / x);
     const be = breakEvenReliability(m, share);
     const breakEvenX: number[] = [];
     if (cm) {
@@ -145,30 +156,27 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
       return assertFiniteOutput(
         {
           variable,
-          xLabel: 'Pretest reliability in its reference population',
-          current: trueVarRef / (trueVarRef + m.sem * m.sem),
+          xLabel: WITHIN_GROUP_RELIABILITY_LABEL,
+          current: m.reliability.comparison,
           points: pts,
           effect: tau,
           tolerableBand: band,
           breakEvenX: bandCrossings(pts, band),
+          holdsFixed: WITHIN_GROUP_RELIABILITY_FIXED,
         },
         'sensitivity curve',
       );
     }
-    if (be.reliability !== null) {
-      // Within-group rho* ↔ SEM² = trueVar_C (1 − rho*)/rho* ↔ reference reliability trueVarRef/(trueVarRef + SEM²).
-      const sem2 = (m.trueSD.comparison ** 2 * (1 - be.reliability)) / be.reliability;
-      const x = trueVarRef / (trueVarRef + sem2);
-      if (x > 0 && x <= 1) breakEvenX.push(x);
-    }
+    if (be.reliability !== null && be.reliability > 0 && be.reliability <= 1) breakEvenX.push(be.reliability);
     result = {
       variable,
-      xLabel: 'Pretest reliability in its reference population',
-      current: trueVarRef / (trueVarRef + m.sem * m.sem),
+      xLabel: WITHIN_GROUP_RELIABILITY_LABEL,
+      current: m.reliability.comparison,
       points: grid(0.3, 1).map((x) => ({ x, bias: biasOf(modelWithSem(m, semAt(x))) })),
       effect: tau,
       tolerableBand: band,
       breakEvenX,
+      holdsFixed: WITHIN_GROUP_RELIABILITY_FIXED,
     };
   } else {
     const pooledSD = Math.sqrt((m.observedSD.programme ** 2 + m.observedSD.comparison ** 2) / 2);
@@ -184,6 +192,7 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
           effect: tau,
           tolerableBand: band,
           breakEvenX: bandCrossings(pts, band),
+          holdsFixed: GAP_FIXED,
         },
         'sensitivity curve',
       );
@@ -202,6 +211,7 @@ export function sensitivityCurve(plan: Plan, variable: SensitivityVariable, poin
       effect: tau,
       tolerableBand: band,
       breakEvenX,
+      holdsFixed: GAP_FIXED,
     };
   }
   return assertFiniteOutput(result, 'sensitivity curve');

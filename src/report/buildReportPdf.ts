@@ -1,3 +1,4 @@
+import { FAILURE_WORDS } from '../core/judgeTolerable';
 import { jsPDF } from 'jspdf';
 import type { AnalyticResults } from '../core/analyticResults';
 import type { AnalysisId, Plan } from '../core/plan';
@@ -157,7 +158,18 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     reliabilitySentence,
     clusterSummarySentence(analytic),
     planSentence,
-    `Under the model, the ${lowerName(md.name)} is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a bias of ${formatSignedPoints(md.bias)} points${md.biasShare === null ? '' : ` (${formatShare(Math.abs(md.biasShare))} of the hoped-for effect${md.biasShare < 0 ? ', in the opposite direction' : ''})`}, so ${VERDICT_TEXT[md.verdict]}.`,
+    `Under the model, the ${lowerName(md.name)} is expected to be ${formatSignedPoints(md.expectedEstimate)} points: a regression-toward-the-mean artefact of ${formatSignedPoints(md.regressionArtefact)} points${md.regressionArtefactShare === null ? '' : ` (${formatShare(Math.abs(md.regressionArtefactShare))} of the hoped-for effect${md.regressionArtefactShare < 0 ? ', in the opposite direction' : ''})`}` +
+      (md.growthGap === 0
+        ? ''
+        : ` and an assumed growth gap of ${formatSignedPoints(md.growthGap)} points${md.growthGapShare === null ? '' : ` (${formatShare(Math.abs(md.growthGapShare))})`}, a net bias of ${formatSignedPoints(md.bias)} points`) +
+      `, so ${VERDICT_TEXT[md.verdict]}.`,
+    md.growthGapNote ?? '',
+    md.tolerability.reason,
+    md.requiredNNote !== null
+      ? `Sample size for ${formatShare(plan.analysis.targetPower ?? 0.8)} power: ${md.requiredNNote}.`
+      : md.requiredNPerGroup !== null
+        ? `Sample size for ${formatShare(plan.analysis.targetPower ?? 0.8)} power: ${formatCount(md.requiredNPerGroup)} per group. ${analytic.requiredNCounts ?? ''}`
+        : '',
     best
       ? `The first-ranked remedy is “${best.title}”, which leaves an expected artefact of ${formatSignedPoints(best.remainingBias)} points (assumption: ${lowerFirst(best.assumption)}).`
       : '',
@@ -245,7 +257,16 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
       row('Expected bias (points)', (id) => formatSignedPoints(an(id).bias)),
       row('Expected bias (post-test SDs)', (id) => formatSD(an(id).biasSD)),
       row('Bias as a share of the effect', (id) => (an(id).biasShare === null ? 'no effect hoped for' : formatShare(an(id).biasShare))),
+      row('Regression artefact (points; share of the effect)', (id) =>
+        `${formatSignedPoints(an(id).regressionArtefact)}${an(id).regressionArtefactShare === null ? '' : `; ${formatShare(an(id).regressionArtefactShare)}`}`,
+      ),
+      ...(ids.some((id) => an(id).growthGap !== 0)
+        ? [row('Assumed growth gap (points; share of the effect)', (id) => `${formatSignedPoints(an(id).growthGap)}${an(id).growthGapShare === null ? '' : `; ${formatShare(an(id).growthGapShare)}`}`)]
+        : []),
       row('Verdict', (id) => VERDICT_LABEL[an(id).verdict]),
+      row('Tolerable (artefact, false positives ≤ 1.5α, power drop ≤ 10 points)', (id) =>
+        an(id).tolerability.tolerable ? 'yes' : `no: ${an(id).tolerability.failed.map((f) => FAILURE_WORDS[f]).join(', ')}`,
+      ),
       row('Standard error (points)', (id) => formatPoints(an(id).se)),
       row('Sample sizes assumed (programme / comparison)', (id) => `${formatCount(an(id).nProgramme)} / ${formatCount(an(id).nComparison)}`),
       row('Power', (id) => (an(id).feasible ? formatProbability(an(id).power) : 'not feasible')),
@@ -255,7 +276,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
         !an(id).feasible ? 'not feasible' : an(id).wrongSignRate === null ? 'no effect hoped for' : formatProbability(an(id).wrongSignRate),
       ),
       row(`Per-group n for ${formatShare(plan.analysis.targetPower ?? 0.8)} power`, (id) =>
-        !an(id).feasible ? 'not feasible' : an(id).requiredNPerGroup === null ? 'not reachable' : formatCount(an(id).requiredNPerGroup),
+        an(id).requiredNNote ?? (!an(id).feasible ? 'not feasible' : an(id).requiredNPerGroup === null ? 'not reachable' : formatCount(an(id).requiredNPerGroup)),
       ),
       ...(clusterCells
         ? [
@@ -447,8 +468,11 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
     const parts = [
       `${r.title}${i === 0 ? ' (recommended)' : ''}. ${r.summary}`,
       `Expected artefact with this remedy: ${formatSignedPoints(r.remainingBias)} points${r.remainingBiasShare === null ? '' : ` (${formatShare(r.remainingBiasShare)} of the effect)`}${r.discardedShare === null ? '' : r.discardedShare === 0 ? '; no programme members discarded' : `; about ${formatShare(r.discardedShare)} of the programme pool discarded`}.`,
+      r.feasibility ?? '',
+      r.estimand ?? '',
+      r.neededReliability !== undefined ? `Pooled within-group reliability the correction needs: ${formatReliability(r.neededReliability)}.` : '',
       `Assumes: ${r.assumption}`,
-    ];
+    ].filter(Boolean);
     w.item(`${i + 1}.`, parts.join(' '));
   });
 

@@ -115,6 +115,7 @@ export function clusterPowerCells(analytic: AnalyticResults): { needed: (id: Ana
     needed: (id) => {
       const a = get(id);
       if (!a || !a.feasible) return 'not feasible';
+      if (a.requiredNNote !== null) return a.requiredNNote;
       return a.clustersPerGroupNeeded === null || a.clustersPerGroupNeeded === undefined ? 'not reachable' : formatCount(a.clustersPerGroupNeeded);
     },
     mde: (id) => {

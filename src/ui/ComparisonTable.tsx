@@ -9,6 +9,8 @@ import { fmt, fmtInt, fmtPct, fmtSigned } from './format';
 import type { AnalyticAnalysis } from '../core/analyticResults';
 import { centralCutOffVarianceInflation } from '../core/design/centralCutOffVarianceInflation';
 import { verdictWords } from './VerdictPanel';
+import { FAILURE_WORDS } from '../core/judgeTolerable';
+import { DEFAULT_TARGET_POWER } from '../core/analysisSettings';
 
 function SimFigure({ value, mcse, pct, signed }: { value: number; mcse: number; pct?: boolean; signed?: boolean }) {
   const v = pct ? fmtPct(value) : signed ? fmtSigned(value) : fmt(value);
@@ -54,7 +56,7 @@ function ClusterRowNote({ a }: { a: AnalyticAnalysis }) {
       Cluster-aware SE {fmt(a.se)}
       {a.df !== null && <> (df {fmtInt(a.df)})</>}
       {a.naiveSE !== undefined && <>; ignoring the clustering it would be reported as {fmt(a.naiveSE)}</>}. For the target power:{' '}
-      {a.clustersPerGroupNeeded === null ? 'no number of clusters is enough' : `${fmtInt(a.clustersPerGroupNeeded)} clusters per group`}; minimum detectable
+      {a.requiredNNote !== null ? a.requiredNNote : a.clustersPerGroupNeeded === null ? 'no number of clusters is enough' : `${fmtInt(a.clustersPerGroupNeeded)} clusters per group`}; minimum detectable
       effect {fmtSigned(a.minimumDetectableEffect)} points.
     </span>
   );
@@ -98,6 +100,7 @@ export function ComparisonTable() {
   const simResult = useMeanwardStore((s) => s.simulation.result);
   const simStale = useMeanwardStore((s) => s.simulation.stale);
   const sim = { stale: simStale };
+  const targetPower = useMeanwardStore((s) => s.validPlan?.analysis.targetPower ?? DEFAULT_TARGET_POWER);
   const tauZero = simResult ? simResult.tau === 0 : false;
   if (rows.length === 0 || !analytic) return null;
   const disagreements = simResult && !simStale && !stale ? quickFiguresAgreement(analytic, simResult) : [];
@@ -137,6 +140,7 @@ export function ComparisonTable() {
               <th scope="col">False-positive rate</th>
               <th scope="col">Power</th>
               <th scope="col">Wrong-sign rate</th>
+              <th scope="col">n per group for {fmtPct(targetPower, 0)} power</th>
             </tr>
           </thead>
           <tbody>
@@ -164,6 +168,9 @@ export function ComparisonTable() {
                     <span className="swatch" style={{ background: style.colour }} aria-hidden="true" />
                     {a.name}
                     <span className="row-verdict">{verdictWords(a.verdict).short}</span>
+                    <span className="row-tolerability" data-testid={`tolerability-${a.id}`}>
+                      {a.tolerability.tolerable ? 'Tolerable on all three conditions' : `Not tolerable: ${a.tolerability.failed.map((f) => FAILURE_WORDS[f]).join(', ')}`}
+                    </span>
                     <span className="assumption">{a.assumption}</span>
                     {a.varianceInflation !== undefined && <VarianceInflationNote inflation={a.varianceInflation} />}
                     <ClusterRowNote a={a} />
@@ -177,6 +184,14 @@ export function ComparisonTable() {
                     <span className="nowrap">
                       {fmtSigned(a.bias)} / {fmtSigned(a.biasSD)}
                     </span>
+                    {a.growthGap !== 0 && (
+                      <span className="formula-figure" data-testid={`parts-${a.id}`}>
+                        regression artefact {fmtSigned(a.regressionArtefact)}
+                        {a.regressionArtefactShare !== null && <> ({fmtPct(Math.abs(a.regressionArtefactShare), 0)} of the effect)</>}; growth gap{' '}
+                        {fmtSigned(a.growthGap)}
+                        {a.growthGapShare !== null && <> ({fmtPct(Math.abs(a.growthGapShare), 0)})</>}
+                      </span>
+                    )}
                     {a.basis === 'planned-procedure' && (
                       <>
                         <span className="formula-figure">quick simulation, MC SE {fmt(a.expectedEstimateMCSE)}</span>
@@ -216,6 +231,9 @@ export function ComparisonTable() {
                       </>
                     )}
                   </td>
+                  <td data-testid={`required-n-${a.id}`}>
+                    {a.requiredNNote ?? (!a.feasible ? '—' : a.requiredNPerGroup === null ? 'not reachable' : fmtInt(a.requiredNPerGroup))}
+                  </td>
                 </tr>,
                 naiveResult ? <NaiveRow key={`${a.id}-naive`} name={a.name} s={naiveResult} tauZero={tauZero} /> : null,
               ];
@@ -232,7 +250,8 @@ export function ComparisonTable() {
       )}
       <p className="table-note">
         False-positive rate: how often the analysis declares an effect when the programme does nothing. Wrong-sign rate: how often a helpful
-        programme comes out significantly harmful. Where two figures are stacked, the upper is expected and the lower simulated. Under each name: the condition under which that analysis is unbiased.
+        programme comes out significantly harmful. Tolerable: the regression artefact within your tolerable share, the false-positive rate at most
+        1.5 × alpha, and power lowered by at most 10 percentage points. {analytic.requiredNCounts} Where two figures are stacked, the upper is expected and the lower simulated. Under each name: the condition under which that analysis is unbiased.
         {analytic.clusters && (
           <>
             {' '}

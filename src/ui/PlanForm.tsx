@@ -561,6 +561,8 @@ function MatchingSection({ n }: { n: number }) {
   const clusterLevel = useMeanwardStore((s) => (draftUsesClusters(s.draft) && s.draft.matching.level === 'clusters'));
   const distance = selection || clustered ? 'pretest' : typedDistance;
   const hasCovariates = useMeanwardStore((s) => s.draft.covariates.length > 0);
+  // Core's suggestion when the caliper's number is now a Mahalanobis distance.
+  const caliperSuggestion = useMeanwardStore((s) => s.analytic?.caliperSuggestion);
   const member = clusterLevel ? 'programme cluster' : 'programme member';
   return (
     <Section
@@ -607,6 +609,11 @@ function MatchingSection({ n }: { n: number }) {
               : 'How far apart partners may be: the largest allowed pretest difference. Programme members with no partner this close are dropped.'
         }
       />
+      {distance === 'mahalanobis' && caliperSuggestion && (
+        <p className="field-hint caliper-unit-note" data-testid="caliper-unit-note" role="note">
+          {caliperSuggestion.note} Suggested caliper: <strong>{caliperSuggestion.value.toFixed(2)}</strong>.
+        </p>
+      )}
       <NumberField path="matching.ratio" label={MATCHING_WORDS.ratioLabel(clusterLevel)} unit="1 to 5" step={1} min={1} max={5} inputMode="numeric" hint={`How many comparison ${clusterLevel ? 'clusters' : 'people'} each ${member} is matched to.`} />
       <CheckField
         path="matching.replacement"

@@ -27,7 +27,8 @@ export function RemediesPanel() {
           </p>
         ) : be.reliability !== null ? (
           <p>
-            The matched comparison stays within your tolerable share if the pretest&rsquo;s within-group reliability is at least{' '}
+            The matched comparison stays within your tolerable share if the pretest&rsquo;s within-group reliability (comparison group; the scale of the
+            sensitivity chart) is at least{' '}
             <strong>{fmtR(be.reliability, 3)}</strong>
             {be.alreadyMet ? ' — the planned pretest already meets this.' : ` (now ${fmtR(analytic.reliability.comparison, 3)}).`}
             {be.parallelForms !== null && !be.alreadyMet && (
@@ -51,6 +52,26 @@ export function RemediesPanel() {
                 {r.remainingBiasShare !== null && <> ({fmtPct(Math.abs(r.remainingBiasShare), 0)} of the effect)</>}
                 {r.discardedShare !== null && <>; programme members left unmatched: about {fmtPct(r.discardedShare, 0)}</>}.
               </p>
+              {r.feasibility && (
+                <p className="remedy-feasibility" data-testid={`remedy-feasibility-${r.id}`}>
+                  <strong>{r.feasibility}</strong>
+                </p>
+              )}
+              {r.estimand && (
+                <p className="remedy-estimand" data-testid={`remedy-estimand-${r.id}`}>
+                  Whom the estimate describes: {r.estimand}
+                </p>
+              )}
+              {r.neededReliability !== undefined && (
+                <p className="remedy-needed" data-testid="remedy-needed-reliability">
+                  Pooled within-group reliability the correction needs: <strong>{fmtR(r.neededReliability, 3)}</strong>.
+                </p>
+              )}
+              {r.caliperSuggestion && (
+                <p className="remedy-caliper" data-testid={`remedy-caliper-${r.id}`}>
+                  Suggested Mahalanobis caliper: <strong>{fmt(r.caliperSuggestion.value, 2)}</strong>.
+                </p>
+              )}
               <p className="assumption">Assumes: {r.assumption}</p>
               {canTry && APPLICABLE_REMEDY_IDS.includes(r.id) && (
                 <button type="button" className="try-remedy" onClick={() => tryRemedy(r.id)} aria-label={`Try this: ${r.title}`}>
@@ -62,7 +83,7 @@ export function RemediesPanel() {
         </ol>
       )}
       <p className="table-note">
-        Best first. Each remedy is judged under the same model, one at a time; a combination may do better than any one.
+        Best first: remedies that leave a tolerable artefact while keeping most of the programme pool and staying realistic come first. Each remedy is judged under the same model, one at a time; a combination may do better than any one.
         Shares are of the hoped-for effect ({fmt(analytic.tau)} points).
       </p>
     </section>

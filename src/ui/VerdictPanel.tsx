@@ -2,7 +2,8 @@ import { requireAnalysis } from '../core/presentAnalyses';
 import { DEFAULT_TARGET_POWER } from '../core/analysisSettings';
 import { headlineAnalysisId } from '../core/design/studyDesign';
 import type { AnalyticAnalysis, AnalyticResults, ArtefactVerdict, ClusterSummary, DesignSummary, UnmeasuredBias } from '../core/analyticResults';
-import type { MatchingDistance, Plan } from '../core/plan';
+import type { Plan } from '../core/plan';
+import { MATCHED_ON } from '../core/matchedOnWords';
 import { selectAnalytic, selectAnalyticStale, selectValidPlan } from '../state/selectors';
 import { useMeanwardStore } from '../state/store';
 import { fmt, fmtInt, fmtPct, fmtR, fmtSigned } from './format';
@@ -16,12 +17,6 @@ const VERDICT_WORDS: Record<ArtefactVerdict, { short: string; heading: string; s
   invents: { short: 'invents an effect', heading: 'invents an effect', sentence: 'would produce a difference even though the hoped-for effect is zero.' },
 };
 
-/** What the matched comparison matches on, in plain words. */
-const MATCHED_ON: Record<MatchingDistance, string> = {
-  pretest: 'the observed pretest',
-  propensity: 'the propensity score',
-  mahalanobis: 'the Mahalanobis distance',
-};
 
 /** "A", "A and B", "A, B and C". */
 function names(list: string[]): string {
@@ -94,7 +89,9 @@ export function ClusterFacts({ c, m, targetPower }: { c: ClusterSummary; m: Anal
       {m.feasible && m.clustersPerGroupNeeded !== undefined && (
         <li data-testid="verdict-clusters-needed">
           For {fmtPct(targetPower, 0)} power with the artefact included:{' '}
-          {m.clustersPerGroupNeeded === null ? (
+          {m.requiredNNote !== null ? (
+            <strong>{m.requiredNNote}</strong>
+          ) : m.clustersPerGroupNeeded === null ? (
             <strong>no number of clusters is enough</strong>
           ) : (
             <>
@@ -131,11 +128,56 @@ function OneGroupLead({ m, analytic, plan }: { m: AnalyticAnalysis; analytic: An
       <p className="verdict-lead" data-testid="verdict-lead">
         People picked for {side === 'below' ? 'low' : 'high'} scores were, on average, partly {side === 'below' ? 'unlucky' : 'lucky'} on the day they
         were measured; measured again, their scores drift back toward the population mean even if nothing is done. So the pre–post change is expected
-        to shift the estimated effect by <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
-        {!tauZero && m.biasShare !== null && <>, {fmtPct(Math.abs(m.biasShare), 0)} of the hoped-for effect</>}: this regression-toward-the-mean
+        to shift the estimated effect by <strong data-testid="verdict-bias">{fmtSigned(m.regressionArtefact)} points</strong>
+        {!tauZero && m.regressionArtefactShare !== null && <>, {fmtPct(Math.abs(m.regressionArtefactShare), 0)} of the hoped-for effect</>}: this regression-toward-the-mean
         artefact {VERDICT_WORDS[m.verdict].sentence}
       </p>
+      <GrowthGapPart m={m} tauZero={tauZero} />
     </>
+  );
+}
+
+/**
+ * The growth gap as its own part of the shift (core's growthGap, its share,
+ * and the net), and core's plain sentence when it offsets the artefact.
+ */
+function GrowthGapPart({ m, tauZero }: { m: AnalyticAnalysis; tauZero: boolean }) {
+  if (m.growthGap === 0) return null;
+  return (
+    <p className="verdict-growth" data-testid="verdict-growth">
+      The growth gap you assumed adds <strong>{fmtSigned(m.growthGap)} points</strong>
+      {!tauZero && m.growthGapShare !== null && <> ({fmtPct(Math.abs(m.growthGapShare), 0)} of the effect)</>}; together the estimate is expected to
+      shift by <strong data-testid="verdict-net">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD).{' '}
+      {m.growthGapNote && <strong data-testid="verdict-offset">{m.growthGapNote}</strong>}
+    </p>
+  );
+}
+
+/**
+ * The sample size for the target power, beside it (core's requiredNPerGroup),
+ * or core's note that more people do not help a biased analysis; and what
+ * "per group" counts (core's requiredNCounts).
+ */
+function RequiredN({ m, analytic, targetPower }: { m: AnalyticAnalysis; analytic: AnalyticResults; targetPower: number }) {
+  if (!m.feasible && m.requiredNNote === null) return null;
+  return (
+    <li data-testid="verdict-required-n">
+      At the target power of <strong>{fmtPct(targetPower, 0)}</strong>:{' '}
+      {m.requiredNNote !== null ? (
+        <>
+          <strong data-testid="verdict-required-n-value">{m.requiredNNote}</strong>.
+        </>
+      ) : m.requiredNPerGroup === null ? (
+        <>
+          <strong data-testid="verdict-required-n-value">no sample size reaches it</strong>.
+        </>
+      ) : (
+        <>
+          <strong data-testid="verdict-required-n-value">{fmtInt(m.requiredNPerGroup)} per group</strong> needed.{' '}
+          {analytic.requiredNCounts && <span className="verdict-per-group">{analytic.requiredNCounts}</span>}
+        </>
+      )}
+    </li>
   );
 }
 
@@ -190,19 +232,23 @@ export function VerdictPanel() {
       {oneGroup ? (
         <OneGroupLead m={m} analytic={analytic} plan={plan} />
       ) : (
-        <p className="verdict-lead" data-testid="verdict-lead">
-          Matching on {matchedOn} is expected to shift the estimated effect by{' '}
-          <strong data-testid="verdict-bias">{fmtSigned(m.bias)} points</strong> ({fmtSigned(m.biasSD)} posttest SD)
-          {tauZero ? (
-            <> when the hoped-for effect is zero.</>
-          ) : (
-            <>
-              , which is <strong>{fmtPct(m.biasShare === null ? null : Math.abs(m.biasShare), 0)}</strong> of the hoped-for effect of{' '}
-              {fmtSigned(analytic.tau)} points.
-            </>
-          )}{' '}
-          This regression-toward-the-mean artefact {words.sentence}
-        </p>
+        <>
+          <p className="verdict-lead" data-testid="verdict-lead">
+            Matching on {matchedOn} is expected to shift the estimated effect by{' '}
+            <strong data-testid="verdict-bias">{fmtSigned(m.regressionArtefact)} points</strong> ({fmtSigned(m.regressionArtefactSD)} posttest SD)
+            {m.growthGap !== 0 && <>, the growth gap apart</>}
+            {tauZero ? (
+              <> when the hoped-for effect is zero.</>
+            ) : (
+              <>
+                , which is <strong>{fmtPct(m.regressionArtefactShare === null ? null : Math.abs(m.regressionArtefactShare), 0)}</strong> of the hoped-for
+                effect of {fmtSigned(analytic.tau)} points.
+              </>
+            )}{' '}
+            This regression-toward-the-mean artefact {words.sentence}
+          </p>
+          <GrowthGapPart m={m} tauZero={tauZero} />
+        </>
       )}
       <ul className="verdict-facts">
         <li data-testid="verdict-basis">
@@ -242,8 +288,12 @@ export function VerdictPanel() {
             <strong>The planned matching is not feasible.</strong> {m.infeasibleReason}
           </li>
         )}
+        <li data-testid="verdict-tolerability" data-tolerable={m.tolerability.tolerable}>
+          {m.tolerability.reason}
+        </li>
+        {!tauZero && <RequiredN m={m} analytic={analytic} targetPower={plan.analysis.targetPower ?? DEFAULT_TARGET_POWER} />}
         {!oneGroup && (
-          <li>
+          <li data-testid="verdict-why">
             {analytic.model.pretestGap === 0 ? (
               <>
                 Why so small: the groups start level on the pretest, so regression toward the mean pulls both groups&rsquo; matched members the same way
@@ -258,8 +308,15 @@ export function VerdictPanel() {
               </>
               ) : (
               <>
-                Why: matched people share an observed score, but each person&rsquo;s true score is pulled back toward their own group&rsquo;s mean
-                (Kelley), so part of the {fmt(Math.abs(analytic.model.pretestGap), 1)}-point pretest gap between the groups survives matching.
+                {(analytic.matchingDistance ?? 'pretest') === 'pretest' ? (
+                  <>Why: matched people share an observed score, but each person&rsquo;s true score is pulled back toward their own group&rsquo;s mean (Kelley)</>
+                ) : (
+                  <>
+                    Why: matched people are close on {MATCHED_ON[analytic.matchingDistance ?? 'pretest']}, which is built from fallible observed measurements, so
+                    each person&rsquo;s true pretest score is still pulled back toward their own group&rsquo;s mean (Kelley)
+                  </>
+                )}
+                , so part of the {fmt(Math.abs(analytic.model.pretestGap), 1)}-point pretest gap between the groups survives matching.
                 {selection && <> Which analyses this touches depends on what the rule looked at: see the table below.</>}
               </>
               )

@@ -27,7 +27,9 @@ describe('the CLI text for schools matched on their means', () => {
     expect(text).toContain('Design effect (Kish): 5.80 for the pretest, 7.00 for the posttest.');
     expect(text).toContain('a new cohort sits the posttest (not the people tested)');
     const md = a.analyses.matchedDifference!;
-    expect(text).toContain(`${md.clustersPerGroupNeeded} clusters per group for the target power; minimum detectable effect ${fmtPoints(md.minimumDetectableEffect!)} points`);
+    // The matched-cluster artefact is not tolerable here, so no number of clusters is offered.
+    expect(md.clustersPerGroupNeeded).toBeNull();
+    expect(text).toContain(`biased: more people do not help (no number of clusters per group is offered); minimum detectable effect ${fmtPoints(md.minimumDetectableEffect!)} points`);
     const pl = a.analyses.personLevelAncova!;
     expect(text).toContain(`ignoring the clustering its SE would be reported as ${fmtPoints(pl.naiveSE!)}`);
     expect(text).toContain('Programme n (people)');

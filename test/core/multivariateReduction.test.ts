@@ -75,6 +75,7 @@ describe('plans without covariates keep the one-pretest path exactly', () => {
         alpha: plan.analysis.alpha,
         assumedReliability: plan.analysis.assumedReliability,
         tolerableBiasShare: plan.analysis.tolerableBiasShare,
+        growthGap: plan.outcome.growthGap,
         targetPower: plan.analysis.targetPower ?? DEFAULT_TARGET_POWER,
         ratio: plan.matching.ratio,
         matchedProgramme: m.n.programme * share,
@@ -87,7 +88,7 @@ describe('plans without covariates keep the one-pretest path exactly', () => {
         ['corrected-ancova', 'gain-score', 'larger-pools', 'looser-caliper', 'more-reliable-pretest', 'tighter-caliper'],
       );
       expect(r.remedies).toStrictEqual(rankRemedies(plan, m));
-      expect(Object.keys(r).sort()).toEqual(['analyses', 'breakEven', 'design', 'model', 'procedure', 'reliability', 'remedies', 'tau']);
+      expect(Object.keys(r).sort()).toEqual(['analyses', 'breakEven', 'design', 'model', 'procedure', 'reliability', 'remedies', 'requiredNCounts', 'tau']);
     });
   }
 });

@@ -1,3 +1,4 @@
+import { requiredNCounts } from '../../src/core/requiredNCounts';
 import jStat from 'jstat';
 import { describe, expect, it } from 'vitest';
 import { analysePlan } from '../../src/core/analysePlan';
@@ -245,7 +246,7 @@ describe('results for the rest of the planner', () => {
   const plan = selectionPlan({ basis: 'screener', screenerReliability: 0.7, cutOff: 42, tau: 2.5, growth: 0.5 });
   const r = analysePlan(plan);
   it('analysePlan dispatches selection plans to analyseSelectionPlan (the design seam); analyses in design order', () => {
-    expect(r).toStrictEqual(analyseSelectionPlan(plan));
+    expect(r).toStrictEqual({ ...analyseSelectionPlan(plan), requiredNCounts: requiredNCounts(plan) });
     expect(Object.keys(r.analyses)).toEqual(['matchedDifference', 'ancova', 'gainScore', 'correctedAncova', 'regressionDiscontinuity']);
     expect(r.design.kind).toBe('selection');
     expect(r.design.rule).toBe('People whose screener score was below 42 were selected (a sharp cut-off).');

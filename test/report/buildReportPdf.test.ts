@@ -87,7 +87,10 @@ describe('PDF summary of the invented demo plan, with a simulation', () => {
     // The matched-difference bias of the demo plan is the textbook artefact: beta (1 - rho) Delta
     // (Thorndike 1942; Campbell & Erlebacher 1970; computed), so it is negative here (programme starts lower).
     expect(a.matchedDifference!.bias).toBeLessThan(0);
-    expect(flat(text)).toContain(`a bias of ${formatSignedPoints(a.matchedDifference!.bias)} points`);
+    expect(flat(text)).toContain(`a regression-toward-the-mean artefact of ${formatSignedPoints(a.matchedDifference!.regressionArtefact)} points`);
+    // Core's tolerability reason and the biased analysis' note are in the summary.
+    expect(flat(text)).toContain(a.matchedDifference!.tolerability.reason);
+    expect(flat(text)).toContain('power: biased: more people do not help.');
   });
 
   it('shows the simulated figures exactly as simulatePlan gives them, with their Monte Carlo SEs', () => {

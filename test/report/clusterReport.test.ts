@@ -8,6 +8,7 @@
 // common practice) and the design effect against Kish (1965), 1 + (n − 1)·ICC.
 // Figures are compared as exact strings (the shared formatters; tolerance none).
 // Set MEANWARD_WRITE_PDF=dir to keep the PDF for looking at.
+import { clusterPowerCells } from '../../src/report/reportClusters';
 import { mkdirSync, writeFileSync } from 'node:fs';
 import path from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
@@ -79,9 +80,15 @@ describe('PDF summary: schools matched on their means (invented example), simula
   it('gives the clusters needed and the minimum detectable effect per analysis, as core computes them', () => {
     const md = analytic.analyses.matchedDifference!;
     // The row label wraps in its cell: the first line, then every analysis' figure in display order.
-    const needed = presentAnalyses(analytic.analyses).map(([, a]) => formatCount(a.clustersPerGroupNeeded));
-    expect(needed[0]).toBe(formatCount(md.clustersPerGroupNeeded));
-    expect(flat).toContain(`Clusters per group for ${needed.join(' ')} 80% power`);
+    // A biased analysis gets core's note instead of a number of clusters (its cell wraps in the PDF,
+    // so the cells are checked through clusterPowerCells and the row label and unbiased counts in the text).
+    const cells = clusterPowerCells(analytic)!;
+    for (const [id, a] of presentAnalyses(analytic.analyses)) {
+      expect(cells.needed(id)).toBe(!a.feasible ? 'not feasible' : a.requiredNNote ?? formatCount(a.clustersPerGroupNeeded));
+    }
+    expect(md.requiredNNote).toBe('biased: more people do not help');
+    expect(flat).toContain('Clusters per group for');
+    expect(flat).toContain('biased: more');
     expect(flat).toContain('Minimum detectable');
     expect(flat).toContain(formatSignedPoints(md.minimumDetectableEffect));
   });

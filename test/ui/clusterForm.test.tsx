@@ -72,7 +72,10 @@ describe('people in clusters: verdict and table', () => {
     expect(within(verdict).getByTestId('verdict-cohort')).toHaveTextContent(/A new cohort sits the posttest/);
     expect(within(verdict).getByTestId('verdict-design-effect')).toHaveTextContent(`${fmt(7, 2)} for the posttest`);
     const md = a.analyses.matchedDifference!;
-    expect(within(verdict).getByTestId('verdict-clusters-needed')).toHaveTextContent(`${fmtInt(md.clustersPerGroupNeeded)} clusters per group`);
+    // The matched-cluster artefact is not tolerable here, so no number of clusters is offered (more clusters do not remove a bias).
+    expect(md.tolerability.artefactWithinShare).toBe(false);
+    expect(md.clustersPerGroupNeeded).toBeNull();
+    expect(within(verdict).getByTestId('verdict-clusters-needed')).toHaveTextContent('biased: more people do not help');
     expect(within(verdict).getByTestId('verdict-mde')).toHaveTextContent(`${fmtSigned(md.minimumDetectableEffect)} points`);
     expect(within(verdict).getByTestId('verdict-lead')).toHaveTextContent(/Matching on clusters’ observed pretest means/);
     expect(within(verdict).getByRole('note')).toHaveTextContent(/not replace advice from a statistician or review by an ethics board/);

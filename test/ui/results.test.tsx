@@ -161,7 +161,8 @@ describe('results panel with a matching nobody survives', () => {
     const row = container.querySelector('tr[data-analysis="matchedDifference"]') as HTMLElement;
     expect(within(row).getByTestId('infeasible-matchedDifference')).toHaveTextContent(/^Not feasible: /);
     const cells = row.querySelectorAll('td');
-    // False-positive rate, power and wrong-sign rate columns (the last three) show a dash.
-    expect([...cells].slice(-3).map((c) => c.textContent)).toEqual(['—', '—', '—']);
+    // False-positive rate, power and wrong-sign rate columns show a dash; the n column says the analysis is biased.
+    expect([...cells].slice(-4, -1).map((c) => c.textContent)).toEqual(['—', '—', '—']);
+    expect(cells[cells.length - 1]!.textContent).toBe('biased: more people do not help');
   });
 });

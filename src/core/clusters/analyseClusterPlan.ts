@@ -170,11 +170,13 @@ function clusterAnalysis(id: AnalysisId, cm: ClusterModel, s: AnalysisSettings, 
  */
 function clusterPlanningFigures(id: AnalysisId, record: AnalyticAnalysis, cm: ClusterModel, s: AnalysisSettings, share: number): AnalyticAnalysis {
   if (!record.feasible) return { ...record, clustersPerGroupNeeded: null, minimumDetectableEffect: null };
+  const biased = !record.tolerability.artefactWithinShare;
   const m = cm.person;
   const options = { ratio: s.ratio, matchedShare: share };
   const now = clusterStandardError(id, cm, options);
   const design = (J: number) => clusterStandardError(id, cm, { ...options, clustersPerGroup: Math.max(2, J) });
-  const clustersNeeded = requiredNPerGroup(record.expectedEstimate, m.effect, design, s.alpha, s.targetPower);
+  // Only for analyses whose regression artefact is tolerable (as analyticAnalysisRecord).
+  const clustersNeeded = biased ? null : requiredNPerGroup(record.expectedEstimate, m.effect, design, s.alpha, s.targetPower);
   const direction: 1 | -1 = m.effect < 0 ? -1 : 1;
   const out: AnalyticAnalysis = {
     ...record,

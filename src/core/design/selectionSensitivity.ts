@@ -72,6 +72,7 @@ export function selectionSensitivityCurve(plan: Plan, variable: SensitivityVaria
   };
 
   let xLabel: string;
+  let holdsFixed: string;
   let current: number;
   let pts: SensitivityPoint[];
   if (variable === 'pretestGap') {
@@ -84,6 +85,7 @@ export function selectionSensitivityCurve(plan: Plan, variable: SensitivityVaria
     const trueVarRef = Math.max(refSD * refSD - sem * sem, Number.MIN_VALUE);
     const semAt = (x: number): number => Math.sqrt((trueVarRef * Math.max(0, 1 - x)) / x);
     xLabel = 'Pretest reliability in its reference population';
+    holdsFixed = 'Only the pretest’s measurement error changes along the curve: true scores, the rule and the outcome stay fixed, so the observed pretest SD grows as the reliability falls.';
     current = trueVarRef / (trueVarRef + sem * sem);
     pts = curve(grid(Math.min(0.3, current), 1), (x) => modelWith(m, { population: populationWithSem(m.population, semAt(x)) }));
   } else if (variable === 'screenerReliability') {
@@ -91,6 +93,7 @@ export function selectionSensitivityCurve(plan: Plan, variable: SensitivityVaria
       throw new Error('This plan\u2019s rule does not use a screener, so there is no screener reliability to vary.');
     }
     xLabel = 'Screener reliability in the population';
+    holdsFixed = 'Only the screener’s measurement error changes along the curve: the pretest, the cut-off and the outcome stay fixed.';
     current = d.screenerReliability as number;
     pts = curve(grid(Math.min(0.3, current), 1), (x) => modelWith(m, withBasis(d, m.population, 'screener', x)));
   } else {
@@ -99,12 +102,13 @@ export function selectionSensitivityCurve(plan: Plan, variable: SensitivityVaria
     const lo = Math.min(d.cutOff, mean + m.latentSD * normalQuantile(q));
     const hi = Math.max(d.cutOff, q >= 0.5 ? mean : mean + m.latentSD * normalQuantile(1 - q));
     xLabel = 'Cut-off (pretest points)';
+    holdsFixed = 'Only the cut-off moves along the curve: the population, the reliabilities and the outcome stay fixed.';
     current = d.cutOff;
     pts = curve(grid(lo, hi), (x) => modelWith(m, { design: { cutOff: x } }));
   }
   const headline: AnalysisId = ids.includes(headlineAnalysisId(plan)) ? headlineAnalysisId(plan) : 'ancova';
   return assertFiniteOutput(
-    { variable, xLabel, current, points: pts, effect: tau, tolerableBand: band, breakEvenX: bandCrossings(pts, band, headline) },
+    { variable, xLabel, current, points: pts, effect: tau, tolerableBand: band, breakEvenX: bandCrossings(pts, band, headline), holdsFixed },
     'sensitivity curve',
   );
 }
