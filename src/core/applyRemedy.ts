@@ -47,8 +47,9 @@ export const APPLICABLE_REMEDY_IDS: readonly RemedyId[] = [
  *   theory, Lord & Novick 1968, ch. 3, from memory) and the observed pre–post
  *   correlation r·SD/SD′ (the covariance with the true score is unchanged);
  *   with covariates, the pretest's observed correlations are rescaled likewise;
- * - 'corrected-ancova': the assumed reliability set to the pooled within-group
- *   reliability the remedy assumes (Porter 1967);
+ * - 'corrected-ancova': the same plan relying on the reliability-corrected
+ *   ANCOVA at the researcher's own assumed reliability (Porter 1967), which is
+ *   what the remedy's remaining artefact is computed at;
  * - 'gain-score': the same plan, relying on the gain score (Lord 1967);
  * - 'tighter-caliper' / 'looser-caliper': caliper × 0.5 / × 2;
  * - 'larger-pools': the comparison pool doubled;
@@ -101,11 +102,11 @@ export function applyRemedy(plan: Plan, remedyId: RemedyId): ApplyRemedyResult {
       break;
     }
     case 'corrected-ancova':
-      next.analysis.assumedReliability = m.reliability.pooled;
+      // The researcher's own assumed reliability is kept: the remedy promises what is left at that figure.
       analysisId = 'correctedAncova';
       changes.push(
-        `Relies on the reliability-corrected ANCOVA with the assumed reliability set to the pooled within-group figure ` +
-          `${formatNumber(m.reliability.pooled)} (was ${formatNumber(plan.analysis.assumedReliability)}).`,
+        `Relies on the reliability-corrected ANCOVA at the reliability you assumed (${formatNumber(plan.analysis.assumedReliability)}); ` +
+          `it leaves no artefact only if that equals the pooled within-group reliability of these groups, ${formatNumber(m.reliability.pooled)}.`,
       );
       break;
     case 'gain-score':

@@ -44,16 +44,20 @@ describe('applyRemedy: the changed plan gives the artefact the remedy promised',
     expect(res.model.beta).toBeCloseTo(BETA, 12);
   });
 
-  it('corrected ANCOVA with the pooled within-group reliability leaves no artefact (Porter 1967); the input plan is untouched', () => {
+  it('corrected ANCOVA at the assumed reliability leaves beta(1 − rho/rho′)·Delta (Porter 1967); the input plan is untouched', () => {
     const plan = demoPlan();
     plan.analysis.assumedReliability = 0.85;
     const r = applied(plan, 'corrected-ancova');
     expect(plan.analysis.assumedReliability).toBe(0.85);
     expect(r.analysisId).toBe('correctedAncova');
-    expect(r.plan.analysis.assumedReliability).toBeCloseTo(RHO, 12);
+    // The researcher's assumption is kept, and the variant shows what the remedy promised at it.
+    expect(r.plan.analysis.assumedReliability).toBe(0.85);
     const bias = analysePlan(r.plan).analyses.correctedAncova!.bias;
     expect(bias).toBeCloseTo(r.remedy.remainingBias, 9);
-    expect(bias).toBeCloseTo(0, 9);
+    expect(bias).toBeCloseTo(BETA * (1 - RHO / 0.85) * DELTA, 9);
+    // At the pooled within-group reliability itself the correction leaves nothing.
+    const exact = applied({ ...demoPlan(), analysis: { ...demoPlan().analysis, assumedReliability: RHO } }, 'corrected-ancova');
+    expect(analysePlan(exact.plan).analyses.correctedAncova!.bias).toBeCloseTo(0, 9);
   });
 
   it('gain score: artefact (beta − 1)·Delta = +2.0 points (Lord 1967)', () => {
@@ -135,12 +139,15 @@ describe('comparePlans', () => {
 describe('applyRemedy and provenance', () => {
   it('drops the source note of a changed field and keeps the others (common practice: a note must describe its value)', () => {
     const plan = demoPlan();
-    plan.analysis.assumedReliability = 0.85;
     plan.provenance = {
-      'analysis.assumedReliability': { source: 'entered', note: 'from the manual' },
+      'matching.caliper': { source: 'entered', note: 'from our usual practice' },
       'outcome.posttestSD': { source: 'entered', note: 'from a pilot' },
     };
-    const r = applied(plan, 'corrected-ancova');
+    const r = applied(plan, 'tighter-caliper');
+    expect(r.plan.matching.caliper).not.toBe(plan.matching.caliper);
     expect(Object.keys(r.plan.provenance!)).toEqual(['outcome.posttestSD']);
+    // A remedy that changes no field keeps every note (corrected ANCOVA keeps the assumed reliability).
+    const kept = applied({ ...plan, provenance: { 'analysis.assumedReliability': { source: 'entered', note: 'from the manual' } } }, 'corrected-ancova');
+    expect(Object.keys(kept.plan.provenance!)).toEqual(['analysis.assumedReliability']);
   });
 });
