@@ -43,7 +43,7 @@ test('the PDF summary downloaded from the page carries the plan, the figures on 
   expect(text.body[0]).toBe('Meanward planning summary');
   expect(all).toContain('Caution: A planning aid under stated assumptions');
   // The bias the page shows is the bias the PDF states (same core result, same formatter).
-  expect(all).toContain(`a bias of ${onScreenBias} points`);
+  expect(all).toContain(`a regression-toward-the-mean artefact of ${onScreenBias} points`);
   expect(all).toContain('Simulated bias');
   expect(all).not.toContain('No simulation has been run');
   for (const ref of ['Thorndike, R. L. (1942)', 'Campbell, D. T., & Erlebacher, A. (1970)', 'Lord, F. M. (1960)', 'Porter, A. C. (1967)']) {
