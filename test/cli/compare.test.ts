@@ -1,19 +1,14 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
+import { runCli } from './runCli';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { applyRemedy } from '../../src/core/applyRemedy';
 import { PLANNING_CAUTION } from '../../src/cli/formatResultsTable';
-import { main } from '../../src/cli/main';
 import { demoPlan } from '../../src/io/demoPlan';
 import { serializePlan } from '../../src/io/planFile';
 
-async function run(argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) } });
-  return { code, stdout, stderr };
-}
+const run = runCli;
 
 /*
  * Demo plan (invented): within-group reliability .75, beta 0.8, observed gap

@@ -1,4 +1,5 @@
 import { spawnSync } from 'node:child_process';
+import { runCli } from './runCli';
 import { mkdtempSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
@@ -6,18 +7,12 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
 import { TWO_GROUP_ANALYSIS_IDS } from '../../src/core/plan';
 import { fmtPercent, fmtPoints, fmtReliability, fmtSD, PLANNING_CAUTION } from '../../src/cli/formatResultsTable';
-import { main } from '../../src/cli/main';
 import { DEMO_PLAN, demoPlan } from '../../src/io/demoPlan';
 import { serializePlan } from '../../src/io/planFile';
 
 const root = join(__dirname, '..', '..');
 
-async function run(argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) } });
-  return { code, stdout, stderr };
-}
+const run = runCli;
 
 let dir = '';
 let demoFile = '';

@@ -1,9 +1,9 @@
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { runCli } from './runCli';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import mammoth from 'mammoth';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { main } from '../../src/cli/main';
 import { methodsText } from '../../src/core/methodsText';
 import { PLANNING_CAUTION } from '../../src/core/planningCaution';
 import { demoPlan } from '../../src/io/demoPlan';
@@ -12,12 +12,7 @@ import { serializePlan } from '../../src/io/planFile';
 import { methodsMarkdown, methodsParagraphText } from '../../src/report/methodsTextRender';
 import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
 
-async function run(argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) } });
-  return { code, stdout, stderr };
-}
+const run = runCli;
 
 let dir = '';
 let demoFile = '';

@@ -1,10 +1,10 @@
 import { spawnSync } from 'node:child_process';
+import { runCli } from './runCli';
 import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { fmtPoints, fmtReliability, PLANNING_CAUTION } from '../../src/cli/formatResultsTable';
-import { main } from '../../src/cli/main';
 import { PILOT_NOTE } from '../../src/cli/pilotTable';
 import { DEMO_PILOT_MAPPING, DEMO_PILOT_PATH } from '../../src/pilot/demoPilotCohort';
 import { estimatePilot } from '../../src/pilot/estimatePilot';
@@ -32,12 +32,7 @@ const demoArgs = [
   'posttest_total',
 ];
 
-async function run(argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) } });
-  return { code, stdout, stderr };
-}
+const run = runCli;
 
 const expected = () => estimatePilot(parseDelimitedText(readFileSync(demoFile, 'utf8')), mapping, 'invented-pilot-cohort.csv');
 

@@ -1,19 +1,14 @@
 import { mkdtempSync, writeFileSync } from 'node:fs';
+import { runCli } from './runCli';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { main } from '../../src/cli/main';
 import { designAnalysisIds } from '../../src/core/design/studyDesign';
 import { simulatePlan } from '../../src/sim/simulatePlan';
 import { isFeasible } from '../../src/sim/types';
 import { selectionPlan } from '../sim/selectionFixtures';
 
-async function run(argv: string[]) {
-  let stdout = '';
-  let stderr = '';
-  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) } });
-  return { code, stdout, stderr };
-}
+const run = runCli;
 
 /**
  * `meanward run plan.json --json` end to end for selection designs: the
