@@ -1,3 +1,5 @@
+import { flagParts } from './flagParts';
+
 /** What `meanward methods …` asked for, after checking every flag. */
 export interface MethodsCommandLine {
   command: 'methods';
@@ -21,9 +23,7 @@ export function parseMethodsCommandLine(rest: readonly string[]): { ok: true; va
   let output: string | undefined;
   for (let i = 0; i < rest.length; i++) {
     const a = rest[i]!;
-    const eq = a.indexOf('=');
-    const flag = a.startsWith('--') && eq > 0 ? a.slice(0, eq) : a;
-    const inline = a.startsWith('--') && eq > 0 ? a.slice(eq + 1) : undefined;
+    const { flag, inline } = flagParts(a);
     const takeValue = (): string | undefined => {
       if (inline !== undefined) return inline;
       const next = rest[i + 1];

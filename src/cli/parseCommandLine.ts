@@ -1,4 +1,5 @@
 import { PLAN_LIMITS } from '../core/planSchema';
+import { flagParts } from './flagParts';
 import { parsePilotCommandLine, type PilotCommandLine } from './pilotCommandLine';
 import { parseMethodsCommandLine, type MethodsCommandLine } from './methodsCommandLine';
 import { parseCompareCommandLine, type CompareCommandLine } from './compareCommand';
@@ -57,9 +58,7 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   let maxSeconds: number | undefined;
   for (let i = 0; i < rest.length; i++) {
     const a = rest[i]!;
-    const eq = a.indexOf('=');
-    const flag = a.startsWith('--') && eq > 0 ? a.slice(0, eq) : a;
-    const inline = a.startsWith('--') && eq > 0 ? a.slice(eq + 1) : undefined;
+    const { flag, inline } = flagParts(a);
     const takeValue = (): string | undefined => {
       if (inline !== undefined) return inline;
       const next = rest[i + 1];

@@ -1,4 +1,5 @@
 import type { Delimiter, PilotMapping } from '../pilot/types';
+import { flagParts } from './flagParts';
 
 /** What `meanward pilot …` asked for, after checking every flag. */
 export interface PilotCommandLine {
@@ -53,9 +54,7 @@ export function parsePilotCommandLine(rest: readonly string[]): { ok: true; valu
   let json = false;
   for (let i = 0; i < rest.length; i++) {
     const a = rest[i]!;
-    const eq = a.indexOf('=');
-    const flag = a.startsWith('--') && eq > 0 ? a.slice(0, eq) : a;
-    const inline = a.startsWith('--') && eq > 0 ? a.slice(eq + 1) : undefined;
+    const { flag, inline } = flagParts(a);
     const takeValue = (what: string): string | undefined => {
       let v = inline;
       if (v === undefined) {
