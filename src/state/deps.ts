@@ -30,6 +30,31 @@ export interface SimulationRunner {
   cancel(): void;
 }
 
+/** One grid cell's simulation job for the GridRunner. */
+export interface GridJob {
+  plan: Plan;
+  replications: number;
+  seed: number;
+}
+
+/**
+ * Runs many simulations at once (the design explorer's grid cells) on the
+ * worker pool (src/sim/pool): each cell whole on one worker, cells in parallel.
+ * Each cell's result arrives as it finishes; cancel() stops every cell still
+ * running or queued (no further callbacks after it).
+ */
+export interface GridRunner {
+  runGrid(
+    jobs: readonly GridJob[],
+    handlers: {
+      onCellResult(index: number, result: SimulationResult): void;
+      onCellError(index: number, message: string): void;
+      /** Replications done over all cells ÷ all replications, in [0, 1]. */
+      onProgress(share: number): void;
+    },
+  ): { done: Promise<void>; cancel(): void };
+}
+
 /** One built-in example plan (src/io/examplePlans). */
 export interface ExamplePlan {
   id: string;
@@ -51,6 +76,8 @@ export interface MeanwardDeps {
   /** Closed forms; with `planned`, the matching-based analyses from the quick simulation of the planned procedure. */
   analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults;
   simulation: SimulationRunner | null;
+  /** Runs the design explorer's grid cells in parallel; null or absent: the explorer cannot simulate (tests, no Worker). */
+  grid?: GridRunner | null;
   /** The quick figures for the planned procedure; null shows the closed forms only (tests, no Worker). */
   plannedProcedure?: PlannedProcedureRunner | null;
   /** Where the browser-wide "last draft" is kept (window.localStorage); null: not kept. */
