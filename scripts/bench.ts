@@ -25,6 +25,8 @@
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
  * may be shared, and time spent descheduled while other programs run belongs to neither
  * side of a ratio. Wall-clock ratios are printed alongside for comparison.
+ * The command line's start-up (cliStartRatio, cliNoSimSeconds, cliStart) is measured in wall time
+ * by scripts/bench/cliStart.ts (see its header).
  */
 import jStat from 'jstat';
 import { demoPlan } from '../src/io/demoPlan';
@@ -36,6 +38,7 @@ import { createPlanSimulation } from '../src/sim/multivariate/createPlanSimulati
 import { NormalSampler } from '../src/sim/normalSampler';
 import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
+import { cliStartBench } from './bench/cliStart';
 
 const json = process.argv.includes('--json');
 const REPS = 2000;
@@ -362,6 +365,9 @@ const clusterBench = {
   met: { doublingRatio: median(clusterDoubling) <= 2.3, peopleDoublingRatio: median(peopleDoubling) <= 2.3 },
 };
 
+// The command line's start-up (scripts/bench/cliStart.ts: cliStartRatio, cliNoSimSeconds; wall time).
+const cliStart = await cliStartBench();
+
 const out = {
   plan: 'demo plan (180 programme, 1,200 comparison; nearest 1:1, caliper 0.2, no replacement)',
   replications: REPS,
@@ -383,6 +389,9 @@ const out = {
   met: { floorRatio: floorRatio <= 2, naiveSpeedup: naiveSpeedup >= 20, doublingRatio: doublingRatio <= 2.3 },
   covariates: covariateBench,
   clusters: clusterBench,
+  cliStartRatio: cliStart.cliStartRatio,
+  cliNoSimSeconds: cliStart.cliNoSimSeconds,
+  cliStart,
 };
 
 function round(x: number, d = 1): number {
@@ -412,5 +421,7 @@ if (json) {
   console.log(`schools matched ${k.clustersMsPerReplication} ms per replication; pupils matched ${k.peopleMsPerReplication} ms per replication`);
   line('clusters.doublingRatio', k.doublingRatio, '<= 2.3', k.met.doublingRatio, `twice the schools in both groups ÷ as given (2 = linear); rounds ${k.roundRanges.doublingRatio.join('–')}`);
   line('clusters.peopleDoublingRatio', k.peopleDoublingRatio, '<= 2.3', k.met.peopleDoublingRatio, `pupils matched across schools, twice the schools ÷ as given; rounds ${k.roundRanges.peopleDoublingRatio.join('–')}`);
+  console.log(`\nCommand-line start (wall time, median of ${cliStart.rounds} interleaved rounds; ${cliStart.ran} CLI): ${cliStart.cliNoSimSeconds} s for run --no-sim, bare node ${cliStart.bareNodeSeconds} s`);
+  line('cliStart.cliStartRatio', cliStart.cliStartRatio, '<= 4', cliStart.met.cliStartRatio, `${cliStart.command}; rounds ${cliStart.roundRange.join('–')}`);
 }
 if (sink === 42.4242) console.log(''); // use the sink
