@@ -3,8 +3,8 @@
 // is compiled. Used by bin/meanward.mjs (the quick check at every start), scripts/build-cli.mjs
 // (build when missing or stale), the build itself (the plugin in vite.cli.config.ts writes
 // dist-cli/build-info.json) and test/cli/bundleCurrent.test.ts (the full check).
-import { createHash } from 'node:crypto';
 import { existsSync, readFileSync, statSync } from 'node:fs';
+import { createRequire } from 'node:module';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 
@@ -50,12 +50,18 @@ export function presentCliEntries(root = PROJECT_ROOT) {
   return present;
 }
 
+// node:crypto loads only when a file needs hashing (usually never at start: see builtCliState).
+const require = createRequire(import.meta.url);
+
 /**
  * SHA-256 of a file's bytes (or of a string's UTF-8 bytes), hex.
- * @param {string | Buffer} content
+ * @param {string | Uint8Array} content
+ * @returns {string}
  */
 export function digestOf(content) {
-  return createHash('sha256').update(content).digest('hex');
+  /** @type {typeof import('node:crypto')} */
+  const crypto = require('node:crypto');
+  return crypto.createHash('sha256').update(content).digest('hex');
 }
 
 /**
