@@ -2,6 +2,8 @@
 export declare const PROJECT_ROOT: string;
 export declare const CLI_OUT_DIR: string;
 export declare const CLI_BUNDLE: string;
+export declare const CLI_BUNDLE_CJS: string;
+export declare const CLI_CODE_CACHE: string;
 export declare const CLI_BUILD_INFO: string;
 export declare const CLI_ENTRIES: { meanward: string; simulationThread: string };
 export declare const CLI_BUILD_INPUTS: string[];
@@ -20,3 +22,7 @@ export declare function fingerprintOf(entries: string[], files: Record<string, s
 export declare function readCliBuildInfo(root?: string): CliBuildInfo | null;
 export declare function builtCliState(root?: string): { state: 'current' } | { state: 'missing' | 'stale'; why: string };
 export declare function cliFingerprintNow(root?: string): { recorded: string; now: string; changed: string[]; entriesNow: string[] } | null;
+export declare function loadBuiltCli(
+  root?: string,
+  options?: { useCache?: boolean },
+): { cli: { main: (argv: string[], io: object) => Promise<number> }; script: import('node:vm').Script; codeCache: 'accepted' | 'rejected' | 'absent' };

@@ -5,16 +5,25 @@
 // dist-cli/build-info.json) and test/cli/bundleCurrent.test.ts (the full check).
 import { existsSync, readFileSync, statSync } from 'node:fs';
 import { createRequire } from 'node:module';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import { fileURLToPath } from 'node:url';
+import vm from 'node:vm';
 
 /** The project folder (this file lives in its bin/). */
 export const PROJECT_ROOT = fileURLToPath(new URL('..', import.meta.url));
 
 /** Output folder of the CLI build, relative to the project folder. */
 export const CLI_OUT_DIR = 'dist-cli';
-/** The built CLI, which exports `main` as src/cli/main.ts does. */
+/** The built CLI as an ES module, which exports `main` as src/cli/main.ts does. */
 export const CLI_BUNDLE = 'dist-cli/meanward.mjs';
+/** The same build as CommonJS: what bin/meanward.mjs runs, with the code cache below. */
+export const CLI_BUNDLE_CJS = 'dist-cli/meanward.cjs';
+/**
+ * V8's code cache for CLI_BUNDLE_CJS, written at build time after one `run --no-sim` of the demo
+ * plan (scripts/write-cli-code-cache.mjs), so a start skips most parsing and compiling. V8 checks
+ * it against the source and its own version and flags, and ignores it when they differ.
+ */
+export const CLI_CODE_CACHE = 'dist-cli/meanward.cjs.cache';
 /** What the build recorded: build time, entries, a digest per source file, the fingerprint. */
 export const CLI_BUILD_INFO = 'dist-cli/build-info.json';
 
@@ -109,8 +118,8 @@ export function readCliBuildInfo(root = PROJECT_ROOT) {
  */
 export function builtCliState(root = PROJECT_ROOT) {
   const info = readCliBuildInfo(root);
-  if (info === null || !existsSync(join(root, CLI_BUNDLE))) {
-    return { state: 'missing', why: `${CLI_BUNDLE} or its ${CLI_BUILD_INFO} is not there` };
+  if (info === null || !existsSync(join(root, CLI_BUNDLE_CJS))) {
+    return { state: 'missing', why: `${CLI_BUNDLE_CJS} or its ${CLI_BUILD_INFO} is not there` };
   }
   const entriesNow = Object.keys(presentCliEntries(root)).sort().join(',');
   if (entriesNow !== [...info.entries].sort().join(',')) {
@@ -147,4 +156,32 @@ export function cliFingerprintNow(root = PROJECT_ROOT) {
   }
   const entriesNow = Object.keys(presentCliEntries(root));
   return { recorded: info.fingerprint, now: fingerprintOf(entriesNow, files), changed, entriesNow };
+}
+
+/**
+ * Loads the built CLI (CLI_BUNDLE_CJS) the way Node loads a CommonJS file, but through vm.Script
+ * so that V8's code cache (CLI_CODE_CACHE) can be handed to the compiler. Dynamic imports in the
+ * sources became require() calls of dist-cli/chunks/*.cjs, resolved next to the bundle.
+ * @param {string} [root] project folder
+ * @param {{ useCache?: boolean }} [options] useCache false to compile without the cache (to write one)
+ * @returns {{ cli: { main: (argv: string[], io: object) => Promise<number> }, script: import('node:vm').Script, codeCache: 'accepted' | 'rejected' | 'absent' }}
+ */
+export function loadBuiltCli(root = PROJECT_ROOT, options = {}) {
+  const file = join(root, CLI_BUNDLE_CJS);
+  const source = readFileSync(file, 'utf8');
+  let cachedData;
+  if (options.useCache !== false) {
+    try {
+      cachedData = readFileSync(join(root, CLI_CODE_CACHE));
+    } catch {
+      cachedData = undefined;
+    }
+  }
+  // The wrapper Node itself puts around a CommonJS file (one line, so line numbers stay right).
+  const wrapped = `(function (exports, require, module, __filename, __dirname) { ${source}\n})`;
+  const script = new vm.Script(wrapped, { filename: file, cachedData });
+  const module = { exports: {} };
+  script.runInThisContext()(module.exports, createRequire(file), module, file, dirname(file));
+  const codeCache = cachedData === undefined ? 'absent' : script.cachedDataRejected ? 'rejected' : 'accepted';
+  return { cli: /** @type {any} */ (module.exports), script, codeCache };
 }

@@ -421,7 +421,7 @@ if (json) {
   console.log(`schools matched ${k.clustersMsPerReplication} ms per replication; pupils matched ${k.peopleMsPerReplication} ms per replication`);
   line('clusters.doublingRatio', k.doublingRatio, '<= 2.3', k.met.doublingRatio, `twice the schools in both groups ÷ as given (2 = linear); rounds ${k.roundRanges.doublingRatio.join('–')}`);
   line('clusters.peopleDoublingRatio', k.peopleDoublingRatio, '<= 2.3', k.met.peopleDoublingRatio, `pupils matched across schools, twice the schools ÷ as given; rounds ${k.roundRanges.peopleDoublingRatio.join('–')}`);
-  console.log(`\nCommand-line start (wall time, median of ${cliStart.rounds} interleaved rounds; ${cliStart.ran} CLI): ${cliStart.cliNoSimSeconds} s for run --no-sim, bare node ${cliStart.bareNodeSeconds} s`);
+  console.log(`\nCommand-line start (wall time, median of ${cliStart.rounds} interleaved rounds; ${cliStart.ran} CLI, code cache ${cliStart.codeCache}): ${cliStart.cliNoSimSeconds} s for run --no-sim, bare node ${cliStart.bareNodeSeconds} s`);
   line('cliStart.cliStartRatio', cliStart.cliStartRatio, '<= 4', cliStart.met.cliStartRatio, `${cliStart.command}; rounds ${cliStart.roundRange.join('–')}`);
 }
 if (sink === 42.4242) console.log(''); // use the sink

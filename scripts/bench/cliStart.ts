@@ -9,6 +9,8 @@
  *   cliNoSimSeconds  the median wall time of that command, in seconds (the issue's goal: under 0.3 s
  *                    on the team's machines; machine-dependent, unlike the ratio).
  *   bareNodeSeconds  the median wall time of `node -e 0`.
+ *   codeCache        'accepted' when V8 used the build's code cache (the normal case; 'rejected' would
+ *                    mean this Node differs from the one that built dist-cli: rebuild).
  * Wall-clock time, not CPU time, because start-up is what the user waits for, and Node's own
  * start-up uses helper threads whose CPU time would count several times over; wall time is
  * noisier on a shared machine, hence the interleaving and the per-round ratio.
@@ -32,6 +34,8 @@ export interface CliStartBench {
   roundRange: [number, number];
   /** 'built' when dist-cli was current (the normal case); 'sources' if it could not be built. */
   ran: 'built' | 'sources';
+  /** Whether V8 took the build's code cache (dist-cli/meanward.cjs.cache) in a plain `node`. */
+  codeCache: string;
   targets: { cliStartRatio: string };
   met: { cliStartRatio: boolean };
 }
@@ -54,6 +58,8 @@ export async function cliStartBench(): Promise<CliStartBench> {
     spawnSync(process.execPath, [join(PROJECT_ROOT, 'scripts', 'build-cli.mjs'), '--if-needed'], { cwd: PROJECT_ROOT, stdio: 'ignore' });
   }
   const ran = builtCliState().state === 'current' ? 'built' : 'sources';
+  const probe = `import { loadBuiltCli } from ${JSON.stringify(join(PROJECT_ROOT, 'bin', 'builtCli.mjs'))}; process.stdout.write(loadBuiltCli().codeCache);`;
+  const codeCache = ran === 'built' ? spawnSync(process.execPath, ['--input-type=module', '-e', probe], { encoding: 'utf8' }).stdout : 'not used';
   const cli = [join(PROJECT_ROOT, 'bin', 'meanward.mjs'), 'run', PLAN, '--no-sim'];
   const bare = ['-e', '0'];
   wallMs(bare);
@@ -77,6 +83,7 @@ export async function cliStartBench(): Promise<CliStartBench> {
     bareNodeSeconds: round(median(bareMs) / 1000, 3),
     roundRange: [round(Math.min(...ratios), 2), round(Math.max(...ratios), 2)],
     ran,
+    codeCache,
     targets: { cliStartRatio: '<= 4' },
     met: { cliStartRatio: ratio <= 4 },
   };

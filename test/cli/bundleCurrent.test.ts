@@ -8,6 +8,7 @@ import {
   CLI_BUILD_INFO,
   CLI_BUILD_INFO_FORMAT,
   CLI_BUNDLE,
+  CLI_BUNDLE_CJS,
   CLI_ENTRIES,
   cliFingerprintNow,
   digestOf,
@@ -72,15 +73,32 @@ describe('the built command line (dist-cli/)', () => {
   });
 
   it('keeps what `run` does not need out of the start: the Word writer and the pilot reader are chunks of their own', () => {
-    const bundle = readFileSync(join(PROJECT_ROOT, CLI_BUNDLE), 'utf8');
-    // The build is not minified, so each bundled module starts with a comment naming its path.
-    expect(bundle).toContain('// src/cli/main.ts');
-    expect(bundle).not.toContain('// node_modules/docx/');
-    expect(bundle).not.toContain('// src/cli/methodsDocx.ts');
-    expect(bundle).not.toContain('// src/pilot/estimatePilot.ts');
-    const chunks = readdirSync(join(PROJECT_ROOT, 'dist-cli', 'chunks'));
-    expect(chunks.some((f) => f.startsWith('methodsDocx-'))).toBe(true);
-    expect(chunks.some((f) => f.startsWith('pilotCommand-'))).toBe(true);
+    for (const [file, ext] of [[CLI_BUNDLE, 'mjs'], [CLI_BUNDLE_CJS, 'cjs']] as const) {
+      const bundle = readFileSync(join(PROJECT_ROOT, file), 'utf8');
+      // The build is not minified, so each bundled module starts with a comment naming its path.
+      expect(bundle, file).toContain('// src/cli/main.ts');
+      expect(bundle, file).not.toContain('// node_modules/docx/');
+      expect(bundle, file).not.toContain('// src/cli/methodsDocx.ts');
+      expect(bundle, file).not.toContain('// src/pilot/estimatePilot.ts');
+      const chunks = readdirSync(join(PROJECT_ROOT, 'dist-cli', 'chunks'));
+      expect(chunks.some((f) => f.startsWith('methodsDocx-') && f.endsWith(`.${ext}`)), file).toBe(true);
+      expect(chunks.some((f) => f.startsWith('pilotCommand-') && f.endsWith(`.${ext}`)), file).toBe(true);
+    }
+  });
+
+  it('starts from V8\u2019s code cache made at build time: a plain `node` accepts it', () => {
+    const script = `import { loadBuiltCli } from ${JSON.stringify(join(PROJECT_ROOT, 'bin', 'builtCli.mjs'))}; process.stdout.write(loadBuiltCli().codeCache);`;
+    const r = spawnSync(process.execPath, ['--input-type=module', '-e', script], { cwd: PROJECT_ROOT, encoding: 'utf8', env: { ...process.env, NODE_OPTIONS: '' } });
+    expect(r.status, r.stderr).toBe(0);
+    expect(r.stdout, REBUILD).toBe('accepted');
+  });
+
+  it('the ES module form of the build (dist-cli/meanward.mjs) prints the same as the CommonJS form bin/meanward.mjs runs', () => {
+    const args = ['run', demoPlanFile, '--no-sim', '--json'];
+    const script = `const cli = await import(${JSON.stringify(join(PROJECT_ROOT, CLI_BUNDLE))}); process.exitCode = await cli.main(${JSON.stringify(args)}, { stdout: process.stdout, stderr: process.stderr });`;
+    const esm = spawnSync(process.execPath, ['--input-type=module', '-e', script], { cwd: PROJECT_ROOT, encoding: 'utf8' });
+    expect(esm.status, esm.stderr).toBe(0);
+    expect(esm.stdout).toBe(meanward(args, false).stdout);
   });
 
   it('builds the simulation threads\u2019 entry next to the CLI when its source exists', () => {
@@ -104,7 +122,7 @@ describe('the quick check at start (builtCliState) on a made-up project folder',
     expect(builtCliState(root).state).toBe('missing');
     write('src/cli/main.ts', 'export const a = 1;\n');
     write('src/core/b.ts', 'export const b = 2;\n');
-    write(CLI_BUNDLE, '// built\n');
+    write(CLI_BUNDLE_CJS, '// built\n');
     const builtAt = Date.now() - 60_000;
     const files = { 'src/cli/main.ts': digestOf('export const a = 1;\n'), 'src/core/b.ts': digestOf('export const b = 2;\n') };
     write(CLI_BUILD_INFO, JSON.stringify({ format: CLI_BUILD_INFO_FORMAT, builtAt, entries: ['meanward'], files, fingerprint: fingerprintOf(['meanward'], files) }));
@@ -144,9 +162,9 @@ describe('the quick check at start (builtCliState) on a made-up project folder',
     rmSync(join(root, CLI_ENTRIES.simulationThread));
 
     // The bundle itself removed, or a build record of another layout: missing.
-    rmSync(join(root, CLI_BUNDLE));
+    rmSync(join(root, CLI_BUNDLE_CJS));
     expect(builtCliState(root).state).toBe('missing');
-    write(CLI_BUNDLE, '// built\n');
+    write(CLI_BUNDLE_CJS, '// built\n');
     write(CLI_BUILD_INFO, JSON.stringify({ format: CLI_BUILD_INFO_FORMAT + 1, builtAt, entries: ['meanward'], files }));
     expect(builtCliState(root).state).toBe('missing');
   });
