@@ -16,7 +16,7 @@ import {
 
 /**
  * The command line's own build (`npm run build:cli`; `npm ci` runs it through `prepare`, and
- * `npm start` / `npm test` when it is missing or stale): src/cli/main.ts as ES modules for Node 20
+ * `npm start` / `npm test` when it is missing or stale): src/cli/main.ts for Node 20
  * in dist-cli/, so bin/meanward.mjs starts without compiling TypeScript. See DEVELOPERS.md,
  * "The built command line".
  *
