@@ -25,6 +25,8 @@
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
  * may be shared, and time spent descheduled while other programs run belongs to neither
  * side of a ratio. Wall-clock ratios are printed alongside for comparison.
+ * The command line's start-up (cliStartRatio, cliNoSimSeconds, cliStart) is measured in wall time
+ * by scripts/bench/cliStart.ts (see its header).
  */
 import jStat from 'jstat';
 import { demoPlan } from '../src/io/demoPlan';
@@ -37,6 +39,7 @@ import { NormalSampler } from '../src/sim/normalSampler';
 import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
 import { parallelBench } from './bench/parallel';
+import { cliStartBench } from './bench/cliStart';
 
 const json = process.argv.includes('--json');
 const REPS = 2000;
@@ -365,6 +368,8 @@ const clusterBench = {
 
 // The worker pool (scripts/bench/parallel.ts: wall-clock, on worker threads).
 const parallel = await parallelBench();
+// The command line's start-up (scripts/bench/cliStart.ts: cliStartRatio, cliNoSimSeconds; wall time).
+const cliStart = await cliStartBench();
 
 const out = {
   plan: 'demo plan (180 programme, 1,200 comparison; nearest 1:1, caliper 0.2, no replacement)',
@@ -388,6 +393,9 @@ const out = {
   covariates: covariateBench,
   clusters: clusterBench,
   ...parallel,
+  cliStartRatio: cliStart.cliStartRatio,
+  cliNoSimSeconds: cliStart.cliNoSimSeconds,
+  cliStart,
 };
 
 function round(x: number, d = 1): number {
@@ -421,5 +429,7 @@ if (json) {
   console.log(`\nWorker pool: ${p.plan}, ${p.replications} replications, ${p.measure}; 1 worker ${p.medianSeconds.oneWorker} s, 2 workers ${p.medianSeconds.twoWorkers} s`);
   line('parallelEfficiency', parallel.parallelEfficiency, '>= 0.8', p.met, `speedup on 2 worker threads ÷ 2; same numbers bit for bit: ${parallel.parallelIdentical ? 'yes' : 'NO'}; rounds ${p.roundRange.join('–')}`);
   console.log(`  all ${parallel.parallelEfficiencyAllCores.workers} cores: efficiency ${parallel.parallelEfficiencyAllCores.efficiency} (speedup ÷ workers, no target)`);
+  console.log(`\nCommand-line start (wall time, median of ${cliStart.rounds} interleaved rounds; ${cliStart.ran} CLI, code cache ${cliStart.codeCache}): ${cliStart.cliNoSimSeconds} s for run --no-sim, bare node ${cliStart.bareNodeSeconds} s`);
+  line('cliStart.cliStartRatio', cliStart.cliStartRatio, '<= 4', cliStart.met.cliStartRatio, `${cliStart.command}; rounds ${cliStart.roundRange.join('–')}`);
 }
 if (sink === 42.4242) console.log(''); // use the sink

@@ -16,8 +16,6 @@ import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { formatSimulationTable } from './formatSimulationTable';
 import { createProgressBar, type ProgressStream } from './progressBar';
 import { simulationJson, type SimulationJson } from './simulationJson';
-import { runPilotCommand } from './pilotCommand';
-import { runMethodsCommand } from './methodsCommand';
 import { formatComparisonTable, runCompareCommand } from './compareCommand';
 import { readInputFile } from './readInputFile';
 import { capProblemList } from '../core/capProblemList';
@@ -139,7 +137,9 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
     return EXIT_OK;
   }
   if (cmd.command === 'pilot') {
-    // Estimates come from src/pilot; runPilotCommand reads and formats only.
+    // Estimates come from src/pilot; runPilotCommand reads and formats only. Loaded on use
+    // (as is methods) so that `run` starts quickly from the built bundle.
+    const { runPilotCommand } = await import('./pilotCommand');
     const pilot = await runPilotCommand(cmd);
     if (!pilot.ok) return failWith(io, pilot.problems, pilot.internal ? EXIT_INTERNAL : EXIT_USAGE);
     const bad = firstNonFinite(pilot.estimates, 'estimates');
@@ -150,6 +150,7 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
 
   if (cmd.command === 'methods') {
     // The text and its figures come from src/core (methodsText over analysePlannedProcedure); this only writes it.
+    const { runMethodsCommand } = await import('./methodsCommand');
     const methods = await runMethodsCommand(cmd);
     if (!methods.ok) return failWith(io, methods.problems);
     if (methods.wrote !== null) io.stderr.write(`meanward: wrote the methods text to ${showControlCharacters(methods.wrote)}.\n`);

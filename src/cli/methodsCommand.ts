@@ -4,7 +4,6 @@ import { plainErrorMessage } from '../core/plainErrorMessage';
 import { parsePlanText } from '../io/planFile';
 import { methodsMarkdown } from '../report/methodsTextRender';
 import { analysePlannedProcedure } from '../sim/analysePlannedProcedure';
-import { methodsDocx } from './methodsDocx';
 import type { MethodsCommandLine } from './methodsCommandLine';
 import { readInputFile } from './readInputFile';
 
@@ -32,7 +31,9 @@ export async function runMethodsCommand(cmd: MethodsCommandLine): Promise<Method
   const markdown = methodsMarkdown(text);
   if (cmd.output === undefined) return { ok: true, stdout: markdown, wrote: null };
   try {
-    await writeFile(cmd.output, cmd.format === 'docx' ? await methodsDocx(text) : markdown);
+    // The Word writer (the docx package, the CLI's largest part) loads only when a .docx is asked for.
+    const docx = cmd.format === 'docx' ? await (await import('./methodsDocx')).methodsDocx(text) : null;
+    await writeFile(cmd.output, docx ?? markdown);
   } catch (err) {
     const code = (err as { code?: string } | null)?.code;
     const why = code === 'ENOENT' ? 'its folder does not exist' : code === 'EISDIR' ? 'it is a folder' : code === 'EACCES' || code === 'EPERM' ? 'permission denied' : plainErrorMessage(err, 'the file could not be written');

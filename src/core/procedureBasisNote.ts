@@ -1,3 +1,4 @@
+import { groupDigits } from '../format/groupDigits';
 import type { AnalyticResults } from './analyticResults';
 
 /**
@@ -20,7 +21,7 @@ export function procedureBasisNote(r: AnalyticResults): string {
   if (r.procedure.basis === 'planned-procedure') {
     return (
       `Expected figures are for the procedure as planned: the matched difference from a quick simulation of these pools, ` +
-      `caliper, ratio and matching order (${(r.procedure.replications ?? 0).toLocaleString('en-GB')} replications, an approximation ` +
+      `caliper, ratio and matching order (${groupDigits(r.procedure.replications ?? 0)} replications, an approximation ` +
       `with its Monte Carlo SE), the full-sample analyses from closed forms. The formula for unlimited pools and exact matching is shown beside it.`
     );
   }

@@ -7,6 +7,8 @@
  * src/sim into text. Anything that is not a finite number shows as an em dash,
  * so NaN or Infinity never reach the screen.
  */
+import { groupDigits } from './groupDigits';
+
 export function fmt(x: number | null | undefined, digits = 2): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '—';
   const s = x.toFixed(digits);
@@ -33,10 +35,10 @@ export function fmtR(x: number | null | undefined, digits = 2): string {
   return s.replace(/^(−?)0\./, '$1.');
 }
 
-/** A whole number with thousands separators. */
+/** A whole number with thousands separators (the en-GB text, without loading Intl: see groupDigits). */
 export function fmtInt(x: number | null | undefined): string {
   if (x === null || x === undefined || !Number.isFinite(x)) return '—';
-  return Math.round(x).toLocaleString('en-GB');
+  return groupDigits(x);
 }
 
 /**

@@ -1,5 +1,6 @@
-// Test helper: runs the real CLI (src/cli/main.ts, loaded through tsx exactly as
-// bin/meanward.mjs loads it) once per job in ONE process, so a fuzz suite can
+// Test helper: runs the real CLI (src/cli/main.ts, loaded through tsx as
+// bin/meanward.mjs does when dist-cli/ is missing or stale; test/cli/bundleCurrent.test.ts
+// checks the build prints the same) once per job in ONE process, so a fuzz suite can
 // push hundreds of files through the command line without paying Node's and
 // tsx's start-up for each. Jobs: a JSON file holding a list of argv lists.
 // Prints one JSON line per job: { argv, code, stdout, stderr }.
