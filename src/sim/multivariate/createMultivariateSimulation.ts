@@ -19,7 +19,7 @@ import { ancovaOnCovariates, createGroupMoments, groupMoments, residualVariance,
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { createCovariatePools, drawCovariatePools, type CovariatePools } from './drawCovariatePools';
 import { exactStrata } from './exactStrata';
-import { fitLogisticRegression } from './fitLogisticRegression';
+import { createLogisticWorkspace, fitLogisticRegression, type LogisticWorkspace } from './fitLogisticRegression';
 import { createMahalanobisMatchingWorkspace, matchOnMahalanobis, type MahalanobisMatchingWorkspace } from './matchOnMahalanobis';
 import { createScoreMatchingWorkspace, matchOnScore, type ScoreMatchingWorkspace } from './matchOnScore';
 import { whitenedCoordinates } from './whitenedCoordinates';
@@ -163,7 +163,7 @@ class MultivariateRunner {
   readonly sums = new Float64Array(6);
   readonly programmeGroup: Uint8Array;
   readonly logit: Float64Array;
-  readonly logisticScratch: Float64Array;
+  readonly logistic: LogisticWorkspace | null;
   readonly coords: Float64Array[];
   readonly scoreWs: ScoreMatchingWorkspace | null;
   readonly mahalanobisWs: MahalanobisMatchingWorkspace | null;
@@ -228,7 +228,7 @@ class MultivariateRunner {
     this.pooledSxx = new Float64Array(p * p);
     this.programmeGroup = new Uint8Array(N).fill(1, this.nC);
     this.logit = distance === 'propensity' ? new Float64Array(N) : new Float64Array(0);
-    this.logisticScratch = distance === 'propensity' ? new Float64Array(N * p) : new Float64Array(0);
+    this.logistic = distance === 'propensity' ? createLogisticWorkspace(N, p) : null;
     this.coords = distance === 'mahalanobis' ? this.notExact.map(() => new Float64Array(N)) : [];
     this.scoreWs = distance === 'mahalanobis' ? null : createScoreMatchingWorkspace(this.nP, this.nC, this.k);
     this.mahalanobisWs = distance === 'mahalanobis' ? createMahalanobisMatchingWorkspace(this.nP, this.nC, this.k) : null;
@@ -291,7 +291,7 @@ class MultivariateRunner {
           linearPredictor: this.logit,
           where: `simulated replication ${i + 1}`,
           start: this.discriminantStart(),
-          scratch: this.logisticScratch,
+          workspace: this.logistic as LogisticWorkspace,
         });
         score = this.logit;
         const sums = this.sums;
