@@ -25,6 +25,8 @@ export interface GroupMoments {
     row: Float64Array;
     sum: Float64Array;
     prod: Float64Array;
+    /** Two running sums of groupMoments (one column pair). */
+    pair: Float64Array;
     W: Float64Array;
     w: Float64Array;
     A: Float64Array;
@@ -55,6 +57,7 @@ export function createGroupMoments(p: number): GroupMoments {
       row: new Float64Array(q),
       sum: new Float64Array(q),
       prod: new Float64Array(q * q),
+      pair: new Float64Array(2),
       W: new Float64Array(p * p),
       w: new Float64Array(p),
       A: new Float64Array(p * p),
@@ -108,17 +111,21 @@ export function groupMoments(
   if (first >= 0) {
     for (let a = 0; a < p; a++) shift[a] = (columns[a] as Float64Array)[first] as number;
     shift[p] = y[first] as number;
-    for (let i = first; i < to; i++) {
-      const w = weight ? (weight[i - from] as number) : 1;
-      if (w === 0) continue;
-      n += w;
-      for (let a = 0; a < p; a++) row[a] = ((columns[a] as Float64Array)[i] as number) - (shift[a] as number);
-      row[p] = (y[i] as number) - (shift[p] as number);
-      for (let a = 0; a < q; a++) {
-        const wa = w * (row[a] as number);
-        sum[a] = (sum[a] as number) + wa;
-        const base = a * q;
-        for (let b = a; b < q; b++) prod[base + b] = (prod[base + b] as number) + wa * (row[b] as number);
+    if (weight) for (let i = first; i < to; i++) n += weight[i - from] as number;
+    else n = to - first;
+    // Column pair by column pair, each sum over the rows in order with the same operations
+    // per row as a row-by-row sweep (w (x_a − shift_a)) (x_b − shift_b): the same bits, in
+    // tight loops whose sums stay in registers.
+    for (let a = 0; a < q; a++) {
+      const xa = a < p ? (columns[a] as Float64Array) : y;
+      const sa = shift[a] as number;
+      for (let b = a; b < q; b++) {
+        const xb = b < p ? (columns[b] as Float64Array) : y;
+        const sb = shift[b] as number;
+        if (weight) pairSumsWeighted(xa, sa, xb, sb, first, to, weight, from, out.work.pair);
+        else pairSums(xa, sa, xb, sb, first, to, out.work.pair);
+        if (b === a) sum[a] = out.work.pair[0] as number;
+        prod[a * q + b] = out.work.pair[1] as number;
       }
     }
   }
@@ -143,6 +150,44 @@ export function groupMoments(
     sxy[a] = centred(a, p);
   }
   out.syy = centred(p, p);
+}
+
+/** Σ (x_a − s_a) and Σ (x_a − s_a)(x_b − s_b) over rows [first, to), into out[0], out[1]. */
+function pairSums(xa: Float64Array, sa: number, xb: Float64Array, sb: number, first: number, to: number, out: Float64Array): void {
+  let s = 0;
+  let h = 0;
+  for (let i = first; i < to; i++) {
+    const da = (xa[i] as number) - sa;
+    s += da;
+    h += da * ((xb[i] as number) - sb);
+  }
+  out[0] = s;
+  out[1] = h;
+}
+
+/** The same, each row counted weight[i − from] times (rows of weight 0 skipped, as in a row-by-row sweep). */
+function pairSumsWeighted(
+  xa: Float64Array,
+  sa: number,
+  xb: Float64Array,
+  sb: number,
+  first: number,
+  to: number,
+  weight: ArrayLike<number>,
+  from: number,
+  out: Float64Array,
+): void {
+  let s = 0;
+  let h = 0;
+  for (let i = first; i < to; i++) {
+    const w = weight[i - from] as number;
+    if (w === 0) continue;
+    const wa = w * ((xa[i] as number) - sa);
+    s += wa;
+    h += wa * ((xb[i] as number) - sb);
+  }
+  out[0] = s;
+  out[1] = h;
 }
 
 /**
