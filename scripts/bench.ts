@@ -20,6 +20,8 @@
  *   clusters.doublingRatio        schools matched on their means, twice the clusters in both groups
  *                                 ÷ as given (target ≤ 2.3)
  *   clusters.peopleDoublingRatio  pupils matched across schools, twice the clusters ÷ as given (≤ 2.3)
+ * and propensity.* from scripts/bench/propensity.ts (propensityRatio: a propensity-score replication of the
+ * built-in maths-club example ÷ a one-pretest replication of the same pools, target ≤ 5; see its header).
  * Each ratio is the median over several interleaved rounds (after a warm-up) of that
  * round's ratio. Times are this
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
@@ -36,6 +38,7 @@ import { createPlanSimulation } from '../src/sim/multivariate/createPlanSimulati
 import { NormalSampler } from '../src/sim/normalSampler';
 import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
+import { propensityBench } from './bench/propensity';
 
 const json = process.argv.includes('--json');
 const REPS = 2000;
@@ -362,6 +365,7 @@ const clusterBench = {
   met: { doublingRatio: median(clusterDoubling) <= 2.3, peopleDoublingRatio: median(peopleDoubling) <= 2.3 },
 };
 
+const propensity = await propensityBench(); // scripts/bench/propensity.ts: propensityRatio and friends
 const out = {
   plan: 'demo plan (180 programme, 1,200 comparison; nearest 1:1, caliper 0.2, no replacement)',
   replications: REPS,
@@ -383,6 +387,7 @@ const out = {
   met: { floorRatio: floorRatio <= 2, naiveSpeedup: naiveSpeedup >= 20, doublingRatio: doublingRatio <= 2.3 },
   covariates: covariateBench,
   clusters: clusterBench,
+  propensity,
 };
 
 function round(x: number, d = 1): number {
@@ -412,5 +417,6 @@ if (json) {
   console.log(`schools matched ${k.clustersMsPerReplication} ms per replication; pupils matched ${k.peopleMsPerReplication} ms per replication`);
   line('clusters.doublingRatio', k.doublingRatio, '<= 2.3', k.met.doublingRatio, `twice the schools in both groups ÷ as given (2 = linear); rounds ${k.roundRanges.doublingRatio.join('–')}`);
   line('clusters.peopleDoublingRatio', k.peopleDoublingRatio, '<= 2.3', k.met.peopleDoublingRatio, `pupils matched across schools, twice the schools ÷ as given; rounds ${k.roundRanges.peopleDoublingRatio.join('–')}`);
+  console.log(`\nPropensity engine (scripts/bench/propensity.ts), CPU time: ${JSON.stringify(propensity)}`);
 }
 if (sink === 42.4242) console.log(''); // use the sink
