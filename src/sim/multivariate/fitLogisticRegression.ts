@@ -36,6 +36,11 @@ export interface LogisticOptions {
    * results do not depend on it (it holds no state from one fit to the next).
    */
   workspace?: LogisticWorkspace;
+  /**
+   * Use the general row loop even for one to four columns, instead of the
+   * unrolled passes (default false). The two give the same bits; tests compare them.
+   */
+  generalPass?: boolean;
 }
 
 /** Fitted logits beyond this size mean fitted probabilities within about 1e-13 of 0 or 1. */
@@ -137,7 +142,8 @@ export function fitLogisticRegression(
     }
     b[0] = intercept;
   }
-  let dev = rowPass(z, y, n, k, b, eta, ws, true);
+  const general = options.generalPass === true;
+  let dev = rowPass(z, y, n, k, b, eta, ws, true, general);
   const { trial, delta, factor } = ws;
   let iterations = 0;
   let converged = false;
@@ -177,7 +183,7 @@ export function fitLogisticRegression(
     let devTry = 0;
     for (let halvings = 0; ; halvings++) {
       for (let a = 0; a < q; a++) trial[a] = (b[a] as number) + step * (delta[a] as number);
-      devTry = rowPass(z, y, n, k, trial, eta, ws, true);
+      devTry = rowPass(z, y, n, k, trial, eta, ws, true, general);
       if (devTry <= dev * (1 + 1e-12) + 1e-12 || halvings >= 30) break;
       step /= 2;
     }
@@ -274,8 +280,9 @@ function rowPass(
   eta: Float64Array,
   ws: LogisticWorkspace,
   information: boolean,
+  general = false,
 ): number {
-  if (information) {
+  if (information && !general) {
     // Up to four columns (the pretest and three covariates, or fewer), the unrolled passes below.
     if (k === 1) return informationPass1(z, y, n, b, eta, ws);
     if (k === 2) return informationPass2(z, y, n, b, eta, ws);
