@@ -186,15 +186,16 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
       const row = a * p;
       const rec = recording[a] as number;
       const threshold = cut[a] as number;
-      for (let i = from, base = from * stride; i < to; i++, base += stride) {
-        let v = m;
-        for (let b = 0; b <= a; b++) v += (L[row + b] as number) * (z[base + b] as number);
-        if (rec === WHOLE_NUMBERS) v = Math.round(v);
-        else if (rec === INDICATOR) v = v > threshold ? 1 : 0;
-        T[i] = v;
-        O[i] = v;
-        outcome[i] = (outcome[i] as number) + ba * v;
+      // T = mean + Σ_b≤a L[a, b] z_b, one sweep per term (the same sum, term by term, as person by person).
+      for (let i = from; i < to; i++) T[i] = m;
+      for (let b = 0; b <= a; b++) {
+        const l = L[row + b] as number;
+        for (let i = from, at = from * stride + b; i < to; i++, at += stride) T[i] = (T[i] as number) + l * (z[at] as number);
       }
+      if (rec === WHOLE_NUMBERS) for (let i = from; i < to; i++) T[i] = Math.round(T[i] as number);
+      else if (rec === INDICATOR) for (let i = from; i < to; i++) T[i] = (T[i] as number) > threshold ? 1 : 0;
+      O.set(T.subarray(from, to), from);
+      for (let i = from; i < to; i++) outcome[i] = (outcome[i] as number) + ba * (T[i] as number);
     }
     for (let e = 0; e < nErr; e++) {
       const a = errorVariables[e] as number;
