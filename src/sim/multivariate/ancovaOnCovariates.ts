@@ -27,6 +27,9 @@ export interface GroupMoments {
     prod: Float64Array;
     /** Two running sums of groupMoments (one column pair). */
     pair: Float64Array;
+    /** The counted rows of a weighted call and their weights (grown on first use). */
+    rows: Int32Array;
+    rowWeight: Float64Array;
     W: Float64Array;
     w: Float64Array;
     A: Float64Array;
@@ -58,6 +61,8 @@ export function createGroupMoments(p: number): GroupMoments {
       sum: new Float64Array(q),
       prod: new Float64Array(q * q),
       pair: new Float64Array(2),
+      rows: new Int32Array(0),
+      rowWeight: new Float64Array(0),
       W: new Float64Array(p * p),
       w: new Float64Array(p),
       A: new Float64Array(p * p),
@@ -111,8 +116,22 @@ export function groupMoments(
   if (first >= 0) {
     for (let a = 0; a < p; a++) shift[a] = (columns[a] as Float64Array)[first] as number;
     shift[p] = y[first] as number;
-    if (weight) for (let i = first; i < to; i++) n += weight[i - from] as number;
-    else n = to - first;
+    // Weighted: the rows counted (weight ≠ 0) and their weights, in order, listed once.
+    let counted = 0;
+    if (weight) {
+      if (out.work.rows.length < to - first) {
+        out.work.rows = new Int32Array(to - first);
+        out.work.rowWeight = new Float64Array(to - first);
+      }
+      const { rows, rowWeight } = out.work;
+      for (let i = first; i < to; i++) {
+        const w = weight[i - from] as number;
+        if (w === 0) continue;
+        n += w;
+        rows[counted] = i;
+        rowWeight[counted++] = w;
+      }
+    } else n = to - first;
     // Column pair by column pair, each sum over the rows in order with the same operations
     // per row as a row-by-row sweep (w (x_a − shift_a)) (x_b − shift_b): the same bits, in
     // tight loops whose sums stay in registers.
@@ -122,7 +141,7 @@ export function groupMoments(
       for (let b = a; b < q; b++) {
         const xb = b < p ? (columns[b] as Float64Array) : y;
         const sb = shift[b] as number;
-        if (weight) pairSumsWeighted(xa, sa, xb, sb, first, to, weight, from, out.work.pair);
+        if (weight) pairSumsWeighted(xa, sa, xb, sb, out.work.rows, out.work.rowWeight, counted, out.work.pair);
         else pairSums(xa, sa, xb, sb, first, to, out.work.pair);
         if (b === a) sum[a] = out.work.pair[0] as number;
         prod[a * q + b] = out.work.pair[1] as number;
@@ -165,24 +184,22 @@ function pairSums(xa: Float64Array, sa: number, xb: Float64Array, sb: number, fi
   out[1] = h;
 }
 
-/** The same, each row counted weight[i − from] times (rows of weight 0 skipped, as in a row-by-row sweep). */
+/** The same over the listed rows rows[0..count), row rows[t] counted weight[t] times (the rows of weight 0 left out, in order). */
 function pairSumsWeighted(
   xa: Float64Array,
   sa: number,
   xb: Float64Array,
   sb: number,
-  first: number,
-  to: number,
-  weight: ArrayLike<number>,
-  from: number,
+  rows: Int32Array,
+  weight: Float64Array,
+  count: number,
   out: Float64Array,
 ): void {
   let s = 0;
   let h = 0;
-  for (let i = first; i < to; i++) {
-    const w = weight[i - from] as number;
-    if (w === 0) continue;
-    const wa = w * ((xa[i] as number) - sa);
+  for (let t = 0; t < count; t++) {
+    const i = rows[t] as number;
+    const wa = (weight[t] as number) * ((xa[i] as number) - sa);
     s += wa;
     h += wa * ((xb[i] as number) - sb);
   }
