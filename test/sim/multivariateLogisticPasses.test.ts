@@ -42,12 +42,12 @@ function exampleReplicationData(replication: number): { cols: Float64Array[]; y:
 }
 
 describe('the logistic fit: unrolled passes, reusable workspace, tolerance', () => {
-  it('agrees with ml-logistic-regression 2.0.0 (npm) for one to six columns (unrolled passes for 1–4, the general loop beyond)', () => {
+  it('agrees with ml-logistic-regression 2.0.0 (npm) for one, three, four and six columns (unrolled passes for 1–4, the general loop beyond; two columns: multivariateLogistic.test.ts)', () => {
     // The reference maximises the same likelihood by plain gradient ascent on the columns as given; on
     // standardised columns (so that 0.01 is a stable step; the estimate is the same up to the change of
     // scale) 3,000 steps bring it within 1e-6 of the maximum, the tolerance on each coefficient (log-odds
     // units per SD). Invented data, 240 rows.
-    for (const k of [1, 2, 3, 4, 5, 6]) {
+    for (const k of [1, 3, 4, 6]) {
       const n = 240;
       const { cols, y } = logisticData(30 + k, n, k);
       const stats = cols.map((c) => {
