@@ -20,6 +20,8 @@
  *   clusters.doublingRatio        schools matched on their means, twice the clusters in both groups
  *                                 ÷ as given (target ≤ 2.3)
  *   clusters.peopleDoublingRatio  pupils matched across schools, twice the clusters ÷ as given (≤ 2.3)
+ * and propensity.* from scripts/bench/propensity.ts (propensityRatio: a propensity-score replication of the
+ * built-in maths-club example ÷ a one-pretest replication of the same pools, target ≤ 5; see its header).
  * Each ratio is the median over several interleaved rounds (after a warm-up) of that
  * round's ratio. Times are this
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
@@ -40,6 +42,7 @@ import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
 import { parallelBench } from './bench/parallel';
 import { cliStartBench } from './bench/cliStart';
+import { propensityBench } from './bench/propensity';
 
 const json = process.argv.includes('--json');
 const REPS = 2000;
@@ -371,6 +374,7 @@ const parallel = await parallelBench();
 // The command line's start-up (scripts/bench/cliStart.ts: cliStartRatio, cliNoSimSeconds; wall time).
 const cliStart = await cliStartBench();
 
+const propensity = await propensityBench(); // scripts/bench/propensity.ts: propensityRatio and friends
 const out = {
   plan: 'demo plan (180 programme, 1,200 comparison; nearest 1:1, caliper 0.2, no replacement)',
   replications: REPS,
@@ -396,6 +400,7 @@ const out = {
   cliStartRatio: cliStart.cliStartRatio,
   cliNoSimSeconds: cliStart.cliNoSimSeconds,
   cliStart,
+  propensity,
 };
 
 function round(x: number, d = 1): number {
@@ -431,5 +436,6 @@ if (json) {
   console.log(`  all ${parallel.parallelEfficiencyAllCores.workers} cores: efficiency ${parallel.parallelEfficiencyAllCores.efficiency} (speedup ÷ workers, no target)`);
   console.log(`\nCommand-line start (wall time, median of ${cliStart.rounds} interleaved rounds; ${cliStart.ran} CLI, code cache ${cliStart.codeCache}): ${cliStart.cliNoSimSeconds} s for run --no-sim, bare node ${cliStart.bareNodeSeconds} s`);
   line('cliStart.cliStartRatio', cliStart.cliStartRatio, '<= 4', cliStart.met.cliStartRatio, `${cliStart.command}; rounds ${cliStart.roundRange.join('–')}`);
+  console.log(`\nPropensity engine (scripts/bench/propensity.ts), CPU time: ${JSON.stringify(propensity)}`);
 }
 if (sink === 42.4242) console.log(''); // use the sink

@@ -25,6 +25,11 @@ export interface GroupMoments {
     row: Float64Array;
     sum: Float64Array;
     prod: Float64Array;
+    /** Two running sums of groupMoments (one column pair). */
+    pair: Float64Array;
+    /** The counted rows of a weighted call and their weights (grown on first use). */
+    rows: Int32Array;
+    rowWeight: Float64Array;
     W: Float64Array;
     w: Float64Array;
     A: Float64Array;
@@ -55,6 +60,9 @@ export function createGroupMoments(p: number): GroupMoments {
       row: new Float64Array(q),
       sum: new Float64Array(q),
       prod: new Float64Array(q * q),
+      pair: new Float64Array(2),
+      rows: new Int32Array(0),
+      rowWeight: new Float64Array(0),
       W: new Float64Array(p * p),
       w: new Float64Array(p),
       A: new Float64Array(p * p),
@@ -108,17 +116,35 @@ export function groupMoments(
   if (first >= 0) {
     for (let a = 0; a < p; a++) shift[a] = (columns[a] as Float64Array)[first] as number;
     shift[p] = y[first] as number;
-    for (let i = first; i < to; i++) {
-      const w = weight ? (weight[i - from] as number) : 1;
-      if (w === 0) continue;
-      n += w;
-      for (let a = 0; a < p; a++) row[a] = ((columns[a] as Float64Array)[i] as number) - (shift[a] as number);
-      row[p] = (y[i] as number) - (shift[p] as number);
-      for (let a = 0; a < q; a++) {
-        const wa = w * (row[a] as number);
-        sum[a] = (sum[a] as number) + wa;
-        const base = a * q;
-        for (let b = a; b < q; b++) prod[base + b] = (prod[base + b] as number) + wa * (row[b] as number);
+    // Weighted: the rows counted (weight ≠ 0) and their weights, in order, listed once.
+    let counted = 0;
+    if (weight) {
+      if (out.work.rows.length < to - first) {
+        out.work.rows = new Int32Array(to - first);
+        out.work.rowWeight = new Float64Array(to - first);
+      }
+      const { rows, rowWeight } = out.work;
+      for (let i = first; i < to; i++) {
+        const w = weight[i - from] as number;
+        if (w === 0) continue;
+        n += w;
+        rows[counted] = i;
+        rowWeight[counted++] = w;
+      }
+    } else n = to - first;
+    // Column pair by column pair, each sum over the rows in order with the same operations
+    // per row as a row-by-row sweep (w (x_a − shift_a)) (x_b − shift_b): the same bits, in
+    // tight loops whose sums stay in registers.
+    for (let a = 0; a < q; a++) {
+      const xa = a < p ? (columns[a] as Float64Array) : y;
+      const sa = shift[a] as number;
+      for (let b = a; b < q; b++) {
+        const xb = b < p ? (columns[b] as Float64Array) : y;
+        const sb = shift[b] as number;
+        if (weight) pairSumsWeighted(xa, sa, xb, sb, out.work.rows, out.work.rowWeight, counted, out.work.pair);
+        else pairSums(xa, sa, xb, sb, first, to, out.work.pair);
+        if (b === a) sum[a] = out.work.pair[0] as number;
+        prod[a * q + b] = out.work.pair[1] as number;
       }
     }
   }
@@ -143,6 +169,42 @@ export function groupMoments(
     sxy[a] = centred(a, p);
   }
   out.syy = centred(p, p);
+}
+
+/** Σ (x_a − s_a) and Σ (x_a − s_a)(x_b − s_b) over rows [first, to), into out[0], out[1]. */
+function pairSums(xa: Float64Array, sa: number, xb: Float64Array, sb: number, first: number, to: number, out: Float64Array): void {
+  let s = 0;
+  let h = 0;
+  for (let i = first; i < to; i++) {
+    const da = (xa[i] as number) - sa;
+    s += da;
+    h += da * ((xb[i] as number) - sb);
+  }
+  out[0] = s;
+  out[1] = h;
+}
+
+/** The same over the listed rows rows[0..count), row rows[t] counted weight[t] times (the rows of weight 0 left out, in order). */
+function pairSumsWeighted(
+  xa: Float64Array,
+  sa: number,
+  xb: Float64Array,
+  sb: number,
+  rows: Int32Array,
+  weight: Float64Array,
+  count: number,
+  out: Float64Array,
+): void {
+  let s = 0;
+  let h = 0;
+  for (let t = 0; t < count; t++) {
+    const i = rows[t] as number;
+    const wa = (weight[t] as number) * ((xa[i] as number) - sa);
+    s += wa;
+    h += wa * ((xb[i] as number) - sb);
+  }
+  out[0] = s;
+  out[1] = h;
 }
 
 /**

@@ -20,7 +20,7 @@ import { ancovaOnCovariates, createGroupMoments, groupMoments, residualVariance,
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { createCovariatePools, drawCovariatePools, type CovariatePools } from './drawCovariatePools';
 import { exactStrata } from './exactStrata';
-import { fitLogisticRegression } from './fitLogisticRegression';
+import { createLogisticWorkspace, fitLogisticRegression, type LogisticWorkspace } from './fitLogisticRegression';
 import { createMahalanobisMatchingWorkspace, matchOnMahalanobis, type MahalanobisMatchingWorkspace } from './matchOnMahalanobis';
 import { createScoreMatchingWorkspace, matchOnScore, type ScoreMatchingWorkspace } from './matchOnScore';
 import { whitenedCoordinates } from './whitenedCoordinates';
@@ -103,22 +103,48 @@ export function createMultivariateSimulation(plan: Plan, options: SimulationOpti
 }
 
 /**
- * One pass over col[from..to): count, shifted sum and sum of squares of all
- * rows (out[0..2]) and of the rows weighted by weight[i − from] (out[3..5]);
- * values are shifted by `shift` (Chan, Golub & LeVeque 1983).
+ * The rows i of [from, to) whose weight[i − from] is not 0, in order, into
+ * rows[] with their weights into weights[]; returns how many.
  */
-function subsetSums(col: Float64Array, from: number, to: number, weight: ArrayLike<number>, shift: number, out: Float64Array): void {
+function countedRows(weight: ArrayLike<number>, from: number, to: number, rows: Int32Array, weights: Float64Array): number {
+  let count = 0;
+  for (let i = from; i < to; i++) {
+    const w = weight[i - from] as number;
+    if (w === 0) continue;
+    rows[count] = i;
+    weights[count++] = w;
+  }
+  return count;
+}
+
+/**
+ * Count, shifted sum and sum of squares of col[from..to) (out[0..2]) and of
+ * the listed rows rows[0..count) weighted by weights[t] (out[3..5], from
+ * countedRows); values are shifted by `shift` (Chan, Golub & LeVeque 1983).
+ * Each sum runs over its rows in order, as one pass skipping the rows of weight 0 would.
+ */
+function subsetSums(
+  col: Float64Array,
+  from: number,
+  to: number,
+  rows: Int32Array,
+  weights: Float64Array,
+  count: number,
+  shift: number,
+  out: Float64Array,
+): void {
   let s = 0, ss = 0, n2 = 0, s2 = 0, ss2 = 0;
   for (let i = from; i < to; i++) {
     const d = (col[i] as number) - shift;
     s += d;
     ss += d * d;
-    const w = weight[i - from] as number;
-    if (w !== 0) {
-      n2 += w;
-      s2 += w * d;
-      ss2 += w * d * d;
-    }
+  }
+  for (let t = 0; t < count; t++) {
+    const w = weights[t] as number;
+    const d = (col[rows[t] as number] as number) - shift;
+    n2 += w;
+    s2 += w * d;
+    ss2 += w * d * d;
   }
   out[0] = to - from;
   out[1] = s;
@@ -172,9 +198,14 @@ class MultivariateRunner {
   readonly MC: GroupMoments;
   readonly out = new Float64Array(3);
   readonly sums = new Float64Array(6);
+  /** The matched programme rows and the used comparison rows, with their weights (countedRows), per replication. */
+  readonly rowsP: Int32Array;
+  readonly weightsP: Float64Array;
+  readonly rowsC: Int32Array;
+  readonly weightsC: Float64Array;
   readonly programmeGroup: Uint8Array;
   readonly logit: Float64Array;
-  readonly logisticScratch: Float64Array;
+  readonly logistic: LogisticWorkspace | null;
   readonly coords: Float64Array[];
   readonly scoreWs: ScoreMatchingWorkspace | null;
   readonly mahalanobisWs: MahalanobisMatchingWorkspace | null;
@@ -239,11 +270,15 @@ class MultivariateRunner {
     this.pooledSxx = new Float64Array(p * p);
     this.programmeGroup = new Uint8Array(N).fill(1, this.nC);
     this.logit = distance === 'propensity' ? new Float64Array(N) : new Float64Array(0);
-    this.logisticScratch = distance === 'propensity' ? new Float64Array(N * p) : new Float64Array(0);
+    this.logistic = distance === 'propensity' ? createLogisticWorkspace(N, p) : null;
     this.coords = distance === 'mahalanobis' ? this.notExact.map(() => new Float64Array(N)) : [];
     this.scoreWs = distance === 'mahalanobis' ? null : createScoreMatchingWorkspace(this.nP, this.nC, this.k);
     this.mahalanobisWs = distance === 'mahalanobis' ? createMahalanobisMatchingWorkspace(this.nP, this.nC, this.k) : null;
     this.matchedFlag = new Uint8Array(this.nP);
+    this.rowsP = new Int32Array(this.nP);
+    this.weightsP = new Float64Array(this.nP);
+    this.rowsC = new Int32Array(this.nC);
+    this.weightsC = new Float64Array(this.nC);
     this.weights = new MatchingWeights(this.nC);
     this.stacked = { weights: this.weights, columns: this.measuredObserved, from: 0, sigma2: 0 };
     this.records = new AnalysisRecords(total, model.effect, plan.analysis.alpha);
@@ -302,13 +337,13 @@ class MultivariateRunner {
           linearPredictor: this.logit,
           where: `simulated replication ${i + 1}`,
           start: this.discriminantStart(),
-          scratch: this.logisticScratch,
+          workspace: this.logistic as LogisticWorkspace,
         });
         score = this.logit;
         const sums = this.sums;
-        subsetSums(score, nC, N, this.matchedFlag, 0, sums);
+        subsetSums(score, nC, N, this.rowsP, this.weightsP, 0, 0, sums);
         vP = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
-        subsetSums(score, 0, nC, this.weights.weight, 0, sums);
+        subsetSums(score, 0, nC, this.rowsC, this.weightsC, 0, 0, sums);
         vC = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
       } else {
         score = pools.observed[0] as Float64Array;
@@ -390,18 +425,21 @@ class MultivariateRunner {
     const setWeight = this.weights.weight;
     const N = nP + nC;
     const p = this.variables;
+    const { rowsP, weightsP, rowsC, weightsC } = this;
+    const countP = countedRows(matchedFlag, nC, N, rowsP, weightsP);
+    const countC = countedRows(setWeight, 0, nC, rowsC, weightsC);
     for (let v = 0; v < p; v++) {
       let ok = 0;
       for (let series = 0; series < 2; series++) {
         const col = (series === 0 ? pools.observed[v] : pools.trueScore[v]) as Float64Array;
         const shift = col[0] as number;
-        subsetSums(col, nC, N, matchedFlag, shift, sums);
+        subsetSums(col, nC, N, rowsP, weightsP, countP, shift, sums);
         const meanP = meanOf(sums[0] as number, sums[1] as number, shift);
         const varP = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
         const nMP = sums[3] as number;
         const meanMP = meanOf(nMP, sums[4] as number, shift);
         const varMP = varianceOf(nMP, sums[4] as number, sums[5] as number);
-        subsetSums(col, 0, nC, setWeight, shift, sums);
+        subsetSums(col, 0, nC, rowsC, weightsC, countC, shift, sums);
         const meanC = meanOf(sums[0] as number, sums[1] as number, shift);
         const varC = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
         const nMC = sums[3] as number;

@@ -166,6 +166,9 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
   const { sem, errorVariables, recording, beta, residualSD } = pools;
   const nErr = errorVariables.length;
   normal.fillStandard(z, z.length);
+  // Variable by variable over each group's rows (each column written in one sweep); every
+  // person's numbers take the same operations in the same order as person by person:
+  // Y = shift + residualSD z'' + beta_0 T_0 + beta_1 T_1 + …, accumulated in `outcome`.
   for (let g = 0; g < 2; g++) {
     const programme = g === 1;
     const from = programme ? nC : 0;
@@ -174,27 +177,35 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
     const mu = programme ? pools.meanProgramme : pools.meanComparison;
     const shift = programme ? pools.programmeShift : 0;
     const cut = programme ? pools.thresholdProgramme : pools.thresholdComparison;
-    for (let i = from; i < to; i++) {
-      const base = i * stride;
-      let y = shift + residualSD * (z[base + stride - 1] as number);
-      for (let a = 0; a < p; a++) {
-        let v = mu[a] as number;
-        const row = a * p;
-        for (let b = 0; b <= a; b++) v += (L[row + b] as number) * (z[base + b] as number);
-        const rec = recording[a] as number;
-        if (rec === WHOLE_NUMBERS) v = Math.round(v);
-        else if (rec === INDICATOR) v = v > (cut[a] as number) ? 1 : 0;
-        (trueScore[a] as Float64Array)[i] = v;
-        (observed[a] as Float64Array)[i] = v;
-        y += (beta[a] as number) * v;
+    for (let i = from, at = from * stride + stride - 1; i < to; i++, at += stride) outcome[i] = shift + residualSD * (z[at] as number);
+    for (let a = 0; a < p; a++) {
+      const T = trueScore[a] as Float64Array;
+      const O = observed[a] as Float64Array;
+      const m = mu[a] as number;
+      const ba = beta[a] as number;
+      const row = a * p;
+      const rec = recording[a] as number;
+      const threshold = cut[a] as number;
+      // T = mean + Σ_b≤a L[a, b] z_b, one sweep per term (the same sum, term by term, as person by person).
+      for (let i = from; i < to; i++) T[i] = m;
+      for (let b = 0; b <= a; b++) {
+        const l = L[row + b] as number;
+        for (let i = from, at = from * stride + b; i < to; i++, at += stride) T[i] = (T[i] as number) + l * (z[at] as number);
       }
-      for (let e = 0; e < nErr; e++) {
-        const a = errorVariables[e] as number;
-        const col = observed[a] as Float64Array;
-        const x = (col[i] as number) + (sem[a] as number) * (z[base + p + e] as number);
-        col[i] = recording[a] === WHOLE_NUMBERS ? Math.round(x) : recording[a] === INDICATOR ? (x > 0.5 ? 1 : 0) : x;
+      if (rec === WHOLE_NUMBERS) for (let i = from; i < to; i++) T[i] = Math.round(T[i] as number);
+      else if (rec === INDICATOR) for (let i = from; i < to; i++) T[i] = (T[i] as number) > threshold ? 1 : 0;
+      O.set(T.subarray(from, to), from);
+      for (let i = from; i < to; i++) outcome[i] = (outcome[i] as number) + ba * (T[i] as number);
+    }
+    for (let e = 0; e < nErr; e++) {
+      const a = errorVariables[e] as number;
+      const O = observed[a] as Float64Array;
+      const s = sem[a] as number;
+      const rec = recording[a] as number;
+      for (let i = from, at = from * stride + p + e; i < to; i++, at += stride) {
+        const x = (O[i] as number) + s * (z[at] as number);
+        O[i] = rec === WHOLE_NUMBERS ? Math.round(x) : rec === INDICATOR ? (x > 0.5 ? 1 : 0) : x;
       }
-      outcome[i] = y;
     }
   }
 }

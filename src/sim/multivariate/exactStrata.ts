@@ -1,3 +1,8 @@
+/** Most (stratum, value) keys looked up in a table rather than a map. */
+const DENSE_KEYS = 1 << 16;
+/** The table's buffer, shared by calls (filled afresh by each; it carries nothing from one call to the next). */
+let denseTable = new Int32Array(0);
+
 /**
  * Strata for exact matching: people with identical values on every exactly
  * matched covariate share a stratum (Rosenbaum 2002, "Observational Studies",
@@ -21,14 +26,34 @@ export function exactStrata(columns: readonly Float64Array[], size: number, out:
     const ids = new Map<string | number, number>();
     let lo = Infinity;
     let hi = -Infinity;
+    let wholeNumbers = true;
     for (let i = 0; i < size; i++) {
       const v = col[i] as number;
       if (!Number.isFinite(v)) throw new Error(`An exactly matched covariate has a value that is not a finite number (${v}).`);
       if (v < lo) lo = v;
       if (v > hi) hi = v;
+      if (wholeNumbers && !Number.isInteger(v)) wholeNumbers = false;
     }
     const integral = Number.isInteger(lo) && Number.isInteger(hi);
     const span = hi - lo + 1;
+    if (wholeNumbers && count * span <= DENSE_KEYS) {
+      // Few possible keys (a 0/1 record, a handful of bands): a table instead of the map, the
+      // same numbering (first seen, first numbered).
+      const table = denseTable.length >= count * span ? denseTable : (denseTable = new Int32Array(DENSE_KEYS));
+      table.fill(-1, 0, count * span);
+      let next = 0;
+      for (let i = 0; i < size; i++) {
+        const key = (out[i] as number) * span + ((col[i] as number) - lo);
+        let id = table[key] as number;
+        if (id < 0) {
+          id = next++;
+          table[key] = id;
+        }
+        out[i] = id;
+      }
+      count = next;
+      continue;
+    }
     const numericKeys = integral && count * span < 2 ** 52;
     for (let i = 0; i < size; i++) {
       const v = col[i] as number;
