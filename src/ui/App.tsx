@@ -2,6 +2,7 @@ import { lazy, Suspense, useState, type ComponentType } from 'react';
 import { ComparisonTable } from './ComparisonTable';
 import { Header } from './Header';
 import { NoticeBar } from './NoticeBar';
+import { UpdateNotice } from './UpdateNotice';
 import { PilotPanel } from './PilotPanel';
 import { PlanForm } from './PlanForm';
 import { RemediesPanel } from './RemediesPanel';
@@ -23,6 +24,7 @@ export function App() {
         Skip to the results
       </a>
       <Header exportsOpen={exportsOpen} onToggleExports={() => setExportsOpen((o) => !o)} exportsAvailable={ExportPanel !== null} />
+      <UpdateNotice />
       <NoticeBar />
       {ExportPanel && exportsOpen && (
         <section id="exports-panel" className="exports" aria-label="Exports">
