@@ -2,6 +2,7 @@
 import { defineConfig, type Plugin } from 'vite';
 import react from '@vitejs/plugin-react';
 import { offlineServiceWorker } from './scripts/build/offlineServiceWorker.js';
+import { firstScreenReport } from './scripts/build/firstScreenSize.js';
 
 /**
  * The built page's Content-Security-Policy. Scripts, workers, styles, fonts and data only from the
@@ -37,7 +38,7 @@ function contentSecurityPolicy(): Plugin {
 
 // One config for the app build, `vite preview` and Vitest.
 export default defineConfig({
-  plugins: [react(), contentSecurityPolicy(), offlineServiceWorker()],
+  plugins: [react(), contentSecurityPolicy(), offlineServiceWorker(), firstScreenReport()],
   base: './',
   worker: { format: 'es' },
   // The app chunk holds React, d3, jstat and zod (~520 kB); the PDF builder and its fonts load
