@@ -41,8 +41,9 @@ export default defineConfig({
   plugins: [react(), contentSecurityPolicy(), offlineServiceWorker(), firstScreenReport()],
   base: './',
   worker: { format: 'es' },
-  // The app chunk holds React, d3, jstat and zod (~520 kB); the PDF builder and its fonts load
-  // only when a PDF is made, in their own chunks.
+  // The entry chunk holds React, the store, src/core with jstat and zod (~680 kB; the first screen,
+  // see DEVELOPERS.md); the charts with d3, the lower panels, the pilot reader, the PDF builder and
+  // its fonts are chunks of their own, loaded when first needed.
   build: { outDir: 'dist', sourcemap: false, chunkSizeWarningLimit: 800 },
   preview: { host: '127.0.0.1', port: 4173, strictPort: true },
   test: {
