@@ -68,12 +68,14 @@ export class ServiceWorkerUpdates {
    * working online as before and is not an error the user needs to see; it resolves to false.
    */
   async start(url: string): Promise<boolean> {
-    let registration: RegistrationLike;
+    let registration: RegistrationLike | undefined;
     try {
       registration = await this.container.register(url);
     } catch {
       return false;
     }
+    // Some embedders (a browser driven for tests with service workers blocked) resolve with nothing.
+    if (!registration || typeof registration !== 'object') return false;
     // A version installed on an earlier visit may already be waiting. Without a controller the
     // page is on its first visit and the installing worker is the first version, not an update.
     if (registration.waiting && this.container.controller) this.offer(registration.waiting);

@@ -54,11 +54,12 @@ class FakeContainer implements ContainerLike {
   private changes: Array<() => void> = [];
   constructor(
     readonly registration: FakeRegistration,
-    private readonly fail = false,
+    private readonly fail: 'no' | 'rejects' | 'resolves with nothing' = 'no',
   ) {}
   register(url: string) {
     this.registered.push(url);
-    return this.fail ? Promise.reject(new Error('The operation is insecure.')) : Promise.resolve(this.registration);
+    if (this.fail === 'rejects') return Promise.reject(new Error('The operation is insecure.'));
+    return Promise.resolve(this.fail === 'no' ? this.registration : (undefined as unknown as FakeRegistration));
   }
   addEventListener(_t: 'controllerchange', l: () => void) {
     this.changes.push(l);
@@ -124,11 +125,13 @@ describe('ServiceWorkerUpdates', () => {
     expect(u.getState().updateReady).toBe(true);
   });
 
-  it('a registration the browser refuses leaves the page as it was, with no error thrown', async () => {
-    const u = new ServiceWorkerUpdates(new FakeContainer(new FakeRegistration(), true), vi.fn());
-    expect(await u.start('./sw.js')).toBe(false);
-    expect(u.getState().updateReady).toBe(false);
-  });
+  for (const fail of ['rejects', 'resolves with nothing'] as const) {
+    it(`a registration the browser refuses (${fail}) leaves the page as it was, with no error thrown`, async () => {
+      const u = new ServiceWorkerUpdates(new FakeContainer(new FakeRegistration(), fail), vi.fn());
+      expect(await u.start('./sw.js')).toBe(false);
+      expect(u.getState().updateReady).toBe(false);
+    });
+  }
 });
 
 describe('UpdateNotice', () => {
