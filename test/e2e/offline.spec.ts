@@ -46,12 +46,22 @@ async function changeReliability(page: Page, value: string): Promise<void> {
   await expect(page.getByTestId('verdict-bias')).not.toHaveText(before);
 }
 
-test('from a sub-path of a plain static host: the page, its lazy chunks and its workers all load from under that path', async ({ page }) => {
+/** Open the exports and download the PDF summary. */
+async function downloadPdf(page: Page): Promise<void> {
+  await page.getByRole('button', { name: /^Exports/ }).click();
+  const pdfButton = page.getByRole('button', { name: 'Download PDF summary' });
+  await expect(pdfButton).toBeEnabled();
+  const [download] = await Promise.all([page.waitForEvent('download'), pdfButton.click()]);
+  expect(download.suggestedFilename()).toMatch(/-summary\.pdf$/);
+  await expect(page.getByTestId('export-status')).toContainText('PDF summary downloaded.');
+}
+
+test('from a sub-path of a plain static host: the page, its lazy chunks, its workers and the PDF fonts all load from under that path', async ({ page }) => {
   await page.goto(host.url);
   await expect(page.getByTestId('verdict-bias')).toBeVisible();
   await expect(page.locator('figure[data-chart] svg').first()).toBeVisible();
-  // The pilot reader is not fetched before it is asked for.
-  expect(host.requests.some((p) => /PilotBody-/.test(p))).toBe(false);
+  // The pilot reader, the exports and the PDF builder with its fonts are not fetched before they are asked for.
+  for (const lazy of [/PilotBody-/, /ExportPanel-/, /buildReportPdf-/, /DejaVuSans/]) expect(host.requests.filter((p) => lazy.test(p)), String(lazy)).toEqual([]);
   await page.getByRole('button', { name: /Estimate from pilot data/ }).click();
   await expect(page.getByText(/Your data stay on this computer\./)).toBeVisible();
   expect(host.requests.some((p) => /PilotBody-/.test(p))).toBe(true);
@@ -59,6 +69,9 @@ test('from a sub-path of a plain static host: the page, its lazy chunks and its 
   await retype(page, /^Replications/, '200');
   await page.getByRole('button', { name: /^Run the simulation/ }).click();
   await expect(page.getByTestId('sim-status')).toHaveAttribute('data-status', 'done', { timeout: 60_000 });
+  // The PDF: its builder and fonts load from under the sub-path too.
+  await downloadPdf(page);
+  expect(host.requests.some((p) => p.startsWith(`${MOUNT}assets/DejaVuSans-`))).toBe(true);
   // Everything was asked for under the mount path: nothing assumed the site's root.
   expect(host.requests.filter((p) => !p.startsWith(MOUNT))).toEqual([]);
   expect(host.requests.some((p) => /\/assets\/worker-/.test(p))).toBe(true);
@@ -71,7 +84,7 @@ test('from a sub-path of a plain static host: the page, its lazy chunks and its 
   expect(scope).toBe(host.url);
 });
 
-test('once visited, the planner works with no network: reload, change a field, simulate', async ({ page, context }) => {
+test('once visited, the planner works with no network: reload, change a field, simulate, make the PDF, open the pilot reader', async ({ page, context }) => {
   await openControlled(page);
   // The host is gone and the browser is offline.
   await host.close();
@@ -88,6 +101,8 @@ test('once visited, the planner works with no network: reload, change a field, s
   await retype(page, /^Replications/, '200');
   await page.getByRole('button', { name: /^Run the simulation/ }).click();
   await expect(page.getByTestId('sim-status')).toHaveAttribute('data-status', 'done', { timeout: 60_000 });
+  // The PDF summary, its builder and fonts never fetched online, is made from the cache.
+  await downloadPdf(page);
   // The pilot reader, never opened online, also comes from the cache.
   await page.getByRole('button', { name: /Estimate from pilot data/ }).click();
   await expect(page.getByText(/Your data stay on this computer\./)).toBeVisible();
