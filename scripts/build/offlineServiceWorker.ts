@@ -28,7 +28,9 @@ export function offlineServiceWorker(): PluginOption {
       globPatterns: ['**/*.{html,js,css,svg,ttf,json,csv}'],
       // The PDF's fonts and builder are the largest files (about 0.8 MB each); all are needed offline.
       maximumFileSizeToCacheInBytes: 4 * 1024 * 1024,
-      navigateFallback: 'index.html',
+      // No navigation fallback: the page's own address (…/ or …/index.html) is in the precache; other
+      // pages a team keeps on the same host and path are left to the network.
+      navigateFallback: null,
       cleanupOutdatedCaches: true,
       clientsClaim: true,
       skipWaiting: false,

@@ -83,8 +83,8 @@ describe('offline use', () => {
     expect(built.length).toBeGreaterThan(30);
     expect(built.filter((f) => !precached.has(f))).toEqual([]);
     for (const url of precached) expect(url, url).not.toMatch(/^[a-z]+:|^\//i);
-    // No runtime caching: the worker answers only for the precached files.
-    expect(sw).not.toMatch(/registerRoute\(\s*\/|NetworkFirst|StaleWhileRevalidate|CacheFirst/);
+    // No runtime caching and no navigation fallback: the worker answers only for the precached files.
+    expect(sw).not.toMatch(/registerRoute|NavigationRoute|NetworkFirst|StaleWhileRevalidate|CacheFirst/);
     // A new version waits for the page's go-ahead (the update notice's Reload button).
     expect(sw).toMatch(/"SKIP_WAITING"===\w+\.data\.type&&self\.skipWaiting\(\)/);
     expect(sw.match(/skipWaiting\(\)/g)).toHaveLength(1);
