@@ -19,6 +19,10 @@ export default defineConfig({
     screenshot: 'only-on-failure',
     trace: 'off',
     acceptDownloads: true,
+    // The built page registers a service worker (offline use). It would answer requests from its
+    // cache, past page.route() and a rebuilt server, so it is off here; test/e2e/offline.spec.ts
+    // turns it on and serves its own copy of dist/.
+    serviceWorkers: 'block',
     launchOptions: {
       executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
       args: [

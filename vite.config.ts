@@ -1,6 +1,8 @@
 /// <reference types="vitest/config" />
 import { defineConfig, type Plugin } from 'vite';
 import react from '@vitejs/plugin-react';
+import { offlineServiceWorker } from './scripts/build/offlineServiceWorker.js';
+import { firstScreenReport } from './scripts/build/firstScreenSize.js';
 
 /**
  * The built page's Content-Security-Policy. Scripts, workers, styles, fonts and data only from the
@@ -36,11 +38,12 @@ function contentSecurityPolicy(): Plugin {
 
 // One config for the app build, `vite preview` and Vitest.
 export default defineConfig({
-  plugins: [react(), contentSecurityPolicy()],
+  plugins: [react(), contentSecurityPolicy(), offlineServiceWorker(), firstScreenReport()],
   base: './',
   worker: { format: 'es' },
-  // The app chunk holds React, d3, jstat and zod (~520 kB); the PDF builder and its fonts load
-  // only when a PDF is made, in their own chunks.
+  // The entry chunk holds React, the store, src/core with jstat and zod (~680 kB; the first screen,
+  // see DEVELOPERS.md); the charts with d3, the lower panels, the pilot reader, the PDF builder and
+  // its fonts are chunks of their own, loaded when first needed.
   build: { outDir: 'dist', sourcemap: false, chunkSizeWarningLimit: 800 },
   preview: { host: '127.0.0.1', port: 4173, strictPort: true },
   test: {

@@ -6,6 +6,7 @@ import { isShareFragment } from './state/persistenceSlice';
 import { createGridRunner, createPlannedProcedureRunner, createSimulationRunner } from './state/simulationRunner';
 import { createMeanwardStore, getAppStore, setAppStoreFactory } from './state/store';
 import { App } from './ui/App';
+import { startPageServiceWorker } from './offline/serviceWorkerUpdates';
 import './ui/styles.css';
 
 setAppStoreFactory(() =>
@@ -40,6 +41,11 @@ store.subscribe((state, prev) => {
     history.replaceState(null, '', `${location.pathname}${location.search}`);
   }
 });
+
+// Offline use: only the build has a service worker (sw.js); the dev server has none. The watch
+// starts before the first render, so the update notice can follow it; the worker is registered
+// once the page has loaded.
+if (import.meta.env.PROD) startPageServiceWorker();
 
 const root = document.getElementById('root');
 if (!root) throw new Error('The page has no #root element.');

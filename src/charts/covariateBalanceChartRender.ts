@@ -1,4 +1,4 @@
-import * as d3 from 'd3';
+import { scaleLinear } from 'd3-scale';
 import type { ChartSize, RenderOptions } from './chartTypes';
 import type { CovariateBalanceChartData, CovariateBalanceRow, CovariateBalanceStatus } from './covariateBalanceChartData';
 import { COVARIATE_BALANCE_STATUS_WORDS, covariateBalanceChartText } from './covariateBalanceChartText';
@@ -179,7 +179,7 @@ export function renderCovariateBalanceChart(svg: SVGSVGElement, data: CovariateB
   const height = Math.max(opts.height, L.height);
   const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
   const { compact, plotLeft, plotRight, top } = L;
-  const x = d3.scaleLinear().domain([data.xMin, data.xMax]).range([plotLeft, plotRight]);
+  const x = scaleLinear().domain([data.xMin, data.xMax]).range([plotLeft, plotRight]);
   L.titleLines.forEach((l, i) => text(root, 12, 18 + i * lineHeight(FONT.title), l, { 'font-size': FONT.title, 'font-weight': 'bold' }));
   L.subLines.forEach((l, i) => text(root, 12, L.subY + i * LINE, l, { fill: GROUP_COLOURS.muted }));
   for (const { x: lx, y: ly, item, label } of L.legend) {

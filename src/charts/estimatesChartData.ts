@@ -1,4 +1,4 @@
-import * as d3 from 'd3';
+import { bin as histogramBins, extent, tickIncrement, ticks } from 'd3-array';
 import type { AnalysisId } from '../core/plan';
 import { presentAnalyses } from '../core/presentAnalyses';
 import { expectedEstimateInterval } from '../core/expectedEstimateInterval';
@@ -78,17 +78,17 @@ export function estimatesChartData({ analytic, simulation }: ChartInput): Estima
       rows.map((r) => [r.id, (simulation.estimates[r.id] ?? []).filter((v) => Number.isFinite(v))]),
     ) as Record<AnalysisId, number[]>;
     for (const r of rows) {
-      const ext = d3.extent(finite[r.id]);
+      const ext = extent(finite[r.id]);
       if (ext[0] !== undefined) values.push(ext[0], ext[1]!);
     }
-    const [lo, hi] = d3.extent(values) as [number, number];
-    const thresholds = d3.ticks(lo, hi, BIN_TARGET);
-    const step = d3.tickIncrement(lo, hi, BIN_TARGET);
+    const [lo, hi] = extent(values) as [number, number];
+    const thresholds = ticks(lo, hi, BIN_TARGET);
+    const step = tickIncrement(lo, hi, BIN_TARGET);
     // Edges run from one step below the smallest value to one above the largest, so every estimate lands in a bin.
     const width = step > 0 ? step : 1 / -step;
     const first = Math.floor(lo / width) * width;
     const last = Math.ceil(hi / width) * width + (Math.ceil(hi / width) * width === hi ? width : 0);
-    const bin = d3.bin().domain([first, last]).thresholds(thresholds.filter((t) => t > first && t < last));
+    const bin = histogramBins().domain([first, last]).thresholds(thresholds.filter((t) => t > first && t < last));
     for (const r of rows) {
       const bins = bin(finite[r.id]).map((b) => ({ x0: b.x0!, x1: b.x1!, count: b.length }));
       r.bins = bins;
@@ -97,7 +97,7 @@ export function estimatesChartData({ analytic, simulation }: ChartInput): Estima
     }
     values.push(first, last);
   }
-  const [lo, hi] = d3.extent(values) as [number, number];
+  const [lo, hi] = extent(values) as [number, number];
   const pad = (hi - lo || 1) * 0.04;
   return {
     chart: 'estimates',

@@ -1,4 +1,4 @@
-import * as d3 from 'd3';
+import { scaleLinear } from 'd3-scale';
 import type { PlanComparisonRow } from '../core/comparePlans';
 import type { ChartSize, ChartText, RenderOptions } from './chartTypes';
 import { add, FONT, prepareSvg, text } from './svgHelpers';
@@ -69,8 +69,8 @@ export function renderPlanComparisonChart(svg: SVGSVGElement, data: PlanComparis
   const shares = data.rows.flatMap((r) => (r.artefactShare === null ? [] : [r.artefactShare]));
   const tol = data.tolerableShare ?? 0;
   const ext = Math.max(0.3, tol * 1.2, ...shares.map(Math.abs)) * 1.05;
-  const sx = d3.scaleLinear().domain([-ext, ext]).range([x0 + pad, x0 + plotW - pad]).nice();
-  const px = d3.scaleLinear().domain([0, 1]).range([x1, x1 + plotW - 6]);
+  const sx = scaleLinear().domain([-ext, ext]).range([x0 + pad, x0 + plotW - pad]).nice();
+  const px = scaleLinear().domain([0, 1]).range([x1, x1 + plotW - 6]);
   const bottom = top + data.rows.length * rowH;
   text(root, x0, top - 10, narrow ? 'Artefact / effect' : 'Artefact, share of the effect', { 'font-size': FONT.label });
   text(root, x1, top - 10, narrow ? 'Power' : 'Power (tick: without the artefact)', { 'font-size': FONT.label });

@@ -1,4 +1,4 @@
-import * as d3 from 'd3';
+import { scaleLinear } from 'd3-scale';
 import type { RenderOptions } from './chartTypes';
 import type { BalanceChartData } from './balanceChartData';
 import { balanceChartText } from './balanceChartText';
@@ -45,7 +45,7 @@ function layoutBalance(data: BalanceChartData, width: number): BalanceLayout {
   const subY = 18 + (titleLines.length - 1) * lineHeight(FONT.title) + 18;
   const legendY = subY + (subLines.length - 1) * lineHeight(FONT.tick) + 18;
   // Threshold labels beside their lines; the second on a row above when they would collide.
-  const x = d3.scaleLinear().domain([0, data.xMax]).range([left, width - right]);
+  const x = scaleLinear().domain([0, data.xMax]).range([left, width - right]);
   const labels = [
     { value: data.thresholds[0], label: `${fmt(data.thresholds[0], 2)} strict` },
     { value: data.thresholds[1], label: `${fmt(data.thresholds[1], 2)} lenient` },
@@ -78,7 +78,7 @@ export function renderBalanceChart(svg: SVGSVGElement, data: BalanceChartData, o
   const height = Math.max(opts.height, L.minHeight);
   const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
   const { left, right, top, bottom, legendY } = L;
-  const x = d3.scaleLinear().domain([0, data.xMax]).range([left, width - right]);
+  const x = scaleLinear().domain([0, data.xMax]).range([left, width - right]);
   L.titleLines.forEach((l, i) => text(root, 12, 18 + i * lineHeight(FONT.title), l, { 'font-size': FONT.title, 'font-weight': 'bold' }));
   L.subLines.forEach((l, i) => text(root, 12, L.subY + i * lineHeight(FONT.tick), l, { fill: GROUP_COLOURS.muted }));
   // Legend.

@@ -1,4 +1,4 @@
-import * as d3 from 'd3';
+import { scaleLinear } from 'd3-scale';
 import type { RenderOptions } from './chartTypes';
 import type { EstimatesChartData } from './estimatesChartData';
 import { estimatesChartText } from './estimatesChartText';
@@ -52,7 +52,7 @@ function layoutEstimates(data: EstimatesChartData, width: number): EstimatesLayo
   const subBottom = subY + (subLines.length - 1) * lineHeight(FONT.tick);
   // Reference lines: no effect, and the hoped-for effect (one line when the hoped-for effect is 0).
   // Each label runs away from the other line, kept inside the chart; a second row when they collide.
-  const x = d3.scaleLinear().domain(data.xDomain).range([left, width - right]);
+  const x = scaleLinear().domain(data.xDomain).range([left, width - right]);
   const raw: [number, string, string][] =
     data.tau === 0 ? [[0, 'No effect (the hoped-for effect is 0)', 'none']] : [[0, 'No effect', '3 3'], [data.tau, `Hoped-for effect ${fmt(data.tau, 2)}`, 'none']];
   const placed = raw.map(([value, label, dash]) => {
@@ -92,7 +92,7 @@ export function renderEstimatesChart(svg: SVGSVGElement, data: EstimatesChartDat
   const height = Math.max(opts.height, L.minHeight);
   const root = prepareSvg(svg, { ...opts, height }, data.title, alt.sentences.join(' '));
   const { left, right, top, bottom, compact } = L;
-  const x = d3.scaleLinear().domain(data.xDomain).range([left, width - right]);
+  const x = scaleLinear().domain(data.xDomain).range([left, width - right]);
   const rowH = (height - top - bottom) / data.rows.length;
 
   L.titleLines.forEach((l, i) => text(root, 12, 18 + i * lineHeight(FONT.title), l, { 'font-size': FONT.title, 'font-weight': 'bold' }));
@@ -126,7 +126,7 @@ export function renderEstimatesChart(svg: SVGSVGElement, data: EstimatesChartDat
     // Narrow rows start below the analysis' name (and, with histograms, its figures).
     const plotTop = compact ? y0 + (r.bins ? 34 : 20) : y0;
     if (r.bins && data.maxCount > 0) {
-      const h = d3.scaleLinear().domain([0, data.maxCount]).range([base, plotTop + 6]);
+      const h = scaleLinear().domain([0, data.maxCount]).range([base, plotTop + 6]);
       for (const b of r.bins) {
         if (b.count === 0) continue;
         add(series, 'rect', {

@@ -1,4 +1,5 @@
-import * as d3 from 'd3';
+import { scaleLinear } from 'd3-scale';
+import { line as lineShape } from 'd3-shape';
 import type { RenderOptions } from './chartTypes';
 import type { GroupKey, GroupsPretestChartData, PretestChartData } from './pretestChartData';
 import { pretestChartText } from './pretestChartText';
@@ -92,7 +93,7 @@ function layoutPretest(data: GroupsPretestChartData, width: number): PretestLayo
   });
   // Group means, labelled beside their lines: the lower group's label to the left, the higher's to
   // the right, each kept inside the chart; a second row when they would still collide.
-  const x = d3.scaleLinear().domain(data.xDomain).range([left, width - right]).nice();
+  const x = scaleLinear().domain(data.xDomain).range([left, width - right]).nice();
   const placed = (['programme', 'comparison'] as GroupKey[]).map((g) => {
     const other = data.groups[g === 'programme' ? 'comparison' : 'programme'].mean;
     const label = `${g === 'programme' ? 'Programme' : 'Comparison'} mean ${fmt(data.groups[g].mean, 1)}`;
@@ -167,8 +168,8 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
   const rowsH = 28 + 3 * L.rowStep;
   const densityH = height - top - bottom - gap - rowsH;
   const rowsTop = top + densityH + gap;
-  const x = d3.scaleLinear().domain(data.xDomain).range([left, width - right]).nice();
-  const y = d3.scaleLinear().domain([0, data.yMax * 1.08]).range([top + densityH, top]);
+  const x = scaleLinear().domain(data.xDomain).range([left, width - right]).nice();
+  const y = scaleLinear().domain([0, data.yMax * 1.08]).range([top + densityH, top]);
 
   const plot = add(root, 'g');
   if (data.region) {
@@ -179,8 +180,7 @@ export function renderPretestChart(svg: SVGSVGElement, data: PretestChartData, o
   axisLeft(plot, y, left, 'Density', 4, (v) => fmt(v, 3), L.compact ? 44 : 52);
   add(plot, 'line', { x1: left, x2: width - right, y1: top + densityH, y2: top + densityH, stroke: '#444444' });
 
-  const line = d3
-    .line<{ x: number; density: number }>()
+  const line = lineShape<{ x: number; density: number }>()
     .x((p) => x(p.x))
     .y((p) => y(p.density))
     .digits(2);

@@ -1,4 +1,5 @@
-import * as d3 from 'd3';
+import { scaleLinear } from 'd3-scale';
+import { area as areaShape, line as lineShape } from 'd3-shape';
 import type { RenderOptions } from './chartTypes';
 import { GROUP_COLOURS } from './palette';
 import type { SelectionPretestView } from './selectionPretestView';
@@ -95,19 +96,17 @@ export function drawSelectionPretest(root: Sel, v: SelectionPretestView, title: 
     text(legend, lx + SWATCH + 6, ly + 4, it.label);
   }
 
-  const x = d3.scaleLinear().domain(v.xDomain).range([left, width - right]);
-  const y = d3.scaleLinear().domain([0, v.yMax * 1.08]).range([height - bottom, top]);
+  const x = scaleLinear().domain(v.xDomain).range([left, width - right]);
+  const y = scaleLinear().domain([0, v.yMax * 1.08]).range([height - bottom, top]);
   const plot = add(root, 'g');
   axisLeft(plot, y, left, 'Density (population area = 1)', 4, (t) => fmt(t, 3), 48);
   add(plot, 'line', { x1: left, x2: width - right, y1: height - bottom, y2: height - bottom, stroke: '#444444' });
 
-  const line = d3
-    .line<{ x: number; density: number }>()
+  const line = lineShape<{ x: number; density: number }>()
     .x((p) => x(p.x))
     .y((p) => y(p.density))
     .digits(2);
-  const area = d3
-    .area<{ x: number; density: number }>()
+  const area = areaShape<{ x: number; density: number }>()
     .x((p) => x(p.x))
     .y0(height - bottom)
     .y1((p) => y(p.density))
@@ -117,9 +116,8 @@ export function drawSelectionPretest(root: Sel, v: SelectionPretestView, title: 
   add(plot, 'path', { d: line(v.selectedRemeasured) ?? '', fill: 'none', stroke: teal, 'stroke-width': 2.5, 'stroke-dasharray': '6 3' });
 
   if (v.probability) {
-    const yp = d3.scaleLinear().domain([0, 1]).range([height - bottom, top]);
-    const pl = d3
-      .line<{ x: number; p: number }>()
+    const yp = scaleLinear().domain([0, 1]).range([height - bottom, top]);
+    const pl = lineShape<{ x: number; p: number }>()
       .x((p) => x(p.x))
       .y((p) => yp(p.p))
       .digits(2);

@@ -1,4 +1,5 @@
-import * as d3 from 'd3';
+import { scaleLinear } from 'd3-scale';
+import { line as lineShape } from 'd3-shape';
 import type { RenderOptions } from './chartTypes';
 import type { SensitivityChartData } from './sensitivityChartData';
 import { sensitivityChartText } from './sensitivityChartText';
@@ -79,8 +80,8 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
     top += 16;
   }
   top += 14;
-  const x = d3.scaleLinear().domain(data.xDomain).range([left, width - right]);
-  const y = d3.scaleLinear().domain(data.yDomain).range([height - bottom, top]);
+  const x = scaleLinear().domain(data.xDomain).range([left, width - right]);
+  const y = scaleLinear().domain(data.yDomain).range([height - bottom, top]);
   const digits = data.mode === 'reliability' || data.mode === 'screenerReliability' ? 2 : 1;
   // Reference-line labels: in the right margin when wide, inside the plot's right end (above the line) when narrow.
   // Labels inside the plot take turns: each moves down (or up) a line until it is clear of those placed.
@@ -150,8 +151,7 @@ export function renderSensitivityChart(svg: SVGSVGElement, data: SensitivityChar
   const p = inPlot(x(data.current), 'start', planLabel);
   text(root, p.x, placeFree(p.x, height - bottom - 8, -14, planLabel, p.anchor, true), planLabel, { 'font-weight': 'bold', 'text-anchor': p.anchor, ...halo });
 
-  const line = d3
-    .line<{ x: number; bias: number }>()
+  const line = lineShape<{ x: number; bias: number }>()
     .x((p) => x(p.x))
     .y((p) => y(p.bias))
     .digits(2);

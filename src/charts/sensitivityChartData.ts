@@ -1,4 +1,4 @@
-import * as d3 from 'd3';
+import { extent } from 'd3-array';
 import type { AnalysisId } from '../core/plan';
 import { presentAnalyses } from '../core/presentAnalyses';
 import { sensitivityCurve, type SensitivityVariable } from '../core/sensitivityCurve';
@@ -81,7 +81,7 @@ export function sensitivityChartData({ plan, analytic }: ChartInput, mode: Sensi
     }));
   const ys = [curve.tolerableBand.lower, curve.tolerableBand.upper, curve.effect, -curve.effect, 0];
   for (const s of series) for (const p of s.points) ys.push(p.bias);
-  const [y0, y1] = d3.extent(ys) as [number, number];
+  const [y0, y1] = extent(ys) as [number, number];
   const pad = (y1 - y0 || 1) * 0.06;
   const xs = curve.points.map((p) => p.x);
   const coincident: [AnalysisId, AnalysisId][] = [];

@@ -1,10 +1,11 @@
-import * as d3 from 'd3';
+import { type ScaleLinear } from 'd3-scale';
+import { type Selection, select } from 'd3-selection';
 import type { AnalysisId } from '../core/plan';
 import { ANALYSIS_STYLES, CHART_FONT, DIMMED_OPACITY, type MarkerShape } from './palette';
 import type { RenderOptions } from './chartTypes';
 
 /** A d3 selection of an SVG element of any kind. */
-export type Sel = d3.Selection<SVGElement, unknown, null, undefined>;
+export type Sel = Selection<SVGElement, unknown, null, undefined>;
 
 /** Font sizes in px: nothing below 11 (readability, also in the PDF). */
 export const FONT = { tick: 11, label: 12, title: 13, note: 11 } as const;
@@ -34,7 +35,7 @@ export function text(parent: Sel, x: number, y: number, content: string, attrs: 
  * Returns the root selection.
  */
 export function prepareSvg(svg: SVGSVGElement, opts: RenderOptions, title: string, desc: string): Sel {
-  const root = d3.select(svg as SVGElement) as unknown as Sel;
+  const root = select(svg as SVGElement) as unknown as Sel;
   root.selectAll('*').remove();
   root
     .attr('xmlns', 'http://www.w3.org/2000/svg')
@@ -50,7 +51,7 @@ export function prepareSvg(svg: SVGSVGElement, opts: RenderOptions, title: strin
 }
 
 /** Numeric tick format with an ASCII minus (d3 uses U+2212, outside the PDF's Latin-1 fonts). */
-export function tickFormat(scale: d3.ScaleLinear<number, number>, count: number): (v: number) => string {
+export function tickFormat(scale: ScaleLinear<number, number>, count: number): (v: number) => string {
   const f = scale.tickFormat(count);
   return (v: number) => f(v).replace('\u2212', '-');
 }
@@ -58,7 +59,7 @@ export function tickFormat(scale: d3.ScaleLinear<number, number>, count: number)
 /** Draw a bottom axis with inline styling; `label` includes units. */
 export function axisBottom(
   g: Sel,
-  scale: d3.ScaleLinear<number, number>,
+  scale: ScaleLinear<number, number>,
   y: number,
   label: string,
   count = 6,
@@ -107,7 +108,7 @@ function svgWidthOf(g: Sel): number | null {
 /** Draw a left axis with inline styling and a rotated label (with units), labelOffset px left of the axis. */
 export function axisLeft(
   g: Sel,
-  scale: d3.ScaleLinear<number, number>,
+  scale: ScaleLinear<number, number>,
   x: number,
   label: string,
   count = 5,

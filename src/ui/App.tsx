@@ -1,15 +1,14 @@
 import { lazy, Suspense, useState, type ComponentType } from 'react';
-import { ChartsPanel } from './ChartsPanel';
 import { ComparisonTable } from './ComparisonTable';
 import { Header } from './Header';
 import { NoticeBar } from './NoticeBar';
+import { UpdateNotice } from './UpdateNotice';
 import { PilotPanel } from './PilotPanel';
 import { PlanForm } from './PlanForm';
 import { RemediesPanel } from './RemediesPanel';
-import { MethodsPanel } from './MethodsPanel';
-import { VariantsPanel } from './VariantsPanel';
 import { SimulationPanel } from './SimulationPanel';
 import { VerdictPanel } from './VerdictPanel';
+import { ChartsPanel, MethodsPanel, VariantsPanel } from './resultPanels';
 
 // The exports panel is built separately and loaded on demand (it brings the PDF code).
 const exportModules = import.meta.glob<{ ExportPanel: ComponentType }>('./ExportPanel.tsx');
@@ -25,6 +24,7 @@ export function App() {
         Skip to the results
       </a>
       <Header exportsOpen={exportsOpen} onToggleExports={() => setExportsOpen((o) => !o)} exportsAvailable={ExportPanel !== null} />
+      <UpdateNotice />
       <NoticeBar />
       {ExportPanel && exportsOpen && (
         <section id="exports-panel" className="exports" aria-label="Exports">
