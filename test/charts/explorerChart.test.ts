@@ -128,7 +128,7 @@ describe('explorerChartText', () => {
     const t = explorerChartText(explorerChartData(two));
     expect(t.table.rows.length).toBe(9);
     expect(t.table.columns).toEqual([
-      'Pretest reliability', 'Pretest gap between the groups (programme minus comparison) (points)',
+      'Pretest reliability', 'Pretest gap, programme minus comparison (points)',
       'Simulated artefact (% of effect)', 'MC SE', 'Closed form (% of effect)', 'Discarded (% of programme pool)', 'Power ± MC SE', 'Tolerable',
     ]);
     expect(t.table.rows[8]![2]).toBe('pending');
