@@ -3,6 +3,7 @@ import { flagParts } from './flagParts';
 import { parsePilotCommandLine, type PilotCommandLine } from './pilotCommandLine';
 import { parseMethodsCommandLine, type MethodsCommandLine } from './methodsCommandLine';
 import { parseCompareCommandLine, type CompareCommandLine } from './compareCommand';
+import { parseExploreCommandLine, type ExploreCommandLine } from './exploreCommand';
 
 /** What the command line asked for, after checking every flag. */
 export type CommandLine =
@@ -25,7 +26,8 @@ export type CommandLine =
     }
   | PilotCommandLine
   | MethodsCommandLine
-  | CompareCommandLine;
+  | CompareCommandLine
+  | ExploreCommandLine;
 
 export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; problems: string[] };
 
@@ -45,8 +47,9 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   if (command === 'pilot') return parsePilotCommandLine(rest);
   if (command === 'methods') return parseMethodsCommandLine(rest);
   if (command === 'compare') return parseCompareCommandLine(rest);
+  if (command === 'explore') return parseExploreCommandLine(rest);
   if (command !== 'run') {
-    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot", "methods", "compare" and "demo"; see "meanward --help".`] };
+    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot", "methods", "compare", "explore" and "demo"; see "meanward --help".`] };
   }
   const problems: string[] = [];
   const files: string[] = [];

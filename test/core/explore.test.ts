@@ -174,7 +174,7 @@ describe('parseVary and validateExploreSpec: plain messages', () => {
     const base = { analysisId: 'matchedDifference' as const, replications: 1000, seed: 1 };
     const msgs = (s: Partial<ExploreSpec>) => validateExploreSpec(p, { ...base, axes: [{ input: 'reliability', from: 0.6, to: 0.9, steps: 4 }], ...s } as ExploreSpec);
     expect(msgs({ axes: [{ input: 'cutOff', from: 40, to: 60, steps: 3 }] })).toEqual([
-      'Cut-off of the selection rule cannot be varied for this plan: Only a plan whose groups a cut-off rule forms has a cut-off.',
+      'Cut-off of the selection rule cannot be varied for this plan: only a plan whose groups a cut-off rule forms has a cut-off.',
     ]);
     expect(msgs({ axes: [{ input: 'caliper', from: 0.1, to: 0.5, steps: 3 }, { input: 'caliper', from: 0.1, to: 0.5, steps: 3 }] })[0]).toMatch(/Matching caliper is chosen twice/);
     expect(msgs({ axes: [{ input: 'reliability', from: 0.6, to: 0.9, steps: 13 }] })).toEqual(['Pretest reliability: the number of steps must be a whole number from 2 to 12; got 13.']);
