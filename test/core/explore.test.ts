@@ -18,6 +18,7 @@ import {
   tolerableRegion,
   validateExploreSpec,
   withExploreInput,
+  withExploreClosedForm,
   type ExploreInput,
   type ExploreSimulatedFigures,
   type ExploreSpec,
@@ -279,5 +280,15 @@ describe('simulated matched difference agrees with Thorndike (1942) when matchin
       expect(Math.abs(s.artefactShare! - s.closedFormShare!)).toBeLessThan(4 * s.artefactShareMCSE! + 0.03 / 2.5);
       expect(s.discardedShare).toBeLessThan(0.05);
     }
+  });
+});
+
+describe('exploreCells without closed forms, filled in one cell at a time', () => {
+  it('gives the same cells as the full grid once each is filled by withExploreClosedForm', () => {
+    const spec: ExploreSpec = { axes: [{ input: 'reliability', from: 0.3, to: 0.9, steps: 3 }], analysisId: 'ancova', replications: 100, seed: 1 };
+    const quick = exploreCells(demoPlan(), spec, { closedForms: false });
+    expect(quick.every((c) => c.closedFormShare === undefined)).toBe(true);
+    expect(quick[0]!.plan).toBeNull(); // reliability .3 < r² = .36: impossible without any closed form
+    expect(quick.map((c) => withExploreClosedForm(c, spec))).toEqual(exploreCells(demoPlan(), spec));
   });
 });
