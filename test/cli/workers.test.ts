@@ -6,6 +6,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import { EXAMPLE_PLANS } from '../../src/io/examplePlans';
 import { serializePlan } from '../../src/io/planFile';
 import { runCli } from './runCli';
+import { demoPlan } from '../../src/io/demoPlan';
 import { main } from '../../src/cli/main';
 import { simulationJson } from '../../src/cli/simulationJson';
 import { simulatePlan } from '../../src/sim/simulatePlan';
@@ -76,4 +77,21 @@ describe('meanward run --workers', () => {
     expect(three.status).toBe(0);
     expect(three.stdout).toBe(one.stdout);
   }, 90_000);
+});
+
+// meanward explore: each cell is a whole seeded run, so cells on 2 worker threads must print exactly
+// what the in-process runner prints (bit identity of the whole --json output is the check).
+describe('meanward explore --workers', () => {
+  it('--workers 2 prints exactly the JSON of --workers 1', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'meanward-explore-workers-'));
+    const file = join(dir, 'demo.json');
+    writeFileSync(file, serializePlan(demoPlan()));
+    const args = ['explore', file, '--vary', 'reliability=0.7:0.9:2', '--vary', 'caliper=0.1:0.3:2', '--replications', '200', '--seed', '5', '--json'];
+    const one = await runCli([...args, '--workers', '1']);
+    const two = await runCli([...args, '--workers', '2']);
+    expect(one.code).toBe(0);
+    expect(two.code).toBe(0);
+    expect(JSON.parse(one.stdout).cells).toHaveLength(4);
+    expect(two.stdout).toBe(one.stdout);
+  }, 120_000);
 });
