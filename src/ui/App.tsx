@@ -10,6 +10,7 @@ import { MethodsPanel } from './MethodsPanel';
 import { VariantsPanel } from './VariantsPanel';
 import { SimulationPanel } from './SimulationPanel';
 import { VerdictPanel } from './VerdictPanel';
+import { ExplorerSection } from './ExplorerSection';
 
 // The exports panel is built separately and loaded on demand (it brings the PDF code).
 const exportModules = import.meta.glob<{ ExportPanel: ComponentType }>('./ExportPanel.tsx');
@@ -44,6 +45,7 @@ export function App() {
           <ComparisonTable />
           <ChartsPanel />
           <RemediesPanel />
+          <ExplorerSection />
           <MethodsPanel />
           <VariantsPanel />
         </div>
