@@ -1,7 +1,16 @@
 import type { StateCreator } from 'zustand';
 import { headlineAnalysisId } from '../core/design/studyDesign';
 import type { ExploreAxis, ExploreCellSummary, ExploreInput, ExploreResult, ExploreSpec } from '../core/explore/exploreTypes';
-import { exploreCells, exploreInputs, exploreResult, exploreVariantName, summariseExploreCell, validateExploreSpec } from '../core/explore';
+import {
+  exploreCells,
+  exploreInputs,
+  exploreResult,
+  exploreVariantName,
+  failedCellSummary,
+  pendingCellSummary,
+  summariseExploreCell,
+  validateExploreSpec,
+} from '../core/explore';
 import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
 import type { GridJob, MeanwardDeps } from './deps';
 import { readNumber } from './planDraft';
@@ -197,7 +206,7 @@ export const createExplorerSlice =
         }
         if (handle) handle.cancel();
         const id = ++runId;
-        const cells: ExploreCellSummary[] = exploreCells(plan, spec).map((c) => ({ ...c, status: c.plan ? 'pending' : 'impossible' }));
+        const cells: ExploreCellSummary[] = exploreCells(plan, spec).map(pendingCellSummary);
         const jobs: GridJob[] = [];
         const cellOfJob: number[] = [];
         for (const c of cells) {
@@ -219,12 +228,12 @@ export const createExplorerSlice =
           onCellResult: (job, result) =>
             fill(job, (cell) => {
               try {
-                return { ...summariseExploreCell(cell, result, spec), status: 'done' };
+                return summariseExploreCell(cell, result, spec);
               } catch (e) {
-                return { ...cell, status: 'failed', failure: e instanceof Error ? e.message : String(e) };
+                return failedCellSummary(cell, e instanceof Error ? e.message : String(e));
               }
             }),
-          onCellError: (job, message) => fill(job, (cell) => ({ ...cell, status: 'failed', failure: message })),
+          onCellError: (job, message) => fill(job, (cell) => failedCellSummary(cell, message)),
           onProgress: (share) => {
             if (id === runId && get().explorer.status === 'running') patch({ progress: Math.min(1, Math.max(0, Number.isFinite(share) ? share : 0)) });
           },
