@@ -20,6 +20,9 @@
  *   clusters.doublingRatio        schools matched on their means, twice the clusters in both groups
  *                                 ÷ as given (target ≤ 2.3)
  *   clusters.peopleDoublingRatio  pupils matched across schools, twice the clusters ÷ as given (≤ 2.3)
+ * and, in a real browser (scripts/bench/browserGrid.ts, wall clock; see its header):
+ *   browserGrid.gridRatio      a 25-cell explorer grid ÷ (2 × one run × 25 ÷ workers) (target ≤ 1)
+ *   browserGrid.longestTaskMs  longest main-thread task during the grid (target ≤ 50)
  * Each ratio is the median over several interleaved rounds (after a warm-up) of that
  * round's ratio. Times are this
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
@@ -36,6 +39,7 @@ import { createPlanSimulation } from '../src/sim/multivariate/createPlanSimulati
 import { NormalSampler } from '../src/sim/normalSampler';
 import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
+import { browserGridBench } from './bench/browserGrid';
 
 const json = process.argv.includes('--json');
 const REPS = 2000;
@@ -383,6 +387,8 @@ const out = {
   met: { floorRatio: floorRatio <= 2, naiveSpeedup: naiveSpeedup >= 20, doublingRatio: doublingRatio <= 2.3 },
   covariates: covariateBench,
   clusters: clusterBench,
+  // The design explorer in a real browser (scripts/bench/browserGrid.ts): gridRatio <= 1, longestTaskMs <= 50.
+  ...(await browserGridBench()),
 };
 
 function round(x: number, d = 1): number {
@@ -413,4 +419,5 @@ if (json) {
   line('clusters.doublingRatio', k.doublingRatio, '<= 2.3', k.met.doublingRatio, `twice the schools in both groups ÷ as given (2 = linear); rounds ${k.roundRanges.doublingRatio.join('–')}`);
   line('clusters.peopleDoublingRatio', k.peopleDoublingRatio, '<= 2.3', k.met.peopleDoublingRatio, `pupils matched across schools, twice the schools ÷ as given; rounds ${k.roundRanges.peopleDoublingRatio.join('–')}`);
 }
+if (!json) console.log(`\nDesign explorer in the browser (wall clock): ${JSON.stringify(out.browserGrid)}`);
 if (sink === 42.4242) console.log(''); // use the sink
