@@ -4,7 +4,9 @@ import { PLANNING_CAUTION } from '../core/planningCaution';
 import { designAnalysisIds, headlineAnalysisId } from '../core/design/studyDesign';
 import { exploreInputs, type ExploreInputInfo } from '../core/explore';
 import type { ExploreCellSummary, ExploreInput, ExploreResult } from '../core/explore/exploreTypes';
-import { explorerChartData, explorerChartText, renderExplorerChart, type ExplorerChartData } from '../charts/explorerChart';
+import { explorerChartData, type ExplorerChartData } from '../charts/explorerChartData';
+import { explorerChartText } from '../charts/explorerChartText';
+import { renderExplorerChart } from '../charts/renderExplorerChart';
 import { explorerCellCounts, explorerStale, type ExploreAxisDraft } from '../state/explorerSlice';
 import { useMeanwardStore } from '../state/store';
 import { ChartFigure, buildChart, type DrawChart } from './ChartFigure';
@@ -35,7 +37,7 @@ function cellFigures(cell: ExploreCellSummary) {
   return {
     share: done ? fmtPct(cell.artefactShare) : '',
     shareMCSE: done ? fmtPct(cell.artefactShareMCSE) : '',
-    closedForm: cell.closedFormShare !== undefined ? fmtPct(cell.closedFormShare) : '–',
+    closedForm: fmtPct(cell.closedFormShare),
     discarded: done ? fmtPct(cell.discardedShare) : '',
     power: done ? fmtPct(cell.power, 0) : '',
     powerMCSE: done ? fmtPct(cell.powerMCSE) : '',
@@ -302,7 +304,10 @@ export function ExplorerPanel() {
       renderExplorerChart(svg, data, {
         width,
         interactive: true,
-        onCellFocus: (index: number | null) => setFocused(index),
+        // Leaving a cell keeps its figures shown until another is pointed at.
+        onCellFocus: (index: number | null) => {
+          if (index !== null) setFocused(index);
+        },
         onCellActivate: (index: number) => make.current(index),
       }),
     [],
