@@ -204,7 +204,7 @@ function AxisFields({ axis, infos }: { axis: 0 | 1; infos: ExploreInputInfo[] })
           aria-describedby={problem ? `${id}-problem` : undefined}
         />
         {problem && (
-          <p id={`${id}-problem`} className="field-problem">
+          <p id={`${id}-problem`} className="field-error">
             {problem}
           </p>
         )}
@@ -235,7 +235,7 @@ function AxisFields({ axis, infos }: { axis: 0 | 1; infos: ExploreInputInfo[] })
           ))}
         </select>
         {inputProblem && (
-          <p id={`${baseId}-input-problem`} className="field-problem">
+          <p id={`${baseId}-input-problem`} className="field-error">
             {inputProblem}
           </p>
         )}
@@ -315,12 +315,7 @@ export function ExplorerPanel() {
   const chart = useMemo(() => (result ? buildChart(() => explorerChartData(result), explorerChartText) : null), [result]);
 
   return (
-    <section className="explorer" aria-labelledby="explorer-heading" data-testid="explorer">
-      <h2 id="explorer-heading">Design explorer</h2>
-      <p className="explorer-intro">
-        Vary one or two inputs of the plan over a range. Every cell of the grid is a full simulation of the planned procedure (finite pools, your
-        matching and analysis), run in the background on this computer’s cores; the closed form is shown beside it.
-      </p>
+    <div className="explorer-panel" data-testid="explorer">
       <form
         className="explorer-form"
         onSubmit={(e) => {
@@ -364,7 +359,7 @@ export function ExplorerPanel() {
               aria-describedby={repsProblem ? `${repsId}-problem` : undefined}
             />
             {repsProblem && (
-              <p id={`${repsId}-problem`} className="field-problem">
+              <p id={`${repsId}-problem`} className="field-error">
                 {repsProblem}
               </p>
             )}
@@ -462,6 +457,6 @@ export function ExplorerPanel() {
       <p className="explorer-caution">
         <strong>Caution:</strong> {EXPLORER_CAUTION}
       </p>
-    </section>
+    </div>
   );
 }
