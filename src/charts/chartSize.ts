@@ -1,4 +1,4 @@
-import type { ChartId, ChartSize } from './chartTypes';
+import type { ChartSize, DrawableChartId } from './chartTypes';
 import type { BalanceChartData } from './balanceChartData';
 import type { EstimatesChartData } from './estimatesChartData';
 import type { PretestChartData } from './pretestChartData';
@@ -8,6 +8,8 @@ import type { ChartDataById } from './renderChartToSvgString';
 import { estimatesChartMinHeight } from './renderEstimatesChart';
 import { pretestChartMinHeight } from './renderPretestChart';
 import { sensitivityChartMinHeight } from './renderSensitivityChart';
+import type { ExplorerChartData } from './explorerChartData';
+import { explorerChartMinHeight } from './renderExplorerChart';
 
 /** Narrowest and widest a chart is drawn (CSS px): a phone's column, and a wide screen's. */
 export const CHART_WIDTH_RANGE = [320, 900] as const;
@@ -19,7 +21,7 @@ export const CHART_WIDTH_RANGE = [320, 900] as const;
  * so they grow taller). Layout only: no figure is computed here.
  * @example chartSize('estimates', data, 1200).width === 900
  */
-export function chartSize<K extends ChartId>(chartId: K, data: ChartDataById[K], width: number): ChartSize {
+export function chartSize<K extends DrawableChartId>(chartId: K, data: ChartDataById[K], width: number): ChartSize {
   const w = Math.max(CHART_WIDTH_RANGE[0], Math.min(CHART_WIDTH_RANGE[1], Math.round(width)));
   const base = Math.round(Math.max(300, Math.min(420, w * 0.55)));
   const least = (): number => {
@@ -32,6 +34,8 @@ export function chartSize<K extends ChartId>(chartId: K, data: ChartDataById[K],
         return sensitivityChartMinHeight(data as SensitivityChartData, w);
       case 'balance':
         return balanceChartMinHeight(data as BalanceChartData, w);
+      case 'explorer':
+        return explorerChartMinHeight(data as ExplorerChartData, w);
       default:
         return 0;
     }

@@ -3,6 +3,13 @@ import type { AnalysisId } from '../core/plan';
 /** The four linked charts. */
 export type ChartId = 'pretest' | 'estimates' | 'sensitivity' | 'balance';
 
+/**
+ * Every chart renderChart / renderChartToSvgString / chartSize can draw: the
+ * four linked charts and the design explorer's chart (drawn by the explorer
+ * panel and the PDF; not linked to the others, so ChartId stays the four).
+ */
+export type DrawableChartId = ChartId | 'explorer';
+
 /** Size of a drawn chart in CSS pixels (also the SVG viewBox). */
 export interface ChartSize {
   width: number;

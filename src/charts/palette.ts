@@ -56,3 +56,22 @@ export const DIMMED_OPACITY = 0.22;
 
 /** The one font family charts use (svg2pdf.js knows only the standard PDF fonts). */
 export const CHART_FONT = 'sans-serif';
+
+/**
+ * The design explorer's heat map: a diverging scale centred on no artefact
+ * (off-white), toward rust where the artefact pulls the estimate below the
+ * hoped-for effect and toward blue where it pushes it above (the matched
+ * difference's and ANCOVA's hues, darkened at the ends so the two sides differ
+ * in lightness as well), the tolerable region's outline, and the marks of
+ * cells not simulated yet or impossible.
+ */
+export const EXPLORER_COLOURS = {
+  below: '#8f2f0f',
+  zero: '#f7f5ef',
+  above: '#17467a',
+  tolerable: '#1d5a2a',
+  pending: '#b9b9b9',
+  impossible: '#7a7a7a',
+  selected: '#111111',
+  closedForm: '#333333',
+} as const;

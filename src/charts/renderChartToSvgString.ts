@@ -1,13 +1,15 @@
 import type { AnalysisId } from '../core/plan';
-import type { ChartId, ChartSize } from './chartTypes';
+import type { ChartSize, DrawableChartId } from './chartTypes';
 import type { BalanceChartData } from './balanceChartData';
 import type { EstimatesChartData } from './estimatesChartData';
 import type { PretestChartData } from './pretestChartData';
 import type { SensitivityChartData } from './sensitivityChartData';
+import type { ExplorerChartData } from './explorerChartData';
 import { renderBalanceChart } from './renderBalanceChart';
 import { renderEstimatesChart } from './renderEstimatesChart';
 import { renderPretestChart } from './renderPretestChart';
 import { renderSensitivityChart } from './renderSensitivityChart';
+import { renderExplorerChart } from './renderExplorerChart';
 
 /** Chart data by chart id. */
 export interface ChartDataById {
@@ -15,13 +17,14 @@ export interface ChartDataById {
   estimates: EstimatesChartData;
   sensitivity: SensitivityChartData;
   balance: BalanceChartData;
+  explorer: ExplorerChartData;
 }
 
 /** Any chart's data. */
-export type ChartData = ChartDataById[ChartId];
+export type ChartData = ChartDataById[DrawableChartId];
 
 /** Draw any chart into an svg element (dispatch on the chart id). */
-export function renderChart<K extends ChartId>(
+export function renderChart<K extends DrawableChartId>(
   chartId: K,
   svg: SVGSVGElement,
   data: ChartDataById[K],
@@ -37,6 +40,9 @@ export function renderChart<K extends ChartId>(
       return renderSensitivityChart(svg, data as SensitivityChartData, o);
     case 'balance':
       return renderBalanceChart(svg, data as BalanceChartData, o);
+    case 'explorer':
+      // Static here (exports, the PDF); the explorer panel calls renderExplorerChart with its hooks.
+      return renderExplorerChart(svg, data as ExplorerChartData, { width: o.width, height: o.height });
     default:
       throw new Error(`Unknown chart "${String(chartId)}".`);
   }
@@ -50,7 +56,7 @@ export function renderChart<K extends ChartId>(
  *
  * @throws Error when width or height is not a positive finite number, or no DOM is available.
  */
-export function renderChartToSvgString<K extends ChartId>(
+export function renderChartToSvgString<K extends DrawableChartId>(
   chartId: K,
   data: ChartDataById[K],
   size: ChartSize & { highlight?: AnalysisId | null },

@@ -25,6 +25,8 @@ import {
 } from './format';
 import { PdfWriter, type TableColumn } from './pdfWriter';
 import { writeComparison, type ReportComparison } from './reportComparison';
+import { writeExplorer } from './reportExplorer';
+import type { ExploreResult } from '../core/explore/exploreTypes';
 import {
   caliperPhrase,
   COVARIATE_CAUTION,
@@ -62,6 +64,8 @@ export interface ReportInput {
   fonts?: ReportFonts;
   /** Candidate plans compared (comparePlans' rows), printed after the remedies; its chart, when given, joins the charts. */
   comparison?: ReportComparison & { chart?: ReportChart };
+  /** A design-explorer grid (the store's last exploration of this plan), printed as the section "Design explorer" after the remedies and candidate plans. */
+  explorer?: ExploreResult | null;
 }
 
 /** Title printed at the top of every summary. */
@@ -477,6 +481,14 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
   });
 
   if (input.comparison && input.comparison.rows.length > 0) writeComparison(w, input.comparison);
+  if (input.explorer) {
+    // A grid explored from another version of the plan does not describe this one: left out, and said so.
+    if (samePlan(input.explorer.plan, plan)) await writeExplorer(w, doc, input.explorer);
+    else {
+      w.heading('Design explorer');
+      w.paragraph('The design-explorer grid was run on another version of this plan, so it is left out of this summary. Run the explorer again on this plan to include it.');
+    }
+  }
 
   // ---- Method and references ----------------------------------------------
   w.heading('How this was computed');

@@ -33,6 +33,10 @@ export const HOW_TO_READ: Record<ChartId, string> = {
     'Standardised mean differences before and after matching, on the observed pretest and on the true score. Balance on the observed pretest can look fine while the true scores still differ.',
 };
 
+/** How to read the design explorer's chart (src/report/reportExplorer.ts). */
+export const HOW_TO_READ_EXPLORER =
+  'Each cell (or point) is one variant of the plan, simulated with the same seed; its figure is the simulated regression artefact as a share of the hoped-for effect, with its Monte Carlo SE. Outlined cells (filled points) keep the artefact within the share you can tolerate; the closed form assumes unlimited pools and exact matching.';
+
 /** How to read the pretest chart when a rule forms the groups (see selectionPretestView). */
 export const HOW_TO_READ_SELECTION_PRETEST =
   'The grey curve is the whole population’s observed pretest; the shaded area is the part the rule selects, drawn as its share of the population; the dashed curve is the same people measured again with no programme, nearer the population mean. The dotted line is the cut-off; where the rule did not look at the pretest itself, the curve on the right-hand scale is the chance of selection at each pretest score.';

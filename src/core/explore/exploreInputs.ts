@@ -52,7 +52,7 @@ const LABELS: Record<ExploreInput, { label: string; shortLabel: string; unit: st
   ratio: { label: 'Comparison partners per programme member', shortLabel: 'ratio', unit: 'people', wholeNumber: true },
   programmePool: { label: 'Programme pool size', shortLabel: 'programme pool', unit: 'people', wholeNumber: true },
   comparisonPool: { label: 'Comparison pool size', shortLabel: 'comparison pool', unit: 'people', wholeNumber: true },
-  groupGap: { label: 'Pretest gap between the groups (programme minus comparison)', shortLabel: 'group gap', unit: 'points', wholeNumber: false },
+  groupGap: { label: 'Pretest gap, programme minus comparison', shortLabel: 'group gap', unit: 'points', wholeNumber: false },
   cutOff: { label: 'Cut-off of the selection rule', shortLabel: 'cut-off', unit: 'points', wholeNumber: false },
   clusterSize: { label: 'People per cluster', shortLabel: 'cluster size', unit: 'people', wholeNumber: true },
 };
