@@ -3,7 +3,7 @@ import { createRoot } from 'react-dom/client';
 import { demoPlan } from './io/demoPlan';
 import { defaultDeps } from './state/defaultDeps';
 import { isShareFragment } from './state/persistenceSlice';
-import { createPlannedProcedureRunner, createSimulationRunner } from './state/simulationRunner';
+import { createGridRunner, createPlannedProcedureRunner, createSimulationRunner } from './state/simulationRunner';
 import { createMeanwardStore, getAppStore, setAppStoreFactory } from './state/store';
 import { App } from './ui/App';
 import './ui/styles.css';
@@ -13,7 +13,7 @@ setAppStoreFactory(() =>
     deps:
       typeof Worker === 'undefined'
         ? defaultDeps(null)
-        : defaultDeps(createSimulationRunner(), createPlannedProcedureRunner()),
+        : defaultDeps(createSimulationRunner(), createPlannedProcedureRunner(), createGridRunner()),
     demo: demoPlan,
   }),
 );

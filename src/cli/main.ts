@@ -8,6 +8,7 @@ import { formatResultsTable, PLANNING_CAUTION } from './formatResultsTable';
 import { parseCommandLine } from './parseCommandLine';
 import { createPlanSimulation } from '../sim/multivariate/createPlanSimulation';
 import { estimateRunSeconds } from '../sim/estimateRunSeconds';
+import { defaultThreadCount, runPlanOnThreads } from '../sim/pool/nodeSimulationPool';
 import { fmtDuration, fmtInt } from '../format/numbers';
 import type { SimulationResult } from '../sim/types';
 import { analysePlannedProcedure } from '../sim/analysePlannedProcedure';
@@ -32,6 +33,8 @@ export interface CliIO {
   stderr: ProgressStream;
   /** Clock in milliseconds for the run-time estimate and --max-seconds (default performance.now; a fake in tests). */
   now?: () => number;
+  /** Worker threads when --workers is not given (default: cores − 1, at least 1; tests pin it so results do not depend on the machine). */
+  defaultWorkers?: number;
 }
 
 /** Exit codes: 0 done; 1 an internal fault; 2 bad command line, unreadable file or invalid plan. */
@@ -45,7 +48,7 @@ before any data are collected.
 
 Usage:
   meanward run <plan.json> [--json] [--reps N] [--seed S] [--no-sim] [--estimates]
-               [--max-seconds N]
+               [--max-seconds N] [--workers N]
   meanward pilot <file.csv> --group COLUMN --programme VALUE
                  (--pretest COLUMN | --items COL,COL,...) [--combine sum|mean]
                  [--retest COLUMN] [--posttest COLUMN] [--delimiter ,|tab|;]
@@ -66,6 +69,9 @@ run options:
               replications done by then, labelled partial (at least 2 run);
               --json: simulation.partial true, simulation.replications done,
               simulation.replicationsPlanned
+  --workers N simulate on N worker threads side by side (1 to 64; default:
+              the machine's cores less one, at least 1); the figures are the
+              same for every N
 
 Before simulating, "run" times its first replications and prints the
 estimated time on stderr.
@@ -192,7 +198,11 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
     let result: SimulationResult;
     let bar: ReturnType<typeof createProgressBar> = null;
     try {
-      result = runWithTimeLimit(plan, now, cmd.maxSeconds, io, (made) => (bar = made));
+      const workers = cmd.workers ?? io.defaultWorkers ?? defaultThreadCount();
+      result =
+        workers === 1
+          ? runWithTimeLimit(plan, now, cmd.maxSeconds, io, (made) => (bar = made))
+          : await runOnThreads(plan, now, cmd.maxSeconds, workers, io, (made) => (bar = made));
     } catch (err) {
       (bar as ReturnType<typeof createProgressBar>)?.done();
       return failWith(io, [`${cmd.file}: ${plainErrorMessage(err, ANALYSIS_FAILED)}`]);
@@ -260,6 +270,44 @@ function runWithTimeLimit(
     return run.finishPartial();
   }
   return run.finish();
+}
+
+/**
+ * Simulate a plan for the command line on `workers` threads (runPlanOnThreads): the same pilot,
+ * estimate line, progress bar and --max-seconds stop as runWithTimeLimit, and the same numbers
+ * bit for bit (the pool merges the threads' blocks of replications; docs/simulation.md, "The worker pool").
+ */
+async function runOnThreads(
+  plan: Plan,
+  now: () => number,
+  maxSeconds: number | undefined,
+  workers: number,
+  io: CliIO,
+  onBar: (bar: ReturnType<typeof createProgressBar>) => void,
+): Promise<SimulationResult> {
+  let bar: ReturnType<typeof createProgressBar> = null;
+  const result = await runPlanOnThreads(plan, {
+    workers,
+    now,
+    ...(maxSeconds !== undefined ? { maxSeconds } : {}),
+    onEstimate: (estimate) => {
+      const limitNote =
+        maxSeconds !== undefined && estimate.seconds > maxSeconds
+          ? ` The --max-seconds ${maxSeconds} limit will stop it early; the summary will cover the replications done by then, labelled partial.`
+          : '';
+      io.stderr.write(`meanward: estimated simulation time ${fmtDuration(estimate.seconds)} (${estimate.method}).${limitNote}\n`);
+      bar = createProgressBar(io.stderr, 'Simulating');
+      onBar(bar);
+    },
+    onProgress: (done, total) => bar?.update(done, total),
+  });
+  (bar as ReturnType<typeof createProgressBar>)?.done();
+  if (result.partial) {
+    io.stderr.write(
+      `meanward: stopped at the ${maxSeconds} s limit after ${fmtInt(result.replications)} of ${fmtInt(result.replicationsPlanned ?? result.replications)} replications; the simulated figures below are partial.\n`,
+    );
+  }
+  return result;
 }
 
 /** A plan the analysis could not finish, in plain words (when its own message is program text). */

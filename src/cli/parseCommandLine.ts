@@ -1,5 +1,6 @@
 import { PLAN_LIMITS } from '../core/planSchema';
 import { flagParts } from './flagParts';
+import { MAX_POOL_WORKERS } from '../sim/pool/defaultPoolSize';
 import { parsePilotCommandLine, type PilotCommandLine } from './pilotCommandLine';
 import { parseMethodsCommandLine, type MethodsCommandLine } from './methodsCommandLine';
 import { parseCompareCommandLine, type CompareCommandLine } from './compareCommand';
@@ -22,6 +23,8 @@ export type CommandLine =
       estimates?: boolean;
       /** --max-seconds N: stop the simulation after about N seconds and summarise what has run (labelled partial). */
       maxSeconds?: number;
+      /** --workers N: simulate on N worker threads (1..64; default cores − 1, at least 1). */
+      workers?: number;
     }
   | PilotCommandLine
   | MethodsCommandLine
@@ -31,7 +34,7 @@ export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; 
 
 /**
  * Read the arguments after "meanward": `run <plan.json> [--json] [--reps N]
- * [--seed S] [--no-sim] [--estimates] [--max-seconds N]`, `demo`, or `--help`. Reports every problem at once.
+ * [--seed S] [--no-sim] [--estimates] [--max-seconds N] [--workers N]`, `demo`, or `--help`. Reports every problem at once.
  */
 export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   const args = [...argv];
@@ -56,6 +59,7 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   let replications: number | undefined;
   let seed: number | undefined;
   let maxSeconds: number | undefined;
+  let workers: number | undefined;
   for (let i = 0; i < rest.length; i++) {
     const a = rest[i]!;
     const { flag, inline } = flagParts(a);
@@ -100,8 +104,16 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
         } else maxSeconds = n;
         break;
       }
+      case '--workers': {
+        const v = takeValue();
+        const n = wholeNumber(v, 1, MAX_POOL_WORKERS);
+        if (n === undefined) {
+          problems.push(`--workers (worker threads for the simulation) must be a whole number from 1 to ${MAX_POOL_WORKERS}; got ${v === undefined ? 'nothing' : quote(v)}.`);
+        } else workers = n;
+        break;
+      }
       default:
-        if (a.startsWith('-') && a !== '-') problems.push(`Unknown option ${quote(a)}. "meanward run" takes --json, --reps N, --seed S, --no-sim, --estimates and --max-seconds N.`);
+        if (a.startsWith('-') && a !== '-') problems.push(`Unknown option ${quote(a)}. "meanward run" takes --json, --reps N, --seed S, --no-sim, --estimates, --max-seconds N and --workers N.`);
         else files.push(a);
     }
   }
@@ -110,7 +122,7 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   if (problems.length > 0) return { ok: false, problems };
   return {
     ok: true,
-    value: { command: 'run', file: files[0]!, json, simulate, replications, seed, estimates, ...(maxSeconds !== undefined ? { maxSeconds } : {}) },
+    value: { command: 'run', file: files[0]!, json, simulate, replications, seed, estimates, ...(maxSeconds !== undefined ? { maxSeconds } : {}), ...(workers !== undefined ? { workers } : {}) },
   };
 }
 

@@ -1,6 +1,7 @@
 import { TWO_GROUP_ANALYSIS_IDS, type AnalysisId } from '../core/plan';
 import { FLAG_COMPUTED, FLAG_COVERED, FLAG_REJECTED, FLAG_WRONG_SIGN } from './summariseAnalysis';
 import { TCriticalValues } from './tQuantile';
+import type { ReplicationStore } from './replicationBlock';
 
 /** Slot of the matched difference in AnalysisRecords. */
 export const SLOT_MATCHED = 0;
@@ -86,6 +87,15 @@ export class AnalysisRecords {
       this.se.push(new Float64Array(total));
       this.flags.push(new Uint8Array(total));
     }
+  }
+
+  /** Every slot's estimates, SEs and flags as per-replication stores (stride 1), for exportBlock / importBlock. */
+  stores(): ReplicationStore[] {
+    const out: ReplicationStore[] = [];
+    for (let a = 0; a < SLOT_COUNT; a++) {
+      out.push({ array: this.est[a] as Float64Array, stride: 1 }, { array: this.se[a] as Float64Array, stride: 1 }, { array: this.flags[a] as Uint8Array, stride: 1 });
+    }
+    return out;
   }
 
   /**

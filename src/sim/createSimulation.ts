@@ -14,6 +14,7 @@ import { drawReplicationVariates } from './drawReplicationVariates';
 import { NormalSampleIndex } from './normalSampleIndex';
 import { resolveSimulationOptions } from './resolveSimulationOptions';
 import { steppedSimulationRun } from './steppedSimulationRun';
+import { runnerStores } from './replicationBlock';
 import {
   MATCHED_SETS_OK as AFTER_OK,
   M_COUNT,
@@ -86,10 +87,15 @@ export function createSimulation(plan: Plan, options: SimulationOptions = {}): S
   const { nP, rec, recOk } = runner;
   const matching = (count: number): SimMatchingSummary =>
     summarisePretestMatchingRecords(rec, recOk, count, nP, false);
-  return steppedSimulationRun(total, seed, runner, (count) =>
-    assembleSimulationResult(plan, seed, count, runner.records, matching(count), runner.example),
+  return steppedSimulationRun(
+    total,
+    seed,
+    runner,
+    (count) => assembleSimulationResult(plan, seed, count, runner.records, matching(count), runner.example),
+    runnerStores(runner, [...runner.records.stores(), ...rec.map((array) => ({ array, stride: 1 })), { array: recOk, stride: 1 }]),
   );
 }
+
 
 /**
  * One simulation's settings and reusable buffers, and the per-replication

@@ -1,3 +1,4 @@
+import { exportReplicationBlock, importReplicationBlock, type ReplicationBlock, type ReplicationStores } from './replicationBlock';
 import type { SimulationResult, SimulationRun } from './types';
 
 /**
@@ -10,6 +11,10 @@ import type { SimulationResult, SimulationRun } from './types';
  * @param seed the run's seed (reported back only).
  * @param runner runs replication i (0 ≤ i < total), storing its results at index i.
  * @param summarise builds the result over the first `count` replications (count = total once all have run).
+ * @param stores the engine's per-replication stores and example replication, so ranges
+ *   of replications run elsewhere (another worker) can be exported and imported
+ *   (exportBlock / importBlock; see replicationBlock.ts and docs/simulation.md,
+ *   "The worker pool"). Without it blocks carry no records (tests of the stepping alone).
  * @returns a SimulationRun over runner and summarise.
  * @throws never itself; runChunk throws an Error for a range outside 0..total, and
  *   finish one naming how many replications have run when some have not.
@@ -23,14 +28,13 @@ export function steppedSimulationRun(
   seed: number,
   runner: { run(i: number): void },
   summarise: (count: number) => SimulationResult,
+  stores: ReplicationStores | null = null,
 ): SimulationRun {
   const done = new Uint8Array(total);
   let completed = 0;
 
   const runChunk = (from: number, to: number): void => {
-    if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to > total || from > to) {
-      throw new Error(`Replication range ${from}..${to} is outside 0..${total}.`);
-    }
+    checkRange(from, to);
     for (let i = from; i < to; i++) {
       runner.run(i);
       if (!done[i]) {
@@ -57,6 +61,30 @@ export function steppedSimulationRun(
     return { ...summarise(prefix), partial: true, replicationsPlanned: total };
   };
 
+  const checkRange = (from: number, to: number): void => {
+    if (!Number.isInteger(from) || !Number.isInteger(to) || from < 0 || to > total || from > to) {
+      throw new Error(`Replication range ${from}..${to} is outside 0..${total}.`);
+    }
+  };
+
+  const exportBlock = (from: number, to: number): ReplicationBlock => {
+    checkRange(from, to);
+    for (let i = from; i < to; i++) {
+      if (!done[i]) throw new Error(`Replication ${i} has not run, so replications ${from}..${to} cannot be handed on yet.`);
+    }
+    return exportReplicationBlock(stores, total, seed, from, to);
+  };
+
+  const importBlock = (block: ReplicationBlock): void => {
+    importReplicationBlock(stores, total, seed, block);
+    for (let i = block.from; i < block.to; i++) {
+      if (!done[i]) {
+        done[i] = 1;
+        completed++;
+      }
+    }
+  };
+
   return {
     total,
     seed,
@@ -66,5 +94,7 @@ export function steppedSimulationRun(
     runChunk,
     finish,
     finishPartial,
+    exportBlock,
+    importBlock,
   };
 }

@@ -1,3 +1,4 @@
+import type { ReplicationBlock } from './replicationBlock';
 import type { AnalysisId, AnalysisRecord, Plan } from '../core/plan';
 
 /** One Monte Carlo estimate's summary across replications; each figure has its Monte Carlo SE. */
@@ -187,4 +188,16 @@ export interface SimulationRun {
    * @throws Error when fewer than 2 have finished.
    */
   finishPartial(): SimulationResult;
+  /**
+   * The per-replication state of replications [from, to) (all run) as plain typed arrays, for
+   * another run of the same plan, seed and total to import (a worker pool's split and merge).
+   * @throws Error when the range is outside 0..total or some of it has not run.
+   */
+  exportBlock(from: number, to: number): ReplicationBlock;
+  /**
+   * Take in a block exported by a run of the same plan, seed and total: its replications count
+   * as run, and finish() then gives bit for bit the result of running them here.
+   * @throws Error when the block belongs to another run (total, seed, records).
+   */
+  importBlock(block: ReplicationBlock): void;
 }

@@ -3,7 +3,7 @@ import { validatePlan } from '../core/validatePlan';
 import { EXAMPLE_PLANS } from '../io/examplePlans';
 import { parsePlanText, serializePlan } from '../io/planFile';
 import { decodePlanFromLink, encodePlanForLink } from '../io/shareLink';
-import type { MeanwardDeps, PlannedProcedureRunner, SimulationRunner } from './deps';
+import type { GridRunner, MeanwardDeps, PlannedProcedureRunner, SimulationRunner } from './deps';
 
 /** The browser's localStorage (or this tab's sessionStorage), or null when it is blocked (some private modes). */
 function browserStorage(which: 'localStorage' | 'sessionStorage' = 'localStorage'): MeanwardDeps['storage'] {
@@ -17,15 +17,17 @@ function browserStorage(which: 'localStorage' | 'sessionStorage' = 'localStorage
   }
 }
 
-/** The real dependencies: core, io, and (when given) the simulation worker client. */
+/** The real dependencies: core, io, and (when given) the worker pool's single-run and grid runners. */
 export function defaultDeps(
   simulation: SimulationRunner | null,
   plannedProcedure: PlannedProcedureRunner | null = null,
+  grid: GridRunner | null = null,
 ): MeanwardDeps {
   return {
     validatePlan,
     analysePlan,
     simulation,
+    grid,
     plannedProcedure,
     storage: browserStorage(),
     session: browserStorage('sessionStorage'),

@@ -161,7 +161,7 @@ describe('failures: exit code 2, every problem on stderr, nothing on stdout', ()
     expect(r.stderr.trimEnd().split('\n')).toEqual([
       'meanward: --reps (number of simulated replications) must be a whole number from 2 to 100000; got "0".',
       'meanward: --seed (simulation seed) must be a whole number from 0 to 4294967295; got "-3".',
-      'meanward: Unknown option "--fast". "meanward run" takes --json, --reps N, --seed S, --no-sim, --estimates and --max-seconds N.',
+      'meanward: Unknown option "--fast". "meanward run" takes --json, --reps N, --seed S, --no-sim, --estimates, --max-seconds N and --workers N.',
     ]);
   });
   it('an unknown command, no command, run without a file', async () => {

@@ -14,7 +14,7 @@ async function run(argv: string[], stepMs?: number) {
   let stderr = '';
   let t = 0;
   const now = stepMs === undefined ? undefined : () => (t += stepMs);
-  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) }, now });
+  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) }, now, defaultWorkers: 1 });
   return { code, stdout, stderr };
 }
 

@@ -9,6 +9,7 @@ import { main } from '../../src/cli/main';
 export async function runCli(argv: string[]): Promise<{ code: number; stdout: string; stderr: string }> {
   let stdout = '';
   let stderr = '';
-  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) } });
+  // One worker unless a test asks for --workers, so results never depend on the machine's cores.
+  const code = await main(argv, { stdout: { write: (s: string) => (stdout += s) }, stderr: { write: (s: string) => (stderr += s) }, defaultWorkers: 1 });
   return { code, stdout, stderr };
 }

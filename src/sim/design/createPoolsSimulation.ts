@@ -20,6 +20,7 @@ import { prePostChangeEstimate } from '../prePostChangeEstimate';
 import { regressionDiscontinuityEstimate } from '../regressionDiscontinuityEstimate';
 import { resolveSimulationOptions } from '../resolveSimulationOptions';
 import { steppedSimulationRun } from '../steppedSimulationRun';
+import { runnerStores } from '../replicationBlock';
 import {
   MATCHED_SETS_OK as AFTER_OK,
   M_COUNT,
@@ -105,11 +106,23 @@ export function createPoolsSimulation(plan: Plan, options: SimulationOptions, dr
   const { rec, recOk } = runner;
   const matching = (count: number): SimMatchingSummary =>
     summarisePretestMatchingRecords(rec, recOk, count, Math.max(1, plan.groups.programme.poolSize), true);
-  return steppedSimulationRun(total, seed, runner, (count) => {
-    const result = assembleSimulationResult(plan, seed, count, runner.records, matching(count), runner.example);
-    if (runner.cluster) result.naivePersonLevel = naivePersonLevel(runner, count);
-    return explainNoOverlap(result, runner.noOverlap, count);
-  });
+  const stores = runnerStores(runner, [
+    ...runner.records.stores(),
+    ...rec.map((array) => ({ array, stride: 1 })),
+    { array: recOk, stride: 1 },
+    { array: runner.noOverlap, stride: 1 },
+  ]);
+  return steppedSimulationRun(
+    total,
+    seed,
+    runner,
+    (count) => {
+      const result = assembleSimulationResult(plan, seed, count, runner.records, matching(count), runner.example);
+      if (runner.cluster) result.naivePersonLevel = naivePersonLevel(runner, count);
+      return explainNoOverlap(result, runner.noOverlap, count);
+    },
+    stores,
+  );
 }
 
 /**

@@ -9,6 +9,7 @@ import { meanAndMCSE, type ReplicationSelection } from '../meanAndMCSE';
 import { NormalSampler } from '../normalSampler';
 import { resolveSimulationOptions } from '../resolveSimulationOptions';
 import { steppedSimulationRun } from '../steppedSimulationRun';
+import { runnerStores } from '../replicationBlock';
 import { MATCHED_SETS_OK as AFTER_OK, summariseMatching, VARIANCE_RATIO_OK as VAR_RATIO_OK } from '../summariseMatching';
 import type { CovariateBalance, SimMatchingSummary, SimulationOptions, SimulationResult, SimulationRun } from '../types';
 import { Xoshiro128StarStar } from '../xoshiro128StarStar';
@@ -86,8 +87,18 @@ export function createMultivariateSimulation(plan: Plan, options: SimulationOpti
   }
   const model = deriveCovariateModel(plan);
   const runner = new MultivariateRunner(plan, model, distance, total, seed);
-  return steppedSimulationRun(total, seed, runner, (count) =>
-    assembleSimulationResult(plan, seed, count, runner.records, runner.matchingSummary(count), runner.example, runner.balanceSummary(count)),
+  const stores = runnerStores(runner, [
+    ...runner.records.stores(),
+    { array: runner.matchedCount, stride: 1 },
+    ...runner.bal.map((array) => ({ array, stride: 1 })),
+    { array: runner.balOk, stride: runner.variables },
+  ]);
+  return steppedSimulationRun(
+    total,
+    seed,
+    runner,
+    (count) => assembleSimulationResult(plan, seed, count, runner.records, runner.matchingSummary(count), runner.example, runner.balanceSummary(count)),
+    stores,
   );
 }
 
