@@ -7,6 +7,7 @@ import type { ExploreCellSummary, ExploreInput, ExploreResult } from '../core/ex
 import { explorerChartData, type ExplorerChartData } from '../charts/explorerChartData';
 import { explorerChartText } from '../charts/explorerChartText';
 import { renderExplorerChart } from '../charts/renderExplorerChart';
+import { chartSize } from '../charts/chartSize';
 import { explorerCellCounts, explorerStale, type ExploreAxisDraft } from '../state/explorerSlice';
 import { useMeanwardStore } from '../state/store';
 import { ChartFigure, buildChart, type DrawChart } from './ChartFigure';
@@ -302,7 +303,7 @@ export function ExplorerPanel() {
   const draw: DrawChart<ExplorerChartData> = useCallback(
     (svg, data, width) =>
       renderExplorerChart(svg, data, {
-        width,
+        ...chartSize('explorer', data, width),
         interactive: true,
         // Leaving a cell keeps its figures shown until another is pointed at.
         onCellFocus: (index: number | null) => {
