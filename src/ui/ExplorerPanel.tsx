@@ -390,11 +390,12 @@ export function ExplorerPanel() {
         )}
         <div className="sim-controls">
           {running ? (
-            <button type="button" className="primary" onClick={cancelExplore} data-testid="explorer-cancel">
+            // Keys: two separate buttons, so a click on Cancel can never land on the Run button React would reuse (and submit the form again).
+            <button key="cancel" type="button" className="primary" onClick={cancelExplore} data-testid="explorer-cancel">
               Cancel the grid
             </button>
           ) : (
-            <button type="submit" className="primary" aria-disabled={planProblems > 0 || undefined} data-testid="explorer-run">
+            <button key="run" type="submit" className="primary" aria-disabled={planProblems > 0 || undefined} data-testid="explorer-run">
               {result ? 'Run the grid again' : 'Run the grid'}
             </button>
           )}
