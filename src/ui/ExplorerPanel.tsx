@@ -6,7 +6,7 @@ import { exploreInputs, type ExploreInputInfo } from '../core/explore';
 import type { ExploreCellSummary, ExploreInput, ExploreResult } from '../core/explore/exploreTypes';
 import { explorerChartData, type ExplorerChartData } from '../charts/explorerChartData';
 import { explorerChartText } from '../charts/explorerChartText';
-import { renderExplorerChart } from '../charts/renderExplorerChart';
+import { explorerChartMinHeight, renderExplorerChart } from '../charts/renderExplorerChart';
 import { chartSize } from '../charts/chartSize';
 import { explorerCellCounts, explorerStale, type ExploreAxisDraft } from '../state/explorerSlice';
 import { useMeanwardStore } from '../state/store';
@@ -15,6 +15,12 @@ import { fmt, fmtInt, fmtPct } from './format';
 
 /** The caution shown wherever the explorer's figures are (the planning caution in the explorer's own words). */
 export const EXPLORER_CAUTION = `Each cell is a simulation of the planned procedure, with Monte Carlo error (± one MC SE shown). ${PLANNING_CAUTION}`;
+
+/** The chart's size at a width: the shared chart size, but a heat map only as tall as its rows need (no empty band below it). */
+function explorerSize(data: ExplorerChartData, width: number): { width: number; height: number } {
+  const size = chartSize('explorer', data, width);
+  return data.mode === 'heatmap' ? { width: size.width, height: explorerChartMinHeight(data, size.width) } : size;
+}
 
 /** One axis's value in a cell, in the input's own words (whole numbers without decimals). */
 function axisValue(info: ExploreInputInfo | undefined, value: number): string {
@@ -303,7 +309,7 @@ export function ExplorerPanel() {
   const draw: DrawChart<ExplorerChartData> = useCallback(
     (svg, data, width) =>
       renderExplorerChart(svg, data, {
-        ...chartSize('explorer', data, width),
+        ...explorerSize(data, width),
         interactive: true,
         // Leaving a cell keeps its figures shown until another is pointed at.
         onCellFocus: (index: number | null) => {

@@ -111,10 +111,10 @@ test('a small grid fills in; heat map, table and details agree with the core; ce
   mkdirSync(SHOTS, { recursive: true });
   await page.getByLabel('Show as table').uncheck();
   await page.getByTestId('explorer').scrollIntoViewIfNeeded();
-  await page.getByTestId('explorer').screenshot({ path: `${SHOTS}/explorer-grid-1280.png` });
+  await page.locator('section.explorer').screenshot({ path: `${SHOTS}/explorer-grid-1280.png` });
   await page.setViewportSize({ width: 390, height: 844 });
   await page.waitForTimeout(400);
-  await page.getByTestId('explorer').screenshot({ path: `${SHOTS}/explorer-grid-390.png` });
+  await page.locator('section.explorer').screenshot({ path: `${SHOTS}/explorer-grid-390.png` });
 });
 
 test('one input draws curves; a bigger grid can be cancelled and its unfinished cells say so', async ({ page }) => {
@@ -127,10 +127,10 @@ test('one input draws curves; a bigger grid can be cancelled and its unfinished 
   await expect(page.getByTestId('explorer-status')).toHaveAttribute('data-status', 'done', { timeout: 60_000 });
   await expect(page.locator('figure[data-chart="explorer"] svg [data-cell-index][tabindex]')).toHaveCount(6);
   mkdirSync(SHOTS, { recursive: true });
-  await page.getByTestId('explorer').screenshot({ path: `${SHOTS}/explorer-curve-1280.png` });
+  await page.locator('section.explorer').screenshot({ path: `${SHOTS}/explorer-curve-1280.png` });
   await page.setViewportSize({ width: 390, height: 844 });
   await page.waitForTimeout(400);
-  await page.getByTestId('explorer').screenshot({ path: `${SHOTS}/explorer-curve-390.png` });
+  await page.locator('section.explorer').screenshot({ path: `${SHOTS}/explorer-curve-390.png` });
   await page.setViewportSize({ width: 1280, height: 800 });
 
   // A bigger grid: 8 × 4 cells of 20,000 replications; cancel it once it is under way.
