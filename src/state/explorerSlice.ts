@@ -2,7 +2,6 @@ import type { StateCreator } from 'zustand';
 import { headlineAnalysisId } from '../core/design/studyDesign';
 import type { ExploreAxis, ExploreCellSummary, ExploreInput, ExploreResult, ExploreSpec } from '../core/explore/exploreTypes';
 import {
-  exploreCells,
   exploreInputs,
   exploreResult,
   exploreVariantName,
@@ -13,6 +12,7 @@ import {
 } from '../core/explore';
 import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
 import type { GridJob, MeanwardDeps } from './deps';
+import { exploreCellsInSteps } from './exploreCellsInSteps';
 import { readNumber } from './planDraft';
 import { samePlan } from './samePlan';
 import type { MeanwardState } from './store';
@@ -206,7 +206,11 @@ export const createExplorerSlice =
         }
         if (handle) handle.cancel();
         const id = ++runId;
-        const cells: ExploreCellSummary[] = exploreCells(plan, spec).map(pendingCellSummary);
+        // The closed forms take a few ms per cell: build the cells in short slices, so the page stays responsive.
+        patch({ status: 'running', progress: 0, problems: [], error: null, message: null, result: null });
+        const built = await exploreCellsInSteps(plan, spec, () => id !== runId);
+        if (built === null || id !== runId) return;
+        const cells: ExploreCellSummary[] = built.map(pendingCellSummary);
         const jobs: GridJob[] = [];
         const cellOfJob: number[] = [];
         for (const c of cells) {
@@ -214,7 +218,7 @@ export const createExplorerSlice =
           jobs.push({ plan: c.plan, replications: spec.replications, seed: spec.seed });
           cellOfJob.push(c.index);
         }
-        patch({ status: 'running', progress: 0, problems: [], error: null, message: null, result: exploreResult(plan, spec, cells) });
+        patch({ result: exploreResult(plan, spec, cells) });
         const fill = (job: number, make: (cell: ExploreCellSummary) => ExploreCellSummary) => {
           if (id !== runId) return;
           const r = get().explorer.result;

@@ -425,6 +425,7 @@ export function ExplorerPanel() {
       )}
       <p className="sim-status" role="status" data-testid="explorer-status" data-status={explorer.status} data-stale={stale ? 'true' : 'false'}>
         {explorer.status === 'idle' && !result && 'Not run yet.'}
+        {running && !result && 'Preparing the grid’s plans and closed forms…'}
         {result && explorer.status !== 'error' && (
           <span data-testid="explorer-progress">
             {fmtInt(counts.finished)} of {fmtInt(counts.toRun)} cells{running ? ' done; you can keep working.' : '.'}

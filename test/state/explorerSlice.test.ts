@@ -1,5 +1,8 @@
 import { describe, expect, it } from 'vitest';
-import { exploreVariantName } from '../../src/core/explore';
+import { exploreCells, exploreVariantName } from '../../src/core/explore';
+import type { ExploreSpec } from '../../src/core/explore/exploreTypes';
+import { demoPlan } from '../../src/io/demoPlan';
+import { exploreCellsInSteps } from '../../src/state/exploreCellsInSteps';
 import type { GridJob, GridRunner } from '../../src/state/deps';
 import { explorerCellCounts, explorerStale } from '../../src/state/explorerSlice';
 import { simulatePlan } from '../../src/sim/simulatePlan';
@@ -45,6 +48,13 @@ function fakeGrid() {
 
 const flush = () => new Promise((r) => setTimeout(r, 0));
 
+/** Wait (real timers) until the store has handed its grid to the runner: the cells are built in short slices first. */
+async function gridSent(g: ReturnType<typeof fakeGrid>, n = 1) {
+  for (let i = 0; i < 500 && g.grids.length < n; i++) await flush();
+  expect(g.grids).toHaveLength(n);
+  return g.grids[n - 1]!;
+}
+
 /** The demo plan (invented) with a 2 × 2 grid: reliability .6 and .9 × caliper .1 and .4, ANCOVA judged. */
 function setTwoByTwo(store: ReturnType<typeof makeStore>, analysis = 'ancova', reps = '400') {
   const s = store.getState();
@@ -67,7 +77,7 @@ describe('design explorer in the store', () => {
     setTwoByTwo(store);
     const started = store.getState().startExplore();
     expect(store.getState().explorer.status).toBe('running');
-    const grid = g.grids[0]!;
+    const grid = await gridSent(g);
     // Evenly spaced values, axis 0 varying slowest (row-major; common practice for grids).
     expect(grid.jobs.map((j) => [j.plan.pretest.reliability, j.plan.matching.caliper])).toEqual([
       [0.6, 0.1],
@@ -105,7 +115,7 @@ describe('design explorer in the store', () => {
     const store = makeStore({ grid: g.runner });
     setTwoByTwo(store, 'ancova', '200');
     const started = store.getState().startExplore();
-    const grid = g.grids[0]!;
+    const grid = await gridSent(g);
     g.answer(grid, 1);
     store.getState().cancelExplore();
     await started;
@@ -122,7 +132,7 @@ describe('design explorer in the store', () => {
     const store = makeStore({ grid: g.runner });
     setTwoByTwo(store, 'ancova', '200');
     const started = store.getState().startExplore();
-    const grid = g.grids[0]!;
+    const grid = await gridSent(g);
     grid.handlers.onCellError(2, 'The worker stopped unexpectedly.');
     for (const j of [0, 1, 3]) g.answer(grid, j);
     grid.finish();
@@ -148,7 +158,7 @@ describe('design explorer in the store', () => {
     s.setExplorerField('replications', '200');
     const started = store.getState().startExplore();
     expect(store.getState().explorer.problems).toEqual([]);
-    const grid = g.grids[0]!;
+    const grid = await gridSent(g);
     const cells = store.getState().explorer.result!.cells;
     // Ratio 5 with 2 comparison people: no programme member can get five partners (validatePlan's rule).
     expect(cells.map((c) => c.status)).toEqual(['pending', 'pending', 'impossible', 'pending']);
@@ -195,7 +205,7 @@ describe('design explorer in the store', () => {
     const store = makeStore({ grid: g.runner });
     setTwoByTwo(store, '', '200');
     const started = store.getState().startExplore();
-    const grid = g.grids[0]!;
+    const grid = await gridSent(g);
     for (const j of [0, 1, 2, 3]) g.answer(grid, j);
     grid.finish();
     await started;
@@ -217,6 +227,34 @@ describe('design explorer in the store', () => {
     s.setField('matching.caliper', '0.3');
     s.commitDraft();
     expect(explorerStale(store.getState())).toBe(true);
+  });
+
+  it('builds the cells in slices exactly as the core builds the whole grid, and stops when cancelled meanwhile', async () => {
+    const plan = demoPlan();
+    const two: ExploreSpec = {
+      axes: [
+        { input: 'reliability', from: 0.6, to: 0.95, steps: 5 },
+        { input: 'comparisonPool', from: 2, to: 1200, steps: 4 },
+      ],
+      analysisId: 'matchedDifference',
+      replications: 200,
+      seed: 7,
+    };
+    let pauses = 0;
+    const everyCell = async () => {
+      pauses++;
+    };
+    // Pausing after every cell (slices of 0 ms) changes nothing in the cells.
+    expect(await exploreCellsInSteps(plan, two, () => false, everyCell, 0)).toEqual(exploreCells(plan, two));
+    expect(pauses).toBeGreaterThan(0);
+    const one: ExploreSpec = { ...two, axes: [{ input: 'groupGap', from: -12, to: 4, steps: 6 }], analysisId: 'ancova' };
+    expect(await exploreCellsInSteps(plan, one, () => false)).toEqual(exploreCells(plan, one));
+    // Cancelled while building: nothing comes back.
+    let stop = false;
+    const slow = () => new Promise<void>((r) => setTimeout(r, 0));
+    const building = exploreCellsInSteps(plan, two, () => stop, slow, 0);
+    stop = true;
+    expect(await building).toBeNull();
   });
 
   it('says plainly when no grid runner is available', async () => {

@@ -1,5 +1,5 @@
 // @vitest-environment jsdom
-import { act, cleanup, fireEvent, render, screen, within } from '@testing-library/react';
+import { act, cleanup, fireEvent, render, screen, waitFor, within } from '@testing-library/react';
 import { afterEach, describe, expect, it } from 'vitest';
 import { exploreInputs } from '../../src/core/explore';
 import { demoPlan } from '../../src/io/demoPlan';
@@ -74,7 +74,7 @@ describe('the design explorer panel', () => {
     await act(async () => {
       fireEvent.click(screen.getByTestId('explorer-run'));
     });
-    expect(screen.getByTestId('explorer-status').getAttribute('data-status')).toBe('done');
+    await waitFor(() => expect(screen.getByTestId('explorer-status').getAttribute('data-status')).toBe('done'));
     expect(screen.getByTestId('explorer-progress').textContent).toBe('3 of 3 cells.');
     fireEvent.click(screen.getByLabelText('Show as table'));
     const rows = within(screen.getByTestId('explorer-table')).getAllByRole('row').slice(1);
