@@ -3,7 +3,7 @@ import type { ExploreCell, ExploreSpec } from '../core/explore/exploreTypes';
 import type { Plan } from '../core/plan';
 
 /** Longest stretch (ms) of cell building before the main thread is given back (well under a 50 ms long task). */
-export const CELL_BUILD_SLICE_MS = 12;
+export const CELL_BUILD_SLICE_MS = 8;
 
 /**
  * The core's exploreCells(plan, spec), built one cell at a time and giving the

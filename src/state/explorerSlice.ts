@@ -88,8 +88,13 @@ export function emptyExplorerDraft(): ExplorerDraft {
 /** True when the explorer's result was computed for another plan than the one now in the form (or the form has problems). */
 export function explorerStale(s: Pick<MeanwardState, 'explorer' | 'validPlan' | 'problems'>): boolean {
   const r = s.explorer.result;
-  return r !== null && (s.problems.length > 0 || !samePlan(r.plan, s.validPlan));
+  if (r === null) return false;
+  if (s.problems.length > 0) return true;
+  // Memoised on the two plans: the selector runs on every store change (e.g. each progress step) and samePlan compares whole plans.
+  if (r.plan !== lastStale.result || s.validPlan !== lastStale.plan) lastStale = { result: r.plan, plan: s.validPlan, stale: !samePlan(r.plan, s.validPlan) };
+  return lastStale.stale;
 }
+let lastStale: { result: unknown; plan: unknown; stale: boolean } = { result: null, plan: null, stale: false };
 
 /** Cells finished (done or failed) and cells to run (everything but impossible cells). */
 export function explorerCellCounts(result: ExploreResult | null): { finished: number; toRun: number; impossible: number } {
@@ -239,7 +244,10 @@ export const createExplorerSlice =
             }),
           onCellError: (job, message) => fill(job, (cell) => failedCellSummary(cell, message)),
           onProgress: (share) => {
-            if (id === runId && get().explorer.status === 'running') patch({ progress: Math.min(1, Math.max(0, Number.isFinite(share) ? share : 0)) });
+            if (id !== runId || get().explorer.status !== 'running') return;
+            const next = Math.min(1, Math.max(0, Number.isFinite(share) ? share : 0));
+            // At most one repaint per whole percent: the pool reports far more often than anyone can read.
+            if (Math.floor(next * 100) !== Math.floor(get().explorer.progress * 100)) patch({ progress: next });
           },
         });
         handle = h;
