@@ -43,7 +43,7 @@ export interface ExplorerChartData {
   analysisLabel: string;
   /** The plan's tolerable share of the effect (the band and the outline). */
   tolerableShare: number;
-  /** The hoped-for effect in posttest points (its sign says which way the artefact "hides" it). */
+  /** The hoped-for effect in posttest points (analysePlan's tau; 0 if the base plan's figures cannot be computed). */
   tau: number;
   axes: ExplorerChartAxis[];
   cells: ExplorerChartCell[];
@@ -110,7 +110,8 @@ export function explorerChartData(result: ExploreResult): ExplorerChartData {
   const hi = Math.max(...ys);
   const pad = (hi - lo) * 0.08 || 0.05;
   const count = (s: ExploreCellSummary['status']) => cells.filter((c) => c.status === s).length;
-  const analysisLabel = analysisName(result, spec.analysisId);
+  const analytic = baseAnalysis(result);
+  const analysisLabel = analytic?.analyses[spec.analysisId]?.name ?? ANALYSIS_STYLES[spec.analysisId].shortLabel;
   const varied = axes.map((a) => a.shortLabel).join(' and ');
   return {
     title: `Design explorer: simulated artefact of the ${inSentence(analysisLabel)} as ${varied} ${axes.length === 1 ? 'varies' : 'vary'}`,
@@ -118,7 +119,7 @@ export function explorerChartData(result: ExploreResult): ExplorerChartData {
     analysisId: spec.analysisId,
     analysisLabel,
     tolerableShare: tol,
-    tau: analysePlan(plan).tau,
+    tau: analytic?.tau ?? 0,
     axes,
     cells,
     colourExtent,
@@ -128,12 +129,12 @@ export function explorerChartData(result: ExploreResult): ExplorerChartData {
   };
 }
 
-/** The analysis' plain name from the core's records (the base plan's), else the palette's short label. */
-function analysisName(result: ExploreResult, id: AnalysisId): string {
+/** The base plan's closed-form results (names and tau), or null when they cannot be computed. */
+function baseAnalysis(result: ExploreResult): ReturnType<typeof analysePlan> | null {
   try {
-    return analysePlan(result.plan).analyses[id]?.name ?? ANALYSIS_STYLES[id].shortLabel;
+    return analysePlan(result.plan);
   } catch {
-    return ANALYSIS_STYLES[id].shortLabel;
+    return null;
   }
 }
 

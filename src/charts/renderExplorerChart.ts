@@ -32,7 +32,7 @@ function keyItems(data: ExplorerChartData): KeyItem[] {
           ['band', `Tolerable band (${tol})`],
           ['simTolerable', 'Simulated ± 2 MC SE: tolerable'],
           ['simNot', 'Simulated: not tolerable'],
-          ['closed', 'Closed form (unlimited pools)'],
+          ['closed', data.analysisId === 'matchedDifference' ? 'Closed form (unlimited pools)' : 'Closed form'],
         ];
   if (data.counts.pending > 0) items.push(['pending', 'Not simulated yet']);
   if (data.counts.impossible > 0 || data.counts.failed > 0) items.push(['impossible', 'Impossible plan or failed run']);

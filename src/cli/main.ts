@@ -19,6 +19,7 @@ import { simulationJson, type SimulationJson } from './simulationJson';
 import { runPilotCommand } from './pilotCommand';
 import { runMethodsCommand } from './methodsCommand';
 import { formatComparisonTable, runCompareCommand } from './compareCommand';
+import { runExploreCommand } from './exploreCommand';
 import { readInputFile } from './readInputFile';
 import { capProblemList } from '../core/capProblemList';
 import { plainErrorMessage } from '../core/plainErrorMessage';
@@ -55,6 +56,8 @@ Usage:
                  [--no-header] [--json]
   meanward methods <plan.json> [--format md|docx] [-o FILE]
   meanward compare <a.json> <b.json> [... up to 6] [--json]
+  meanward explore <plan.json> --vary INPUT=FROM:TO:STEPS [--vary ...] [--json]
+                   [--replications N] [--seed S] [--analysis ID] [--workers N]
   meanward demo            print the built-in demo plan (an invented example)
   meanward --help          this text
 
@@ -94,6 +97,22 @@ compare: two to six plan files side by side (closed forms, each plan's
   headline analysis): artefact and its share of the effect, false-positive
   rate, power, programme members used, share discarded, and whom the estimate
   describes. --json prints one JSON array, one object per file.
+
+explore: the design explorer. Vary one or two inputs over a grid and simulate
+  every variant of the plan (the same seed in every cell): the simulated
+  regression artefact as a share of the hoped-for effect ± its Monte Carlo SE,
+  the closed form, the share of the programme pool discarded and power; "*"
+  marks cells within your tolerable share (judged on the artefact alone).
+  --vary INPUT=FROM:TO:STEPS  once or twice; INPUT is reliability, caliper,
+               ratio, programmePool, comparisonPool, groupGap, cutOff or
+               clusterSize (those the plan's design has); 2 to 12 steps,
+               at most 64 cells. Example: --vary reliability=0.6:0.95:8
+  --replications N  per cell, 100 to 20000 (default 2000)
+  --seed S     the seed of every cell (default: the plan's)
+  --analysis ID  the analysis mapped (default: the design's headline one)
+  --workers N  threads to run the cells on (1 to 64)
+  --json       print the whole exploration as one JSON object
+  See docs/explorer.md.
 
 With covariates in the plan, the matched difference is for the plan's matching
 distance, ANCOVA adjusts for every measured covariate, and the results add the
@@ -166,6 +185,17 @@ async function runCommand(argv: string[], io: CliIO): Promise<number> {
       const out = compared.rows.map((row, i) => ({ file: cmd.files[i], title: compared.plans[i]!.title, ...row, caution: PLANNING_CAUTION }));
       io.stdout.write(visibleOutput(`${JSON.stringify(out, null, 2)}\n`, true));
     } else io.stdout.write(visibleOutput(`${formatComparisonTable(compared.rows)}\n\n${PLANNING_CAUTION}\n`, false));
+    return EXIT_OK;
+  }
+
+  if (cmd.command === 'explore') {
+    // Every figure comes from src/core (cells, closed forms, summaries) and src/sim; this reads, runs and formats.
+    const explored = await runExploreCommand(cmd, io.stderr);
+    if (!explored.ok) return failWith(io, explored.problems);
+    const bad = firstNonFinite(explored.result.cells, 'cells');
+    if (bad !== null) return failWith(io, [`${FAULT_LINE} (The figure ${bad} is not a finite number.)`], EXIT_INTERNAL);
+    if (cmd.json) io.stdout.write(visibleOutput(`${JSON.stringify({ ...explored.result, caution: PLANNING_CAUTION }, null, 2)}\n`, true));
+    else io.stdout.write(visibleOutput(`${explored.text}\n\n${PLANNING_CAUTION}\n`, false));
     return EXIT_OK;
   }
 

@@ -4,6 +4,7 @@ import { MAX_POOL_WORKERS } from '../sim/pool/defaultPoolSize';
 import { parsePilotCommandLine, type PilotCommandLine } from './pilotCommandLine';
 import { parseMethodsCommandLine, type MethodsCommandLine } from './methodsCommandLine';
 import { parseCompareCommandLine, type CompareCommandLine } from './compareCommand';
+import { parseExploreCommandLine, type ExploreCommandLine } from './exploreCommand';
 
 /** What the command line asked for, after checking every flag. */
 export type CommandLine =
@@ -28,7 +29,8 @@ export type CommandLine =
     }
   | PilotCommandLine
   | MethodsCommandLine
-  | CompareCommandLine;
+  | CompareCommandLine
+  | ExploreCommandLine;
 
 export type ParsedCommandLine = { ok: true; value: CommandLine } | { ok: false; problems: string[] };
 
@@ -48,8 +50,9 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   if (command === 'pilot') return parsePilotCommandLine(rest);
   if (command === 'methods') return parseMethodsCommandLine(rest);
   if (command === 'compare') return parseCompareCommandLine(rest);
+  if (command === 'explore') return parseExploreCommandLine(rest);
   if (command !== 'run') {
-    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot", "methods", "compare" and "demo"; see "meanward --help".`] };
+    return { ok: false, problems: [`Unknown command ${quote(command ?? '')}. The commands are "run", "pilot", "methods", "compare", "explore" and "demo"; see "meanward --help".`] };
   }
   const problems: string[] = [];
   const files: string[] = [];

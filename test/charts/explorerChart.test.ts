@@ -121,6 +121,22 @@ describe('renderExplorerChart', () => {
     }
     expect(found).toEqual([]);
   });
+  it('a wide grid not yet simulated (12 columns × 5 rows) also keeps its labels apart at every width', () => {
+    const plan = demoPlan();
+    const spec: ExploreSpec = {
+      axes: [{ input: 'comparisonPool', from: 400, to: 2400, steps: 5 }, { input: 'caliper', from: 0.05, to: 0.6, steps: 12 }],
+      analysisId: 'matchedDifference', replications: 1000, seed: 1,
+    };
+    const d = explorerChartData(exploreResult(plan, spec, exploreCells(plan, spec).map(pendingCellSummary)));
+    const found: string[] = [];
+    for (const width of [320, 390, 720, 900]) {
+      const svg = parse(renderChartToSvgString('explorer', d, chartSize('explorer', d, width)));
+      expect(svg.querySelectorAll('[data-cell-index]').length).toBe(60);
+      for (const p of clippedLabels(svg)) found.push(`@${width}: clipped ${p}`);
+      for (const p of overlappingLabels(svg)) found.push(`@${width}: ${p}`);
+    }
+    expect(found).toEqual([]);
+  });
 });
 
 describe('explorerChartText', () => {

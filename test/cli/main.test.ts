@@ -168,7 +168,7 @@ describe('failures: exit code 2, every problem on stderr, nothing on stdout', ()
     expect(await run(['simulate', demoFile])).toEqual({
       code: 2,
       stdout: '',
-      stderr: 'meanward: Unknown command "simulate". The commands are "run", "pilot", "methods", "compare" and "demo"; see "meanward --help".\n',
+      stderr: 'meanward: Unknown command "simulate". The commands are "run", "pilot", "methods", "compare", "explore" and "demo"; see "meanward --help".\n',
     });
     expect((await run([])).code).toBe(2);
     expect(await run(['run', '--json'])).toEqual({

@@ -18,6 +18,7 @@ import {
   tolerableRegion,
   validateExploreSpec,
   withExploreInput,
+  withExploreClosedForm,
   type ExploreInput,
   type ExploreSimulatedFigures,
   type ExploreSpec,
@@ -174,7 +175,7 @@ describe('parseVary and validateExploreSpec: plain messages', () => {
     const base = { analysisId: 'matchedDifference' as const, replications: 1000, seed: 1 };
     const msgs = (s: Partial<ExploreSpec>) => validateExploreSpec(p, { ...base, axes: [{ input: 'reliability', from: 0.6, to: 0.9, steps: 4 }], ...s } as ExploreSpec);
     expect(msgs({ axes: [{ input: 'cutOff', from: 40, to: 60, steps: 3 }] })).toEqual([
-      'Cut-off of the selection rule cannot be varied for this plan: Only a plan whose groups a cut-off rule forms has a cut-off.',
+      'Cut-off of the selection rule cannot be varied for this plan: only a plan whose groups a cut-off rule forms has a cut-off.',
     ]);
     expect(msgs({ axes: [{ input: 'caliper', from: 0.1, to: 0.5, steps: 3 }, { input: 'caliper', from: 0.1, to: 0.5, steps: 3 }] })[0]).toMatch(/Matching caliper is chosen twice/);
     expect(msgs({ axes: [{ input: 'reliability', from: 0.6, to: 0.9, steps: 13 }] })).toEqual(['Pretest reliability: the number of steps must be a whole number from 2 to 12; got 13.']);
@@ -253,5 +254,41 @@ describe('simulated cells agree with the closed form (seeded, small)', () => {
     const region = tolerableRegion(result);
     expect(region.tolerable).toContain(3);
     expect(region.notTolerable).toContain(0);
+  });
+});
+
+describe('simulated matched difference agrees with Thorndike (1942) when matching is nearly exact', () => {
+  it('a large comparison pool, reused partners, a narrow caliper: within 4 MC SE + 0.03 points of β(1 − ρ)Δ', () => {
+    // As in closedFormVsSimulation.test.ts: from a pool of 6,000 with replacement and a caliper of 0.05 SD, partners
+    // match on the observed pretest almost exactly, so the closed form's exact matching from an unlimited pool holds up
+    // to leftover pretest differences (β·ρ·mean |x − x′| is below 0.03 points here; 0.03 points = 1.2% of the effect).
+    const plan = demoPlan();
+    plan.groups.comparison.poolSize = 6000;
+    plan.matching.replacement = true;
+    plan.matching.caliper = 0.05;
+    const spec: ExploreSpec = {
+      axes: [{ input: 'reliability', from: 0.7, to: 0.9, steps: 2 }], analysisId: 'matchedDifference', replications: 400, seed: 20261205,
+    };
+    expect(validateExploreSpec(plan, spec)).toEqual([]);
+    for (const cell of exploreCells(plan, spec)) {
+      const run = createPlanSimulation(cell.plan!, { replications: spec.replications, seed: spec.seed });
+      run.runChunk(0, spec.replications);
+      const s = summariseExploreCell(cell, run.finish(), spec);
+      const rho = cell.values[0]!;
+      // β(1 − ρ)Δ / τ with β = r·SD/(ρ·SD) = 0.6/ρ, Δ = −10, τ = 2.5.
+      expect(s.closedFormShare).toBeCloseTo(((0.6 / rho) * (1 - rho) * -10) / 2.5, 10);
+      expect(Math.abs(s.artefactShare! - s.closedFormShare!)).toBeLessThan(4 * s.artefactShareMCSE! + 0.03 / 2.5);
+      expect(s.discardedShare).toBeLessThan(0.05);
+    }
+  });
+});
+
+describe('exploreCells without closed forms, filled in one cell at a time', () => {
+  it('gives the same cells as the full grid once each is filled by withExploreClosedForm', () => {
+    const spec: ExploreSpec = { axes: [{ input: 'reliability', from: 0.3, to: 0.9, steps: 3 }], analysisId: 'ancova', replications: 100, seed: 1 };
+    const quick = exploreCells(demoPlan(), spec, { closedForms: false });
+    expect(quick.every((c) => c.closedFormShare === undefined)).toBe(true);
+    expect(quick[0]!.plan).toBeNull(); // reliability .3 < r² = .36: impossible without any closed form
+    expect(quick.map((c) => withExploreClosedForm(c, spec))).toEqual(exploreCells(demoPlan(), spec));
   });
 });

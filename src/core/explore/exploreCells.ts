@@ -19,10 +19,11 @@ import { exploreInputWords, withExploreInput } from './exploreInputs';
  * impossible variant keeps plan null and the first problems in plain words.
  * Reference: closed forms of src/core (Thorndike 1942; Lord 1960; Porter 1967).
  * @param plan a validated plan. @param spec a spec validateExploreSpec accepts.
+ * @param options closedForms: false leaves closedFormShare out (fill it with withExploreClosedForm).
  * @returns one cell per combination of axis values. @throws never.
  * @example exploreCells(demoPlan(), spec).length // steps0 × steps1
  */
-export function exploreCells(plan: Plan, spec: ExploreSpec): ExploreCell[] {
+export function exploreCells(plan: Plan, spec: ExploreSpec, options: { closedForms?: boolean } = {}): ExploreCell[] {
   const grids = spec.axes.map((axis) => axisValues(plan, axis));
   const combos: number[][] = grids.length === 1 ? grids[0]!.map((v) => [v]) : grids[0]!.flatMap((a) => grids[1]!.map((b) => [a, b]));
   return combos.map((values, index) => {
@@ -34,15 +35,30 @@ export function exploreCells(plan: Plan, spec: ExploreSpec): ExploreCell[] {
     if (!check.ok) {
       return { index, values, plan: null, problem: check.problems.slice(0, 2).map((p) => p.message).join(' ') };
     }
-    try {
-      const record = analysePlan(check.plan).analyses[spec.analysisId];
-      if (record === undefined) return { index, values, plan: null, problem: `This variant has no analysis "${spec.analysisId}".` };
-      const share = record.regressionArtefactShare;
-      return share === null ? { index, values, plan: check.plan } : { index, values, plan: check.plan, closedFormShare: share };
-    } catch (e) {
-      return { index, values, plan: null, problem: e instanceof Error ? e.message : String(e) };
-    }
+    const cell: ExploreCell = { index, values, plan: check.plan };
+    return options.closedForms === false ? cell : withExploreClosedForm(cell, spec);
   });
+}
+
+/**
+ * A cell with its closed-form share filled in: analysePlan(variant)'s own
+ * regressionArtefactShare for the spec's analysis. analysePlan takes some
+ * milliseconds per plan, so a page may build the grid with
+ * `exploreCells(plan, spec, { closedForms: false })` and fill the cells in
+ * with this one at a time. A variant analysePlan refuses becomes impossible,
+ * with its message. Cells without a plan come back unchanged.
+ */
+export function withExploreClosedForm(cell: ExploreCell, spec: ExploreSpec): ExploreCell {
+  if (cell.plan === null) return cell;
+  const { index, values } = cell;
+  try {
+    const record = analysePlan(cell.plan).analyses[spec.analysisId];
+    if (record === undefined) return { index, values, plan: null, problem: `This variant has no analysis "${spec.analysisId}".` };
+    const share = record.regressionArtefactShare;
+    return share === null ? { index, values, plan: cell.plan } : { index, values, plan: cell.plan, closedFormShare: share };
+  } catch (e) {
+    return { index, values, plan: null, problem: e instanceof Error ? e.message : String(e) };
+  }
 }
 
 /** The closed-form caution of a simulated cell's tolerance: what the simulation at the hoped-for effect cannot check. */

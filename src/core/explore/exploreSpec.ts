@@ -113,7 +113,8 @@ export function validateExploreSpec(plan: Plan, spec: ExploreSpec): string[] {
     }
     const name = info.label;
     if (!info.applies) {
-      problems.push(`${name} cannot be varied for this plan: ${info.notApplicableReason}`);
+      const why = info.notApplicableReason ?? '';
+      problems.push(`${name} cannot be varied for this plan: ${why.charAt(0).toLowerCase()}${why.slice(1)}`);
       continue;
     }
     if (!Number.isInteger(axis.steps) || axis.steps < EXPLORE_LIMITS.stepsMin || axis.steps > EXPLORE_LIMITS.stepsMax) {
