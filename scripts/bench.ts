@@ -39,6 +39,7 @@ import { createPlanSimulation } from '../src/sim/multivariate/createPlanSimulati
 import { NormalSampler } from '../src/sim/normalSampler';
 import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
+import { parallelBench } from './bench/parallel';
 import { browserGridBench } from './bench/browserGrid';
 
 const json = process.argv.includes('--json');
@@ -366,6 +367,9 @@ const clusterBench = {
   met: { doublingRatio: median(clusterDoubling) <= 2.3, peopleDoublingRatio: median(peopleDoubling) <= 2.3 },
 };
 
+// The worker pool (scripts/bench/parallel.ts: wall-clock, on worker threads).
+const parallel = await parallelBench();
+
 const out = {
   plan: 'demo plan (180 programme, 1,200 comparison; nearest 1:1, caliper 0.2, no replacement)',
   replications: REPS,
@@ -387,6 +391,7 @@ const out = {
   met: { floorRatio: floorRatio <= 2, naiveSpeedup: naiveSpeedup >= 20, doublingRatio: doublingRatio <= 2.3 },
   covariates: covariateBench,
   clusters: clusterBench,
+  ...parallel,
   // The design explorer in a real browser (scripts/bench/browserGrid.ts): gridRatio <= 1, longestTaskMs <= 50.
   ...(await browserGridBench()),
 };
@@ -418,6 +423,10 @@ if (json) {
   console.log(`schools matched ${k.clustersMsPerReplication} ms per replication; pupils matched ${k.peopleMsPerReplication} ms per replication`);
   line('clusters.doublingRatio', k.doublingRatio, '<= 2.3', k.met.doublingRatio, `twice the schools in both groups ÷ as given (2 = linear); rounds ${k.roundRanges.doublingRatio.join('–')}`);
   line('clusters.peopleDoublingRatio', k.peopleDoublingRatio, '<= 2.3', k.met.peopleDoublingRatio, `pupils matched across schools, twice the schools ÷ as given; rounds ${k.roundRanges.peopleDoublingRatio.join('–')}`);
+  const p = parallel.parallelDetail;
+  console.log(`\nWorker pool: ${p.plan}, ${p.replications} replications, ${p.measure}; 1 worker ${p.medianSeconds.oneWorker} s, 2 workers ${p.medianSeconds.twoWorkers} s`);
+  line('parallelEfficiency', parallel.parallelEfficiency, '>= 0.8', p.met, `speedup on 2 worker threads ÷ 2; same numbers bit for bit: ${parallel.parallelIdentical ? 'yes' : 'NO'}; rounds ${p.roundRange.join('–')}`);
+  console.log(`  all ${parallel.parallelEfficiencyAllCores.workers} cores: efficiency ${parallel.parallelEfficiencyAllCores.efficiency} (speedup ÷ workers, no target)`);
 }
 if (!json) console.log(`\nDesign explorer in the browser (wall clock): ${JSON.stringify(out.browserGrid)}`);
 if (sink === 42.4242) console.log(''); // use the sink
