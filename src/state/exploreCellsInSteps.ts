@@ -1,17 +1,17 @@
-import { axisValues, exploreCells } from '../core/explore';
+import { exploreCells, withExploreClosedForm } from '../core/explore';
 import type { ExploreCell, ExploreSpec } from '../core/explore/exploreTypes';
 import type { Plan } from '../core/plan';
 
-/** Longest stretch (ms) of cell building before the main thread is given back (well under a 50 ms long task). */
+/** Longest stretch (ms) of closed-form work before the main thread is given back (well under a 50 ms long task). */
 export const CELL_BUILD_SLICE_MS = 8;
 
 /**
- * The core's exploreCells(plan, spec), built one cell at a time and giving the
- * main thread back every CELL_BUILD_SLICE_MS, so a page never freezes while a
- * grid's closed forms are computed (each cell runs analysePlan, a few ms).
- * Each cell is exploreCells of the one-cell grid at that cell's axis values
- * (axisValues' own values, whose rounding is idempotent), re-indexed to its
- * place in the whole grid; a test checks the result equals exploreCells.
+ * The core's exploreCells(plan, spec), with the closed forms filled in one
+ * cell at a time (withExploreClosedForm) and the main thread given back every
+ * CELL_BUILD_SLICE_MS, so the page never freezes while a grid's closed forms
+ * are computed (each cell runs analysePlan, a few ms). The variant plans
+ * themselves are built at once (exploreCells without closed forms: validation
+ * only, fast). A test checks the result equals exploreCells(plan, spec).
  * @param stopped returns true when the caller no longer wants the cells (then null is returned).
  * @param pause gives the main thread back (default: a zero-delay timer).
  * @param sliceMs longest stretch between pauses (default CELL_BUILD_SLICE_MS).
@@ -23,19 +23,15 @@ export async function exploreCellsInSteps(
   pause: () => Promise<void> = () => new Promise((resolve) => setTimeout(resolve, 0)),
   sliceMs: number = CELL_BUILD_SLICE_MS,
 ): Promise<ExploreCell[] | null> {
-  const grids = spec.axes.map((axis) => axisValues(plan, axis));
-  const combos: number[][] = grids.length === 1 ? grids[0]!.map((v) => [v]) : grids[0]!.flatMap((a) => grids[1]!.map((b) => [a, b]));
-  const cells: ExploreCell[] = [];
+  const cells = exploreCells(plan, spec, { closedForms: false });
   let sliceStart = performance.now();
-  for (const [index, values] of combos.entries()) {
+  for (let i = 0; i < cells.length; i++) {
     if (performance.now() - sliceStart > sliceMs) {
       await pause();
       if (stopped()) return null;
       sliceStart = performance.now();
     }
-    const one = spec.axes.map((axis, k) => ({ ...axis, from: values[k]!, to: values[k]!, steps: 1 }));
-    const cell = exploreCells(plan, { ...spec, axes: one.length === 2 ? [one[0]!, one[1]!] : [one[0]!] })[0]!;
-    cells.push({ ...cell, index });
+    cells[i] = withExploreClosedForm(cells[i]!, spec);
   }
   return stopped() ? null : cells;
 }
