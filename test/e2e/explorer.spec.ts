@@ -5,7 +5,8 @@
 // the one-process result bit for bit); clicking a cell and pressing Enter on
 // a focused cell make candidate plans; a bigger grid is cancelled; axe finds
 // no violations in the panel; screenshots at 1280 × 800 and 390 px.
-import { mkdirSync } from 'node:fs';
+import { mkdirSync, readFileSync } from 'node:fs';
+import path from 'node:path';
 import AxeBuilder from '@axe-core/playwright';
 import { expect, test, type Page } from '@playwright/test';
 import { exploreCells, summariseExploreCell } from '../../src/core/explore';
@@ -13,6 +14,7 @@ import type { ExploreSpec } from '../../src/core/explore/exploreTypes';
 import { demoPlan } from '../../src/io/demoPlan';
 import { simulatePlan } from '../../src/sim/simulatePlan';
 import { fmtPct } from '../../src/ui/format';
+import { readPdfText } from '../report/readPdfText';
 import { openFreshPlanner } from './plannerHelpers';
 
 const SHOTS = 'docs/screenshots';
@@ -106,6 +108,16 @@ test('a small grid fills in; heat map, table and details agree with the core; ce
   // axe: no violations in the explorer panel.
   const axe = await new AxeBuilder({ page }).include('[data-testid="explorer"]').analyze();
   expect(axe.violations.map((v) => `${v.id}: ${v.nodes.map((n) => n.target.join(' ')).join(', ')}`)).toEqual([]);
+
+  // The PDF summary carries the grid (the plan in the form is the one explored).
+  await page.getByRole('button', { name: /^Exports/ }).click();
+  const [download] = await Promise.all([page.waitForEvent('download'), page.getByRole('button', { name: 'Download PDF summary' }).click()]);
+  const file = path.resolve('test-results', 'explorer-summary.pdf');
+  await download.saveAs(file);
+  const pdf = (await readPdfText(new Uint8Array(readFileSync(file)))).body.join(' ').replace(/\s+/g, ' ');
+  expect(pdf).toContain('Design explorer');
+  expect(pdf).not.toContain('run on another version of this plan');
+  await page.getByRole('button', { name: /^Exports/ }).click();
 
   // Screenshots of the finished two-input grid at 1280 × 800 and 390 px wide.
   mkdirSync(SHOTS, { recursive: true });
