@@ -376,7 +376,7 @@ export function ExplorerPanel() {
               Analysis judged
             </label>
             <select id={analysisFieldId} value={explorer.draft.analysisId} onChange={(e) => setExplorerField('analysisId', e.target.value)}>
-              <option value="">{`${ANALYSIS_DESCRIPTIONS[headline].name} (the plan’s headline)`}</option>
+              <option value="">{`${ANALYSIS_DESCRIPTIONS[headline].name} (headline)`}</option>
               {analyses
                 .filter((id) => id !== headline)
                 .map((id) => (
