@@ -145,6 +145,16 @@ test('one input draws curves; a bigger grid can be cancelled and its unfinished 
   await page.locator('section.explorer').screenshot({ path: `${SHOTS}/explorer-curve-390.png` });
   await page.setViewportSize({ width: 1280, height: 800 });
 
+  // Printed, the chart and the caution stay; the form and the buttons do not.
+  await page.emulateMedia({ media: 'print' });
+  await expect(page.getByTestId('explorer-run')).toBeHidden();
+  await expect(page.locator('fieldset[data-axis="0"]')).toBeHidden();
+  await expect(page.locator('figure[data-chart="explorer"] svg')).toBeVisible();
+  await expect(page.locator('.explorer-caution')).toBeVisible();
+  mkdirSync('test-results/screens', { recursive: true });
+  await page.locator('section.explorer').screenshot({ path: 'test-results/screens/explorer-print.png' });
+  await page.emulateMedia({ media: 'screen' });
+
   // A bigger grid: 8 × 4 cells of 20,000 replications; cancel it once it is under way.
   await setAxis(page, 0, 'reliability', '0.6', '0.95', '8');
   await setAxis(page, 1, 'caliper', '0.05', '0.5', '4');
