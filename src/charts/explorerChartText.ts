@@ -58,8 +58,18 @@ export function explorerChartText(data: ExplorerChartData): ChartText {
         : `${tolerable.length} of ${done.length} simulated variants keep the artefact within the ${sharePct(data.tolerableShare)} you can tolerate: ${tolerable.map((c) => c.where).join('; ')}.`,
     );
   }
-  if (counts.impossible > 0) {
-    sentences.push(`${counts.impossible} variant${counts.impossible === 1 ? ' is' : 's are'} not a valid plan (crossed out): ${data.cells.filter((c) => c.status === 'impossible').map((c) => `${c.where}: ${c.note}`).join(' ')}`);
+  // Variants that are not valid plans, or could not be simulated: each reason once, with the cells it concerns.
+  for (const status of ['impossible', 'failed'] as const) {
+    const bad = data.cells.filter((c) => c.status === status);
+    if (bad.length === 0) continue;
+    const byNote = new Map<string, string[]>();
+    for (const c of bad) byNote.set(c.note ?? '', [...(byNote.get(c.note ?? '') ?? []), c.where]);
+    const what = status === 'impossible' ? 'not a valid plan' : 'could not be simulated';
+    const n = bad.length;
+    sentences.push(
+      `${n} variant${n === 1 ? ' is' : 's are'} ${what === 'not a valid plan' && n > 1 ? 'not valid plans' : what} (crossed out): ` +
+        [...byNote].map(([note, where]) => `${where.join('; ')}: ${note}`).join(' '),
+    );
   }
   sentences.push(
     'Each cell is judged on its simulated artefact alone; its false-positive rate and the drop in power need runs at no effect and without the artefact, so see the closed form for them. ' +
@@ -73,7 +83,7 @@ export function explorerChartText(data: ExplorerChartData): ChartText {
     c.closedFormShare === null ? '' : sharePct(c.closedFormShare, 1),
     c.discardedShare === null ? '' : sharePct(c.discardedShare, 1),
     c.power === null ? '' : `${sharePct(c.power, 0)}${c.powerMCSE === null ? '' : ` ± ${fmt(c.powerMCSE * 100, 1)}%`}`,
-    c.status === 'done' ? (c.tolerable ? 'yes' : 'no') : cellStateWords(c),
+    c.status === 'done' ? (c.tolerable ? 'yes' : 'no') : c.status === 'pending' ? 'not simulated yet' : c.status === 'impossible' ? 'impossible plan (see above)' : 'failed (see above)',
   ]);
   return {
     title: data.title,

@@ -148,7 +148,11 @@ describe('explorerChartText', () => {
       'Simulated artefact (% of effect)', 'MC SE', 'Closed form (% of effect)', 'Discarded (% of programme pool)', 'Power ± MC SE', 'Tolerable',
     ]);
     expect(t.table.rows[8]![2]).toBe('pending');
-    expect(t.table.rows[0]![7]).toMatch(/^impossible plan: .*correlation/);
+    expect(t.table.rows[0]![7]).toBe('impossible plan (see above)');
+    // Each reason once, with every cell it concerns (the three cells at reliability .3).
+    const impossible = t.sentences.filter((x) => x.includes('not valid plans'));
+    expect(impossible).toHaveLength(1);
+    expect(impossible[0]).toMatch(/^3 variants are not valid plans \(crossed out\): reliability 0\.30, group gap -10; reliability 0\.30, group gap -6; reliability 0\.30, group gap -2: .*correlation/);
     expect(t.sentences.join(' ')).toContain('5 of 9 variants have been simulated, 1 not yet, 3 impossible.');
     expect(t.sentences.join(' ')).toMatch(/judged on its simulated artefact alone; its false-positive rate/);
     expect(t.sentences).toContain(PLANNING_CAUTION);
