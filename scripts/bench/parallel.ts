@@ -4,9 +4,10 @@
  *   parallelEfficiency          wall-clock speedup of a run on 2 worker threads over the same
  *                               run on 1 worker thread, ÷ 2 (target ≥ 0.8). The run is the demo
  *                               plan at enough replications to take about 2 s on one worker
- *                               (calibrated first, 2,000–100,000); both pools are started and
- *                               warmed up before timing, the two are timed in alternating rounds,
- *                               and the figure is the median of the rounds' ratios.
+ *                               (calibrated on the warm one-thread pool, 2,000–100,000); both
+ *                               pools are started and warmed up before timing, the two are
+ *                               timed in alternating rounds, and the figure is the median of
+ *                               the rounds' ratios.
  *   parallelEfficiencyAllCores  { workers, efficiency }: the same with one thread per core
  *                               (os.availableParallelism()), speedup over 1 thread ÷ workers
  *                               (no target: reported for the machine at hand).
@@ -18,7 +19,6 @@
  */
 import { availableParallelism } from 'node:os';
 import { demoPlan } from '../../src/io/demoPlan';
-import { createPlanSimulation } from '../../src/sim/multivariate/createPlanSimulation';
 import { NodeSimulationPool } from '../../src/sim/pool/nodeSimulationPool';
 
 const ROUNDS = 5;
@@ -45,20 +45,22 @@ export async function parallelBench(): Promise<{
   };
 }> {
   const plan = demoPlan();
-  // Calibrate in this process: about 2 s of work on one worker.
-  const probe = 300;
-  for (let w = 0; w < 2; w++) createPlanSimulation(plan, { replications: probe }).runChunk(0, probe);
-  const t0 = performance.now();
-  createPlanSimulation(plan, { replications: probe }).runChunk(0, probe);
-  const perRep = (performance.now() - t0) / probe;
-  const reps = Math.max(2000, Math.min(100_000, Math.round(2000 / perRep)));
-
   const cores = availableParallelism();
   const sizes = [...new Set([1, 2, Math.max(1, cores)])];
   const pools = new Map(sizes.map((n) => [n, new NodeSimulationPool(n)]));
   try {
     // Start every thread and warm its engine.
-    for (const pool of pools.values()) await pool.runPlan(plan, { replications: Math.min(reps, 400 * pool.size) });
+    for (const pool of pools.values()) await pool.runPlan(plan, { replications: 400 * pool.size });
+    // Calibrate on the warm one-thread pool: about 2 s of work on one worker.
+    // (The faster of two probes: the first may still pay for compiling.)
+    const probe = 1000;
+    let probeMs = Infinity;
+    for (let k = 0; k < 2; k++) {
+      const c0 = performance.now();
+      await (pools.get(1) as NodeSimulationPool).runPlan(plan, { replications: probe });
+      probeMs = Math.min(probeMs, performance.now() - c0);
+    }
+    const reps = Math.max(2000, Math.min(100_000, Math.round((probe * 2000) / probeMs)));
     const timeOnce = async (n: number): Promise<{ ms: number; json: string }> => {
       const start = performance.now();
       const result = await (pools.get(n) as NodeSimulationPool).runPlan(plan, { replications: reps });

@@ -1,3 +1,7 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
 import { describe, expect, it } from 'vitest';
 import type { Plan } from '../../../src/core/plan';
 import { EXAMPLE_PLANS } from '../../../src/io/examplePlans';
@@ -59,6 +63,23 @@ describe('the command line\'s thread pool', () => {
       expect(differingPaths(results.get(i), simulatePlan(j.plan, { replications: j.replications, seed: j.seed }))).toEqual([]);
     }
     expect(last).toBe(52); // the failed job's one replication never ran
+  }, 30_000);
+
+  it('a thread that dies fails the run with a plain message, and is replaced on the next run', async () => {
+    // A stand-in thread that ends itself as soon as it is given work (as a crash would).
+    const dir = mkdtempSync(join(tmpdir(), 'meanward-thread-'));
+    const entry = join(dir, 'dies.mjs');
+    writeFileSync(entry, "import { parentPort } from 'node:worker_threads';\nparentPort.on('message', () => process.exit(3));\n");
+    const pool = new NodeSimulationPool(2, pathToFileURL(entry));
+    const plan = example('demo-falls-prevention');
+    try {
+      await expect(pool.runPlan(plan, { replications: 40 })).rejects.toThrow(
+        'The simulation stopped unexpectedly: one of its worker threads ended without finishing. Run it again; if it stops again, try --workers 1.',
+      );
+      await expect(pool.runPlan(plan, { replications: 40 })).rejects.toThrow('stopped unexpectedly');
+    } finally {
+      await pool.close();
+    }
   }, 30_000);
 
   it('names a bad thread count', () => {
