@@ -23,6 +23,9 @@ export async function exploreCellsInSteps(
   pause: () => Promise<void> = () => new Promise((resolve) => setTimeout(resolve, 0)),
   sliceMs: number = CELL_BUILD_SLICE_MS,
 ): Promise<ExploreCell[] | null> {
+  // Give the thread back first: the click that started the grid has its own rendering to do.
+  await pause();
+  if (stopped()) return null;
   const cells = exploreCells(plan, spec, { closedForms: false });
   let sliceStart = performance.now();
   for (let i = 0; i < cells.length; i++) {
