@@ -22,6 +22,9 @@
  *   clusters.peopleDoublingRatio  pupils matched across schools, twice the clusters ÷ as given (≤ 2.3)
  * and propensity.* from scripts/bench/propensity.ts (propensityRatio: a propensity-score replication of the
  * built-in maths-club example ÷ a one-pretest replication of the same pools, target ≤ 5; see its header).
+ * and, in a real browser (scripts/bench/browserGrid.ts, wall clock; see its header):
+ *   browserGrid.gridRatio      a 25-cell explorer grid ÷ (2 × one run × 25 ÷ workers) (target ≤ 1)
+ *   browserGrid.longestTaskMs  longest main-thread task during the grid (target ≤ 50)
  * Each ratio is the median over several interleaved rounds (after a warm-up) of that
  * round's ratio. Times are this
  * process's CPU time (process.cpuUsage, user + system), not wall-clock time: the machine
@@ -43,6 +46,7 @@ import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
 import { parallelBench } from './bench/parallel';
 import { cliStartBench } from './bench/cliStart';
 import { propensityBench } from './bench/propensity';
+import { browserGridBench } from './bench/browserGrid';
 
 const json = process.argv.includes('--json');
 const REPS = 2000;
@@ -401,6 +405,8 @@ const out = {
   cliNoSimSeconds: cliStart.cliNoSimSeconds,
   cliStart,
   propensity,
+  // The design explorer in a real browser (scripts/bench/browserGrid.ts): gridRatio <= 1, longestTaskMs <= 50.
+  ...(await browserGridBench()),
 };
 
 function round(x: number, d = 1): number {
@@ -438,4 +444,5 @@ if (json) {
   line('cliStart.cliStartRatio', cliStart.cliStartRatio, '<= 4', cliStart.met.cliStartRatio, `${cliStart.command}; rounds ${cliStart.roundRange.join('–')}`);
   console.log(`\nPropensity engine (scripts/bench/propensity.ts), CPU time: ${JSON.stringify(propensity)}`);
 }
+if (!json) console.log(`\nDesign explorer in the browser (wall clock): ${JSON.stringify(out.browserGrid)}`);
 if (sink === 42.4242) console.log(''); // use the sink

@@ -11,9 +11,10 @@ import { createPilotSlice, defaultPilotDeps, type PilotDeps, type PilotSlice } f
 import { planToDraft } from './planDraft';
 import { createSimulationSlice, type SimulationSlice } from './simulationSlice';
 import { createVariantsSlice, type VariantsSlice } from './variantsSlice';
+import { createExplorerSlice, type ExplorerSlice } from './explorerSlice';
 
 /** The whole planner state: one slice per file, combined here. */
-export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice & CovariateSlice & PilotSlice & VariantsSlice;
+export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice & CovariateSlice & PilotSlice & VariantsSlice & ExplorerSlice;
 export type MeanwardStore = StoreApi<MeanwardState>;
 
 export interface CreateStoreOptions {
@@ -45,6 +46,7 @@ export function createMeanwardStore({ deps, demo, restore = true, pilot }: Creat
     ...createCovariateSlice(...a),
     ...createPilotSlice({ ...defaultPilotDeps(), ...pilot })(...a),
     ...createVariantsSlice(deps)(...a),
+    ...createExplorerSlice(deps)(...a),
   }));
   store.subscribe((state, prev) => {
     if (state.draft !== prev.draft) state.autosave();

@@ -41,6 +41,12 @@ export interface VariantsSlice {
   toggleCompare: (id: string) => void;
   /** Add a variant with one remedy applied (applyRemedy) and put it beside the current plan in the comparison. */
   tryRemedy: (remedyId: RemedyId) => void;
+  /**
+   * Add a candidate plan made elsewhere (e.g. a cell of the design explorer) and put it in the
+   * comparison, keeping the form's plan as "As planned" first when it is not a variant yet.
+   * The name is made unique; returns the variant added.
+   */
+  addCandidatePlan: (candidate: Omit<PlanVariant, 'id'>) => PlanVariant;
   /** Called when the valid plan changes: the active variant follows it. */
   followValidPlan: (plan: Plan) => void;
 }
@@ -163,6 +169,16 @@ export const createVariantsSlice =
           compareIds: addToCompare(get().compareIds, v.id),
           variantMessage: `Added the variant "${v.name}" to the comparison. ${v.note}`,
         });
+      },
+      addCandidatePlan: (candidate) => {
+        if (get().activeVariantId === null) get().keepAsVariant('As planned');
+        const v: PlanVariant = { ...candidate, id: newId(), name: uniqueName(candidate.name) };
+        update({
+          variants: [...get().variants, v],
+          compareIds: addToCompare(get().compareIds, v.id),
+          variantMessage: `Added the variant "${v.name}" to the comparison.${v.note ? ` ${v.note}` : ''}`,
+        });
+        return v;
       },
       followValidPlan: (plan) => {
         const id = get().activeVariantId;

@@ -9,6 +9,7 @@ import { RemediesPanel } from './RemediesPanel';
 import { SimulationPanel } from './SimulationPanel';
 import { VerdictPanel } from './VerdictPanel';
 import { ChartsPanel, MethodsPanel, VariantsPanel } from './resultPanels';
+import { ExplorerSection } from './ExplorerSection';
 
 // The exports panel is built separately and loaded on demand (it brings the PDF code).
 const exportModules = import.meta.glob<{ ExportPanel: ComponentType }>('./ExportPanel.tsx');
@@ -44,6 +45,7 @@ export function App() {
           <ComparisonTable />
           <ChartsPanel />
           <RemediesPanel />
+          <ExplorerSection />
           <MethodsPanel />
           <VariantsPanel />
         </div>

@@ -26,6 +26,8 @@ export function ExportPanel() {
   const compareIds = useMeanwardStore((s) => s.compareIds);
   const compared = compareIds.map((id) => variants.find((v) => v.id === id)).filter((v) => v !== undefined);
   const [withComparison, setWithComparison] = useState(true);
+  // The design explorer's last grid, once it has figures and is not still running (the PDF leaves out a grid of another plan, and says so).
+  const explorer = useMeanwardStore((s) => (s.explorer.status !== 'running' && s.explorer.result?.cells.some((c) => c.status === 'done') ? s.explorer.result : null));
   const [charts, setCharts] = useState<ReportChart[] | null>(null);
   const reasonId = useId();
   const simReasonId = useId();
@@ -83,6 +85,7 @@ export function ExportPanel() {
         withComparison && compared.length >= 2 ? reportComparison(compared.map((v) => ({ name: v.name, plan: v.plan, analysisId: v.analysisId }))) : null;
       const bytes = await buildReportPdf({
         ...(comparison ? { comparison } : {}),
+        ...(explorer ? { explorer } : {}),
         plan,
         analytic,
         simulation: sim,

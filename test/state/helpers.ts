@@ -1,7 +1,7 @@
 import type { Plan } from '../../src/core/plan';
 import { demoPlan } from '../../src/io/demoPlan';
 import { defaultDeps } from '../../src/state/defaultDeps';
-import type { DraftStorage, SimulationRunner } from '../../src/state/deps';
+import type { DraftStorage, GridRunner, SimulationRunner } from '../../src/state/deps';
 import { createMeanwardStore } from '../../src/state/store';
 import type { SimulationResult } from '../../src/sim/types';
 
@@ -77,6 +77,7 @@ export function makeStore(
     storage?: DraftStorage | null;
     session?: DraftStorage | null;
     simulation?: SimulationRunner | null;
+    grid?: GridRunner | null;
     schedule?: (fn: () => void, ms: number) => () => void;
   } = {},
 ) {
@@ -85,6 +86,7 @@ export function makeStore(
     storage: opts.storage ?? null,
     session: opts.session ?? null,
     ...(opts.schedule ? { schedule: opts.schedule } : {}),
+    ...(opts.grid !== undefined ? { grid: opts.grid } : {}),
   };
   return createMeanwardStore({ deps, demo: demoPlan });
 }
