@@ -51,6 +51,8 @@ export function judgeTolerable(x: {
   falsePositiveRate: number | null;
   power: number | null;
   powerWithoutBias: number | null;
+  /** Why the error rates are unknown when falsePositiveRate is null (default: the analysis cannot be carried out as planned); '' says nothing. */
+  whyRatesUnknown?: string;
 }): Tolerability {
   requireFinite(x.tau, 'The hoped-for effect');
   requireFinite(x.regressionArtefact, 'The regression artefact');
@@ -87,7 +89,8 @@ export function judgeTolerable(x: {
   }
   const tolerable = failed.length === 0;
   const list = parts.length <= 1 ? parts.join('') : `${parts.slice(0, -1).join('; ')}; and ${parts[parts.length - 1]}`;
-  const unknown = x.falsePositiveRate === null ? ' The error rates are not known because the analysis cannot be carried out as planned.' : '';
+  const why = x.whyRatesUnknown ?? 'The error rates are not known because the analysis cannot be carried out as planned.';
+  const unknown = x.falsePositiveRate === null && why !== '' ? ` ${why}` : '';
   const reason = tolerable
     ? `Tolerable: ${list}.${unknown}`
     : `Not tolerable (${failed.map((f) => FAILURE_WORDS[f]).join(', ')}): ${list}.${unknown}`;

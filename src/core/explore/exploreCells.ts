@@ -131,6 +131,7 @@ export function summariseExploreCell(cell: ExploreCell, result: ExploreSimulated
     falsePositiveRate: null,
     power: a.rejectionRate,
     powerWithoutBias: null,
+    whyRatesUnknown: '', // EXPLORE_TOLERANCE_NOTE below says why, in this context
   });
   const discardedShare = spec.analysisId === 'matchedDifference' ? result.matching.discardedProgrammeShare : 0;
   return {
