@@ -211,6 +211,7 @@ describe('summariseExploreCell: figures from a simulation result, judged on the 
     // 20% ≤ 25%: tolerable on the artefact, and the reason says which checks are not simulated.
     expect(s.tolerable).toBe(true);
     expect(s.tolerableReason).toContain(EXPLORE_TOLERANCE_NOTE);
+    expect(s.tolerableReason).not.toContain("cannot be carried out as planned"); // the analysis can: only the error rates are not simulated
     expect(summariseExploreCell(cell!, fake(2.5 + 0.5 - 1), spec).tolerable).toBe(false); // 40% > 25%
   });
   it('an analysis the simulation could not compute fails with its reason; full-sample analyses discard nobody', () => {
