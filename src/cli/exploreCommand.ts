@@ -10,7 +10,7 @@ import { plainErrorMessage } from '../core/plainErrorMessage';
 import { fmt, fmtInt, fmtPct } from '../format/numbers';
 import { createPlanSimulation } from '../sim/multivariate/createPlanSimulation';
 import type { SimulationResult } from '../sim/types';
-import { flagParts } from './flagParts';
+import { eachArgument } from './flagParts';
 import { parsePlanText } from '../io/planFile';
 import { analysePlan } from '../core/analysePlan';
 import { readInputFile } from './readInputFile';
@@ -54,16 +54,7 @@ export function parseExploreCommandLine(args: readonly string[]): { ok: true; va
   let seed: number | undefined;
   let analysisId: AnalysisId | undefined;
   let workers: number | undefined;
-  for (let i = 0; i < args.length; i++) {
-    const a = args[i]!;
-    const { flag, inline } = flagParts(a);
-    const takeValue = (): string | undefined => {
-      if (inline !== undefined) return inline;
-      const next = args[i + 1];
-      if (next === undefined || next.startsWith('--')) return undefined;
-      i++;
-      return next;
-    };
+  for (const { word: a, flag, inline, takeValue } of eachArgument(args)) {
     switch (flag) {
       case '--json':
         json = true;

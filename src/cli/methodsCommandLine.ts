@@ -1,4 +1,4 @@
-import { flagParts } from './flagParts';
+import { eachArgument } from './flagParts';
 
 /** What `meanward methods …` asked for, after checking every flag. */
 export interface MethodsCommandLine {
@@ -21,16 +21,7 @@ export function parseMethodsCommandLine(rest: readonly string[]): { ok: true; va
   const files: string[] = [];
   let format: 'md' | 'docx' = 'md';
   let output: string | undefined;
-  for (let i = 0; i < rest.length; i++) {
-    const a = rest[i]!;
-    const { flag, inline } = flagParts(a);
-    const takeValue = (): string | undefined => {
-      if (inline !== undefined) return inline;
-      const next = rest[i + 1];
-      if (next === undefined || next.startsWith('-')) return undefined;
-      i++;
-      return next;
-    };
+  for (const { word: a, flag, inline, takeValue } of eachArgument(rest, '-')) {
     if (flag === '--format') {
       const v = takeValue();
       if (v === 'md' || v === 'markdown') format = 'md';

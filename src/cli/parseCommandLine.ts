@@ -1,5 +1,5 @@
 import { PLAN_LIMITS } from '../core/planSchema';
-import { flagParts } from './flagParts';
+import { eachArgument } from './flagParts';
 import { MAX_POOL_WORKERS } from '../sim/pool/defaultPoolSize';
 import { parsePilotCommandLine, type PilotCommandLine } from './pilotCommandLine';
 import { parseMethodsCommandLine, type MethodsCommandLine } from './methodsCommandLine';
@@ -63,16 +63,7 @@ export function parseCommandLine(argv: readonly string[]): ParsedCommandLine {
   let seed: number | undefined;
   let maxSeconds: number | undefined;
   let workers: number | undefined;
-  for (let i = 0; i < rest.length; i++) {
-    const a = rest[i]!;
-    const { flag, inline } = flagParts(a);
-    const takeValue = (): string | undefined => {
-      if (inline !== undefined) return inline;
-      const next = rest[i + 1];
-      if (next === undefined || next.startsWith('--')) return undefined;
-      i++;
-      return next;
-    };
+  for (const { word: a, flag, inline, takeValue } of eachArgument(rest)) {
     switch (flag) {
       case '--json':
         json = true;
