@@ -41,7 +41,7 @@ export default defineConfig({
   plugins: [react(), contentSecurityPolicy(), offlineServiceWorker(), firstScreenReport()],
   base: './',
   worker: { format: 'es' },
-  // The entry chunk holds React, the store, src/core with jstat and zod (~680 kB; the first screen,
+  // The entry chunk holds React, the store, src/core with zod/mini (~450 kB; the first screen,
   // see DEVELOPERS.md); the charts with d3, the lower panels, the pilot reader, the PDF builder and
   // its fonts are chunks of their own, loaded when first needed.
   build: { outDir: 'dist', sourcemap: false, chunkSizeWarningLimit: 800 },

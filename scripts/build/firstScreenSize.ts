@@ -19,10 +19,13 @@ export const FIRST_SCREEN_LIMIT_KB = 150;
 
 /**
  * What the test enforces today (kB gzip): the first screen may not grow past it. It is above the
- * goal because the planner still analyses the plan on the page's own thread (src/core with zod and
- * jStat, React); lower it as that moves off the first screen (DEVELOPERS.md explains what is left).
+ * goal because the planner analyses the plan on the page's own thread as it is typed: React
+ * (~68 kB), the store and the form, and src/core with zod/mini — including the engines for
+ * covariates, clusters and selection rules, which the store, the form and the core's shared
+ * functions (remedies, sensitivity, validation) import directly. DEVELOPERS.md ("What the first
+ * screen loads") says what is left and how it could leave; lower this as it does.
  */
-export const FIRST_SCREEN_BUDGET_KB = 215;
+export const FIRST_SCREEN_BUDGET_KB = 164;
 
 /** One file of the first screen and its gzip size in bytes. */
 export interface FirstScreenFile {

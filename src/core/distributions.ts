@@ -1,10 +1,11 @@
-import jStat from 'jstat';
+import * as jStat from './jstatSubset';
 import { formatNumber, requireFinite, requireOpenInterval, requirePositive } from './inputChecks';
 
 /*
  * The probability distributions the core uses, in one place, so each is
  * cross-checked once against an independent library (test/core/distributions.test.ts).
- * All wrap jStat 1.9.6 and clamp probabilities to [0, 1].
+ * All wrap jStat 1.9.6 (the functions needed, copied verbatim into ./jstatSubset so the page's
+ * first screen need not load the whole library) and clamp probabilities to [0, 1].
  */
 
 const clamp01 = (p: number): number => (p < 0 ? 0 : p > 1 ? 1 : p);
@@ -19,7 +20,7 @@ const clamp01 = (p: number): number => (p < 0 ? 0 : p > 1 ? 1 : p);
  */
 export function normalCdf(z: number): number {
   requireFinite(z, 'The normal deviate');
-  return clamp01(jStat.normal.cdf(z, 0, 1));
+  return clamp01(jStat.normalCdf(z, 0, 1));
 }
 
 /**
@@ -45,7 +46,7 @@ export function normalPdf(z: number): number {
  */
 export function normalQuantile(p: number): number {
   requireOpenInterval(p, 0, 1, 'The probability');
-  return jStat.normal.inv(p, 0, 1) as number;
+  return jStat.normalInv(p, 0, 1) as number;
 }
 
 /**
@@ -59,7 +60,7 @@ export function normalQuantile(p: number): number {
 export function studentTCdf(t: number, df: number): number {
   requireFinite(t, 'The t value');
   requirePositive(df, 'The degrees of freedom');
-  return clamp01(jStat.studentt.cdf(t, df));
+  return clamp01(jStat.studenttCdf(t, df));
 }
 
 /**
@@ -73,7 +74,7 @@ export function studentTCdf(t: number, df: number): number {
 export function studentTQuantile(p: number, df: number): number {
   requireOpenInterval(p, 0, 1, 'The probability');
   requirePositive(df, 'The degrees of freedom');
-  const q = jStat.studentt.inv(p, df) as number;
+  const q = jStat.studenttInv(p, df) as number;
   if (!Number.isFinite(q)) {
     throw new Error(`The t quantile for p = ${formatNumber(p)} and df = ${formatNumber(df)} could not be computed.`);
   }
@@ -98,7 +99,7 @@ export function noncentralTCdf(t: number, df: number, ncp: number): number {
   // Lenth 1989); jStat's series beyond (where the probability is 0 or 1 to
   // double precision for the t values the core uses), and if AS 243 fails.
   let p = Math.abs(ncp) <= AS243_MAX_NCP ? noncentralTCdfLenth(t, df, ncp) : Number.NaN;
-  if (!Number.isFinite(p)) p = jStat.noncentralt.cdf(t, df, ncp) as number;
+  if (!Number.isFinite(p)) p = jStat.noncentraltCdf(t, df, ncp) as number;
   if (!Number.isFinite(p)) {
     throw new Error(
       `The noncentral t probability for t = ${formatNumber(t)}, df = ${formatNumber(df)}, ` +
@@ -160,6 +161,6 @@ function noncentralTCdfLenth(t: number, df: number, ncp: number): number {
     }
     if (!converged) return Number.NaN;
   }
-  tnc += jStat.normal.cdf(-del, 0, 1) as number;
+  tnc += jStat.normalCdf(-del, 0, 1) as number;
   return negative ? 1 - tnc : tnc;
 }

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod/mini';
 
 /**
  * The plan file's schema (format "meanward-plan", version 1) and, beside it,
@@ -98,6 +98,24 @@ export const PLAN_DEFAULTS = {
 /** Rules keyed by dotted path ("pretest.reliability"). Filled as the schema is built. */
 export const FIELD_RULES: Record<string, FieldRule> = {};
 
+/*
+ * The schema is built with zod's smaller functional build (zod/mini): the planner checks every edit
+ * on the page's first screen, and the full build would add about 20 kB of gzip there. Each helper
+ * below does what the full build's method of the same name does.
+ */
+
+/** The schema with a description for the JSON Schema (the full build's `.describe`). */
+function describe<T extends z.ZodMiniType>(schema: T, description: string): T {
+  z.globalRegistry.add(schema, { description });
+  return schema;
+}
+
+/** The schema, optional. */
+const optional = <T extends z.ZodMiniType>(schema: T) => z.optional(schema);
+
+/** The schema, filled with `value` when left out. */
+const withDefault = <T extends z.ZodMiniType>(schema: T, value: z.output<T>) => z._default(schema, value as never);
+
 interface NumberBounds {
   gt?: number;
   gte?: number;
@@ -126,12 +144,13 @@ function numberRuleText(b: NumberBounds): string {
 
 function num(path: string, label: string, description: string, b: NumberBounds = {}) {
   FIELD_RULES[path] = { label, rule: numberRuleText(b) };
-  let s = b.integer ? z.number().int() : z.number();
-  if (b.gt !== undefined) s = s.gt(b.gt);
-  if (b.gte !== undefined) s = s.gte(b.gte);
-  if (b.lt !== undefined) s = s.lt(b.lt);
-  if (b.lte !== undefined) s = s.lte(b.lte);
-  return s.describe(description);
+  let s = z.number();
+  if (b.integer) s = s.check(z.int());
+  if (b.gt !== undefined) s = s.check(z.gt(b.gt));
+  if (b.gte !== undefined) s = s.check(z.gte(b.gte));
+  if (b.lt !== undefined) s = s.check(z.lt(b.lt));
+  if (b.lte !== undefined) s = s.check(z.lte(b.lte));
+  return describe(s, description);
 }
 
 function text(path: string, label: string, description: string, min: number, max: number) {
@@ -139,19 +158,19 @@ function text(path: string, label: string, description: string, min: number, max
     label,
     rule: min > 0 ? `text of ${min} to ${max} characters` : `text of at most ${max} characters`,
   };
-  return z.string().min(min).max(max).describe(description);
+  return describe(z.string().check(z.minLength(min), z.maxLength(max)), description);
 }
 
 function oneOf<const T extends readonly [string, ...string[]]>(path: string, label: string, description: string, values: T) {
   const listed = values.map((v) => `"${v}"`);
   const rule = listed.length === 2 ? `${listed[0]} or ${listed[1]}` : `one of ${listed.join(', ')}`;
   FIELD_RULES[path] = { label, rule };
-  return z.enum(values).describe(description);
+  return describe(z.enum(values), description);
 }
 
-function section<T extends z.ZodRawShape>(path: string, label: string, description: string, shape: T) {
+function section<T extends z.core.$ZodLooseShape>(path: string, label: string, description: string, shape: T) {
   FIELD_RULES[path] = { label, rule: 'a section of named fields' };
-  return z.object(shape).describe(description);
+  return describe(z.object(shape), description);
 }
 
 function group(who: 'programme' | 'comparison') {
@@ -172,8 +191,8 @@ function group(who: 'programme' | 'comparison') {
 /** The zod schema of a version-1 plan file. Unknown extra fields are accepted and dropped. */
 export const planSchema = z
   .object({
-    format: z.literal(PLAN_FORMAT).describe('Always "meanward-plan".'),
-    version: z.literal(PLAN_VERSION).describe('Plan file version; this build reads version 1.'),
+    format: describe(z.literal(PLAN_FORMAT), 'Always "meanward-plan".'),
+    version: describe(z.literal(PLAN_VERSION), 'Plan file version; this build reads version 1.'),
     title: text('title', 'Title', 'A short title for the study plan.', 0, PLAN_LIMITS.titleMaxLength),
     groups: section(
       'groups',
@@ -183,11 +202,11 @@ export const planSchema = z
         programme: group('programme'),
         comparison: group('comparison'),
       },
-    ).optional(),
+    ).apply(optional),
     design: oneOf('design', 'Study design', 'Two groups compared, or one group re-measured with no comparison group (default "two-groups").', [
       'two-groups',
       'one-group',
-    ] as const).optional(),
+    ] as const).apply(optional),
     assignment: section('assignment', 'The assignment section', 'How people got into the programme (default: existing groups).', {
       rule: oneOf('assignment.rule', 'Assignment rule', 'Existing groups, a sharp cut-off, or a probability that changes smoothly across the cut-off.', [
         'existing-groups',
@@ -198,15 +217,15 @@ export const planSchema = z
         'pretest',
         'screener',
         'true-score',
-      ] as const).optional(),
-      cutOff: num('assignment.cutOff', 'Cut-off', "The cut-off on the pretest's scale (the screener and the true score share the pretest's mean).", POINTS).optional(),
-      side: oneOf('assignment.side', 'Who is selected', 'Those below the cut-off, or those above it, go into the programme.', ['below', 'above'] as const).optional(),
-      spread: num('assignment.spread', 'Spread of the selection probability', 'For "probability": the SD of the normal ogive, on the pretest\u2019s scale.', SD).optional(),
+      ] as const).apply(optional),
+      cutOff: num('assignment.cutOff', 'Cut-off', "The cut-off on the pretest's scale (the screener and the true score share the pretest's mean).", POINTS).apply(optional),
+      side: oneOf('assignment.side', 'Who is selected', 'Those below the cut-off, or those above it, go into the programme.', ['below', 'above'] as const).apply(optional),
+      spread: num('assignment.spread', 'Spread of the selection probability', 'For "probability": the SD of the normal ogive, on the pretest\u2019s scale.', SD).apply(optional),
       screenerReliability: num('assignment.screenerReliability', 'Screener reliability', 'For basis "screener": its reliability in the population.', {
         gt: 0,
         lt: 1,
-      }).optional(),
-    }).optional(),
+      }).apply(optional),
+    }).apply(optional),
     population: section('population', 'The population section', 'With a selection rule or a one-group design: the one population people are picked from.', {
       label: text('population.label', 'Population name', 'Plain-language name of the population.', 1, PLAN_LIMITS.labelMaxLength),
       poolSize: num('population.poolSize', 'Population size', 'People in the population the rule picks from.', {
@@ -216,7 +235,7 @@ export const planSchema = z
       }),
       pretestMean: num('population.pretestMean', 'Population pretest mean', 'Mean of the observed pretest in the population, test points.', POINTS),
       pretestSD: num('population.pretestSD', 'Population pretest SD', 'SD of the observed pretest in the population, test points.', SD),
-    }).optional(),
+    }).apply(optional),
     pretest: section(
       'pretest',
       'The pretest section',
@@ -227,14 +246,14 @@ export const planSchema = z
           'Pretest reliability',
           'Reliability of the pretest as reported for a population with SD referenceSD.',
           { gt: 0, lt: 1 },
-        ).optional(),
+        ).apply(optional),
         referenceSD: num(
           'pretest.referenceSD',
           'Reference SD of the pretest',
           'SD of the population the reliability was estimated in, test points (default: the comparison group pretest SD).',
           SD,
-        ).optional(),
-        sem: num('pretest.sem', 'Pretest SEM', 'Standard error of measurement of the pretest, test points.', SD).optional(),
+        ).apply(optional),
+        sem: num('pretest.sem', 'Pretest SEM', 'Standard error of measurement of the pretest, test points.', SD).apply(optional),
       },
     ),
     outcome: section('outcome', 'The outcome section', 'The posttest (outcome) and the hoped-for effect.', {
@@ -273,25 +292,25 @@ export const planSchema = z
       }),
       replacement: (() => {
         FIELD_RULES['matching.replacement'] = { label: 'Matching with replacement', rule: 'true or false' };
-        return z.boolean().describe('Whether a comparison member may serve more than one programme member.');
+        return describe(z.boolean(), 'Whether a comparison member may serve more than one programme member.');
       })(),
       order: oneOf('matching.order', 'Matching order', 'Order in which programme members take partners (without replacement).', [
         'random',
         'lowest-first',
         'highest-first',
-      ] as const).default(PLAN_DEFAULTS.order),
+      ] as const).apply(withDefault, PLAN_DEFAULTS.order),
       distance: oneOf(
         'matching.distance',
         'Matching distance',
         'What closeness is measured on: the observed pretest, the linear propensity score on all measured covariates, or the Mahalanobis distance on them (default "pretest").',
         ['pretest', 'propensity', 'mahalanobis'] as const,
-      ).optional(),
+      ).apply(optional),
       level: oneOf(
         'matching.level',
         'Matching level',
         'With clusters: match whole clusters on their observed pretest means, or people across clusters on their own pretests (default "people").',
         ['clusters', 'people'] as const,
-      ).optional(),
+      ).apply(optional),
     }),
     analysis: section('analysis', 'The analysis section', 'Significance level, assumed reliability, tolerance and target power.', {
       alpha: num('analysis.alpha', 'Significance level (alpha)', 'Two-sided significance level.', { gte: PLAN_LIMITS.alphaMin, lt: 0.5 }),
@@ -306,11 +325,11 @@ export const planSchema = z
         'Tolerable bias share',
         'Share of the hypothesised effect an artefact may reach and still be tolerated.',
         { gt: 0, lte: 1 },
-      ).default(PLAN_DEFAULTS.tolerableBiasShare),
+      ).apply(withDefault, PLAN_DEFAULTS.tolerableBiasShare),
       targetPower: num('analysis.targetPower', 'Target power', 'Power the study aims for when the required n is computed.', {
         gte: 0.5,
         lte: 0.99,
-      }).default(PLAN_DEFAULTS.targetPower),
+      }).apply(withDefault, PLAN_DEFAULTS.targetPower),
     }),
     simulation: section('simulation', 'The simulation section', 'Monte Carlo settings.', {
       replications: num('simulation.replications', 'Number of simulated replications', 'Monte Carlo replications.', {
@@ -334,12 +353,12 @@ export const planSchema = z
       posttestICC: num('clusters.posttestICC', 'Posttest ICC', 'Intraclass correlation of the observed posttest within the comparison group (default: the pretest ICC).', {
         gt: 0,
         lt: 1,
-      }).optional(),
+      }).apply(optional),
       cohort: oneOf('clusters.cohort', 'Posttest cohort', 'Whether the posttest is taken by the same people as the pretest, or by a new cohort of the same clusters.', [
         'same',
         'new',
       ] as const),
-    }).optional(),
+    }).apply(optional),
     covariates: (() => {
       FIELD_RULES.covariates = { label: 'The covariates list', rule: `a list of at most ${PLAN_LIMITS.covariatesMax} covariates` };
       const c = 'covariates.*';
@@ -364,18 +383,18 @@ export const planSchema = z
               ),
               measured: (() => {
                 FIELD_RULES[`${c}.measured`] = { label: 'Covariate {n} "measured"', rule: 'true or false' };
-                return z.boolean().describe('false: a known confounder that is never observed (never matched or adjusted on).');
+                return describe(z.boolean(), 'false: a known confounder that is never observed (never matched or adjusted on).');
               })(),
               exact: (() => {
                 FIELD_RULES[`${c}.exact`] = { label: 'Covariate {n} "exact"', rule: 'true or false' };
-                return z.boolean().describe('true: a binary or categorical variable matched exactly (needs reliability 1).');
+                return describe(z.boolean(), 'true: a binary or categorical variable matched exactly (needs reliability 1).');
               })(),
             })
-            .describe('A covariate beyond the pretest.'),
+            .apply(describe, 'A covariate beyond the pretest.'),
         )
-        .max(PLAN_LIMITS.covariatesMax)
-        .optional()
-        .describe('Covariates beyond the pretest (the pretest is covariate 0).');
+        .check(z.maxLength(PLAN_LIMITS.covariatesMax))
+        .apply(optional)
+        .apply(describe, 'Covariates beyond the pretest (the pretest is covariate 0).');
     })(),
     covariateCorrelations: (() => {
       FIELD_RULES.covariateCorrelations = {
@@ -388,9 +407,9 @@ export const planSchema = z
         rule: 'a number from -1 to 1',
       };
       return z
-        .array(z.array(z.number().gte(-1).lte(1)))
-        .optional()
-        .describe('Observed within-group correlations among the pretest and the covariates, pretest first (symmetric, ones on the diagonal).');
+        .array(z.array(z.number().check(z.gte(-1), z.lte(1))))
+        .apply(optional)
+        .apply(describe, 'Observed within-group correlations among the pretest and the covariates, pretest first (symmetric, ones on the diagonal).');
     })(),
     provenance: (() => {
       FIELD_RULES.provenance = { label: 'The provenance section', rule: 'a set of entries keyed by field path' };
@@ -404,23 +423,23 @@ export const planSchema = z
         .record(
           z.string(),
           z.object({
-            source: z.enum(['entered', 'example', 'pilot']).describe('Where the value came from.'),
-            note: z.string().max(PLAN_LIMITS.provenanceNoteMaxLength).describe('Plain words shown beside the value.'),
+            source: z.enum(['entered', 'example', 'pilot']).apply(describe, 'Where the value came from.'),
+            note: z.string().check(z.maxLength(PLAN_LIMITS.provenanceNoteMaxLength)).apply(describe, 'Plain words shown beside the value.'),
             interval: z
               .object({
                 lower: z.number(),
                 upper: z.number(),
-                level: z.number().gt(0).lt(1),
+                level: z.number().check(z.gt(0), z.lt(1)),
               })
-              .optional()
-              .describe('Confidence interval of the estimate, when the source gives one.'),
+              .apply(optional)
+              .apply(describe, 'Confidence interval of the estimate, when the source gives one.'),
           }),
         )
-        .optional()
-        .describe('Where values came from, keyed by dotted field path (e.g. "pretest.reliability"). Holds estimates only, never data rows.');
+        .apply(optional)
+        .apply(describe, 'Where values came from, keyed by dotted field path (e.g. "pretest.reliability"). Holds estimates only, never data rows.');
     })(),
   })
-  .describe('A Meanward study plan (version 1).');
+  .apply(describe, 'A Meanward study plan (version 1).');
 
 /**
  * The plan file's JSON Schema (draft 2020-12), generated from planSchema; the

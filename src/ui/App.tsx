@@ -1,14 +1,12 @@
 import { lazy, Suspense, useState, type ComponentType } from 'react';
-import { ComparisonTable } from './ComparisonTable';
 import { Header } from './Header';
 import { NoticeBar } from './NoticeBar';
 import { UpdateNotice } from './UpdateNotice';
 import { PilotPanel } from './PilotPanel';
 import { PlanForm } from './PlanForm';
-import { RemediesPanel } from './RemediesPanel';
 import { SimulationPanel } from './SimulationPanel';
 import { VerdictPanel } from './VerdictPanel';
-import { ChartsPanel, MethodsPanel, VariantsPanel } from './resultPanels';
+import { ChartsPanel, ComparisonTable, MethodsPanel, RemediesPanel, VariantsPanel } from './resultPanels';
 import { ExplorerSection } from './ExplorerSection';
 
 // The exports panel is built separately and loaded on demand (it brings the PDF code).

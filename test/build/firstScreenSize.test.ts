@@ -45,10 +45,22 @@ describe('the first screen', () => {
     expect(entry).toBeDefined();
     expect(files).toContain(entry);
     expect(files.some((f) => /^assets\/index-.+\.css$/.test(f))).toBe(true);
-    for (const lazy of ['ChartsPanel-', 'MethodsPanel-', 'VariantsPanel-', 'PilotBody-', 'ExportPanel-', 'buildReportPdf-', 'worker-', 'pilotWorker-', 'svgHelpers-']) {
+    for (const lazy of ['ComparisonTable-', 'RemediesPanel-', 'ChartsPanel-', 'MethodsPanel-', 'VariantsPanel-', 'PilotBody-', 'ExportPanel-', 'buildReportPdf-', 'worker-', 'pilotWorker-', 'svgHelpers-']) {
       expect(files.filter((f) => f.includes(lazy)), lazy).toEqual([]);
       // …and each of those really is a separate file of the build (so the check above can fail).
       expect(allFiles(dist).some((f) => f.includes(lazy)), lazy).toBe(true);
+    }
+  });
+
+  it('carries neither jStat nor ml-matrix (the closed forms use verbatim copies of the few functions they need)', () => {
+    // A string each library keeps in its minified code: jStat's F distribution, ml-matrix's Matrix constructor check.
+    const markers = { jStat: 'centralF', 'ml-matrix': 'nColumns must be' };
+    const firstScreen = firstScreenFiles(dist).filter((f) => f.endsWith('.js')).map((f) => readFileSync(join(dist, f), 'utf8'));
+    const lazyJs = allFiles(dist).filter((f) => f.endsWith('.js') && !firstScreenFiles(dist).includes(f)).map((f) => readFileSync(join(dist, f), 'utf8'));
+    for (const [library, marker] of Object.entries(markers)) {
+      expect(firstScreen.some((code) => code.includes(marker)), library).toBe(false);
+      // …while the workers that simulate still carry the library itself (so the check can fail).
+      expect(lazyJs.some((code) => code.includes(marker)), library).toBe(true);
     }
   });
 

@@ -1,10 +1,28 @@
-import { CholeskyDecomposition, Matrix, solve } from 'ml-matrix';
-
 /*
  * Small dense linear algebra for the several-covariate model, on plain
- * number[][] (JSON-safe, structured-clone safe). The factorisations and
- * solves are ml-matrix's; this file only adapts shapes and adds a relative
- * tolerance to its positive-definiteness test.
+ * number[][] (JSON-safe, structured-clone safe). The Cholesky factorisation
+ * and its solve are ml-matrix 6.15.1's (CholeskyDecomposition), copied
+ * verbatim onto plain arrays (the same loops in the same order, so the same
+ * doubles) so the page's first screen need not load the library, whose
+ * matrix class is several times larger than the two loops used here;
+ * test/core/linearAlgebra.test.ts compares them with ml-matrix bit for bit.
+ * This file adds a relative tolerance to the positive-definiteness test.
+ *
+ * ml-matrix: The MIT License (MIT), Copyright (c) 2014 Michaël Zasso.
+ * Permission is hereby granted, free of charge, to any person obtaining a
+ * copy of this software and associated documentation files (the "Software"),
+ * to deal in the Software without restriction, including without limitation
+ * the rights to use, copy, modify, merge, publish, distribute, sublicense,
+ * and/or sell copies of the Software, and to permit persons to whom the
+ * Software is furnished to do so, subject to the following conditions: The
+ * above copyright notice and this permission notice shall be included in all
+ * copies or substantial portions of the Software. THE SOFTWARE IS PROVIDED
+ * "AS IS", WITHOUT WARRANTY OF ANY KIND, EXPRESS OR IMPLIED, INCLUDING BUT
+ * NOT LIMITED TO THE WARRANTIES OF MERCHANTABILITY, FITNESS FOR A PARTICULAR
+ * PURPOSE AND NONINFRINGEMENT. IN NO EVENT SHALL THE AUTHORS OR COPYRIGHT
+ * HOLDERS BE LIABLE FOR ANY CLAIM, DAMAGES OR OTHER LIABILITY, WHETHER IN AN
+ * ACTION OF CONTRACT, TORT OR OTHERWISE, ARISING FROM, OUT OF OR IN
+ * CONNECTION WITH THE SOFTWARE OR THE USE OR OTHER DEALINGS IN THE SOFTWARE.
  */
 
 /** Rows `rows` and columns `cols` of a matrix, as a new number[][]. */
@@ -36,11 +54,6 @@ export function multiplyVector(a: readonly (readonly number[])[], x: readonly nu
   return a.map((row) => dot(row, x));
 }
 
-/** A B for small dense matrices. */
-export function multiply(a: readonly (readonly number[])[], b: readonly (readonly number[])[]): number[][] {
-  return new Matrix(a as number[][]).mmul(new Matrix(b as number[][])).to2DArray();
-}
-
 /** A'. */
 export function transpose(a: readonly (readonly number[])[]): number[][] {
   const rows = a.length;
@@ -70,16 +83,85 @@ export function isPositiveDefinite(a: readonly (readonly number[])[]): boolean {
   return a.length === 0 || choleskyIfPositiveDefinite(a) !== null;
 }
 
-/** ml-matrix's Cholesky factorisation when A is positive definite (with the tolerance above), else null. */
-function choleskyIfPositiveDefinite(a: readonly (readonly number[])[]): CholeskyDecomposition | null {
-  const cho = new CholeskyDecomposition(new Matrix(symmetrise(a)));
-  if (!cho.isPositiveDefinite()) return null;
-  const l = cho.lowerTriangularMatrix;
+/** The Cholesky factor L (A = L L') when A is positive definite (with the tolerance above), else null. */
+function choleskyIfPositiveDefinite(a: readonly (readonly number[])[]): number[][] | null {
+  const cho = choleskyDecomposition(symmetrise(a));
+  if (!cho.positiveDefinite) return null;
+  const l = cho.L;
   for (let j = 0; j < a.length; j++) {
-    const d = l.get(j, j) ** 2;
+    const d = at(l, j, j) ** 2;
     if (!(d > 1e-10 * Math.abs(at(a, j, j)))) return null;
   }
-  return cho;
+  return l;
+}
+
+/** ml-matrix's CholeskyDecomposition constructor, on a square number[][] (see the note at the top). */
+function choleskyDecomposition(a: readonly (readonly number[])[]): { L: number[][]; positiveDefinite: boolean } {
+  // Matrix.isSymmetric: every entry equal to its mirror (so a NaN anywhere fails, as in ml-matrix).
+  for (let i = 0; i < a.length; i++) {
+    for (let j = 0; j <= i; j++) {
+      if (at(a, i, j) !== at(a, j, i)) throw new Error('Matrix is not symmetric');
+    }
+  }
+  const dimension = a.length;
+  const l: number[][] = Array.from({ length: dimension }, () => new Array<number>(dimension).fill(0));
+  let positiveDefinite = true;
+  let i: number, j: number, k: number;
+
+  for (j = 0; j < dimension; j++) {
+    const lj = l[j] as number[];
+    let d = 0;
+    for (k = 0; k < j; k++) {
+      const lk = l[k] as number[];
+      let s = 0;
+      for (i = 0; i < k; i++) {
+        s += (lk[i] as number) * (lj[i] as number);
+      }
+      s = (at(a, j, k) - s) / (lk[k] as number);
+      lj[k] = s;
+      d = d + s * s;
+    }
+
+    d = at(a, j, j) - d;
+
+    positiveDefinite &&= d > 0;
+    lj[j] = Math.sqrt(Math.max(d, 0));
+    for (k = j + 1; k < dimension; k++) {
+      lj[k] = 0;
+    }
+  }
+  return { L: l, positiveDefinite };
+}
+
+/** ml-matrix's CholeskyDecomposition.solve for a positive definite factor L: X with L L' X = B (B is copied). */
+function choleskySolve(l: readonly (readonly number[])[], value: readonly (readonly number[])[]): number[][] {
+  const dimension = l.length;
+  if (value.length !== dimension) throw new Error('Matrix dimensions do not match');
+  const count = value[0]?.length ?? 0;
+  const B = value.map((row) => row.slice());
+  let i: number, j: number, k: number;
+
+  for (k = 0; k < dimension; k++) {
+    const Bk = B[k] as number[];
+    for (j = 0; j < count; j++) {
+      for (i = 0; i < k; i++) {
+        Bk[j] = (Bk[j] as number) - at(B, i, j) * at(l, k, i);
+      }
+      Bk[j] = (Bk[j] as number) / at(l, k, k);
+    }
+  }
+
+  for (k = dimension - 1; k >= 0; k--) {
+    const Bk = B[k] as number[];
+    for (j = 0; j < count; j++) {
+      for (i = k + 1; i < dimension; i++) {
+        Bk[j] = (Bk[j] as number) - at(B, i, j) * at(l, i, k);
+      }
+      Bk[j] = (Bk[j] as number) / at(l, k, k);
+    }
+  }
+
+  return B;
 }
 
 /**
@@ -95,17 +177,11 @@ export function solvePositiveDefinite(
 ): number[] | number[][] {
   const isVector = typeof b[0] === 'number' || b.length === 0;
   if (a.length === 0) return isVector ? [] : (b as number[][]).map(() => []);
-  const cho = choleskyIfPositiveDefinite(a);
-  if (!cho) throw new Error('Internal fault: a covariance matrix that must be positive definite is not.');
-  const rhs = isVector ? Matrix.columnVector(b as number[]) : new Matrix(b as number[][]);
-  const x = cho.solve(rhs);
-  return isVector ? x.getColumn(0) : x.to2DArray();
-}
-
-/** Solves A x = b for a general square A (LU, ml-matrix). */
-export function solveGeneral(a: readonly (readonly number[])[], b: readonly number[]): number[] {
-  if (a.length === 0) return [];
-  return solve(new Matrix(a as number[][]), Matrix.columnVector(b as number[])).getColumn(0);
+  const l = choleskyIfPositiveDefinite(a);
+  if (!l) throw new Error('Internal fault: a covariance matrix that must be positive definite is not.');
+  const rhs = isVector ? (b as number[]).map((v) => [v]) : (b as number[][]);
+  const x = choleskySolve(l, rhs);
+  return isVector ? x.map((row) => row[0] as number) : x;
 }
 
 /** x' A^-1 x for symmetric positive definite A (0 for an empty x). */
