@@ -107,6 +107,39 @@ describe('renderExplorerChart', () => {
     cell.dispatchEvent(new KeyboardEvent('keydown', { key: 'a' }));
     expect(onCellActivate.mock.calls).toEqual([[4], [4], [4]]);
   });
+  it('redrawing as cells finish replaces only the changed cells and gives the same SVG as drawing it whole', () => {
+    const full = explorerChartData(two);
+    // The same grid one step earlier: a done cell that does not set the colour scale still pending.
+    const extentCell = full.cells.reduce((a, c) => (Math.abs(c.share ?? 0) > Math.abs(a.share ?? 0) ? c : a));
+    const later = full.cells.find((c) => c.status === 'done' && c.index !== extentCell.index)!;
+    const earlierResult: ExploreResult = { ...two, cells: two.cells.map((c) => (c.index === later.index ? pendingCellSummary(c) : c)) };
+    const earlier = explorerChartData(earlierResult);
+    expect(earlier.colourExtent).toBe(full.colourExtent);
+    const onCellFocus = vi.fn();
+    const onCellActivate = vi.fn();
+    const opts = { width: 720, height: 300, interactive: true, onCellFocus, onCellActivate };
+    const live = document.createElementNS('http://www.w3.org/2000/svg', 'svg');
+    renderExplorerChart(live, earlier, opts);
+    const unchanged = live.querySelector(`[data-cell-index="${full.cells.find((c) => c.index !== later.index)!.index}"]`);
+    const before = live.querySelector(`[data-cell-index="${later.index}"]`);
+    renderExplorerChart(live, full, opts);
+    const whole = document.createElementNS('http://www.w3.org/2000/svg', 'svg');
+    renderExplorerChart(whole, full, opts);
+    expect(live.outerHTML).toBe(whole.outerHTML);
+    // Only the changed cell was drawn again: the others are the same elements, still hooked.
+    expect(live.querySelector(`[data-cell-index="${full.cells.find((c) => c.index !== later.index)!.index}"]`)).toBe(unchanged);
+    const redrawn = live.querySelector(`[data-cell-index="${later.index}"]`)!;
+    expect(redrawn).not.toBe(before);
+    redrawn.dispatchEvent(new Event('focus'));
+    unchanged!.dispatchEvent(new MouseEvent('click'));
+    expect(onCellFocus.mock.calls).toEqual([[later.index]]);
+    expect(onCellActivate).toHaveBeenCalledTimes(1);
+    // A change of frame (here the chosen cell) draws it whole: again the same SVG as a fresh drawing.
+    renderExplorerChart(live, full, { ...opts, selectedIndex: 2 });
+    renderExplorerChart(whole, full, { ...opts, selectedIndex: 2 });
+    expect(live.outerHTML).toBe(whole.outerHTML);
+    expect(live.querySelector(`[data-cell-index="${later.index}"]`)).not.toBe(redrawn);
+  });
   it('labels stay inside the chart and apart at 320, 390, 720 and 900 px', () => {
     const found: string[] = [];
     for (const r of [two, one]) {
