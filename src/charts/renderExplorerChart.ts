@@ -135,14 +135,17 @@ export function explorerColour(share: number, extent: number): string {
   return t < 0 ? interpolateRgb(EXPLORER_COLOURS.zero, EXPLORER_COLOURS.below)(-t) : interpolateRgb(EXPLORER_COLOURS.zero, EXPLORER_COLOURS.above)(t);
 }
 
-/** Diagonal hatching inside a rectangle (plain lines: no SVG pattern, so the PDF draws it too). */
+/**
+ * Diagonal hatching inside a rectangle: one path of plain line segments (no SVG
+ * pattern, so the PDF draws it too; one element, not one per stroke, so a grid
+ * of pending cells is quick to draw).
+ */
 function hatch(g: Sel, x0: number, y0: number, w: number, h: number, colour: string): void {
+  let d = '';
   for (let t = 6; t < w + h; t += 7) {
-    add(g, 'line', {
-      x1: x0 + Math.min(t, w), y1: y0 + Math.max(0, t - w), x2: x0 + Math.max(0, t - h), y2: y0 + Math.min(t, h),
-      stroke: colour, 'stroke-width': 1,
-    });
+    d += `M${round(x0 + Math.min(t, w))},${round(y0 + Math.max(0, t - w))}L${round(x0 + Math.max(0, t - h))},${round(y0 + Math.min(t, h))}`;
   }
+  add(g, 'path', { d, fill: 'none', stroke: colour, 'stroke-width': 1 }).attr('data-hatch', 'true');
 }
 
 function cross(g: Sel, x0: number, y0: number, w: number, h: number): void {

@@ -74,7 +74,9 @@ describe('renderExplorerChart', () => {
     const outlined = groups.filter((g) => g.querySelector(`rect[stroke="${EXPLORER_COLOURS.tolerable}"]`) !== null).length;
     expect(outlined).toBe(d.cells.filter((c) => c.tolerable === true).length);
     expect(outlined).toBeGreaterThan(0); // reliability .95 with a gap of −2: (0.6/.95)(.05)(−2)/2.5 ≈ −2.5% (Lord 1960)
-    expect(groups.filter((g) => g.getAttribute('data-status') === 'pending')[0]!.querySelectorAll('line').length).toBeGreaterThan(3);
+    // Hatching: one path of several diagonal strokes (one 'M' per stroke).
+    const hatching = groups.filter((g) => g.getAttribute('data-status') === 'pending')[0]!.querySelector('path[data-hatch]')!;
+    expect(hatching.getAttribute('d')!.split('M').length - 1).toBeGreaterThan(3);
     for (const g of groups.filter((x) => x.getAttribute('data-status') === 'impossible')) expect(g.querySelectorAll('line').length).toBe(2);
     expect(svg.textContent).toContain('Crossed out: reliability 0.30');
   });
