@@ -35,6 +35,17 @@ export function cellStateWords(c: ExplorerChartCell): string {
  * judged, the caution; and a table with one row per cell.
  */
 export function explorerChartText(data: ExplorerChartData): ChartText {
+  // Kept per data object (chart data are never changed in place): the page builds the text
+  // and the drawing describes itself with the same sentences, for every batch of cells.
+  const kept = texts.get(data);
+  if (kept) return kept;
+  const text = buildExplorerChartText(data);
+  texts.set(data, text);
+  return text;
+}
+const texts = new WeakMap<ExplorerChartData, ChartText>();
+
+function buildExplorerChartText(data: ExplorerChartData): ChartText {
   const { counts } = data;
   const varied = data.axes.map((a) => `${a.label} (${a.valueLabels.join(', ')})`).join(' and ');
   const done = data.cells.filter((c) => c.status === 'done' && c.share !== null);
