@@ -2,7 +2,7 @@ import { interpolateRgb, scaleLinear } from 'd3';
 import { select } from 'd3-selection';
 import type { ChartSize } from './chartTypes';
 import type { ExplorerChartCell, ExplorerChartData } from './explorerChartData';
-import { explorerChartText, shareWithSE, sharePct, cellStateWords } from './explorerChartText';
+import { explorerChartText, formatCount, shareWithSE, sharePct, cellStateWords } from './explorerChartText';
 import { ANALYSIS_STYLES, EXPLORER_COLOURS, GROUP_COLOURS } from './palette';
 import { COMPACT_WIDTH, FONT, type Sel, add, axisBottom, axisLabelLines, axisLeft, fmt, labelWidth, lineHeight, markerPath, prepareSvg, round, text, wrapLabel } from './svgHelpers';
 
@@ -73,7 +73,7 @@ interface Layout {
 }
 
 function notes(data: ExplorerChartData): string[] {
-  const n = [`Each cell: ${data.replications.toLocaleString('en-GB')} replications, the same seed in every cell; figures are the simulated artefact ± its Monte Carlo SE.`];
+  const n = [`Each cell: ${formatCount(data.replications)} replications, the same seed in every cell; figures are the simulated artefact ± its Monte Carlo SE.`];
   const bad = data.cells.filter((c) => c.status === 'impossible' || c.status === 'failed');
   if (bad.length > 0) {
     const first = bad[0]!;

@@ -8,7 +8,7 @@ import { demoPlan } from '../../src/io/demoPlan';
 import { exploreCells, exploreResult, pendingCellSummary, summariseExploreCell, type ExploreResult, type ExploreSpec } from '../../src/core/explore';
 import { createPlanSimulation } from '../../src/sim/multivariate/createPlanSimulation';
 import { explorerChartData } from '../../src/charts/explorerChartData';
-import { explorerChartText } from '../../src/charts/explorerChartText';
+import { explorerChartText, formatCount } from '../../src/charts/explorerChartText';
 import { renderExplorerChart } from '../../src/charts/renderExplorerChart';
 import { renderChartToSvgString } from '../../src/charts/renderChartToSvgString';
 import { chartSize } from '../../src/charts/chartSize';
@@ -59,6 +59,13 @@ describe('explorerChartData', () => {
     }
     expect(d.colourExtent).toBeGreaterThanOrEqual(Math.max(...d.cells.map((c) => Math.abs(c.share ?? 0))));
     expect(explorerChartData(one).mode).toBe('curves');
+  });
+});
+
+describe('formatCount', () => {
+  it('writes counts exactly as Number.prototype.toLocaleString("en-GB") does (ECMA-402: the same as a new Intl.NumberFormat)', () => {
+    for (const n of [0, 7, 200, 1000, 2000, 12345, 1_000_000]) expect(formatCount(n)).toBe(n.toLocaleString('en-GB'));
+    expect(formatCount(2000)).toBe('2,000'); // en-GB groups thousands with a comma (common practice)
   });
 });
 
