@@ -129,14 +129,24 @@ export function explorerChartData(result: ExploreResult): ExplorerChartData {
   };
 }
 
-/** The base plan's closed-form results (names and tau), or null when they cannot be computed. */
+/**
+ * The base plan's closed-form results (names and tau), or null when they cannot be computed.
+ * Kept per plan object: while a grid fills in, every new chart data has the same base plan,
+ * and analysePlan takes several ms (a plan object is never changed in place).
+ */
 function baseAnalysis(result: ExploreResult): ReturnType<typeof analysePlan> | null {
+  const kept = baseAnalyses.get(result.plan);
+  if (kept !== undefined) return kept;
+  let analytic: ReturnType<typeof analysePlan> | null;
   try {
-    return analysePlan(result.plan);
+    analytic = analysePlan(result.plan);
   } catch {
-    return null;
+    analytic = null;
   }
+  baseAnalyses.set(result.plan, analytic);
+  return analytic;
 }
+const baseAnalyses = new WeakMap<object, ReturnType<typeof analysePlan> | null>();
 
 /** An analysis name inside a sentence: its first letter lower-cased unless it starts an acronym ("ANCOVA …" stays). */
 export function inSentence(name: string): string {

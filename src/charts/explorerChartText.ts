@@ -3,6 +3,16 @@ import { inSentence, type ExplorerChartCell, type ExplorerChartData } from './ex
 import { fmt } from './svgHelpers';
 import { PLANNING_CAUTION } from '../core/planningCaution';
 
+/**
+ * A count with thousands separators, e.g. "2,000": the same as n.toLocaleString('en-GB'),
+ * with the formatter made once when the module loads (making one takes milliseconds, the
+ * first one in a page far more, and the explorer writes counts on every batch of cells).
+ */
+export function formatCount(n: number): string {
+  return COUNT_FORMAT.format(n);
+}
+const COUNT_FORMAT = new Intl.NumberFormat('en-GB');
+
 /** A share of the effect as a signed percentage, ASCII minus (PDF fonts), e.g. "-42%". */
 export function sharePct(x: number, digits = 0): string {
   return `${fmt(x * 100, digits)}%`;
@@ -35,13 +45,24 @@ export function cellStateWords(c: ExplorerChartCell): string {
  * judged, the caution; and a table with one row per cell.
  */
 export function explorerChartText(data: ExplorerChartData): ChartText {
+  // Kept per data object (chart data are never changed in place): the page builds the text
+  // and the drawing describes itself with the same sentences, for every batch of cells.
+  const kept = texts.get(data);
+  if (kept) return kept;
+  const text = buildExplorerChartText(data);
+  texts.set(data, text);
+  return text;
+}
+const texts = new WeakMap<ExplorerChartData, ChartText>();
+
+function buildExplorerChartText(data: ExplorerChartData): ChartText {
   const { counts } = data;
   const varied = data.axes.map((a) => `${a.label} (${a.valueLabels.join(', ')})`).join(' and ');
   const done = data.cells.filter((c) => c.status === 'done' && c.share !== null);
   const tolerable = done.filter((c) => c.tolerable === true);
   const sentences = [
     `Simulated regression artefact of the ${inSentence(data.analysisLabel)} as a share of the hoped-for effect, in ${counts.total} plan variants: ${varied}. ` +
-      `Each variant is simulated with ${data.replications.toLocaleString('en-GB')} replications and the same seed (common random numbers), so neighbouring cells differ by the inputs, not by chance.`,
+      `Each variant is simulated with ${formatCount(data.replications)} replications and the same seed (common random numbers), so neighbouring cells differ by the inputs, not by chance.`,
     counts.done === counts.total
       ? `All ${counts.total} variants have been simulated.`
       : `${counts.done} of ${counts.total} variants have been simulated` +

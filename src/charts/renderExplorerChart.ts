@@ -1,7 +1,8 @@
 import { interpolateRgb, scaleLinear } from 'd3';
+import { select } from 'd3-selection';
 import type { ChartSize } from './chartTypes';
 import type { ExplorerChartCell, ExplorerChartData } from './explorerChartData';
-import { explorerChartText, shareWithSE, sharePct, cellStateWords } from './explorerChartText';
+import { explorerChartText, formatCount, shareWithSE, sharePct, cellStateWords } from './explorerChartText';
 import { ANALYSIS_STYLES, EXPLORER_COLOURS, GROUP_COLOURS } from './palette';
 import { COMPACT_WIDTH, FONT, type Sel, add, axisBottom, axisLabelLines, axisLeft, fmt, labelWidth, lineHeight, markerPath, prepareSvg, round, text, wrapLabel } from './svgHelpers';
 
@@ -72,7 +73,7 @@ interface Layout {
 }
 
 function notes(data: ExplorerChartData): string[] {
-  const n = [`Each cell: ${data.replications.toLocaleString('en-GB')} replications, the same seed in every cell; figures are the simulated artefact ± its Monte Carlo SE.`];
+  const n = [`Each cell: ${formatCount(data.replications)} replications, the same seed in every cell; figures are the simulated artefact ± its Monte Carlo SE.`];
   const bad = data.cells.filter((c) => c.status === 'impossible' || c.status === 'failed');
   if (bad.length > 0) {
     const first = bad[0]!;
@@ -134,14 +135,17 @@ export function explorerColour(share: number, extent: number): string {
   return t < 0 ? interpolateRgb(EXPLORER_COLOURS.zero, EXPLORER_COLOURS.below)(-t) : interpolateRgb(EXPLORER_COLOURS.zero, EXPLORER_COLOURS.above)(t);
 }
 
-/** Diagonal hatching inside a rectangle (plain lines: no SVG pattern, so the PDF draws it too). */
+/**
+ * Diagonal hatching inside a rectangle: one path of plain line segments (no SVG
+ * pattern, so the PDF draws it too; one element, not one per stroke, so a grid
+ * of pending cells is quick to draw).
+ */
 function hatch(g: Sel, x0: number, y0: number, w: number, h: number, colour: string): void {
+  let d = '';
   for (let t = 6; t < w + h; t += 7) {
-    add(g, 'line', {
-      x1: x0 + Math.min(t, w), y1: y0 + Math.max(0, t - w), x2: x0 + Math.max(0, t - h), y2: y0 + Math.min(t, h),
-      stroke: colour, 'stroke-width': 1,
-    });
+    d += `M${round(x0 + Math.min(t, w))},${round(y0 + Math.max(0, t - w))}L${round(x0 + Math.max(0, t - h))},${round(y0 + Math.min(t, h))}`;
   }
+  add(g, 'path', { d, fill: 'none', stroke: colour, 'stroke-width': 1 }).attr('data-hatch', 'true');
 }
 
 function cross(g: Sel, x0: number, y0: number, w: number, h: number): void {
@@ -251,7 +255,7 @@ function drawNotes(root: Sel, L: Layout, startY: number): void {
   L.noteLines.forEach((line, i) => text(root, PAD, startY + i * lineHeight(FONT.note), line, { fill: GROUP_COLOURS.muted, 'font-size': FONT.note }));
 }
 
-function drawHeatmap(root: Sel, data: ExplorerChartData, L: Layout, width: number, opts: ExplorerRenderOptions): void {
+function drawHeatmap(root: Sel, data: ExplorerChartData, L: Layout, width: number, opts: ExplorerRenderOptions): Map<number, Sel> {
   const [rowAxis, colAxis] = data.axes as [ExplorerChartData['axes'][0], ExplorerChartData['axes'][0]];
   const { left, top, cellW, cellH } = L;
   // Row labels (axis 0) and its rotated title.
@@ -274,33 +278,40 @@ function drawHeatmap(root: Sel, data: ExplorerChartData, L: Layout, width: numbe
     const cx = Math.min(Math.max((left + width - L.right) / 2, 4 + w / 2), width - 4 - w / 2);
     text(root, cx, L.plotBottom + 34 + i * lineHeight(FONT.label), line, { 'text-anchor': 'middle', 'font-size': FONT.label });
   });
+  const cellNodes = new Map<number, Sel>();
+  for (const c of data.cells) cellNodes.set(c.index, drawHeatmapCell(root, c, data, L, opts));
+  return cellNodes;
+}
+
+/** One heat-map cell: its group (fill, hatching or cross, share and ± MC SE, outlines), appended to `root`. */
+function drawHeatmapCell(root: Sel, c: ExplorerChartCell, data: ExplorerChartData, L: Layout, opts: ExplorerRenderOptions): Sel {
+  const { left, top, cellW, cellH } = L;
   const twoLines = cellW >= 58 && cellH >= 34;
   const oneLine = cellW >= 36;
-  for (const c of data.cells) {
-    const x0 = left + c.col * cellW;
-    const y0 = top + c.row * cellH;
-    const g = add(root, 'g');
-    g.attr('data-status', c.status);
-    const fill = c.share !== null ? explorerColour(c.share, data.colourExtent) : '#ffffff';
-    const rect = add(g, 'rect', { x: x0 + 1, y: y0 + 1, width: cellW - 2, height: cellH - 2, fill, stroke: '#ffffff', 'stroke-width': 1 });
-    if (c.status === 'pending') hatch(g, x0 + 1, y0 + 1, cellW - 2, cellH - 2, EXPLORER_COLOURS.pending);
-    if (c.status === 'impossible' || c.status === 'failed') cross(g, x0 + 1, y0 + 1, cellW - 2, cellH - 2);
-    if (c.share !== null && oneLine) {
-      const t = Math.abs(c.share) / data.colourExtent;
-      const ink = t > 0.55 ? '#ffffff' : '#1a1a1a';
-      const cx = x0 + cellW / 2;
-      const cy = y0 + cellH / 2;
-      text(g, cx, twoLines ? cy - 2 : cy + 4, sharePct(c.share), { 'text-anchor': 'middle', fill: ink, 'font-weight': 'bold' });
-      if (twoLines && c.shareMCSE !== null) text(g, cx, cy + 12, `± ${fmt(c.shareMCSE * 100, 1)}%`, { 'text-anchor': 'middle', fill: ink });
-    }
-    if (c.tolerable === true) {
-      add(g, 'rect', { x: x0 + 2.5, y: y0 + 2.5, width: cellW - 5, height: cellH - 5, fill: 'none', stroke: EXPLORER_COLOURS.tolerable, 'stroke-width': 3 });
-    }
-    if (opts.selectedIndex === c.index) {
-      add(g, 'rect', { x: x0 - 0.5, y: y0 - 0.5, width: cellW + 1, height: cellH + 1, fill: 'none', stroke: EXPLORER_COLOURS.selected, 'stroke-width': 2.5, 'stroke-dasharray': '6 3' });
-    }
-    hookCell(rect, c, opts);
+  const x0 = left + c.col * cellW;
+  const y0 = top + c.row * cellH;
+  const g = add(root, 'g');
+  g.attr('data-status', c.status);
+  const fill = c.share !== null ? explorerColour(c.share, data.colourExtent) : '#ffffff';
+  const rect = add(g, 'rect', { x: x0 + 1, y: y0 + 1, width: cellW - 2, height: cellH - 2, fill, stroke: '#ffffff', 'stroke-width': 1 });
+  if (c.status === 'pending') hatch(g, x0 + 1, y0 + 1, cellW - 2, cellH - 2, EXPLORER_COLOURS.pending);
+  if (c.status === 'impossible' || c.status === 'failed') cross(g, x0 + 1, y0 + 1, cellW - 2, cellH - 2);
+  if (c.share !== null && oneLine) {
+    const t = Math.abs(c.share) / data.colourExtent;
+    const ink = t > 0.55 ? '#ffffff' : '#1a1a1a';
+    const cx = x0 + cellW / 2;
+    const cy = y0 + cellH / 2;
+    text(g, cx, twoLines ? cy - 2 : cy + 4, sharePct(c.share), { 'text-anchor': 'middle', fill: ink, 'font-weight': 'bold' });
+    if (twoLines && c.shareMCSE !== null) text(g, cx, cy + 12, `± ${fmt(c.shareMCSE * 100, 1)}%`, { 'text-anchor': 'middle', fill: ink });
   }
+  if (c.tolerable === true) {
+    add(g, 'rect', { x: x0 + 2.5, y: y0 + 2.5, width: cellW - 5, height: cellH - 5, fill: 'none', stroke: EXPLORER_COLOURS.tolerable, 'stroke-width': 3 });
+  }
+  if (opts.selectedIndex === c.index) {
+    add(g, 'rect', { x: x0 - 0.5, y: y0 - 0.5, width: cellW + 1, height: cellH + 1, fill: 'none', stroke: EXPLORER_COLOURS.selected, 'stroke-width': 2.5, 'stroke-dasharray': '6 3' });
+  }
+  hookCell(rect, c, opts);
+  return g;
 }
 
 function drawCurves(root: Sel, data: ExplorerChartData, L: Layout, width: number, opts: ExplorerRenderOptions): void {
@@ -364,16 +375,88 @@ export function renderExplorerChart(svg: SVGSVGElement, data: ExplorerChartData,
   const { width } = opts;
   const L = layout(data, width, opts.height);
   const alt = explorerChartText(data);
-  const root = prepareSvg(svg, { width, height: L.height, highlight: null }, data.title, alt.sentences.join(' '));
-  L.titleLines.forEach((l, i) => text(root, PAD, 18 + i * lineHeight(FONT.title), l, { 'font-size': FONT.title, 'font-weight': 'bold' }));
+  const desc = alt.sentences.join(' ');
+  const drawn = drawnHeatmaps.get(svg);
+  drawnHeatmaps.delete(svg);
   if (data.mode === 'heatmap') {
+    const frame = heatmapFrameKey(data, L, opts);
+    if (drawn && drawn.frame === frame && drawn.onCellFocus === opts.onCellFocus && drawn.onCellActivate === opts.onCellActivate && updateHeatmapCells(svg, drawn, data, L, opts, desc)) {
+      drawnHeatmaps.set(svg, drawn);
+      return;
+    }
+    const root = drawFrame(svg, data, L, width, desc);
     drawRamp(root, data, L, width);
     drawKey(root, data, L, width);
-    drawHeatmap(root, data, L, width, opts);
-  } else {
-    drawKey(root, data, L, width);
-    drawCurves(root, data, L, width, opts);
+    const nodes = drawHeatmap(root, data, L, width, opts);
+    drawNotes(root, L, notesTop(data, L, width));
+    drawnHeatmaps.set(svg, {
+      frame,
+      cells: new Map(data.cells.map((c) => [c.index, { key: JSON.stringify(c), node: nodes.get(c.index)! }])),
+      onCellFocus: opts.onCellFocus,
+      onCellActivate: opts.onCellActivate,
+    });
+    return;
   }
+  const root = drawFrame(svg, data, L, width, desc);
+  drawKey(root, data, L, width);
+  drawCurves(root, data, L, width, opts);
+  drawNotes(root, L, notesTop(data, L, width));
+}
+
+/** A fresh chart: the SVG emptied, sized, titled and described, with the title lines drawn. */
+function drawFrame(svg: SVGSVGElement, data: ExplorerChartData, L: Layout, width: number, desc: string): Sel {
+  const root = prepareSvg(svg, { width, height: L.height, highlight: null }, data.title, desc);
+  L.titleLines.forEach((l, i) => text(root, PAD, 18 + i * lineHeight(FONT.title), l, { 'font-size': FONT.title, 'font-weight': 'bold' }));
+  return root;
+}
+
+function notesTop(data: ExplorerChartData, L: Layout, width: number): number {
   const xLabel = data.axes[data.mode === 'heatmap' ? 1 : 0]!.label;
-  drawNotes(root, L, L.plotBottom + 40 + (axisLabelLines(xLabel, width).length - 1) * lineHeight(FONT.label) + 8 + 4);
+  return L.plotBottom + 40 + (axisLabelLines(xLabel, width).length - 1) * lineHeight(FONT.label) + 8 + 4;
+}
+
+/**
+ * What a heat map drawn into an SVG element looks like apart from its cells:
+ * while a grid fills in, a redraw whose frame is unchanged (same size, title,
+ * colour scale, key, notes, axes and chosen cell) replaces only the cells that
+ * changed (updateHeatmapCells), which gives the same SVG as drawing it whole.
+ */
+interface DrawnHeatmap {
+  frame: string;
+  cells: Map<number, { key: string; node: Sel }>;
+  onCellFocus: ExplorerRenderOptions['onCellFocus'];
+  onCellActivate: ExplorerRenderOptions['onCellActivate'];
+}
+const drawnHeatmaps = new WeakMap<SVGSVGElement, DrawnHeatmap>();
+
+/** Everything outside the cells that a heat map's drawing depends on. */
+function heatmapFrameKey(data: ExplorerChartData, L: Layout, opts: ExplorerRenderOptions): string {
+  return JSON.stringify([
+    opts.width, L, data.title, data.colourExtent, data.tolerableShare, data.axes, keyItems(data), data.replications,
+    opts.interactive ?? false, opts.selectedIndex ?? null, data.cells.map((c) => c.index),
+  ]);
+}
+
+/**
+ * Redraw only the heat-map cells whose figures changed, in place (document
+ * order kept), and the description. False when the SVG no longer holds the
+ * drawn cells (e.g. emptied elsewhere): then the caller draws it whole.
+ */
+function updateHeatmapCells(svg: SVGSVGElement, drawn: DrawnHeatmap, data: ExplorerChartData, L: Layout, opts: ExplorerRenderOptions, desc: string): boolean {
+  const descNode = Array.from(svg.children).find((e) => e.tagName.toLowerCase() === 'desc');
+  if (!descNode) return false;
+  for (const { node } of drawn.cells.values()) if (node.node()?.parentNode !== svg) return false;
+  const root = select(svg as SVGElement) as unknown as Sel;
+  for (const c of data.cells) {
+    const old = drawn.cells.get(c.index)!;
+    const key = JSON.stringify(c);
+    if (old.key === key) continue;
+    const node = drawHeatmapCell(root, c, data, L, opts);
+    const oldNode = old.node.node()!;
+    svg.insertBefore(node.node()!, oldNode);
+    oldNode.remove();
+    drawn.cells.set(c.index, { key, node });
+  }
+  if (descNode.textContent !== desc) descNode.textContent = desc;
+  return true;
 }

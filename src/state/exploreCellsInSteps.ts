@@ -27,6 +27,9 @@ export async function exploreCellsInSteps(
   await pause();
   if (stopped()) return null;
   const cells = exploreCells(plan, spec, { closedForms: false });
+  // The variant plans (each validated) are one stretch of work; the closed forms start in the next.
+  await pause();
+  if (stopped()) return null;
   let sliceStart = performance.now();
   for (let i = 0; i < cells.length; i++) {
     if (performance.now() - sliceStart > sliceMs) {

@@ -149,11 +149,70 @@ export function readExplorerDraft(draft: ExplorerDraft, plan: MeanwardState['val
   return problems.length > 0 ? { spec: null, problems } : { spec, problems: [] };
 }
 
+/** Longest wait (ms) before finished cells and progress reach the store while a grid runs. */
+export const EXPLORER_UPDATE_MS = 100;
+
+/**
+ * Gathers a running grid's cell results and progress and puts them into the
+ * store in one update per EXPLORER_UPDATE_MS (the first one after a quiet spell
+ * waits too, so a burst of messages is one update): each update is one render
+ * of the panel and one redraw of its chart. Progress alone is put in only when
+ * its whole percent changes. flush() puts anything gathered in at once (when
+ * the grid ends or is cancelled).
+ * @param current the explorer state to update, or null when the grid is no longer current (then nothing is put in).
+ * @param put puts a partial explorer state into the store.
+ * @param schedule runs a function once after some ms, returning a cancel function.
+ */
+export function explorerUpdateBatcher(
+  current: () => ExplorerState | null,
+  put: (p: Partial<ExplorerState>) => void,
+  schedule: (fn: () => void, ms: number) => () => void,
+  ms: number = EXPLORER_UPDATE_MS,
+): { cell(at: number, make: (cell: ExploreCellSummary) => ExploreCellSummary): void; progress(share: number): void; flush(): void } {
+  const cells: [number, (cell: ExploreCellSummary) => ExploreCellSummary][] = [];
+  let share: number | null = null;
+  let cancelTimer: (() => void) | null = null;
+  const flush = (): void => {
+    cancelTimer?.();
+    cancelTimer = null;
+    const ex = current();
+    const gathered = cells.splice(0);
+    const nextShare = share;
+    share = null;
+    if (!ex) return;
+    const p: Partial<ExplorerState> = {};
+    if (gathered.length > 0 && ex.result) {
+      const next = ex.result.cells.slice();
+      for (const [at, make] of gathered) if (next[at]) next[at] = make(next[at]!);
+      p.result = { ...ex.result, cells: next };
+    }
+    // At most one repaint per whole percent: the pool reports far more often than anyone can read.
+    if (nextShare !== null && Math.floor(nextShare * 100) !== Math.floor(ex.progress * 100)) p.progress = nextShare;
+    if (p.result || p.progress !== undefined) put(p);
+  };
+  const later = (): void => {
+    if (cancelTimer === null) cancelTimer = schedule(flush, ms);
+  };
+  return {
+    cell: (at, make) => {
+      cells.push([at, make]);
+      later();
+    },
+    progress: (s) => {
+      share = s;
+      later();
+    },
+    flush,
+  };
+}
+
 export const createExplorerSlice =
   (deps: MeanwardDeps): StateCreator<MeanwardState, [], [], ExplorerSlice> =>
   (set, get) => {
     let runId = 0;
     let handle: { cancel(): void } | null = null;
+    /** Puts the running grid's gathered cells into the store now (null when no grid runs). */
+    let flushBatch: (() => void) | null = null;
     const patch = (p: Partial<ExplorerState>) => set((s) => ({ explorer: { ...s.explorer, ...p } }));
     const patchDraft = (d: Partial<ExplorerDraft>) => set((s) => ({ explorer: { ...s.explorer, draft: { ...s.explorer.draft, ...d } } }));
     const rangeFor = (input: ExploreInput) => {
@@ -224,14 +283,24 @@ export const createExplorerSlice =
           cellOfJob.push(c.index);
         }
         patch({ result: exploreResult(plan, spec, cells) });
+        // Cells and progress arrive in bursts (several workers, a message per step): they are
+        // gathered and put into the store at most once per EXPLORER_UPDATE_MS, so the panel and
+        // its chart redraw once per batch instead of once per message.
+        const batch = explorerUpdateBatcher(
+          () => (id === runId ? get().explorer : null),
+          (p) => {
+            if (id === runId) patch(p);
+          },
+          deps.schedule ?? ((fn, ms) => {
+            const t = setTimeout(fn, ms);
+            return () => clearTimeout(t);
+          }),
+        );
+        flushBatch = batch.flush;
         const fill = (job: number, make: (cell: ExploreCellSummary) => ExploreCellSummary) => {
-          if (id !== runId) return;
-          const r = get().explorer.result;
           const at = cellOfJob[job];
-          if (!r || at === undefined) return;
-          const next = r.cells.slice();
-          next[at] = make(r.cells[at]!);
-          patch({ result: { ...r, cells: next } });
+          if (id !== runId || at === undefined) return;
+          batch.cell(at, make);
         };
         const h = deps.grid.runGrid(jobs, {
           onCellResult: (job, result) =>
@@ -245,9 +314,7 @@ export const createExplorerSlice =
           onCellError: (job, message) => fill(job, (cell) => failedCellSummary(cell, message)),
           onProgress: (share) => {
             if (id !== runId || get().explorer.status !== 'running') return;
-            const next = Math.min(1, Math.max(0, Number.isFinite(share) ? share : 0));
-            // At most one repaint per whole percent: the pool reports far more often than anyone can read.
-            if (Math.floor(next * 100) !== Math.floor(get().explorer.progress * 100)) patch({ progress: next });
+            batch.progress(Math.min(1, Math.max(0, Number.isFinite(share) ? share : 0)));
           },
         });
         handle = h;
@@ -256,15 +323,22 @@ export const createExplorerSlice =
         } catch (e) {
           if (id !== runId) return;
           handle = null;
+          batch.flush();
+          flushBatch = null;
           patch({ status: 'error', error: `The explorer stopped with an error: ${e instanceof Error ? e.message : String(e)}` });
           return;
         }
         if (id !== runId) return;
         handle = null;
+        batch.flush();
+        flushBatch = null;
         patch({ status: 'done', progress: 1 });
       },
       cancelExplore: () => {
         if (get().explorer.status !== 'running') return;
+        // Cells that finished before the cancel keep their figures.
+        flushBatch?.();
+        flushBatch = null;
         runId++;
         handle?.cancel();
         handle = null;

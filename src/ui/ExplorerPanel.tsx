@@ -306,18 +306,15 @@ export function ExplorerPanel() {
   // The chart's callbacks go through refs, so a new focus never redraws the chart.
   const make = useRef(makeCandidateFromCell);
   make.current = makeCandidateFromCell;
+  // Leaving a cell keeps its figures shown until another is pointed at.
+  const onCellFocus = useCallback((index: number | null) => {
+    if (index !== null) setFocused(index);
+  }, []);
+  const onCellActivate = useCallback((index: number) => make.current(index), []);
+  // Stable hooks: while the grid fills in, the renderer redraws only the cells that changed.
   const draw: DrawChart<ExplorerChartData> = useCallback(
-    (svg, data, width) =>
-      renderExplorerChart(svg, data, {
-        ...explorerSize(data, width),
-        interactive: true,
-        // Leaving a cell keeps its figures shown until another is pointed at.
-        onCellFocus: (index: number | null) => {
-          if (index !== null) setFocused(index);
-        },
-        onCellActivate: (index: number) => make.current(index),
-      }),
-    [],
+    (svg, data, width) => renderExplorerChart(svg, data, { ...explorerSize(data, width), interactive: true, onCellFocus, onCellActivate }),
+    [onCellFocus, onCellActivate],
   );
   const chart = useMemo(() => (result ? buildChart(() => explorerChartData(result), explorerChartText) : null), [result]);
 
@@ -418,7 +415,7 @@ export function ExplorerPanel() {
             aria-valuenow={pct}
             aria-valuetext={`${counts.finished} of ${counts.toRun} cells done`}
           >
-            <div className="progress-fill" style={{ width: `${pct}%` }} />
+            <div className="progress-fill" style={{ transform: `scaleX(${pct / 100})` }} />
           </div>
           <span aria-hidden="true">{pct}%</span>
         </div>

@@ -67,7 +67,7 @@ export function SimulationPanel() {
             aria-valuenow={pct}
             aria-valuetext={`${pct}% of replications done`}
           >
-            <div className="progress-fill" style={{ width: `${pct}%` }} />
+            <div className="progress-fill" style={{ transform: `scaleX(${pct / 100})` }} />
           </div>
           <span aria-hidden="true">{pct}%</span>
         </div>

@@ -8,7 +8,7 @@ import { demoPlan } from '../../src/io/demoPlan';
 import { exploreCells, exploreResult, pendingCellSummary, summariseExploreCell, type ExploreResult, type ExploreSpec } from '../../src/core/explore';
 import { createPlanSimulation } from '../../src/sim/multivariate/createPlanSimulation';
 import { explorerChartData } from '../../src/charts/explorerChartData';
-import { explorerChartText } from '../../src/charts/explorerChartText';
+import { explorerChartText, formatCount } from '../../src/charts/explorerChartText';
 import { renderExplorerChart } from '../../src/charts/renderExplorerChart';
 import { renderChartToSvgString } from '../../src/charts/renderChartToSvgString';
 import { chartSize } from '../../src/charts/chartSize';
@@ -62,6 +62,13 @@ describe('explorerChartData', () => {
   });
 });
 
+describe('formatCount', () => {
+  it('writes counts exactly as Number.prototype.toLocaleString("en-GB") does (ECMA-402: the same as a new Intl.NumberFormat)', () => {
+    for (const n of [0, 7, 200, 1000, 2000, 12345, 1_000_000]) expect(formatCount(n)).toBe(n.toLocaleString('en-GB'));
+    expect(formatCount(2000)).toBe('2,000'); // en-GB groups thousands with a comma (common practice)
+  });
+});
+
 describe('renderExplorerChart', () => {
   it('heat map: one hookable rect per cell; tolerable cells outlined, pending hatched, impossible crossed out', () => {
     const d = explorerChartData(two);
@@ -74,7 +81,9 @@ describe('renderExplorerChart', () => {
     const outlined = groups.filter((g) => g.querySelector(`rect[stroke="${EXPLORER_COLOURS.tolerable}"]`) !== null).length;
     expect(outlined).toBe(d.cells.filter((c) => c.tolerable === true).length);
     expect(outlined).toBeGreaterThan(0); // reliability .95 with a gap of −2: (0.6/.95)(.05)(−2)/2.5 ≈ −2.5% (Lord 1960)
-    expect(groups.filter((g) => g.getAttribute('data-status') === 'pending')[0]!.querySelectorAll('line').length).toBeGreaterThan(3);
+    // Hatching: one path of several diagonal strokes (one 'M' per stroke).
+    const hatching = groups.filter((g) => g.getAttribute('data-status') === 'pending')[0]!.querySelector('path[data-hatch]')!;
+    expect(hatching.getAttribute('d')!.split('M').length - 1).toBeGreaterThan(3);
     for (const g of groups.filter((x) => x.getAttribute('data-status') === 'impossible')) expect(g.querySelectorAll('line').length).toBe(2);
     expect(svg.textContent).toContain('Crossed out: reliability 0.30');
   });
@@ -106,6 +115,39 @@ describe('renderExplorerChart', () => {
     cell.dispatchEvent(new KeyboardEvent('keydown', { key: ' ' }));
     cell.dispatchEvent(new KeyboardEvent('keydown', { key: 'a' }));
     expect(onCellActivate.mock.calls).toEqual([[4], [4], [4]]);
+  });
+  it('redrawing as cells finish replaces only the changed cells and gives the same SVG as drawing it whole', () => {
+    const full = explorerChartData(two);
+    // The same grid one step earlier: a done cell that does not set the colour scale still pending.
+    const extentCell = full.cells.reduce((a, c) => (Math.abs(c.share ?? 0) > Math.abs(a.share ?? 0) ? c : a));
+    const later = full.cells.find((c) => c.status === 'done' && c.index !== extentCell.index)!;
+    const earlierResult: ExploreResult = { ...two, cells: two.cells.map((c) => (c.index === later.index ? pendingCellSummary(c) : c)) };
+    const earlier = explorerChartData(earlierResult);
+    expect(earlier.colourExtent).toBe(full.colourExtent);
+    const onCellFocus = vi.fn();
+    const onCellActivate = vi.fn();
+    const opts = { width: 720, height: 300, interactive: true, onCellFocus, onCellActivate };
+    const live = document.createElementNS('http://www.w3.org/2000/svg', 'svg');
+    renderExplorerChart(live, earlier, opts);
+    const unchanged = live.querySelector(`[data-cell-index="${full.cells.find((c) => c.index !== later.index)!.index}"]`);
+    const before = live.querySelector(`[data-cell-index="${later.index}"]`);
+    renderExplorerChart(live, full, opts);
+    const whole = document.createElementNS('http://www.w3.org/2000/svg', 'svg');
+    renderExplorerChart(whole, full, opts);
+    expect(live.outerHTML).toBe(whole.outerHTML);
+    // Only the changed cell was drawn again: the others are the same elements, still hooked.
+    expect(live.querySelector(`[data-cell-index="${full.cells.find((c) => c.index !== later.index)!.index}"]`)).toBe(unchanged);
+    const redrawn = live.querySelector(`[data-cell-index="${later.index}"]`)!;
+    expect(redrawn).not.toBe(before);
+    redrawn.dispatchEvent(new Event('focus'));
+    unchanged!.dispatchEvent(new MouseEvent('click'));
+    expect(onCellFocus.mock.calls).toEqual([[later.index]]);
+    expect(onCellActivate).toHaveBeenCalledTimes(1);
+    // A change of frame (here the chosen cell) draws it whole: again the same SVG as a fresh drawing.
+    renderExplorerChart(live, full, { ...opts, selectedIndex: 2 });
+    renderExplorerChart(whole, full, { ...opts, selectedIndex: 2 });
+    expect(live.outerHTML).toBe(whole.outerHTML);
+    expect(live.querySelector(`[data-cell-index="${later.index}"]`)).not.toBe(redrawn);
   });
   it('labels stay inside the chart and apart at 320, 390, 720 and 900 px', () => {
     const found: string[] = [];

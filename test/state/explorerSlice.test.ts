@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { exploreCells, exploreVariantName } from '../../src/core/explore';
-import type { ExploreSpec } from '../../src/core/explore/exploreTypes';
+import { exploreCells, exploreVariantName, summariseExploreCell } from '../../src/core/explore';
+import type { ExploreCellSummary, ExploreSpec } from '../../src/core/explore/exploreTypes';
 import { demoPlan } from '../../src/io/demoPlan';
 import { exploreCellsInSteps } from '../../src/state/exploreCellsInSteps';
 import type { GridJob, GridRunner } from '../../src/state/deps';
-import { explorerCellCounts, explorerStale } from '../../src/state/explorerSlice';
+import { EXPLORER_UPDATE_MS, explorerCellCounts, explorerStale, explorerUpdateBatcher, type ExplorerState } from '../../src/state/explorerSlice';
 import { simulatePlan } from '../../src/sim/simulatePlan';
 import type { SimulationResult } from '../../src/sim/types';
 import { makeStore } from './helpers';
@@ -89,6 +89,9 @@ describe('design explorer in the store', () => {
     // Out of order: the last cell first, then the first.
     g.answer(grid, 3);
     grid.handlers.onProgress(0.25);
+    // Results reach the store in batches (at most EXPLORER_UPDATE_MS later).
+    expect(store.getState().explorer.result!.cells.map((c) => c.status)).toEqual(['pending', 'pending', 'pending', 'pending']);
+    await new Promise((r) => setTimeout(r, EXPLORER_UPDATE_MS + 20));
     expect(store.getState().explorer.result!.cells.map((c) => c.status)).toEqual(['pending', 'pending', 'pending', 'done']);
     expect(store.getState().explorer.progress).toBeCloseTo(0.25, 12);
     g.answer(grid, 0);
@@ -255,6 +258,77 @@ describe('design explorer in the store', () => {
     const building = exploreCellsInSteps(plan, two, () => stop, slow, 0);
     stop = true;
     expect(await building).toBeNull();
+  });
+
+  it('a burst of cell results and progress reaches the store as one update, with the same figures as one by one', async () => {
+    const g = fakeGrid();
+    const store = makeStore({ grid: g.runner });
+    setTwoByTwo(store, 'ancova', '200');
+    const started = store.getState().startExplore();
+    const grid = await gridSent(g);
+    let updates = 0;
+    const stop = store.subscribe((now, before) => {
+      if (now.explorer !== before.explorer) updates++;
+    });
+    const results = [2, 0, 3, 1].map((j) => {
+      const r = g.answer(grid, j);
+      grid.handlers.onProgress(0.25 * (j + 1));
+      return [j, r] as const;
+    });
+    expect(updates).toBe(0);
+    await new Promise((r) => setTimeout(r, EXPLORER_UPDATE_MS + 30));
+    expect(updates).toBe(1);
+    const ex = store.getState().explorer;
+    expect(ex.result!.cells.every((c) => c.status === 'done')).toBe(true);
+    expect(ex.progress).toBeCloseTo(0.5, 12); // the last progress reported (job 1: 0.25 × 2)
+    // Each cell holds the core's summary of its own result (summariseExploreCell), as if applied alone.
+    const built = exploreCells(store.getState().validPlan, ex.result!.spec);
+    for (const [j, r] of results) expect(ex.result!.cells[j]).toEqual(summariseExploreCell(built[j]!, r, ex.result!.spec));
+    grid.finish();
+    await started;
+    stop();
+    expect(store.getState().explorer.status).toBe('done');
+  });
+
+  it('the update batcher waits for its timer, puts everything gathered at once, and skips progress within the same percent', () => {
+    const timers: (() => void)[] = [];
+    const schedule = (fn: () => void) => {
+      timers.push(fn);
+      return () => timers.splice(timers.indexOf(fn), 1);
+    };
+    const cell = (index: number) => ({ index, status: 'pending' }) as unknown as ExploreCellSummary;
+    let state = { progress: 0.1, result: { cells: [cell(0), cell(1), cell(2)] } } as unknown as ExplorerState;
+    const puts: Partial<ExplorerState>[] = [];
+    const b = explorerUpdateBatcher(
+      () => state,
+      (p) => {
+        puts.push(p);
+        state = { ...state, ...p };
+      },
+      schedule,
+    );
+    b.progress(0.105);
+    expect(timers).toHaveLength(1);
+    timers[0]!();
+    expect(puts).toEqual([]); // 10.5 % is still 10 %: nothing to repaint
+    b.cell(2, (c) => ({ ...c, status: 'done' }));
+    b.cell(0, (c) => ({ ...c, status: 'failed' }));
+    b.progress(0.5);
+    expect(timers).toHaveLength(1); // one timer for the whole burst
+    expect(puts).toEqual([]);
+    timers[0]!();
+    expect(puts).toHaveLength(1);
+    expect(puts[0]!.progress).toBe(0.5);
+    expect(puts[0]!.result!.cells.map((c) => c.status)).toEqual(['failed', 'pending', 'done']);
+    // flush() puts at once and cancels the timer; a grid no longer current gets nothing.
+    b.cell(1, (c) => ({ ...c, status: 'done' }));
+    b.flush();
+    expect(timers).toHaveLength(0);
+    expect(puts).toHaveLength(2);
+    const gone = explorerUpdateBatcher(() => null, (p) => puts.push(p), schedule);
+    gone.cell(0, (c) => c);
+    gone.flush();
+    expect(puts).toHaveLength(2);
   });
 
   it('says plainly when no grid runner is available', async () => {
