@@ -25,7 +25,7 @@ export const FIRST_SCREEN_LIMIT_KB = 150;
  * functions (remedies, sensitivity, validation) import directly. DEVELOPERS.md ("What the first
  * screen loads") says what is left and how it could leave; lower this as it does.
  */
-export const FIRST_SCREEN_BUDGET_KB = 170;
+export const FIRST_SCREEN_BUDGET_KB = 171;
 
 /** One file of the first screen and its gzip size in bytes. */
 export interface FirstScreenFile {
