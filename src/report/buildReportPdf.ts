@@ -11,7 +11,7 @@ import { isFeasible, type SimAnalysisResult, type SimAnalysisSummary, type Simul
 import { quickFiguresAgreement } from '../sim/quickFiguresAgreement';
 import { procedureBasisNote } from '../core/procedureBasisNote';
 import { showControlCharacters } from '../core/visibleText';
-import { drawSvgChart, parseChartSvg, svgSize } from './drawSvgChart';
+import { chartBoxOnPage, drawSvgChart, parseChartSvg } from './drawSvgChart';
 import {
   formatCount,
   formatDateTime,
@@ -428,14 +428,7 @@ export async function buildReportPdf(input: ReportInput): Promise<Uint8Array> {
         w.paragraph(`This chart could not be drawn in the PDF (${problem}). ${chart.caption}`, { size: 9, muted: true, after: 10 });
         continue;
       }
-      const size = svgSize(svg);
-      let cw = w.width;
-      let ch = (size.height / size.width) * cw;
-      const maxH = (w.bottom - w.top) * 0.62;
-      if (ch > maxH) {
-        cw *= maxH / ch;
-        ch = maxH;
-      }
+      const { width: cw, height: ch } = chartBoxOnPage(w, svg);
       // The chart, its label and the first caption lines stay together on one page.
       w.ensure(ch + 60);
       const x = w.left + (w.width - cw) / 2;

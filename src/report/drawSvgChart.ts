@@ -56,3 +56,22 @@ export async function drawSvgChart(
   else doc.setFont(doc.getFont().fontName, 'normal');
   await svg2pdf(svg, doc, box);
 }
+
+/**
+ * The size a chart is drawn at on a PDF page: the full text width, scaled down (keeping its
+ * proportions) when it would be taller than 62% of the page's text height.
+ * @param page the writer's text width and top/bottom margins (points). @param svg the parsed chart.
+ * @returns width and height in points. @throws never.
+ * @example chartBoxOnPage({ width: 480, top: 50, bottom: 790 }, svg) // { width: 480, height: 480 · h / w } for a wide chart
+ */
+export function chartBoxOnPage(page: { width: number; top: number; bottom: number }, svg: Element): { width: number; height: number } {
+  const size = svgSize(svg);
+  let width = page.width;
+  let height = (size.height / size.width) * width;
+  const maxHeight = (page.bottom - page.top) * 0.62;
+  if (height > maxHeight) {
+    width *= maxHeight / height;
+    height = maxHeight;
+  }
+  return { width, height };
+}

@@ -7,7 +7,7 @@ import { explorerChartText } from '../charts/explorerChartText';
 import { renderChartToSvgString } from '../charts/renderChartToSvgString';
 import { chartSize } from '../charts/chartSize';
 import { HOW_TO_READ_EXPLORER } from './reportCharts';
-import { drawSvgChart, parseChartSvg, svgSize } from './drawSvgChart';
+import { chartBoxOnPage, drawSvgChart, parseChartSvg } from './drawSvgChart';
 import { FONT_SANS } from './reportFonts';
 import type { PdfWriter } from './pdfWriter';
 
@@ -41,14 +41,7 @@ export async function writeExplorer(w: PdfWriter, doc: jsPDF, result: ExploreRes
   try {
     const svgText = renderChartToSvgString('explorer', data, chartSize('explorer', data, EXPLORER_PDF_WIDTH));
     const svg = parseChartSvg(svgText, FONT_SANS);
-    const size = svgSize(svg);
-    let cw = w.width;
-    let ch = (size.height / size.width) * cw;
-    const maxH = (w.bottom - w.top) * 0.62;
-    if (ch > maxH) {
-      cw *= maxH / ch;
-      ch = maxH;
-    }
+    const { width: cw, height: ch } = chartBoxOnPage(w, svg);
     w.ensure(ch + 40);
     await drawSvgChart(doc, svg, { x: w.left + (w.width - cw) / 2, y: w.y, width: cw, height: ch });
     w.gap(ch + 6);
