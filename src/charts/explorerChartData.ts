@@ -29,6 +29,8 @@ export interface ExplorerChartCell {
   discardedShare: number | null;
   power: number | null;
   powerMCSE: number | null;
+  /** Share significant in the wrong direction (part of power). */
+  wrongSign: number | null;
   tolerable: boolean | null;
   /** The impossible variant's problem, or the failure, in plain words. */
   note: string | null;
@@ -92,6 +94,7 @@ export function explorerChartData(result: ExploreResult): ExplorerChartData {
       discardedShare: done && c.discardedShare !== undefined ? c.discardedShare : null,
       power: done && c.power !== undefined ? c.power : null,
       powerMCSE: done && c.powerMCSE !== undefined ? c.powerMCSE : null,
+      wrongSign: done && c.wrongSignRate !== undefined ? c.wrongSignRate : null,
       tolerable: done && c.tolerable !== undefined ? c.tolerable : null,
       note: c.status === 'impossible' ? (c.problem ?? 'This variant is not a valid plan.') : c.status === 'failed' ? (c.failure ?? 'The simulation failed.') : null,
     };

@@ -103,7 +103,7 @@ function buildExplorerChartText(data: ExplorerChartData): ChartText {
     c.shareMCSE === null ? '' : `${fmt(c.shareMCSE * 100, 1)}%`,
     c.closedFormShare === null ? '' : sharePct(c.closedFormShare, 1),
     c.discardedShare === null ? '' : sharePct(c.discardedShare, 1),
-    c.power === null ? '' : `${sharePct(c.power, 0)}${c.powerMCSE === null ? '' : ` ± ${fmt(c.powerMCSE * 100, 1)}%`}`,
+    c.power === null ? '' : `${sharePct(c.power, 0)}${c.powerMCSE === null ? '' : ` ± ${fmt(c.powerMCSE * 100, 1)}%`}${c.wrongSign !== null && c.wrongSign >= 0.005 ? ` (${sharePct(c.wrongSign, 0)} wrong sign)` : ''}`,
     c.status === 'done' ? (c.tolerable ? 'yes' : 'no') : c.status === 'pending' ? 'not simulated yet' : c.status === 'impossible' ? 'impossible plan (see above)' : 'failed (see above)',
   ]);
   return {

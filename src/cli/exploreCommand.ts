@@ -286,7 +286,7 @@ export function formatExploreTable(result: ExploreResult, analysisName: string):
       lines.push(
         `  ${name}: simulated ${c.artefactShare === undefined ? 'n/a' : `${fmtPct(c.artefactShare)} ± ${fmt((c.artefactShareMCSE ?? 0) * 100, 1)}%`}` +
           ` (closed form ${c.closedFormShare === undefined ? 'n/a' : fmtPct(c.closedFormShare)}), discarded ${fmtPct(c.discardedShare)}, ` +
-          `power ${fmtPct(c.power)} ± ${fmt((c.powerMCSE ?? 0) * 100, 1)}%, ${c.tolerable ? 'tolerable' : 'not tolerable'}.`,
+          `power ${fmtPct(c.power)} ± ${fmt((c.powerMCSE ?? 0) * 100, 1)}%${c.wrongSignRate === undefined ? '' : ` (${fmtPct(c.wrongSignRate)} in the wrong direction)`}, ${c.tolerable ? 'tolerable' : 'not tolerable'}.`,
       );
     } else if (c.status === 'impossible') lines.push(`  ${name}: impossible plan: ${c.problem ?? ''}`);
     else if (c.status === 'failed') lines.push(`  ${name}: could not be simulated: ${c.failure ?? ''}`);

@@ -48,6 +48,7 @@ function cellFigures(cell: ExploreCellSummary) {
     discarded: done ? fmtPct(cell.discardedShare) : '',
     power: done ? fmtPct(cell.power, 0) : '',
     powerMCSE: done ? fmtPct(cell.powerMCSE) : '',
+    wrongSign: done && cell.wrongSignRate !== undefined ? fmtPct(cell.wrongSignRate) : '',
     tolerable: done ? (cell.tolerable ? 'yes' : 'no') : '',
   };
 }
@@ -82,6 +83,7 @@ function CellDetails({ result, index, infos, cancelled }: { result: ExploreResul
           <dt>Power</dt>
           <dd>
             {f.power} (± {f.powerMCSE} MC SE)
+            {f.wrongSign ? `, of which ${f.wrongSign} significant in the wrong direction` : ''}
           </dd>
           <dt>Tolerable</dt>
           <dd>

@@ -214,6 +214,17 @@ describe('summariseExploreCell: figures from a simulation result, judged on the 
     expect(s.tolerableReason).not.toContain("cannot be carried out as planned"); // the analysis can: only the error rates are not simulated
     expect(summariseExploreCell(cell!, fake(2.5 + 0.5 - 1), spec).tolerable).toBe(false); // 40% > 25%
   });
+  it('the wrong-sign share inside power passes through when the simulation has it (Morris, White & Crowther 2019: a rejection-rate share with its MC SE)', () => {
+    const f = fake(-1.5);
+    const md = f.analyses.matchedDifference as { wrongSignRate?: number; wrongSignRateMCSE?: number };
+    md.wrongSignRate = 0.37;
+    md.wrongSignRateMCSE = 0.015;
+    const s = summariseExploreCell(cell!, f, spec);
+    expect(s.power).toBe(0.4);
+    expect(s.wrongSignRate).toBe(0.37);
+    expect(s.wrongSignRateMCSE).toBe(0.015);
+    expect(summariseExploreCell(cell!, fake(2.5), spec).wrongSignRate).toBeUndefined();
+  });
   it('an analysis the simulation could not compute fails with its reason; full-sample analyses discard nobody', () => {
     const infeasible = { tau: 2.5, analyses: { matchedDifference: { feasible: false as const, reason: 'Nobody matched.' } }, matching: { discardedProgrammeShare: 1 } };
     expect(summariseExploreCell(cell!, infeasible, spec)).toMatchObject({ status: 'failed', failure: 'Nobody matched.' });

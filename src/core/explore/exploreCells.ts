@@ -76,7 +76,7 @@ export interface ExploreSimulatedFigures {
   analyses: Partial<
     Record<
       AnalysisId,
-      | { feasible?: true; meanEstimate: number; meanEstimateMCSE: number; rejectionRate: number; rejectionRateMCSE: number }
+      | { feasible?: true; meanEstimate: number; meanEstimateMCSE: number; rejectionRate: number; rejectionRateMCSE: number; wrongSignRate?: number; wrongSignRateMCSE?: number }
       | { feasible: false; reason: string }
     >
   >;
@@ -143,6 +143,7 @@ export function summariseExploreCell(cell: ExploreCell, result: ExploreSimulated
     discardedShare,
     power: a.rejectionRate,
     powerMCSE: a.rejectionRateMCSE,
+    ...(a.wrongSignRate === undefined ? {} : { wrongSignRate: a.wrongSignRate, wrongSignRateMCSE: a.wrongSignRateMCSE ?? 0 }),
     tolerable: judged.tolerable,
     tolerableReason: `${judged.reason} ${EXPLORE_TOLERANCE_NOTE}`,
   };

@@ -66,6 +66,9 @@ export interface ExploreCellSummary extends ExploreCell {
   /** Simulated power (rejection rate at the hoped-for effect) with its Monte Carlo SE. */
   power?: number;
   powerMCSE?: number;
+  /** Share of replications significant in the direction opposite to the hoped-for effect (counted inside `power`), with its Monte Carlo SE. */
+  wrongSignRate?: number;
+  wrongSignRateMCSE?: number;
   /** Whether the cell's artefact is tolerable by the plan's own rule, and the plain reason. */
   tolerable?: boolean;
   tolerableReason?: string;
