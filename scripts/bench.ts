@@ -8,7 +8,7 @@
  *                 ÷ engine time per replication (target ≥ 20)
  *   doublingRatio engine time with both pools doubled ÷ engine time (target ≤ 2.3; O(n log n))
  * and, for the several-covariate engine on the demo's invented covariate variant
- * (demoWithCovariates below), measured in rounds of their own after those above:
+ * (demoWithCovariates in scripts/bench/benchPlans.ts), measured in rounds of their own after those above:
  *   covariates.doublingRatio             propensity-score matching, pools doubled ÷ as given
  *                                        (target ≤ 2.3: no quadratic work in pool size)
  *   covariates.mahalanobisDoublingRatio  the same plan matched on the Mahalanobis distance
@@ -43,6 +43,7 @@ import { createPlanSimulation } from '../src/sim/multivariate/createPlanSimulati
 import { NormalSampler } from '../src/sim/normalSampler';
 import { drawReplicationVariates } from '../src/sim/drawReplicationVariates';
 import { Xoshiro128StarStar } from '../src/sim/xoshiro128StarStar';
+import { demoWithCovariates } from './bench/benchPlans';
 import { parallelBench } from './bench/parallel';
 import { cliStartBench } from './bench/cliStart';
 import { propensityBench } from './bench/propensity';
@@ -244,32 +245,6 @@ const range = (xs: number[], d: number) => [round(Math.min(...xs), d), round(Mat
 const floorRatio = median(cpuRatios.floor);
 const naiveSpeedup = median(cpuRatios.naive);
 const doublingRatio = median(cpuRatios.doubling);
-/**
- * INVENTED: the demo plan with covariates a falls-prevention evaluation might match on: grip
- * strength (reliability .85), self-reported weekly activity (.6), living alone (a 0/1 record,
- * matched exactly) and an unmeasured fear-of-falling scale; matched on the propensity score.
- */
-function demoWithCovariates(distance: 'propensity' | 'mahalanobis', scale: number, comparisonMean?: number): Plan {
-  const p = demoPlan();
-  if (comparisonMean !== undefined) p.groups.comparison.pretestMean = comparisonMean;
-  p.groups.programme.poolSize *= scale;
-  p.groups.comparison.poolSize *= scale;
-  p.matching = { ...p.matching, distance, caliper: distance === 'mahalanobis' ? 0.5 : 0.2 };
-  p.covariates = [
-    { name: 'Grip strength', programmeMean: 24, comparisonMean: 28, sd: 8, reliability: 0.85, outcomeCorrelation: 0.35, measured: true, exact: false },
-    { name: 'Weekly activity', programmeMean: 4, comparisonMean: 6, sd: 3, reliability: 0.6, outcomeCorrelation: 0.3, measured: true, exact: false },
-    { name: 'Lives alone', programmeMean: 0.55, comparisonMean: 0.4, sd: 0.5, reliability: 1, outcomeCorrelation: -0.1, measured: true, exact: true },
-    { name: 'Fear of falling', programmeMean: 6, comparisonMean: 4.5, sd: 2, reliability: 0.8, outcomeCorrelation: -0.3, measured: false, exact: false },
-  ];
-  p.covariateCorrelations = [
-    [1, 0.4, 0.3, -0.1, -0.3],
-    [0.4, 1, 0.3, 0, -0.2],
-    [0.3, 0.3, 1, 0, -0.25],
-    [-0.1, 0, 0, 1, 0.1],
-    [-0.3, -0.2, -0.25, 0.1, 1],
-  ];
-  return p;
-}
 const COVARIATE_REPS = 200;
 function covariateEngine(p: Plan): void {
   const run = createMultivariateSimulation(p, { replications: COVARIATE_REPS });

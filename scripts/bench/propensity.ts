@@ -25,10 +25,10 @@
  * time and each ratio is the median over rounds of that round's ratio.
  */
 import type { Plan } from '../../src/core/plan';
-import { demoPlan } from '../../src/io/demoPlan';
 import { AFTER_SCHOOL_MATHS } from '../../src/io/examplePlans';
 import { createSimulation } from '../../src/sim/createSimulation';
 import { createMultivariateSimulation } from '../../src/sim/multivariate/createMultivariateSimulation';
+import { demoWithCovariates } from './benchPlans';
 
 const ROUNDS = 11;
 const PROPENSITY_REPS = 150;
@@ -63,28 +63,6 @@ function pretestOnly(plan: Plan): Plan {
   return p;
 }
 
-/**
- * INVENTED: the demo plan with covariates a falls-prevention evaluation might match on
- * (the same variant as scripts/bench.ts's demoWithCovariates, propensity caliper 0.2).
- */
-function demoWithCovariates(): Plan {
-  const p = demoPlan();
-  p.matching = { ...p.matching, distance: 'propensity', caliper: 0.2 };
-  p.covariates = [
-    { name: 'Grip strength', programmeMean: 24, comparisonMean: 28, sd: 8, reliability: 0.85, outcomeCorrelation: 0.35, measured: true, exact: false },
-    { name: 'Weekly activity', programmeMean: 4, comparisonMean: 6, sd: 3, reliability: 0.6, outcomeCorrelation: 0.3, measured: true, exact: false },
-    { name: 'Lives alone', programmeMean: 0.55, comparisonMean: 0.4, sd: 0.5, reliability: 1, outcomeCorrelation: -0.1, measured: true, exact: true },
-    { name: 'Fear of falling', programmeMean: 6, comparisonMean: 4.5, sd: 2, reliability: 0.8, outcomeCorrelation: -0.3, measured: false, exact: false },
-  ];
-  p.covariateCorrelations = [
-    [1, 0.4, 0.3, -0.1, -0.3],
-    [0.4, 1, 0.3, 0, -0.2],
-    [0.3, 0.3, 1, 0, -0.25],
-    [-0.1, 0, 0, 1, 0.1],
-    [-0.3, -0.2, -0.25, 0.1, 1],
-  ];
-  return p;
-}
 
 /** CPU ms per replication of a run of `reps` replications (the engine chosen by the caller). */
 function perReplication(engine: 'one-pretest' | 'covariates', plan: Plan, reps: number): number {
@@ -102,7 +80,7 @@ export async function propensityBench(): Promise<Record<string, unknown>> {
   const maths = structuredClone(AFTER_SCHOOL_MATHS);
   const mathsPretest = pretestOnly(maths);
   const mathsCovariatesOnPretest: Plan = { ...structuredClone(maths), matching: { ...maths.matching, distance: 'pretest' } };
-  const demo = demoWithCovariates();
+  const demo = demoWithCovariates('propensity', 1);
   const demoPretest = pretestOnly(demo);
   const tasks = {
     propensity: () => perReplication('covariates', maths, PROPENSITY_REPS),
