@@ -12,6 +12,7 @@ import { explorerCellCounts, explorerStale, type ExploreAxisDraft } from '../sta
 import { useMeanwardStore } from '../state/store';
 import { ChartFigure, buildChart, type DrawChart } from './ChartFigure';
 import { fmt, fmtInt, fmtPct } from './format';
+import { ProgressBar } from './ProgressBar';
 
 /** The caution shown wherever the explorer's figures are (the planning caution in the explorer's own words). */
 export const EXPLORER_CAUTION = `Each cell is a simulation of the planned procedure, with Monte Carlo error (± one MC SE shown). ${PLANNING_CAUTION}`;
@@ -406,22 +407,7 @@ export function ExplorerPanel() {
           )}
         </div>
       </form>
-      {running && (
-        <div className="progress-wrap">
-          <div
-            className="progress"
-            role="progressbar"
-            aria-label="Design explorer progress"
-            aria-valuemin={0}
-            aria-valuemax={100}
-            aria-valuenow={pct}
-            aria-valuetext={`${counts.finished} of ${counts.toRun} cells done`}
-          >
-            <div className="progress-fill" style={{ transform: `scaleX(${pct / 100})` }} />
-          </div>
-          <span aria-hidden="true">{pct}%</span>
-        </div>
-      )}
+      {running && <ProgressBar label="Design explorer progress" pct={pct} valueText={`${counts.finished} of ${counts.toRun} cells done`} />}
       <p className="sim-status" role="status" data-testid="explorer-status" data-status={explorer.status} data-stale={stale ? 'true' : 'false'}>
         {explorer.status === 'idle' && !result && 'Not run yet.'}
         {running && !result && 'Preparing the grid’s plans and closed forms…'}

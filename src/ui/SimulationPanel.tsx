@@ -3,6 +3,7 @@ import { selectIsValid, selectSimulation, selectValidPlan } from '../state/selec
 import { useMeanwardStore } from '../state/store';
 import { BROWSER_RUN_LIMIT_SECONDS } from '../sim/estimateRunSeconds';
 import { fmtDuration, fmtInt, fmtPct, fmtSigned } from './format';
+import { ProgressBar } from './ProgressBar';
 
 /** Run, watch and cancel the Monte Carlo check; shows whether its figures are out of date. */
 export function SimulationPanel() {
@@ -56,22 +57,7 @@ export function SimulationPanel() {
           {fmtInt(plan.simulation.replications)} replications, seed {plan.simulation.seed}
         </span>
       </div>
-      {running && (
-        <div className="progress-wrap">
-          <div
-            className="progress"
-            role="progressbar"
-            aria-label="Simulation progress"
-            aria-valuemin={0}
-            aria-valuemax={100}
-            aria-valuenow={pct}
-            aria-valuetext={`${pct}% of replications done`}
-          >
-            <div className="progress-fill" style={{ transform: `scaleX(${pct / 100})` }} />
-          </div>
-          <span aria-hidden="true">{pct}%</span>
-        </div>
-      )}
+      {running && <ProgressBar label="Simulation progress" pct={pct} valueText={`${pct}% of replications done`} />}
       <p className="sim-status" role="status" data-testid="sim-status" data-status={sim.status} data-stale={sim.stale ? 'true' : 'false'}>
         {sim.status === 'idle' && 'Not run yet. The simulation draws finite pools, matches with your caliper, ratio and order, and analyses each simulated study four ways.'}
         {running && 'Running in the background; you can keep editing.'}
