@@ -34,6 +34,7 @@
  * by scripts/bench/cliStart.ts (see its header).
  */
 import jStat from 'jstat';
+import '../src/core/allEngines'; // every design's closed forms (src/core/engineRegistry.ts)
 import { demoPlan } from '../src/io/demoPlan';
 import type { Plan } from '../src/core/plan';
 import { deriveModelParameters } from '../src/core/deriveModelParameters';

@@ -2,6 +2,7 @@ import { StrictMode } from 'react';
 import { createRoot } from 'react-dom/client';
 import { demoPlan } from './io/demoPlan';
 import { defaultDeps } from './state/defaultDeps';
+import { pageEnginesLoading } from './state/pageEngines';
 import { isShareFragment } from './state/persistenceSlice';
 import { createGridRunner, createPlannedProcedureRunner, createSimulationRunner } from './state/simulationRunner';
 import { createMeanwardStore, getAppStore, setAppStoreFactory } from './state/store';
@@ -49,8 +50,16 @@ if (import.meta.env.PROD) startPageServiceWorker();
 
 const root = document.getElementById('root');
 if (!root) throw new Error('The page has no #root element.');
-createRoot(root).render(
-  <StrictMode>
-    <App />
-  </StrictMode>,
-);
+const renderPage = () =>
+  createRoot(root).render(
+    <StrictMode>
+      <App />
+    </StrictMode>,
+  );
+// A restored plan or a shared link whose design needs an engine outside the first screen
+// (covariates, clusters, a selection rule) waits for it before the first render, so the page
+// never opens on the demo's figures under another plan's form. A failed load renders anyway:
+// the store shows its plain message.
+const engines = pageEnginesLoading();
+if (engines) void engines.then(renderPage, renderPage);
+else renderPage();

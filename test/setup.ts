@@ -1,6 +1,9 @@
 // Shared Vitest setup. DOM-only shims are applied when a test file opts into
 // jsdom (`// @vitest-environment jsdom`); node tests are untouched.
 import '@testing-library/jest-dom/vitest';
+// Every design's closed forms, registered in the engine registry as everywhere outside the page
+// (src/core/engineRegistry.ts); test/core/engineRegistry.test.ts checks what happens without them.
+import '../src/core/allEngines';
 
 if (typeof window !== 'undefined' && typeof SVGElement !== 'undefined') {
   // jsdom has no layout: estimate text boxes so svg2pdf can place labels.

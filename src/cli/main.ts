@@ -1,3 +1,5 @@
+// Every design's closed forms, registered in the engine registry (src/core/engineRegistry.ts).
+import '../core/allEngines';
 import type { AnalyticResults } from '../core/analyticResults';
 import { firstNonFinite as findNonFinite } from '../core/assertFiniteOutput';
 import type { Plan } from '../core/plan';

@@ -1,5 +1,4 @@
 import { requiredNCounts } from './requiredNCounts';
-import { mahalanobisCaliperSuggestion } from './multivariate/mahalanobisCaliperSuggestion';
 import type { AnalyticAnalysis, AnalyticResults, BreakEven } from './analyticResults';
 import type { ModelParameters } from './modelParameters';
 import { TWO_GROUP_ANALYSIS_IDS, type AnalysisRecord, type Plan } from './plan';
@@ -10,19 +9,13 @@ import { deriveModelParameters } from './deriveModelParameters';
 import { expectedMatchedShare } from './expectedMatchedShare';
 import { rankRemedies } from './rankRemedies';
 import { existingGroupsSummary } from './design/existingGroupsSummary';
-import { analyseCovariateAnalysis } from './multivariate/analyseCovariateAnalysis';
-import { covariateBreakEven } from './multivariate/covariateBreakEven';
-import { covariateMatchedShare } from './multivariate/covariateMatchedShare';
 import { deriveCovariateModel, matchingDistance, usesCovariateModel } from './multivariate/covariateModel';
-import { expectedCovariateBalance } from './multivariate/expectedCovariateBalance';
-import { unmeasuredBias } from './multivariate/unmeasuredBias';
 import { shareOfEffect } from './shareOfEffect';
 import type { PlannedProcedureEstimates } from './plannedProcedure';
 import { analysisSettings } from './analysisSettings';
 import { withPlannedFigures } from './withPlannedFigures';
 import { isClusterDesign, isSelectionDesign } from './design/studyDesign';
-import { analyseClusterPlan } from './clusters/analyseClusterPlan';
-import { analyseSelectionPlan } from './design/analyseSelectionPlan';
+import { engine } from './engineRegistry';
 
 export { DEFAULT_TARGET_POWER } from './analysisSettings';
 
@@ -53,8 +46,9 @@ export function analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): An
 
 /** analysePlan's one branch on the design (see the design seam in DEVELOPERS.md). */
 function analysePlanForDesign(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults {
-  if (isSelectionDesign(plan)) return analyseSelectionPlan(plan, planned);
-  if (isClusterDesign(plan)) return analyseClusterPlan(plan, planned);
+  // The design's engine comes from the registry (src/core/engineRegistry.ts): a missing one throws, naming it.
+  if (isSelectionDesign(plan)) return engine('selection').analyseSelectionPlan(plan, planned);
+  if (isClusterDesign(plan)) return engine('clusters').analyseClusterPlan(plan, planned);
   if (usesCovariateModel(plan)) return analyseCovariatePlan(plan, planned);
   const m = deriveModelParameters(plan);
   const share = expectedMatchedShare(m, plan.matching);
@@ -79,6 +73,8 @@ function analysePlanForDesign(plan: Plan, planned?: PlannedProcedureEstimates): 
  * covariates in place, the unmeasured part of the bias and the expected balance.
  */
 function analyseCovariatePlan(plan: Plan, planned: PlannedProcedureEstimates | undefined): AnalyticResults {
+  const { analyseCovariateAnalysis, covariateBreakEven, covariateMatchedShare, expectedCovariateBalance, mahalanobisCaliperSuggestion, unmeasuredBias } =
+    engine('covariates');
   const m = deriveModelParameters(plan);
   const cm = deriveCovariateModel(plan, m);
   const distance = matchingDistance(plan);

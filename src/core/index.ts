@@ -1,4 +1,6 @@
 // Public API of the statistical core. UI, report, CLI and simulation import from here.
+// Importing it registers every design's engine (src/core/engineRegistry.ts), as outside the page.
+import './allEngines';
 export * from './plan';
 export type { ModelParameters } from './modelParameters';
 export type * from './analyticResults';
@@ -149,3 +151,4 @@ export { bandCrossings } from './bandCrossings';
 export { presentAnalysisIds, presentAnalyses, requireAnalysis } from './presentAnalyses';
 export { applyRemedy, APPLICABLE_REMEDY_IDS, type AppliedRemedy, type ApplyRemedyResult, type RemedyId } from './applyRemedy';
 export { comparePlans, comparisonRow, estimandText, COMPARE_MIN_PLANS, COMPARE_MAX_PLANS, type CandidatePlan, type PlanComparisonRow } from './comparePlans';
+export { engine, registerEngine, isEngineRegistered, enginesForPlan, missingEngines, MissingEngineError, ENGINE_NAMES, type EngineName, type Engines } from './engineRegistry';

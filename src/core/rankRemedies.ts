@@ -9,16 +9,12 @@ import { expectedMatchedShare } from './expectedMatchedShare';
 import { formatPointsText } from './inputChecks';
 import { shareOfEffect } from './shareOfEffect';
 import type { MatchingSpec } from './plan';
-import { covariateModelWithMeasured, covariateModelWithPoolSizes, covariateModelWithSem } from './multivariate/adjustCovariateModel';
-import { covariateBreakEven } from './multivariate/covariateBreakEven';
-import { covariateCorrectedAncovaEstimate } from './multivariate/covariateCorrectedAncovaEstimate';
-import { covariateGainScoreEstimate } from './multivariate/covariateGainScoreEstimate';
-import { covariateMatchedEstimate } from './multivariate/covariateMatchedEstimate';
-import { covariateMatchedShare } from './multivariate/covariateMatchedShare';
 import { type CovariateModel, deriveCovariateModel, matchingDistance, usesCovariateModel } from './multivariate/covariateModel';
 import { joinNames } from './multivariate/covariateModelProblems';
-import { unmeasuredBias } from './multivariate/unmeasuredBias';
-import { mahalanobisCaliperSuggestion } from './multivariate/mahalanobisCaliperSuggestion';
+import { engine } from './engineRegistry';
+
+/** The covariate engine (src/core/engineRegistry.ts), asked for only on the paths of a plan with covariates. */
+const covariates = () => engine('covariates');
 
 const pts = formatPointsText;
 const pct = (x: number): string => `${Math.round(x * 100)}%`;
@@ -63,27 +59,27 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   const cov = usesCovariateModel(plan) ? deriveCovariateModel(plan, m) : null;
   const distance = matchingDistance(plan);
   const matchedBiasOf = (mm: ModelParameters, cm: CovariateModel | null): number =>
-    (cm ? covariateMatchedEstimate(cm, distance) : matchedDifferenceEstimate(mm)) - tau;
+    (cm ? covariates().covariateMatchedEstimate(cm, distance) : matchedDifferenceEstimate(mm)) - tau;
   const matchedShareOf = (mm: ModelParameters, cm: CovariateModel | null, spec: MatchingSpec): number =>
-    cm ? covariateMatchedShare(cm, mm, spec, distance) : expectedMatchedShare(mm, spec);
+    cm ? covariates().covariateMatchedShare(cm, mm, spec, distance) : expectedMatchedShare(mm, spec);
   const currentShare = matchedShareOf(m, cov, matching);
   const matchedBias = matchedBiasOf(m, cov);
   const remedies: Remedy[] = [];
 
   // 1. More reliable pretest: average k parallel forms (SEM / sqrt(k)).
   const be = cov
-    ? covariateBreakEven(cov, m, distance, plan.analysis.tolerableBiasShare)
+    ? covariates().covariateBreakEven(cov, m, distance, plan.analysis.tolerableBiasShare)
     : breakEvenReliability(m, plan.analysis.tolerableBiasShare);
   const k = be.alreadyMet ? 1 : (be.parallelForms ?? 2);
   const mk = modelWithSem(m, m.sem / Math.sqrt(k));
-  const cmk = cov ? covariateModelWithSem(cov, 0, m.sem / Math.sqrt(k)) : null;
+  const cmk = cov ? covariates().covariateModelWithSem(cov, 0, m.sem / Math.sqrt(k)) : null;
   const biasK = matchedBiasOf(mk, cmk);
   // More than MAX_REALISTIC_PARALLEL_FORMS forms is rarely feasible: say so, and what the feasible number buys.
   let feasibility: string | null = null;
   if (k > MAX_REALISTIC_PARALLEL_FORMS) {
     const kf = MAX_REALISTIC_PARALLEL_FORMS;
     const mf = modelWithSem(m, m.sem / Math.sqrt(kf));
-    const cmf = cov ? covariateModelWithSem(cov, 0, m.sem / Math.sqrt(kf)) : null;
+    const cmf = cov ? covariates().covariateModelWithSem(cov, 0, m.sem / Math.sqrt(kf)) : null;
     const biasF = matchedBiasOf(mf, cmf);
     const shareF = shareOf(biasF);
     feasibility =
@@ -112,7 +108,7 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   const rhoTrue = m.reliability.pooled;
   // An assumed figure equal to the pooled one up to rounding (12 decimals) is taken as that figure.
   const rhoAssumed = Math.abs(plan.analysis.assumedReliability - rhoTrue) < 1e-12 ? rhoTrue : plan.analysis.assumedReliability;
-  const corrected = (r: number): number => (cov ? covariateCorrectedAncovaEstimate(cov, r) : correctedAncovaEstimate(m, r));
+  const corrected = (r: number): number => (cov ? covariates().covariateCorrectedAncovaEstimate(cov, r) : correctedAncovaEstimate(m, r));
   const biasCorr = corrected(rhoAssumed) - tau;
   const biasAtTrue = corrected(rhoTrue) - tau;
   remedies.push({
@@ -130,7 +126,7 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   });
 
   // 3. Gain score.
-  const biasGain = (cov ? covariateGainScoreEstimate(cov) : gainScoreEstimate(m)) - tau;
+  const biasGain = (cov ? covariates().covariateGainScoreEstimate(cov) : gainScoreEstimate(m)) - tau;
   remedies.push({
     id: 'gain-score',
     title: 'Compare gain scores (post-test minus pretest)',
@@ -160,7 +156,7 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   remedies.push(caliperRemedy('tighter-caliper', 0.5), caliperRemedy('looser-caliper', 2));
 
   const mPool = modelWithPoolSizes(m, m.n.programme, m.n.comparison * 2);
-  const cmPool = cov ? covariateModelWithPoolSizes(cov, m.n.programme, m.n.comparison * 2) : null;
+  const cmPool = cov ? covariates().covariateModelWithPoolSizes(cov, m.n.programme, m.n.comparison * 2) : null;
   const biasPool = matchedBiasOf(mPool, cmPool);
   const sharePool = matchedShareOf(mPool, cmPool, matching);
   remedies.push({
@@ -243,8 +239,8 @@ function covariateRemedies(
   const out: Remedy[] = [];
   const others = cov.measuredIndices.filter((j) => j > 0 && !cov.exact[j]);
   if (distance === 'pretest' && others.length > 0) {
-    const bias = covariateMatchedEstimate(cov, 'mahalanobis') - tau;
-    const caliper = mahalanobisCaliperSuggestion(cov, m, matching);
+    const bias = covariates().covariateMatchedEstimate(cov, 'mahalanobis') - tau;
+    const caliper = covariates().mahalanobisCaliperSuggestion(cov, m, matching);
     out.push({
       id: 'match-all-measured',
       title: 'Match on all measured covariates (propensity score or Mahalanobis distance)',
@@ -255,18 +251,18 @@ function covariateRemedies(
       remainingBias: bias,
       caliperSuggestion: caliper,
       remainingBiasShare: shareOf(bias),
-      discardedShare: 1 - covariateMatchedShare(cov, m, matching, 'mahalanobis'),
+      discardedShare: 1 - covariates().covariateMatchedShare(cov, m, matching, 'mahalanobis'),
       assumption:
         'Exact matching on all measured covariates (Mahalanobis distance; the propensity score gives the same in expectation when the groups\' covariances are equal); approximate matched share.',
     });
   }
-  const hidden = unmeasuredBias(cov);
+  const hidden = covariates().unmeasuredBias(cov);
   const unmeasured = cov.names.flatMap((name, j) => (cov.measured[j] ? [] : [j]));
   if (unmeasured.length > 0 && Math.abs(hidden) > 1e-9 * Math.max(1, Math.abs(tau))) {
-    const all = covariateModelWithMeasured(cov, unmeasured);
+    const all = covariates().covariateModelWithMeasured(cov, unmeasured);
     const d = distance === 'pretest' ? 'mahalanobis' : distance;
-    const bias = covariateMatchedEstimate(all, d) - tau;
-    const caliper = distance === 'pretest' ? mahalanobisCaliperSuggestion(all, m, matching) : null;
+    const bias = covariates().covariateMatchedEstimate(all, d) - tau;
+    const caliper = distance === 'pretest' ? covariates().mahalanobisCaliperSuggestion(all, m, matching) : null;
     const names = joinNames(unmeasured.map((j) => cov.names[j] as string));
     out.push({
       id: 'measure-confounders',
@@ -278,7 +274,7 @@ function covariateRemedies(
       remainingBias: bias,
       ...(caliper ? { caliperSuggestion: caliper } : {}),
       remainingBiasShare: shareOf(bias),
-      discardedShare: 1 - covariateMatchedShare(all, m, matching, d),
+      discardedShare: 1 - covariates().covariateMatchedShare(all, m, matching, d),
       assumption: `${names} can be measured for both groups before the programme starts, with the reliability stated in the plan.`,
     });
   }

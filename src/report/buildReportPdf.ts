@@ -1,3 +1,5 @@
+// Every design's closed forms (the comparison of candidate plans analyses each), registered in the engine registry.
+import '../core/allEngines';
 import { FAILURE_WORDS } from '../core/judgeTolerable';
 import { jsPDF } from 'jspdf';
 import type { AnalyticResults } from '../core/analyticResults';

@@ -1,5 +1,7 @@
 /// <reference lib="webworker" />
 // The quick-figures worker only passes messages; the work is estimatePlannedProcedure.
+// Every design's closed forms, registered in the engine registry (src/core/engineRegistry.ts).
+import '../core/allEngines';
 import { estimatePlannedProcedure } from './estimatePlannedProcedure';
 import type { FromQuickWorker, ToQuickWorker } from './quickFiguresProtocol';
 

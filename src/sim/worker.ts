@@ -1,6 +1,8 @@
 /// <reference lib="webworker" />
 // The simulation worker only passes messages; the handling is createSimulationWorkerHandler
 // (whole runs, ranges of a run for the worker pool, merges) and the engine runSimulationInSteps.
+// Every design's closed forms, registered in the engine registry (src/core/engineRegistry.ts).
+import '../core/allEngines';
 import type { FromWorker, ToWorker } from './protocol';
 import { createSimulationWorkerHandler } from './workerHandler';
 

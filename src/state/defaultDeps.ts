@@ -3,6 +3,7 @@ import { validatePlan } from '../core/validatePlan';
 import { EXAMPLE_PLANS } from '../io/examplePlans';
 import { parsePlanText, serializePlan } from '../io/planFile';
 import { decodePlanFromLink, encodePlanForLink } from '../io/shareLink';
+import { loadPageEngines } from './pageEngines';
 import type { GridRunner, MeanwardDeps, PlannedProcedureRunner, SimulationRunner } from './deps';
 
 /** The browser's localStorage (or this tab's sessionStorage), or null when it is blocked (some private modes). */
@@ -26,6 +27,7 @@ export function defaultDeps(
   return {
     validatePlan,
     analysePlan,
+    loadEngines: loadPageEngines,
     simulation,
     grid,
     plannedProcedure,

@@ -4,6 +4,7 @@ import type { SimulationResult } from '../sim/types';
 import type { RunTimeEstimate } from '../sim/estimateRunSeconds';
 import type { PlanCheck } from '../core/validatePlan';
 import type { PlannedProcedureEstimates } from '../core/plannedProcedure';
+import type { EngineName } from '../core/engineRegistry';
 
 /** Computes the planned procedure's quick figures off the main thread (src/sim/quickFiguresClient). */
 export interface PlannedProcedureRunner {
@@ -75,6 +76,12 @@ export interface MeanwardDeps {
   validatePlan(input: unknown): PlanCheck;
   /** Closed forms; with `planned`, the matching-based analyses from the quick simulation of the planned procedure. */
   analysePlan(plan: Plan, planned?: PlannedProcedureEstimates): AnalyticResults;
+  /**
+   * Load engines a plan needs that are not registered yet (src/core/engineRegistry.ts); resolves
+   * once they are. The page passes its dynamic import (src/state/pageEngines.ts); absent (tests,
+   * which register every engine in test/setup.ts): a plan needing a missing engine is an error.
+   */
+  loadEngines?: (names: readonly EngineName[]) => Promise<void>;
   simulation: SimulationRunner | null;
   /** Runs the design explorer's grid cells in parallel; null or absent: the explorer cannot simulate (tests, no Worker). */
   grid?: GridRunner | null;

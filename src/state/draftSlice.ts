@@ -9,6 +9,7 @@ import type { MeanwardState } from './store';
 import { plainErrorMessage } from '../core/plainErrorMessage';
 import { ICC_PRESETS, type IccPreset } from '../core/clusters/iccPresets';
 import { PLAN_LIMITS } from '../core/planSchema';
+import { MissingEngineError, missingEngines, type EngineName } from '../core/engineRegistry';
 
 /**
  * The plan being edited: the raw draft, the last valid plan, the problems
@@ -73,11 +74,17 @@ export function iccPresetNote(preset: IccPreset): string {
 /** How long typing must pause before a valid typed draft becomes the plan (ms). */
 export const TYPING_PAUSE_MS = 700;
 
-/** Check a draft and, when valid, analyse it. Pure apart from the injected functions. */
+/**
+ * Check a draft and, when valid, analyse it. Pure apart from the injected functions.
+ * A valid plan whose design needs an engine not registered yet (src/core/engineRegistry.ts) is not
+ * analysed: the result names the engines to wait for (`waitingFor`), and the store shows its
+ * working state until they arrive. Without `deps.loadEngines` that is a wiring fault and throws
+ * MissingEngineError (never a figure from another design's formulas).
+ */
 export function evaluateDraft(
   draft: PlanDraft,
-  deps: Pick<MeanwardDeps, 'validatePlan' | 'analysePlan'>,
-): { plan: Plan; analytic: AnalyticResults } | { problems: FieldProblem[] } {
+  deps: Pick<MeanwardDeps, 'validatePlan' | 'analysePlan' | 'loadEngines'>,
+): { plan: Plan; analytic: AnalyticResults } | { problems: FieldProblem[] } | { waitingFor: EngineName[] } {
   const { candidate: read, problems: readProblems } = draftToCandidate(draft);
   const candidate = withCandidateProvenance(read, draftProvenance(draft));
   const check = deps.validatePlan(candidate);
@@ -94,15 +101,25 @@ export function evaluateDraft(
     }
     return { problems };
   }
+  const waitingFor = missingEngines(check.plan);
+  if (waitingFor.length > 0) {
+    if (!deps.loadEngines) throw new MissingEngineError(waitingFor[0]!);
+    return { waitingFor };
+  }
   try {
     return { plan: check.plan, analytic: deps.analysePlan(check.plan) };
   } catch (e) {
+    if (e instanceof MissingEngineError) throw e;
     // Inputs can be valid one by one and still contradict each other
     // (e.g. a pre–post correlation above the square root of the reliability).
     const message = plainErrorMessage(e, ANALYSIS_FAILED);
     return { problems: [{ field: fieldForMessage(message), message }] };
   }
 }
+
+/** Shown when the closed forms a plan's design needs could not be fetched (e.g. offline before the page's files were kept). */
+export const ENGINES_FAILED =
+  'The figures for this kind of plan could not be loaded (the connection may have dropped). Reload the page to try again; nothing you typed is lost.';
 
 /** Shown when checking or analysing the draft fails with program text rather than a plain message. */
 const ANALYSIS_FAILED =
@@ -115,11 +132,13 @@ const ANALYSIS_FAILED =
  */
 export function evaluateDraftSafely(
   draft: PlanDraft,
-  deps: Pick<MeanwardDeps, 'validatePlan' | 'analysePlan'>,
+  deps: Pick<MeanwardDeps, 'validatePlan' | 'analysePlan' | 'loadEngines'>,
 ): ReturnType<typeof evaluateDraft> {
   try {
     return evaluateDraft(draft, deps);
   } catch (e) {
+    // A missing engine is a fault in how the program was put together: it fails loudly.
+    if (e instanceof MissingEngineError) throw e;
     return { problems: [{ field: '', message: plainErrorMessage(e, ANALYSIS_FAILED) }] };
   }
 }
@@ -181,9 +200,29 @@ export const createDraftSlice =
       const s = get();
       return s?.analytic && samePlan(plan, s.validPlan) ? { validPlan: s.validPlan, analytic: s.analytic } : { validPlan: plan, analytic };
     };
+    /**
+     * The draft is valid but its design's engine is still loading: ask for it, and when it arrives
+     * evaluate the draft again if it is still the one in the form (a newer draft decided for itself).
+     * A failed load becomes one plain problem; the draft is kept as typed.
+     */
+    const awaitEngines = (draft: PlanDraft, how: 'commit' | 'typing', names: EngineName[]): void => {
+      void deps.loadEngines!(names).then(
+        () => {
+          if (get().draft === draft) set(apply(draft, how));
+        },
+        () => {
+          if (get().draft === draft) set({ problems: [{ field: '', message: ENGINES_FAILED }], analyticStale: get().analytic != null, draftPending: false });
+        },
+      );
+    };
     const apply = (draft: PlanDraft, how: 'commit' | 'typing' = 'commit'): Partial<MeanwardState> => {
       stopWaiting();
       const r = evaluateDraftSafely(draft, deps);
+      if ('waitingFor' in r) {
+        // The working state: the last plan's results stay, marked as about to change (never another design's figures).
+        awaitEngines(draft, how, r.waitingFor);
+        return { draft, problems: [], analyticStale: false, draftPending: true };
+      }
       if ('problems' in r) {
         return { draft, problems: r.problems, analyticStale: get()?.analytic != null, draftPending: false };
       }
@@ -199,10 +238,14 @@ export const createDraftSlice =
     const first = evaluateDraftSafely(initial, deps);
     const base = evaluateDraftSafely(planToDraft(fallback), deps);
     const baseOk = 'plan' in base ? base : null;
+    // A restored draft whose engine is still loading: the fallback's results underneath, working until it arrives.
+    if ('waitingFor' in first) awaitEngines(initial, 'commit', first.waitingFor);
     const initialState: Pick<DraftSlice, 'draft' | 'validPlan' | 'problems' | 'analytic' | 'analyticStale' | 'draftPending'> =
       'plan' in first
         ? { draft: initial, validPlan: first.plan, problems: [], analytic: first.analytic, analyticStale: false, draftPending: false }
-        : {
+        : 'waitingFor' in first
+          ? { draft: initial, validPlan: baseOk ? baseOk.plan : fallback, problems: [], analytic: baseOk ? baseOk.analytic : null, analyticStale: false, draftPending: true }
+          : {
             draft: initial,
             validPlan: baseOk ? baseOk.plan : fallback,
             problems: first.problems,

@@ -1,6 +1,8 @@
 import { useEffect, useMemo, useRef, useState } from 'react';
 import { comparePlans, COMPARE_MAX_PLANS, type PlanComparisonRow } from '../core/comparePlans';
 import { PLANNING_CAUTION } from '../core/planningCaution';
+import { missingEngines } from '../core/engineRegistry';
+import { loadPageEngines } from '../state/pageEngines';
 import {
   planComparisonChartData,
   planComparisonChartSize,
@@ -91,15 +93,32 @@ export function VariantsPanel() {
   const message = useMeanwardStore((s) => s.variantMessage);
   const keepAsVariant = useMeanwardStore((s) => s.keepAsVariant);
   const chosen = compareIds.map((id) => variants.find((v) => v.id === id)).filter((v): v is PlanVariant => v !== undefined);
+  // A variant of another design may need an engine the form's plan did not (src/core/engineRegistry.ts):
+  // the comparison waits for it, saying so, rather than showing anything computed without it.
+  const missing = [...new Set(chosen.flatMap((v) => missingEngines(v.plan)))];
+  const [engineLoads, setEngineLoads] = useState(0);
+  const [engineError, setEngineError] = useState<string | null>(null);
+  useEffect(() => {
+    if (missing.length === 0) return;
+    let live = true;
+    loadPageEngines(missing).then(
+      () => live && setEngineLoads((n) => n + 1),
+      () => live && setEngineError('The figures for these plans could not be loaded (the connection may have dropped). Reload the page to try again.'),
+    );
+    return () => {
+      live = false;
+    };
+  }, [missing.join(',')]);
   const compared = useMemo(() => {
     if (chosen.length < 2) return null;
+    if (missing.length > 0) return { rows: [], error: engineError, waiting: true };
     try {
-      return { rows: comparePlans(chosen.map((v) => ({ name: v.name, plan: v.plan, analysisId: v.analysisId }))), error: null };
+      return { rows: comparePlans(chosen.map((v) => ({ name: v.name, plan: v.plan, analysisId: v.analysisId }))), error: null, waiting: false };
     } catch (err) {
-      return { rows: [], error: err instanceof Error ? err.message : String(err) };
+      return { rows: [], error: err instanceof Error ? err.message : String(err), waiting: false };
     }
     // eslint-disable-next-line react-hooks/exhaustive-deps
-  }, [chosen.map((v) => `${v.id}:${v.name}`).join('|'), variants]);
+  }, [chosen.map((v) => `${v.id}:${v.name}`).join('|'), variants, engineLoads, engineError]);
   const tol = chosen[0]?.plan.analysis.tolerableBiasShare ?? null;
   return (
     <section className="variants" aria-labelledby="variants-heading">
@@ -124,7 +143,8 @@ export function VariantsPanel() {
         {message ?? ''}
       </p>
       {compared?.error && <p className="field-problem">{compared.error}</p>}
-      {compared && !compared.error && (
+      {compared?.waiting && !compared.error && <p role="status">Loading the figures for these plans…</p>}
+      {compared && !compared.error && !compared.waiting && (
         <>
           <div className="table-scroll" tabIndex={0} role="region" aria-label="Comparison of the candidate plans">
             <table className="comparison-of-plans" data-testid="plan-comparison">

@@ -1,6 +1,8 @@
 // A simulation thread of the command line's pool (nodeSimulationPool.ts): it only passes
 // messages (threadProtocol.ts); the work is runReplicationRange and the engines.
 import { parentPort } from 'node:worker_threads';
+// Every design's closed forms, registered in the engine registry (src/core/engineRegistry.ts).
+import '../../core/allEngines';
 import { createPlanSimulation } from '../multivariate/createPlanSimulation';
 import { replicationBlockTransfers } from '../replicationBlock';
 import type { SimulationRun } from '../types';

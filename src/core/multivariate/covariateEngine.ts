@@ -1,0 +1,33 @@
+import { analyseCovariateAnalysis } from './analyseCovariateAnalysis';
+import { covariateModelWithMeasured, covariateModelWithPoolSizes, covariateModelWithSem } from './adjustCovariateModel';
+import { covariateBreakEven } from './covariateBreakEven';
+import { covariateCorrectedAncovaEstimate } from './covariateCorrectedAncovaEstimate';
+import { covariateGainScoreEstimate } from './covariateGainScoreEstimate';
+import { covariateMatchedEstimate } from './covariateMatchedEstimate';
+import { covariateMatchedShare } from './covariateMatchedShare';
+import { expectedCovariateBalance } from './expectedCovariateBalance';
+import { mahalanobisCaliperSuggestion } from './mahalanobisCaliperSuggestion';
+import { unmeasuredBias } from './unmeasuredBias';
+
+/**
+ * The covariate model's closed forms that analysePlan and rankRemedies reach through the engine
+ * registry (src/core/engineRegistry.ts), registered by src/core/allEngines.ts. The functions are
+ * the ones in this folder, unchanged; the model itself (deriveCovariateModel) and its checks stay
+ * on the first screen because validation needs them.
+ */
+export const covariateEngine = {
+  analyseCovariateAnalysis,
+  covariateBreakEven,
+  covariateCorrectedAncovaEstimate,
+  covariateGainScoreEstimate,
+  covariateMatchedEstimate,
+  covariateMatchedShare,
+  covariateModelWithMeasured,
+  covariateModelWithPoolSizes,
+  covariateModelWithSem,
+  expectedCovariateBalance,
+  mahalanobisCaliperSuggestion,
+  unmeasuredBias,
+};
+
+export type CovariateEngine = typeof covariateEngine;
