@@ -4,6 +4,10 @@ import '@testing-library/jest-dom/vitest';
 // Every design's closed forms, registered in the engine registry as everywhere outside the page
 // (src/core/engineRegistry.ts); test/core/engineRegistry.test.ts checks what happens without them.
 import '../src/core/allEngines';
+// The design explorer's actions, which the page loads with the explorer panel (src/state/explorerState.ts).
+import '../src/state/explorerSlice';
+// The pilot reader's actions, which the page loads with the pilot reader's body (src/state/pilotState.ts).
+import '../src/state/pilotSlice';
 
 if (typeof window !== 'undefined' && typeof SVGElement !== 'undefined') {
   // jsdom has no layout: estimate text boxes so svg2pdf can place labels.

@@ -1,4 +1,3 @@
-import type { StateCreator } from 'zustand';
 import { headlineAnalysisId } from '../core/design/studyDesign';
 import type { ExploreAxis, ExploreCellSummary, ExploreInput, ExploreResult, ExploreSpec } from '../core/explore/exploreTypes';
 import {
@@ -11,79 +10,34 @@ import {
   validateExploreSpec,
 } from '../core/explore';
 import { ANALYSIS_IDS, type AnalysisId } from '../core/plan';
-import type { GridJob, MeanwardDeps } from './deps';
+import {
+  emptyAxis,
+  installExplorerActions,
+  type ExploreAxisDraft,
+  type ExplorerActions,
+  type ExplorerActionsFactory,
+  type ExplorerDraft,
+  type ExplorerProblem,
+  type ExplorerState,
+} from './explorerState';
+import type { GridJob } from './deps';
 import { exploreCellsInSteps } from './exploreCellsInSteps';
 import { readNumber } from './planDraft';
 import { samePlan } from './samePlan';
 import type { MeanwardState } from './store';
 
-/** One axis of the explorer's form, as typed. An empty input means "not used" (only the second axis may be unused). */
-export interface ExploreAxisDraft {
-  input: ExploreInput | '';
-  from: string;
-  to: string;
-  steps: string;
-}
-
-/** The explorer's form as typed: nothing the researcher types is lost, even when it is not a number. */
-export interface ExplorerDraft {
-  axes: [ExploreAxisDraft, ExploreAxisDraft];
-  /** '' = the design's headline analysis. */
-  analysisId: AnalysisId | '';
-  replications: string;
-  /**
-   * The ranges typed for each input, kept when the researcher switches an axis to
-   * another input, so switching back brings them back.
-   */
-  typedRanges: Partial<Record<ExploreInput, { from: string; to: string; steps: string }>>;
-}
-
-/** A field of the explorer's form: 'axis0.from', 'axis1.steps', 'replications', 'analysisId', or '' for the spec as a whole. */
-export interface ExplorerProblem {
-  field: string;
-  message: string;
-}
-
-export type ExplorerStatus = 'idle' | 'running' | 'done' | 'cancelled' | 'error';
-
-export interface ExplorerState {
-  draft: ExplorerDraft;
-  problems: ExplorerProblem[];
-  status: ExplorerStatus;
-  /** Replications done over all cells ÷ all replications of the grid, in [0, 1]. */
-  progress: number;
-  /** The grid of the latest run, its cells filled in as they finish (kept after a cancel, pending cells marked). */
-  result: ExploreResult | null;
-  /** With status 'error': the message. */
-  error: string | null;
-  /** A message about the last candidate plan made from a cell (shown and announced in the panel). */
-  message: string | null;
-}
-
-export interface ExplorerSlice {
-  explorer: ExplorerState;
-  /** Fill the first axis with the first input that applies to the plan and its default range, when the form is still empty. */
-  prepareExplorer: () => void;
-  /** Choose the input of an axis ('' to stop using the second axis); the range typed for it before (or its default) comes back. */
-  setExplorerInput: (axis: 0 | 1, input: ExploreInput | '') => void;
-  setExplorerAxisField: (axis: 0 | 1, field: 'from' | 'to' | 'steps', text: string) => void;
-  setExplorerField: (field: 'replications' | 'analysisId', text: string) => void;
-  /** Check the form, build the grid and send its possible cells to the grid runner; cells fill in as they finish. */
-  startExplore: () => Promise<void>;
-  /** Stop the grid: cells not done stay pending (shown as not run). */
-  cancelExplore: () => void;
-  /** Add the cell's variant plan as a named candidate plan and put it in the comparison. */
-  makeCandidateFromCell: (index: number) => void;
-}
-
-/** Default replications per cell: enough for a first look, small enough to stay quick. */
-export const EXPLORER_DEFAULT_REPLICATIONS = 1000;
-
-const emptyAxis = (): ExploreAxisDraft => ({ input: '', from: '', to: '', steps: '' });
-
-export function emptyExplorerDraft(): ExplorerDraft {
-  return { axes: [emptyAxis(), emptyAxis()], analysisId: '', replications: String(EXPLORER_DEFAULT_REPLICATIONS), typedRanges: {} };
-}
+// The explorer's state and types are in explorerState.ts (on the first screen); this module, with
+// the explorer's core, loads with the explorer panel.
+export {
+  EXPLORER_DEFAULT_REPLICATIONS,
+  emptyExplorerDraft,
+  type ExploreAxisDraft,
+  type ExplorerDraft,
+  type ExplorerProblem,
+  type ExplorerSlice,
+  type ExplorerState,
+  type ExplorerStatus,
+} from './explorerState';
 
 /** True when the explorer's result was computed for another plan than the one now in the form (or the form has problems). */
 export function explorerStale(s: Pick<MeanwardState, 'explorer' | 'validPlan' | 'problems'>): boolean {
@@ -206,159 +160,162 @@ export function explorerUpdateBatcher(
   };
 }
 
-export const createExplorerSlice =
-  (deps: MeanwardDeps): StateCreator<MeanwardState, [], [], ExplorerSlice> =>
-  (set, get) => {
-    let runId = 0;
-    let handle: { cancel(): void } | null = null;
-    /** Puts the running grid's gathered cells into the store now (null when no grid runs). */
-    let flushBatch: (() => void) | null = null;
-    const patch = (p: Partial<ExplorerState>) => set((s) => ({ explorer: { ...s.explorer, ...p } }));
-    const patchDraft = (d: Partial<ExplorerDraft>) => set((s) => ({ explorer: { ...s.explorer, draft: { ...s.explorer.draft, ...d } } }));
-    const rangeFor = (input: ExploreInput) => {
-      const kept = get().explorer.draft.typedRanges[input];
-      if (kept) return kept;
-      const info = exploreInputs(get().validPlan).find((x) => x.input === input);
-      if (!info) return { from: '', to: '', steps: '' };
-      return { from: String(info.defaultRange.from), to: String(info.defaultRange.to), steps: String(info.defaultRange.steps) };
-    };
-    return {
-      explorer: { draft: emptyExplorerDraft(), problems: [], status: 'idle', progress: 0, result: null, error: null, message: null },
-      prepareExplorer: () => {
-        if (get().explorer.draft.axes[0].input !== '') return;
-        const first = exploreInputs(get().validPlan).find((x) => x.applies);
-        if (first) get().setExplorerInput(0, first.input);
-      },
-      setExplorerInput: (axis, input) => {
-        const d = get().explorer.draft;
-        const old = d.axes[axis];
-        const typedRanges = old.input === '' ? d.typedRanges : { ...d.typedRanges, [old.input]: { from: old.from, to: old.to, steps: old.steps } };
-        patchDraft({ typedRanges });
-        const next: ExploreAxisDraft = input === '' ? emptyAxis() : { input, ...rangeFor(input) };
-        const axes: [ExploreAxisDraft, ExploreAxisDraft] = axis === 0 ? [next, d.axes[1]] : [d.axes[0], next];
-        patchDraft({ axes });
-        patch({ problems: get().explorer.problems.filter((p) => !p.field.startsWith(`axis${axis}.`) && p.field !== '') });
-      },
-      setExplorerAxisField: (axis, field, text) => {
-        const d = get().explorer.draft;
-        const a = { ...d.axes[axis], [field]: text };
-        const axes: [ExploreAxisDraft, ExploreAxisDraft] = axis === 0 ? [a, d.axes[1]] : [d.axes[0], a];
-        const typedRanges = a.input === '' ? d.typedRanges : { ...d.typedRanges, [a.input]: { from: a.from, to: a.to, steps: a.steps } };
-        patchDraft({ axes, typedRanges });
-        patch({ problems: get().explorer.problems.filter((p) => p.field !== `axis${axis}.${field}` && p.field !== '') });
-      },
-      setExplorerField: (field, text) => {
-        patchDraft(field === 'replications' ? { replications: text } : { analysisId: text as AnalysisId | '' });
-        patch({ problems: get().explorer.problems.filter((p) => p.field !== field && p.field !== '') });
-      },
-      startExplore: async () => {
-        const s = get();
-        if (s.problems.length > 0) {
-          patch({ status: 'error', error: 'The plan has problems to fix before the explorer can run (see the marked fields).', problems: [] });
-          return;
-        }
-        const plan = s.validPlan;
-        const read = readExplorerDraft(s.explorer.draft, plan);
-        if (!read.spec) {
-          patch({ problems: read.problems, error: null, status: s.explorer.status === 'running' ? 'running' : 'idle' });
-          return;
-        }
-        const spec = read.spec;
-        if (!deps.grid) {
-          patch({ status: 'error', problems: [], error: 'The explorer cannot simulate in this browser (Web Workers are needed).' });
-          return;
-        }
-        if (handle) handle.cancel();
-        const id = ++runId;
-        // The closed forms take a few ms per cell: build the cells in short slices, so the page stays responsive.
-        patch({ status: 'running', progress: 0, problems: [], error: null, message: null, result: null });
-        const built = await exploreCellsInSteps(plan, spec, () => id !== runId);
-        if (built === null || id !== runId) return;
-        const cells: ExploreCellSummary[] = built.map(pendingCellSummary);
-        const jobs: GridJob[] = [];
-        const cellOfJob: number[] = [];
-        for (const c of cells) {
-          if (!c.plan) continue;
-          jobs.push({ plan: c.plan, replications: spec.replications, seed: spec.seed });
-          cellOfJob.push(c.index);
-        }
-        patch({ result: exploreResult(plan, spec, cells) });
-        // Cells and progress arrive in bursts (several workers, a message per step): they are
-        // gathered and put into the store at most once per EXPLORER_UPDATE_MS, so the panel and
-        // its chart redraw once per batch instead of once per message.
-        const batch = explorerUpdateBatcher(
-          () => (id === runId ? get().explorer : null),
-          (p) => {
-            if (id === runId) patch(p);
-          },
-          deps.schedule ?? ((fn, ms) => {
-            const t = setTimeout(fn, ms);
-            return () => clearTimeout(t);
+/**
+ * The design explorer's actions for one store (installed into the slice in explorerState.ts when
+ * this module loads; see there).
+ */
+export const createExplorerActions: ExplorerActionsFactory = (deps, set, get): ExplorerActions => {
+  let runId = 0;
+  let handle: { cancel(): void } | null = null;
+  /** Puts the running grid's gathered cells into the store now (null when no grid runs). */
+  let flushBatch: (() => void) | null = null;
+  const patch = (p: Partial<ExplorerState>) => set((s) => ({ explorer: { ...s.explorer, ...p } }));
+  const patchDraft = (d: Partial<ExplorerDraft>) => set((s) => ({ explorer: { ...s.explorer, draft: { ...s.explorer.draft, ...d } } }));
+  const rangeFor = (input: ExploreInput) => {
+    const kept = get().explorer.draft.typedRanges[input];
+    if (kept) return kept;
+    const info = exploreInputs(get().validPlan).find((x) => x.input === input);
+    if (!info) return { from: '', to: '', steps: '' };
+    return { from: String(info.defaultRange.from), to: String(info.defaultRange.to), steps: String(info.defaultRange.steps) };
+  };
+  return {
+    prepareExplorer: () => {
+      if (get().explorer.draft.axes[0].input !== '') return;
+      const first = exploreInputs(get().validPlan).find((x) => x.applies);
+      if (first) get().setExplorerInput(0, first.input);
+    },
+    setExplorerInput: (axis, input) => {
+      const d = get().explorer.draft;
+      const old = d.axes[axis];
+      const typedRanges = old.input === '' ? d.typedRanges : { ...d.typedRanges, [old.input]: { from: old.from, to: old.to, steps: old.steps } };
+      patchDraft({ typedRanges });
+      const next: ExploreAxisDraft = input === '' ? emptyAxis() : { input, ...rangeFor(input) };
+      const axes: [ExploreAxisDraft, ExploreAxisDraft] = axis === 0 ? [next, d.axes[1]] : [d.axes[0], next];
+      patchDraft({ axes });
+      patch({ problems: get().explorer.problems.filter((p) => !p.field.startsWith(`axis${axis}.`) && p.field !== '') });
+    },
+    setExplorerAxisField: (axis, field, text) => {
+      const d = get().explorer.draft;
+      const a = { ...d.axes[axis], [field]: text };
+      const axes: [ExploreAxisDraft, ExploreAxisDraft] = axis === 0 ? [a, d.axes[1]] : [d.axes[0], a];
+      const typedRanges = a.input === '' ? d.typedRanges : { ...d.typedRanges, [a.input]: { from: a.from, to: a.to, steps: a.steps } };
+      patchDraft({ axes, typedRanges });
+      patch({ problems: get().explorer.problems.filter((p) => p.field !== `axis${axis}.${field}` && p.field !== '') });
+    },
+    setExplorerField: (field, text) => {
+      patchDraft(field === 'replications' ? { replications: text } : { analysisId: text as AnalysisId | '' });
+      patch({ problems: get().explorer.problems.filter((p) => p.field !== field && p.field !== '') });
+    },
+    startExplore: async () => {
+      const s = get();
+      if (s.problems.length > 0) {
+        patch({ status: 'error', error: 'The plan has problems to fix before the explorer can run (see the marked fields).', problems: [] });
+        return;
+      }
+      const plan = s.validPlan;
+      const read = readExplorerDraft(s.explorer.draft, plan);
+      if (!read.spec) {
+        patch({ problems: read.problems, error: null, status: s.explorer.status === 'running' ? 'running' : 'idle' });
+        return;
+      }
+      const spec = read.spec;
+      if (!deps.grid) {
+        patch({ status: 'error', problems: [], error: 'The explorer cannot simulate in this browser (Web Workers are needed).' });
+        return;
+      }
+      if (handle) handle.cancel();
+      const id = ++runId;
+      // The closed forms take a few ms per cell: build the cells in short slices, so the page stays responsive.
+      patch({ status: 'running', progress: 0, problems: [], error: null, message: null, result: null });
+      const built = await exploreCellsInSteps(plan, spec, () => id !== runId);
+      if (built === null || id !== runId) return;
+      const cells: ExploreCellSummary[] = built.map(pendingCellSummary);
+      const jobs: GridJob[] = [];
+      const cellOfJob: number[] = [];
+      for (const c of cells) {
+        if (!c.plan) continue;
+        jobs.push({ plan: c.plan, replications: spec.replications, seed: spec.seed });
+        cellOfJob.push(c.index);
+      }
+      patch({ result: exploreResult(plan, spec, cells) });
+      // Cells and progress arrive in bursts (several workers, a message per step): they are
+      // gathered and put into the store at most once per EXPLORER_UPDATE_MS, so the panel and
+      // its chart redraw once per batch instead of once per message.
+      const batch = explorerUpdateBatcher(
+        () => (id === runId ? get().explorer : null),
+        (p) => {
+          if (id === runId) patch(p);
+        },
+        deps.schedule ?? ((fn, ms) => {
+          const t = setTimeout(fn, ms);
+          return () => clearTimeout(t);
+        }),
+      );
+      flushBatch = batch.flush;
+      const fill = (job: number, make: (cell: ExploreCellSummary) => ExploreCellSummary) => {
+        const at = cellOfJob[job];
+        if (id !== runId || at === undefined) return;
+        batch.cell(at, make);
+      };
+      const h = deps.grid.runGrid(jobs, {
+        onCellResult: (job, result) =>
+          fill(job, (cell) => {
+            try {
+              return summariseExploreCell(cell, result, spec);
+            } catch (e) {
+              return failedCellSummary(cell, e instanceof Error ? e.message : String(e));
+            }
           }),
-        );
-        flushBatch = batch.flush;
-        const fill = (job: number, make: (cell: ExploreCellSummary) => ExploreCellSummary) => {
-          const at = cellOfJob[job];
-          if (id !== runId || at === undefined) return;
-          batch.cell(at, make);
-        };
-        const h = deps.grid.runGrid(jobs, {
-          onCellResult: (job, result) =>
-            fill(job, (cell) => {
-              try {
-                return summariseExploreCell(cell, result, spec);
-              } catch (e) {
-                return failedCellSummary(cell, e instanceof Error ? e.message : String(e));
-              }
-            }),
-          onCellError: (job, message) => fill(job, (cell) => failedCellSummary(cell, message)),
-          onProgress: (share) => {
-            if (id !== runId || get().explorer.status !== 'running') return;
-            batch.progress(Math.min(1, Math.max(0, Number.isFinite(share) ? share : 0)));
-          },
-        });
-        handle = h;
-        try {
-          await h.done;
-        } catch (e) {
-          if (id !== runId) return;
-          handle = null;
-          batch.flush();
-          flushBatch = null;
-          patch({ status: 'error', error: `The explorer stopped with an error: ${e instanceof Error ? e.message : String(e)}` });
-          return;
-        }
+        onCellError: (job, message) => fill(job, (cell) => failedCellSummary(cell, message)),
+        onProgress: (share) => {
+          if (id !== runId || get().explorer.status !== 'running') return;
+          batch.progress(Math.min(1, Math.max(0, Number.isFinite(share) ? share : 0)));
+        },
+      });
+      handle = h;
+      try {
+        await h.done;
+      } catch (e) {
         if (id !== runId) return;
         handle = null;
         batch.flush();
         flushBatch = null;
-        patch({ status: 'done', progress: 1 });
-      },
-      cancelExplore: () => {
-        if (get().explorer.status !== 'running') return;
-        // Cells that finished before the cancel keep their figures.
-        flushBatch?.();
-        flushBatch = null;
-        runId++;
-        handle?.cancel();
-        handle = null;
-        patch({ status: 'cancelled' });
-      },
-      makeCandidateFromCell: (index) => {
-        const r = get().explorer.result;
-        const cell = r?.cells[index];
-        if (!r || !cell) return;
-        if (!cell.plan) {
-          patch({ message: `This cell cannot be a candidate plan: ${cell.problem ?? 'its inputs make an impossible plan'}.` });
-          return;
-        }
-        const v = get().addCandidatePlan({
-          name: exploreVariantName(r.spec, cell),
-          plan: structuredClone(cell.plan),
-          analysisId: r.spec.analysisId,
-          note: 'Made from a cell of the design explorer.',
-        });
-        patch({ message: `Added the candidate plan "${v.name}" to the comparison (see "Candidate plans").` });
-      },
-    };
+        patch({ status: 'error', error: `The explorer stopped with an error: ${e instanceof Error ? e.message : String(e)}` });
+        return;
+      }
+      if (id !== runId) return;
+      handle = null;
+      batch.flush();
+      flushBatch = null;
+      patch({ status: 'done', progress: 1 });
+    },
+    cancelExplore: () => {
+      if (get().explorer.status !== 'running') return;
+      // Cells that finished before the cancel keep their figures.
+      flushBatch?.();
+      flushBatch = null;
+      runId++;
+      handle?.cancel();
+      handle = null;
+      patch({ status: 'cancelled' });
+    },
+    makeCandidateFromCell: (index) => {
+      const r = get().explorer.result;
+      const cell = r?.cells[index];
+      if (!r || !cell) return;
+      if (!cell.plan) {
+        patch({ message: `This cell cannot be a candidate plan: ${cell.problem ?? 'its inputs make an impossible plan'}.` });
+        return;
+      }
+      const v = get().addCandidatePlan({
+        name: exploreVariantName(r.spec, cell),
+        plan: structuredClone(cell.plan),
+        analysisId: r.spec.analysisId,
+        note: 'Made from a cell of the design explorer.',
+      });
+      patch({ message: `Added the candidate plan "${v.name}" to the comparison (see "Candidate plans").` });
+    },
   };
+};
+
+installExplorerActions(createExplorerActions);

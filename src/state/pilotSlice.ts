@@ -1,4 +1,3 @@
-import type { StateCreator } from 'zustand';
 import type { Plan } from '../core/plan';
 import { createPilotReader, type PilotReader } from '../pilot/pilotClient';
 import { pessimisticPlanResult, type PessimisticPlanResult } from '../pilot/pessimisticPlan';
@@ -19,11 +18,34 @@ import { draftProvenance, withDraftProvenance } from './draftSlice';
 import { FIELD_NAMES, setDraftField, type PlanDraft } from './planDraft';
 import type { MeanwardState } from './store';
 
-/** What the buttons would do to the current plan. */
-export interface PilotPreview {
-  update: PilotPlanUpdate;
-  pessimistic: PessimisticPlanResult;
-}
+import {
+  EMPTY_MAPPING,
+  initialPilot,
+  installPilotActions,
+  type PilotActions,
+  type PilotActionsFactory,
+  type PilotApplyReport,
+  type PilotDeps,
+  type PilotMappingDraft,
+  type PilotProblem,
+  type PilotReadOptions,
+  type PilotState,
+} from './pilotState';
+
+// The pilot slice's state and types are in pilotState.ts (on the first screen); this module, with
+// the reader's client and the plan update, loads with the pilot reader's body.
+export {
+  initialPilot,
+  type PilotApplyReport,
+  type PilotDeps,
+  type PilotMappingDraft,
+  type PilotPreview,
+  type PilotProblem,
+  type PilotReadOptions,
+  type PilotSlice,
+  type PilotState,
+  type PilotStatus,
+} from './pilotState';
 
 /** The pilot slice's real dependencies: the worker reader, src/pilot's plan writers, the tab's sessionStorage. */
 export function defaultPilotDeps(): PilotDeps {
@@ -38,149 +60,6 @@ export function defaultPilotDeps(): PilotDeps {
 
 /** sessionStorage key of the remembered column mappings (by the file's column names; never any rows). */
 export const PILOT_MAPPING_KEY = 'meanward.pilotMapping.v1';
-
-/** Where the pilot panel is: no file, reading, choosing columns, estimating, estimates shown. */
-export type PilotStatus = 'empty' | 'reading' | 'mapping' | 'estimating' | 'estimated';
-
-/** How the file is read; 'auto' = detected. */
-export interface PilotReadOptions {
-  delimiter: Delimiter | 'auto';
-  header: boolean | 'auto';
-}
-
-/** The column mapping as chosen on screen ('' = not chosen / none). */
-export interface PilotMappingDraft {
-  group: string;
-  programmeValue: string;
-  pretestKind: 'total' | 'items';
-  pretestColumn: string;
-  itemColumns: string[];
-  combine: 'sum' | 'mean';
-  retest: string;
-  posttest: string;
-  /** Item columns to reverse (maximum + minimum − score). */
-  reverseColumns: string[];
-  /** The items' lowest and highest possible scores, as typed (needed to reverse). */
-  scaleMin: string;
-  scaleMax: string;
-  /** One row per person ('wide') or one row per person per occasion ('long'). */
-  layout: 'wide' | 'long';
-  idColumn: string;
-  occasionColumn: string;
-  pretestOccasion: string;
-  retestOccasion: string;
-  posttestOccasion: string;
-}
-
-/** A bad file or mapping, as shown: the message names the column or row. */
-export interface PilotProblem {
-  stage: 'read' | 'map' | 'estimate' | 'apply';
-  message: string;
-  column?: string;
-  row?: number;
-}
-
-/** What the last "Use these values" wrote into the plan and what it left out. */
-export interface PilotApplyReport {
-  applied: AppliedPilotField[];
-  skipped: SkippedPilotField[];
-  /** True when the reliability was set to the lower end of its interval. */
-  pessimistic: boolean;
-}
-
-export interface PilotState {
-  status: PilotStatus;
-  fileName: string | null;
-  summary: PilotTableSummary | null;
-  readOptions: PilotReadOptions;
-  mapping: PilotMappingDraft;
-  /** True when the mapping was restored from earlier in this session. */
-  mappingRemembered: boolean;
-  estimates: PilotEstimates | null;
-  problem: PilotProblem | null;
-  lastApply: PilotApplyReport | null;
-  /** Which reliability goes into the plan; null = the recommended one (pilotReliabilityOptions). */
-  reliabilitySource: PilotReliabilitySource | null;
-  /** Questions left by the last "Use these values" (e.g. the corrected ANCOVA's assumed reliability). */
-  offers: PilotOffer[];
-  /** The latest status in plain words, for the panel's live region. */
-  announcement: string;
-}
-
-export interface PilotSlice {
-  pilot: PilotState;
-  /** Read a pilot file (CSV or TSV; a Blob or its text). The plan is not touched. */
-  readPilotFile(file: Blob | string, fileName: string): Promise<void>;
-  /** Change how the file is read (delimiter, header) and read it again. */
-  setPilotReadOptions(options: Partial<PilotReadOptions>): Promise<void>;
-  /** Change the column mapping (the shown estimates are dropped: they belonged to the old mapping). */
-  setPilotMapping(patch: Partial<PilotMappingDraft>): void;
-  /** Estimate from the file with the current mapping. */
-  estimateFromPilot(): Promise<void>;
-  /** Write the estimates into the plan (through the draft, so validation, autosave and results follow). */
-  applyPilotEstimates(): void;
-  /** As applyPilotEstimates, with the reliability at the lower end of its confidence interval. */
-  applyPessimisticPilotEstimates(): void;
-  /**
-   * What "Use these values" would write into the current plan (and the
-   * pessimistic reliability), without writing it; null before estimates.
-   */
-  previewPilotUpdate(): PilotPreview | null;
-  /** Forget the file and its estimates. */
-  clearPilot(): void;
-  /** Choose which reliability "Use these values" writes (alpha or test–retest). */
-  setPilotReliabilitySource(source: PilotReliabilitySource): void;
-  /** Accept a question left by "Use these values" (writes that one value through the draft). */
-  acceptPilotOffer(path: string): void;
-  /** Leave the value as it is and drop the question. */
-  dismissPilotOffer(path: string): void;
-}
-
-/** The pure functions the slice needs from src/pilot, and where it keeps the session's mappings. */
-export interface PilotDeps {
-  reader: PilotReader;
-  planUpdate(plan: Plan, estimates: PilotEstimates, options?: PilotPlanUpdateOptions): PilotPlanUpdate;
-  pessimisticPlan(plan: Plan): PessimisticPlanResult;
-  /** Accept an offer (applyPilotOffer); optional for tests that never accept one. */
-  applyOffer?(plan: Plan, offer: PilotOffer): Plan;
-  /** window.sessionStorage in the browser (null: mappings are kept in the store only). */
-  session: DraftStorage | null;
-}
-
-const EMPTY_MAPPING: PilotMappingDraft = {
-  group: '',
-  programmeValue: '',
-  pretestKind: 'total',
-  pretestColumn: '',
-  itemColumns: [],
-  combine: 'sum',
-  reverseColumns: [],
-  scaleMin: '',
-  scaleMax: '',
-  layout: 'wide',
-  idColumn: '',
-  occasionColumn: '',
-  pretestOccasion: '',
-  retestOccasion: '',
-  posttestOccasion: '',
-  retest: '',
-  posttest: '',
-};
-
-const initialPilot = (): PilotState => ({
-  status: 'empty',
-  fileName: null,
-  summary: null,
-  readOptions: { delimiter: 'auto', header: 'auto' },
-  mapping: EMPTY_MAPPING,
-  mappingRemembered: false,
-  estimates: null,
-  problem: null,
-  lastApply: null,
-  reliabilitySource: null,
-  offers: [],
-  announcement: '',
-});
 
 /** The reliability choice for pilotPlanUpdate: the researcher's, else the recommended one. */
 function reliabilityOption(p: PilotState): PilotPlanUpdateOptions {
@@ -385,203 +264,207 @@ export function writePlanChangesIntoDraft(draft: PlanDraft, before: Plan, after:
   return withDraftProvenance(next, provenance);
 }
 
-export const createPilotSlice =
-  (deps: PilotDeps): StateCreator<MeanwardState, [], [], PilotSlice> =>
-  (set, get) => {
-    // The file stays in memory only while the panel uses it (to read it again with other options).
-    let file: Blob | string | null = null;
-    let readSeq = 0;
-    let estimateSeq = 0;
-    const remembered: Record<string, PilotMappingDraft> = readRemembered(deps.session);
-    const patch = (p: Partial<PilotState>) => set((s) => ({ pilot: { ...s.pilot, ...p } }));
+/**
+ * The pilot reader's actions for one store, over the default deps with the store's overrides
+ * (installed into the slice in pilotState.ts when this module loads; see there).
+ */
+export const createPilotActions: PilotActionsFactory = (overrides, set, get): PilotActions => {
+  const deps: PilotDeps = { ...defaultPilotDeps(), ...overrides };
+  // The file stays in memory only while the panel uses it (to read it again with other options).
+  let file: Blob | string | null = null;
+  let readSeq = 0;
+  let estimateSeq = 0;
+  const remembered: Record<string, PilotMappingDraft> = readRemembered(deps.session);
+  const patch = (p: Partial<PilotState>) => set((s) => ({ pilot: { ...s.pilot, ...p } }));
 
-    const remember = (summary: PilotTableSummary, mapping: PilotMappingDraft) => {
-      remembered[layoutKey(summary)] = mapping;
-      try {
-        deps.session?.setItem(PILOT_MAPPING_KEY, JSON.stringify(remembered));
-      } catch {
-        // Session storage blocked or full: the mapping is still kept in this store.
-      }
-    };
+  const remember = (summary: PilotTableSummary, mapping: PilotMappingDraft) => {
+    remembered[layoutKey(summary)] = mapping;
+    try {
+      deps.session?.setItem(PILOT_MAPPING_KEY, JSON.stringify(remembered));
+    } catch {
+      // Session storage blocked or full: the mapping is still kept in this store.
+    }
+  };
 
-    const read = async (source: Blob | string, fileName: string, options: PilotReadOptions) => {
-      const seq = ++readSeq;
-      estimateSeq++; // any estimate still running belongs to the old file
-      patch({ status: 'reading', fileName, problem: null, estimates: null, lastApply: null, announcement: `Reading “${fileName}”…` });
-      try {
-        const summary = await deps.reader.read(source, fileName, { delimiter: options.delimiter, header: options.header });
-        if (seq !== readSeq) return;
-        const saved = remembered[layoutKey(summary)];
-        const useSaved = saved !== undefined && fits(saved, summary);
-        const mapping = useSaved ? saved : guessPilotMapping(summary);
-        const rows = `${summary.rowCount.toLocaleString('en-GB')} ${summary.rowCount === 1 ? 'row' : 'rows'}`;
-        patch({
-          status: 'mapping',
-          summary,
-          mapping,
-          mappingRemembered: useSaved,
-          announcement: `Read “${fileName}”: ${rows} and ${summary.columns.length} columns. ${useSaved ? 'The column choices from earlier in this session are restored; check them' : 'Check the column choices'}, then estimate.`,
-        });
-      } catch (err) {
-        if (seq !== readSeq) return;
-        file = null;
-        const problem = problemFrom('read', err);
-        patch({
-          status: 'empty',
-          summary: null,
-          problem,
-          announcement: `“${fileName}” could not be read; your plan is unchanged. ${problem.message}`,
-        });
-      }
-    };
+  const read = async (source: Blob | string, fileName: string, options: PilotReadOptions) => {
+    const seq = ++readSeq;
+    estimateSeq++; // any estimate still running belongs to the old file
+    patch({ status: 'reading', fileName, problem: null, estimates: null, lastApply: null, announcement: `Reading “${fileName}”…` });
+    try {
+      const summary = await deps.reader.read(source, fileName, { delimiter: options.delimiter, header: options.header });
+      if (seq !== readSeq) return;
+      const saved = remembered[layoutKey(summary)];
+      const useSaved = saved !== undefined && fits(saved, summary);
+      const mapping = useSaved ? saved : guessPilotMapping(summary);
+      const rows = `${summary.rowCount.toLocaleString('en-GB')} ${summary.rowCount === 1 ? 'row' : 'rows'}`;
+      patch({
+        status: 'mapping',
+        summary,
+        mapping,
+        mappingRemembered: useSaved,
+        announcement: `Read “${fileName}”: ${rows} and ${summary.columns.length} columns. ${useSaved ? 'The column choices from earlier in this session are restored; check them' : 'Check the column choices'}, then estimate.`,
+      });
+    } catch (err) {
+      if (seq !== readSeq) return;
+      file = null;
+      const problem = problemFrom('read', err);
+      patch({
+        status: 'empty',
+        summary: null,
+        problem,
+        announcement: `“${fileName}” could not be read; your plan is unchanged. ${problem.message}`,
+      });
+    }
+  };
 
-    const apply = (pessimistic: boolean) => {
-      get().commitDraft(); // a value still being typed is part of the plan the estimates go into
-      const s = get();
-      const estimates = s.pilot.estimates;
-      if (!estimates) return;
-      try {
-        const before = s.validPlan;
-        const update = deps.planUpdate(before, estimates, reliabilityOption(s.pilot));
-        let after = update.plan;
-        if (pessimistic) {
-          const low = deps.pessimisticPlan(update.plan);
-          if (!low.ok) {
-            patch({ problem: { stage: 'apply', message: low.reason }, announcement: `Your plan is unchanged. ${low.reason}` });
-            return;
-          }
-          after = low.plan;
-        }
-        const written = update.applied.map((a) => a.path);
-        const draft = writePlanChangesIntoDraft(s.draft, before, after, written);
-        get().replaceDraft(draft);
-        const applied = pessimistic
-          ? update.applied.map((a) =>
-              a.path === 'pretest.reliability' && typeof after.pretest.reliability === 'number'
-                ? { ...a, value: after.pretest.reliability, note: after.provenance?.[a.path]?.note ?? a.note }
-                : a,
-            )
-          : update.applied;
-        const n = applied.length;
-        const skippedText = update.skipped.length > 0 ? ` ${update.skipped.length} left as they were (see why below).` : '';
-        const filled = `${n === 1 ? 'One plan field' : `${n} plan fields`} filled from “${estimates.fileName ?? s.pilot.fileName ?? 'the pilot file'}”${pessimistic ? ', with the reliability at the lower end of its confidence interval' : ''}.`;
-        // The corrected ANCOVA's assumed reliability is asked about, never changed silently.
-        const offers = pessimistic ? offersAfter(after, update.offers) : update.offers;
-        const asked = offers.length > 0 ? ` ${offers[0]!.message}` : '';
-        patch({
-          lastApply: { applied, skipped: update.skipped, pessimistic },
-          offers,
-          problem: null,
-          announcement: `${filled}${skippedText}${asked}`,
-        });
-        // Like every replace, it can be undone: the draft before, exactly as typed.
-        get().offerUndo(s.draft, 'pilot', filled);
-      } catch (err) {
-        const problem = problemFrom('apply', err);
-        patch({ problem, announcement: `The estimates could not be written into the plan; your plan is unchanged. ${problem.message}` });
-      }
-    };
-
-    return {
-      pilot: initialPilot(),
-      readPilotFile: async (source, fileName) => {
-        file = source;
-        await read(source, fileName, get().pilot.readOptions);
-      },
-      setPilotReadOptions: async (options) => {
-        const readOptions = { ...get().pilot.readOptions, ...options };
-        patch({ readOptions });
-        const { fileName } = get().pilot;
-        if (file !== null && fileName !== null) await read(file, fileName, readOptions);
-      },
-      setPilotMapping: (p) => {
-        const s = get().pilot;
-        const mapping = { ...s.mapping, ...p };
-        // A new group column means a new programme value (unless given).
-        if (p.group !== undefined && p.group !== s.mapping.group && p.programmeValue === undefined) {
-          const col = s.summary?.columns.find((c) => c.name === p.group);
-          mapping.programmeValue = col ? guessProgrammeValue(col.distinct) : '';
-        }
-        estimateSeq++;
-        patch({
-          mapping,
-          mappingRemembered: false,
-          estimates: null,
-          lastApply: null,
-          problem: s.problem?.stage === 'read' ? s.problem : null,
-          status: s.summary ? 'mapping' : s.status,
-        });
-      },
-      estimateFromPilot: async () => {
-        const s = get().pilot;
-        if (!s.summary) return;
-        const m = mappingFromDraft(s.mapping);
-        if ('message' in m) {
-          patch({ problem: { stage: 'map', message: m.message }, announcement: m.message });
+  const apply = (pessimistic: boolean) => {
+    get().commitDraft(); // a value still being typed is part of the plan the estimates go into
+    const s = get();
+    const estimates = s.pilot.estimates;
+    if (!estimates) return;
+    try {
+      const before = s.validPlan;
+      const update = deps.planUpdate(before, estimates, reliabilityOption(s.pilot));
+      let after = update.plan;
+      if (pessimistic) {
+        const low = deps.pessimisticPlan(update.plan);
+        if (!low.ok) {
+          patch({ problem: { stage: 'apply', message: low.reason }, announcement: `Your plan is unchanged. ${low.reason}` });
           return;
         }
-        const seq = ++estimateSeq;
-        remember(s.summary, s.mapping);
-        patch({ status: 'estimating', problem: null, estimates: null, lastApply: null, offers: [], reliabilitySource: null, announcement: 'Estimating…' });
-        try {
-          const estimates = await deps.reader.estimate(m.mapping);
-          if (seq !== estimateSeq) return;
-          const d = estimates.rowsDropped;
-          const dropped = d > 0 ? ` ${d === 1 ? 'One row was' : `${d.toLocaleString('en-GB')} rows were`} left out (see why below).` : '';
-          const warn = estimates.warnings.length > 0 ? ` ${estimates.warnings.length === 1 ? 'One warning' : `${estimates.warnings.length} warnings`} to read.` : '';
-          patch({
-            status: 'estimated',
-            estimates,
-            announcement: `Estimates ready from ${estimates.rowsUsed.toLocaleString('en-GB')} rows.${dropped}${warn} Nothing is in the plan until you choose “Use these values”.`,
-          });
-        } catch (err) {
-          if (seq !== estimateSeq) return;
-          const problem = problemFrom('estimate', err);
-          patch({ status: 'mapping', problem, announcement: `No estimates; your plan is unchanged. ${problem.message}` });
-        }
-      },
-      applyPilotEstimates: () => apply(false),
-      applyPessimisticPilotEstimates: () => apply(true),
-      previewPilotUpdate: () => {
-        const s = get();
-        if (!s.pilot.estimates) return null;
-        try {
-          const update = deps.planUpdate(s.validPlan, s.pilot.estimates, reliabilityOption(s.pilot));
-          return { update, pessimistic: deps.pessimisticPlan(update.plan) };
-        } catch {
-          return null; // apply() reports the reason if the researcher presses the button
-        }
-      },
-      clearPilot: () => {
-        file = null;
-        readSeq++;
-        estimateSeq++;
-        deps.reader.forget();
-        set((s) => ({ pilot: { ...initialPilot(), readOptions: s.pilot.readOptions, announcement: 'The pilot file was closed and forgotten.' } }));
-      },
-      setPilotReliabilitySource: (source) => {
-        patch({ reliabilitySource: source, lastApply: null, offers: [] });
-      },
-      acceptPilotOffer: (path) => {
-        get().commitDraft();
-        const s = get();
-        const offer = s.pilot.offers.find((o) => o.path === path);
-        if (!offer || !deps.applyOffer) return;
-        try {
-          const before = s.validPlan;
-          const after = deps.applyOffer(before, offer);
-          get().replaceDraft(writePlanChangesIntoDraft(s.draft, before, after, [offer.path]));
-          const done = `The corrected ANCOVA now assumes a reliability of ${draftText(offer.proposed)}, as the pretest.`;
-          patch({ offers: s.pilot.offers.filter((o) => o.path !== path), problem: null, announcement: done });
-          get().offerUndo(s.draft, 'pilot', done);
-        } catch (err) {
-          const problem = problemFrom('apply', err);
-          patch({ problem, announcement: `Your plan is unchanged. ${problem.message}` });
-        }
-      },
-      dismissPilotOffer: (path) => {
-        const s = get().pilot;
-        patch({ offers: s.offers.filter((o) => o.path !== path), announcement: 'The corrected ANCOVA keeps its assumed reliability.' });
-      },
-    };
+        after = low.plan;
+      }
+      const written = update.applied.map((a) => a.path);
+      const draft = writePlanChangesIntoDraft(s.draft, before, after, written);
+      get().replaceDraft(draft);
+      const applied = pessimistic
+        ? update.applied.map((a) =>
+            a.path === 'pretest.reliability' && typeof after.pretest.reliability === 'number'
+              ? { ...a, value: after.pretest.reliability, note: after.provenance?.[a.path]?.note ?? a.note }
+              : a,
+          )
+        : update.applied;
+      const n = applied.length;
+      const skippedText = update.skipped.length > 0 ? ` ${update.skipped.length} left as they were (see why below).` : '';
+      const filled = `${n === 1 ? 'One plan field' : `${n} plan fields`} filled from “${estimates.fileName ?? s.pilot.fileName ?? 'the pilot file'}”${pessimistic ? ', with the reliability at the lower end of its confidence interval' : ''}.`;
+      // The corrected ANCOVA's assumed reliability is asked about, never changed silently.
+      const offers = pessimistic ? offersAfter(after, update.offers) : update.offers;
+      const asked = offers.length > 0 ? ` ${offers[0]!.message}` : '';
+      patch({
+        lastApply: { applied, skipped: update.skipped, pessimistic },
+        offers,
+        problem: null,
+        announcement: `${filled}${skippedText}${asked}`,
+      });
+      // Like every replace, it can be undone: the draft before, exactly as typed.
+      get().offerUndo(s.draft, 'pilot', filled);
+    } catch (err) {
+      const problem = problemFrom('apply', err);
+      patch({ problem, announcement: `The estimates could not be written into the plan; your plan is unchanged. ${problem.message}` });
+    }
   };
+
+  return {
+    readPilotFile: async (source, fileName) => {
+      file = source;
+      await read(source, fileName, get().pilot.readOptions);
+    },
+    setPilotReadOptions: async (options) => {
+      const readOptions = { ...get().pilot.readOptions, ...options };
+      patch({ readOptions });
+      const { fileName } = get().pilot;
+      if (file !== null && fileName !== null) await read(file, fileName, readOptions);
+    },
+    setPilotMapping: (p) => {
+      const s = get().pilot;
+      const mapping = { ...s.mapping, ...p };
+      // A new group column means a new programme value (unless given).
+      if (p.group !== undefined && p.group !== s.mapping.group && p.programmeValue === undefined) {
+        const col = s.summary?.columns.find((c) => c.name === p.group);
+        mapping.programmeValue = col ? guessProgrammeValue(col.distinct) : '';
+      }
+      estimateSeq++;
+      patch({
+        mapping,
+        mappingRemembered: false,
+        estimates: null,
+        lastApply: null,
+        problem: s.problem?.stage === 'read' ? s.problem : null,
+        status: s.summary ? 'mapping' : s.status,
+      });
+    },
+    estimateFromPilot: async () => {
+      const s = get().pilot;
+      if (!s.summary) return;
+      const m = mappingFromDraft(s.mapping);
+      if ('message' in m) {
+        patch({ problem: { stage: 'map', message: m.message }, announcement: m.message });
+        return;
+      }
+      const seq = ++estimateSeq;
+      remember(s.summary, s.mapping);
+      patch({ status: 'estimating', problem: null, estimates: null, lastApply: null, offers: [], reliabilitySource: null, announcement: 'Estimating…' });
+      try {
+        const estimates = await deps.reader.estimate(m.mapping);
+        if (seq !== estimateSeq) return;
+        const d = estimates.rowsDropped;
+        const dropped = d > 0 ? ` ${d === 1 ? 'One row was' : `${d.toLocaleString('en-GB')} rows were`} left out (see why below).` : '';
+        const warn = estimates.warnings.length > 0 ? ` ${estimates.warnings.length === 1 ? 'One warning' : `${estimates.warnings.length} warnings`} to read.` : '';
+        patch({
+          status: 'estimated',
+          estimates,
+          announcement: `Estimates ready from ${estimates.rowsUsed.toLocaleString('en-GB')} rows.${dropped}${warn} Nothing is in the plan until you choose “Use these values”.`,
+        });
+      } catch (err) {
+        if (seq !== estimateSeq) return;
+        const problem = problemFrom('estimate', err);
+        patch({ status: 'mapping', problem, announcement: `No estimates; your plan is unchanged. ${problem.message}` });
+      }
+    },
+    applyPilotEstimates: () => apply(false),
+    applyPessimisticPilotEstimates: () => apply(true),
+    previewPilotUpdate: () => {
+      const s = get();
+      if (!s.pilot.estimates) return null;
+      try {
+        const update = deps.planUpdate(s.validPlan, s.pilot.estimates, reliabilityOption(s.pilot));
+        return { update, pessimistic: deps.pessimisticPlan(update.plan) };
+      } catch {
+        return null; // apply() reports the reason if the researcher presses the button
+      }
+    },
+    clearPilot: () => {
+      file = null;
+      readSeq++;
+      estimateSeq++;
+      deps.reader.forget();
+      set((s) => ({ pilot: { ...initialPilot(), readOptions: s.pilot.readOptions, announcement: 'The pilot file was closed and forgotten.' } }));
+    },
+    setPilotReliabilitySource: (source) => {
+      patch({ reliabilitySource: source, lastApply: null, offers: [] });
+    },
+    acceptPilotOffer: (path) => {
+      get().commitDraft();
+      const s = get();
+      const offer = s.pilot.offers.find((o) => o.path === path);
+      if (!offer || !deps.applyOffer) return;
+      try {
+        const before = s.validPlan;
+        const after = deps.applyOffer(before, offer);
+        get().replaceDraft(writePlanChangesIntoDraft(s.draft, before, after, [offer.path]));
+        const done = `The corrected ANCOVA now assumes a reliability of ${draftText(offer.proposed)}, as the pretest.`;
+        patch({ offers: s.pilot.offers.filter((o) => o.path !== path), problem: null, announcement: done });
+        get().offerUndo(s.draft, 'pilot', done);
+      } catch (err) {
+        const problem = problemFrom('apply', err);
+        patch({ problem, announcement: `Your plan is unchanged. ${problem.message}` });
+      }
+    },
+    dismissPilotOffer: (path) => {
+      const s = get().pilot;
+      patch({ offers: s.offers.filter((o) => o.path !== path), announcement: 'The corrected ANCOVA keeps its assumed reliability.' });
+    },
+  };
+};
+
+installPilotActions(createPilotActions);

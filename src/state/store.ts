@@ -7,11 +7,11 @@ import { createCovariateSlice, type CovariateSlice } from './covariateSlice';
 import { createDraftSlice, type DraftSlice } from './draftSlice';
 import { createHighlightSlice, type HighlightSlice } from './highlightSlice';
 import { createPersistenceSlice, restoreDrafts, type PersistenceSlice } from './persistenceSlice';
-import { createPilotSlice, defaultPilotDeps, type PilotDeps, type PilotSlice } from './pilotSlice';
+import { createPilotSlice, type PilotDeps, type PilotSlice } from './pilotState';
 import { planToDraft } from './planDraft';
 import { createSimulationSlice, type SimulationSlice } from './simulationSlice';
 import { createVariantsSlice, type VariantsSlice } from './variantsSlice';
-import { createExplorerSlice, type ExplorerSlice } from './explorerSlice';
+import { createExplorerSlice, type ExplorerSlice } from './explorerState';
 
 /** The whole planner state: one slice per file, combined here. */
 export type MeanwardState = DraftSlice & SimulationSlice & HighlightSlice & PersistenceSlice & CovariateSlice & PilotSlice & VariantsSlice & ExplorerSlice;
@@ -44,7 +44,7 @@ export function createMeanwardStore({ deps, demo, restore = true, pilot }: Creat
     ...createHighlightSlice(...a),
     ...createPersistenceSlice(deps, demo, restored)(...a),
     ...createCovariateSlice(...a),
-    ...createPilotSlice({ ...defaultPilotDeps(), ...pilot })(...a),
+    ...createPilotSlice(pilot)(...a),
     ...createVariantsSlice(deps)(...a),
     ...createExplorerSlice(deps)(...a),
   }));

@@ -1,5 +1,7 @@
 import { useDeferredValue, useId, useRef, useState, type DragEvent } from 'react';
 import { useMeanwardStore } from '../state/store';
+// The pilot reader's actions (the store's pilot slice runs them once this chunk has loaded them).
+import '../state/pilotSlice';
 import { PilotEstimatesView } from './PilotEstimates';
 import { PilotMappingForm } from './PilotMapping';
 import { fmtInt } from './format';
