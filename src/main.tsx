@@ -30,7 +30,10 @@ const openLinkInAddress = () => {
   try {
     store.getState().openShareFragment(location.hash);
   } finally {
-    openingLink = false;
+    // A link whose plan needs an engine opens when it arrives: the address is kept until then.
+    const engines = pageEnginesLoading();
+    if (engines) void engines.finally(() => (openingLink = false)).catch(() => undefined);
+    else openingLink = false;
   }
 };
 openLinkInAddress();

@@ -9,7 +9,7 @@ import { deriveModelParameters } from './deriveModelParameters';
 import { expectedMatchedShare } from './expectedMatchedShare';
 import { rankRemedies } from './rankRemedies';
 import { existingGroupsSummary } from './design/existingGroupsSummary';
-import { deriveCovariateModel, matchingDistance, usesCovariateModel } from './multivariate/covariateModel';
+import { matchingDistance, usesCovariateModel } from './multivariate/covariateUse';
 import { shareOfEffect } from './shareOfEffect';
 import type { PlannedProcedureEstimates } from './plannedProcedure';
 import { analysisSettings } from './analysisSettings';
@@ -73,8 +73,15 @@ function analysePlanForDesign(plan: Plan, planned?: PlannedProcedureEstimates): 
  * covariates in place, the unmeasured part of the bias and the expected balance.
  */
 function analyseCovariatePlan(plan: Plan, planned: PlannedProcedureEstimates | undefined): AnalyticResults {
-  const { analyseCovariateAnalysis, covariateBreakEven, covariateMatchedShare, expectedCovariateBalance, mahalanobisCaliperSuggestion, unmeasuredBias } =
-    engine('covariates');
+  const {
+    analyseCovariateAnalysis,
+    covariateBreakEven,
+    covariateMatchedShare,
+    deriveCovariateModel,
+    expectedCovariateBalance,
+    mahalanobisCaliperSuggestion,
+    unmeasuredBias,
+  } = engine('covariates');
   const m = deriveModelParameters(plan);
   const cm = deriveCovariateModel(plan, m);
   const distance = matchingDistance(plan);

@@ -3,7 +3,7 @@ import type { ClusterEngine } from './clusters/clusterEngine';
 import type { SelectionEngine } from './design/selectionEngine';
 import type { Plan } from './plan';
 import { isClusterDesign, isSelectionDesign } from './design/studyDesign';
-import { usesCovariateModel } from './multivariate/covariateModel';
+import { usesCovariateModel } from './multivariate/covariateUse';
 
 /**
  * The engine registry: the closed forms for covariates (src/core/multivariate), clusters

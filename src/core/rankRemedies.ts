@@ -9,8 +9,8 @@ import { expectedMatchedShare } from './expectedMatchedShare';
 import { formatPointsText } from './inputChecks';
 import { shareOfEffect } from './shareOfEffect';
 import type { MatchingSpec } from './plan';
-import { type CovariateModel, deriveCovariateModel, matchingDistance, usesCovariateModel } from './multivariate/covariateModel';
-import { joinNames } from './multivariate/covariateModelProblems';
+import type { CovariateModel } from './multivariate/covariateModel';
+import { matchingDistance, usesCovariateModel } from './multivariate/covariateUse';
 import { engine } from './engineRegistry';
 
 /** The covariate engine (src/core/engineRegistry.ts), asked for only on the paths of a plan with covariates. */
@@ -56,7 +56,7 @@ export function rankRemedies(plan: Plan, model?: ModelParameters): Remedy[] {
   const shareOf = (b: number): number | null => shareOfEffect(b, tau);
   const matching = plan.matching;
   // With covariates, the same quantities from the covariate model (plan's distance).
-  const cov = usesCovariateModel(plan) ? deriveCovariateModel(plan, m) : null;
+  const cov = usesCovariateModel(plan) ? covariates().deriveCovariateModel(plan, m) : null;
   const distance = matchingDistance(plan);
   const matchedBiasOf = (mm: ModelParameters, cm: CovariateModel | null): number =>
     (cm ? covariates().covariateMatchedEstimate(cm, distance) : matchedDifferenceEstimate(mm)) - tau;
@@ -245,7 +245,7 @@ function covariateRemedies(
       id: 'match-all-measured',
       title: 'Match on all measured covariates (propensity score or Mahalanobis distance)',
       summary:
-        `Matching on the pretest together with ${joinNames(others.map((j) => cov.names[j] as string))} changes the ` +
+        `Matching on the pretest together with ${covariates().joinNames(others.map((j) => cov.names[j] as string))} changes the ` +
         `matched-difference artefact from ${pts(matchedBias)} to ${pts(bias)} points; what is left comes from measurement ` +
         `error in the covariates and from anything never measured. ${caliper.note}`,
       remainingBias: bias,
@@ -263,7 +263,7 @@ function covariateRemedies(
     const d = distance === 'pretest' ? 'mahalanobis' : distance;
     const bias = covariates().covariateMatchedEstimate(all, d) - tau;
     const caliper = distance === 'pretest' ? covariates().mahalanobisCaliperSuggestion(all, m, matching) : null;
-    const names = joinNames(unmeasured.map((j) => cov.names[j] as string));
+    const names = covariates().joinNames(unmeasured.map((j) => cov.names[j] as string));
     out.push({
       id: 'measure-confounders',
       title: `Measure ${names} and match on ${unmeasured.length === 1 ? 'it' : 'them'} too`,

@@ -1,10 +1,10 @@
 import type { Plan } from './plan';
 import { FIELD_RULES, type FieldRule, PLAN_FORMAT, PLAN_LIMITS, PLAN_VERSION, planSchema } from './planSchema';
-import { type CovariateCheckInput, covariateModelProblems } from './multivariate/covariateModelProblems';
+import type { CovariateCheckInput } from './multivariate/covariateModelProblems';
 import { formatApart } from './inputChecks';
 import { showControlCharacters } from './visibleText';
 import { derivedGroups } from './design/derivedGroups';
-import { ClusterModelError, clusterModel } from './clusters/clusterModel';
+import { engine, MissingEngineError } from './engineRegistry';
 
 /** One thing wrong with a plan: the field (dotted path) and a message a researcher understands. */
 export interface PlanProblem {
@@ -40,7 +40,10 @@ export type PlanCheck = { ok: true; plan: Plan } | { ok: false; problems: PlanPr
 export function validatePlan(input: unknown): PlanCheck {
   try {
     return checkPlan(input);
-  } catch {
+  } catch (e) {
+    // A plan whose covariate or cluster checks are not registered (src/core/engineRegistry.ts) is
+    // not checked at all: the caller loads the engine and asks again (never a false message).
+    if (e instanceof MissingEngineError) throw e;
     // Last resort: every value is range-checked first, so this is a fault of ours, not the plan's.
     return fail(
       '',
@@ -93,10 +96,11 @@ function checkPlan(input: unknown): PlanCheck {
   const plan = parsed.data as Plan;
   if (plan.clusters !== undefined) {
     // The two-level model itself: ICCs that contradict the reliability or the slope.
+    const clusters = engine('clusters');
     try {
-      clusterModel(plan);
+      clusters.clusterModel(plan);
     } catch (e) {
-      if (e instanceof ClusterModelError) return fail(e.field, e.message);
+      if (e instanceof clusters.ClusterModelError) return fail(e.field, e.message);
       throw e;
     }
   }
@@ -452,7 +456,7 @@ function crossFieldProblems(input: Record<string, unknown>, bad: Set<string>, se
       poolSize: { programme: ok('groups.programme.poolSize'), comparison: nC },
       assumedReliability: ok('analysis.assumedReliability'),
     };
-    out.push(...covariateModelProblems(check));
+    out.push(...engine('covariates').covariateModelProblems(check));
   }
   return out;
 }

@@ -121,7 +121,8 @@ export function serializePlan(plan: Plan): string {
 /**
  * Read a plan file's text: parse the JSON and validate it, reporting every
  * problem at once (see validatePlan). Text that is not JSON gets one message
- * with the line and column where reading stopped. Never throws.
+ * with the line and column where reading stopped. Never throws, except MissingEngineError
+ * when the plan's covariate or cluster checks are not registered (src/core/engineRegistry.ts).
  * @example parsePlanText('{').ok // false: "This file is not a plan file: it is not valid JSON ..."
  */
 export function parsePlanText(text: string): PlanCheck {

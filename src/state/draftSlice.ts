@@ -76,9 +76,9 @@ export const TYPING_PAUSE_MS = 700;
 
 /**
  * Check a draft and, when valid, analyse it. Pure apart from the injected functions.
- * A valid plan whose design needs an engine not registered yet (src/core/engineRegistry.ts) is not
- * analysed: the result names the engines to wait for (`waitingFor`), and the store shows its
- * working state until they arrive. Without `deps.loadEngines` that is a wiring fault and throws
+ * A draft whose checks or closed forms need an engine not registered yet
+ * (src/core/engineRegistry.ts) is neither checked nor analysed: the result names the engines to
+ * wait for (`waitingFor`), and the store shows its working state until they arrive. Without `deps.loadEngines` that is a wiring fault and throws
  * MissingEngineError (never a figure from another design's formulas).
  */
 export function evaluateDraft(
@@ -87,7 +87,14 @@ export function evaluateDraft(
 ): { plan: Plan; analytic: AnalyticResults } | { problems: FieldProblem[] } | { waitingFor: EngineName[] } {
   const { candidate: read, problems: readProblems } = draftToCandidate(draft);
   const candidate = withCandidateProvenance(read, draftProvenance(draft));
-  const check = deps.validatePlan(candidate);
+  let check: ReturnType<MeanwardDeps['validatePlan']>;
+  try {
+    check = deps.validatePlan(candidate);
+  } catch (e) {
+    // The covariate or cluster checks are not loaded yet: wait for them rather than guess.
+    if (e instanceof MissingEngineError && deps.loadEngines) return { waitingFor: [e.engine] };
+    throw e;
+  }
   if (!check.ok || readProblems.length > 0) {
     // Keep one message per field: "not a number" first, then the validator's.
     const seen = new Set<string>();

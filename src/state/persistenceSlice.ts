@@ -1,5 +1,7 @@
 import type { StateCreator } from 'zustand';
 import type { Plan } from '../core/plan';
+import { MissingEngineError } from '../core/engineRegistry';
+import { ENGINES_FAILED } from './draftSlice';
 import { looksLikePlanPart } from '../io/shareLink';
 import type { DraftStorage, MeanwardDeps, PlanCheck } from './deps';
 import { isPlanDraft, withDraftDefaults, type PlanDraft } from './planDraft';
@@ -78,9 +80,9 @@ export interface PersistenceSlice {
   dismissNotice(): void;
   loadExample(id: string): void;
   resetToDemo(): void;
-  /** Open the text of a plan file; returns whether it was loaded. */
+  /** Open the text of a plan file; returns whether it was loaded (false also while an engine it needs loads: it opens when that arrives). */
   openPlanText(text: string, fileName?: string): boolean;
-  /** Open a URL fragment ("#plan=…"); returns whether a plan was loaded. A malformed "#plan…" fragment is reported. */
+  /** Open a URL fragment ("#plan=…"); returns whether a plan was loaded (false also while an engine it needs loads). A malformed "#plan…" fragment is reported. */
   openShareFragment(fragment: string): boolean;
   /**
    * Replace the whole draft (after `before`) and offer Undo: used by every
@@ -235,6 +237,23 @@ export const createPersistenceSlice =
       const list = check.problems.map((p) => p.message);
       return list.length > 3 ? `${list.slice(0, 3).join(' ')} (and ${list.length - 3} more problems)` : list.join(' ');
     };
+    /**
+     * Run an open (file, link) now; when checking the plan needs an engine that is still loading
+     * (src/core/engineRegistry.ts), run it again once the engine has arrived. Until then the current
+     * plan stays as it is; a failed load is reported and changes nothing.
+     */
+    const whenEnginesReady = (open: () => boolean): boolean => {
+      try {
+        return open();
+      } catch (e) {
+        if (!(e instanceof MissingEngineError) || !deps.loadEngines) throw e;
+        void deps.loadEngines([e.engine]).then(
+          () => void open(),
+          () => set({ notice: { kind: 'error', text: `This plan could not be opened; your current plan is unchanged. ${ENGINES_FAILED}` } }),
+        );
+        return false;
+      }
+    };
     const write = (storage: DraftStorage | null | undefined, key: string, text: string) => {
       try {
         storage?.setItem(key, text);
@@ -258,7 +277,7 @@ export const createPersistenceSlice =
         load(structuredClone(ex.plan), 'example', `Loaded the invented example "${ex.name}": ${ex.description}`);
       },
       resetToDemo: () => load(demo(), 'demo', 'The form was reset to the demo plan (an invented example).'),
-      openPlanText: (text, fileName) => {
+      openPlanText: (text, fileName) => whenEnginesReady(() => {
         const check = deps.parsePlanText(text);
         if (!check.ok) {
           const what = fileName ? `The file "${fileName}"` : 'The plan file';
@@ -267,8 +286,8 @@ export const createPersistenceSlice =
         }
         load(check.plan, 'file', `Opened ${fileName ? `"${fileName}"` : 'the plan file'}.`);
         return true;
-      },
-      openShareFragment: (fragment) => {
+      }),
+      openShareFragment: (fragment) => whenEnginesReady(() => {
         if (!isShareFragment(fragment)) return false;
         const check = deps.decodePlanFromLink(fragment);
         if (!check.ok) {
@@ -284,7 +303,7 @@ export const createPersistenceSlice =
           holdNextShared = false;
         }
         return true;
-      },
+      }),
       offerUndo: (before, source, text) => {
         set({ notice: { kind: 'info', text, action: 'undo' }, undoable: { draft: before, source, undone: false } });
       },

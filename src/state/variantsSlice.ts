@@ -2,6 +2,7 @@ import type { StateCreator } from 'zustand';
 import { applyRemedy, type RemedyId } from '../core/applyRemedy';
 import { COMPARE_MAX_PLANS } from '../core/comparePlans';
 import { ANALYSIS_IDS, type AnalysisId, type Plan } from '../core/plan';
+import { MissingEngineError } from '../core/engineRegistry';
 import type { DraftStorage, MeanwardDeps } from './deps';
 import type { MeanwardState } from './store';
 
@@ -51,7 +52,10 @@ export interface VariantsSlice {
   followValidPlan: (plan: Plan) => void;
 }
 
-/** The stored variants, or nothing when absent or unreadable (never throws). */
+/**
+ * The stored variants, or nothing when absent or unreadable. Throws only MissingEngineError, when
+ * checking a stored variant needs an engine not loaded yet (the slice reads them again once it is).
+ */
 export function readStoredVariants(storage: DraftStorage | null | undefined, validate: MeanwardDeps['validatePlan']): Pick<VariantsSlice, 'variants' | 'activeVariantId' | 'compareIds'> {
   const empty = { variants: [], activeVariantId: null, compareIds: [] };
   try {
@@ -71,7 +75,8 @@ export function readStoredVariants(storage: DraftStorage | null | undefined, val
     const active = typeof data.activeVariantId === 'string' && ids.has(data.activeVariantId) ? data.activeVariantId : null;
     const compare = Array.isArray(data.compareIds) ? (data.compareIds as unknown[]).filter((x): x is string => typeof x === 'string' && ids.has(x)) : [];
     return { variants, activeVariantId: active, compareIds: compare.slice(0, COMPARE_MAX_PLANS) };
-  } catch {
+  } catch (e) {
+    if (e instanceof MissingEngineError) throw e;
     return empty;
   }
 }
@@ -79,10 +84,41 @@ export function readStoredVariants(storage: DraftStorage | null | undefined, val
 export const createVariantsSlice =
   (deps: MeanwardDeps): StateCreator<MeanwardState, [], [], VariantsSlice> =>
   (set, get) => {
-    const restored = readStoredVariants(deps.storage, deps.validatePlan);
-    let counter = restored.variants.reduce((n, v) => Math.max(n, Number(v.id.replace(/\D/g, '')) || 0), 0);
+    const highestId = (vs: readonly PlanVariant[], from: number) => vs.reduce((n, v) => Math.max(n, Number(v.id.replace(/\D/g, '')) || 0), from);
+    let counter = 0;
+    // True while stored variants wait for an engine: nothing is saved over them meanwhile.
+    let storedUnread = false;
+    let restored: ReturnType<typeof readStoredVariants>;
+    try {
+      restored = readStoredVariants(deps.storage, deps.validatePlan);
+    } catch (e) {
+      if (!(e instanceof MissingEngineError) || !deps.loadEngines) throw e;
+      // A stored variant of a design whose checks are still loading: the variants are read once
+      // they arrive (the page waits for them before its first render, so nothing is saved over them).
+      restored = { variants: [], activeVariantId: null, compareIds: [] };
+      storedUnread = true;
+      void deps.loadEngines([e.engine]).then(
+        () => {
+          let later: ReturnType<typeof readStoredVariants>;
+          try {
+            later = readStoredVariants(deps.storage, deps.validatePlan);
+          } catch {
+            return; // still not checkable: they stay stored, untouched
+          }
+          // Variants kept meanwhile (the page renders only after this, so none in practice) win for
+          // this visit, and the stored ones stay stored, untouched.
+          if (get().variants.length > 0) return;
+          storedUnread = false;
+          counter = highestId(later.variants, counter);
+          set(later);
+        },
+        () => undefined, // the engines could not be fetched: the stored variants stay stored, untouched
+      );
+    }
+    counter = highestId(restored.variants, counter);
     const newId = () => `v${++counter}`;
     const save = () => {
+      if (storedUnread) return;
       const { variants, activeVariantId, compareIds } = get();
       try {
         deps.storage?.setItem(VARIANTS_KEY, JSON.stringify({ variants, activeVariantId, compareIds }));

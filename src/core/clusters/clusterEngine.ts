@@ -1,10 +1,11 @@
 import { analyseClusterPlan } from './analyseClusterPlan';
+import { ClusterModelError, clusterModel } from './clusterModel';
 
 /**
- * The clusters design's closed forms as analysePlan reaches them through the engine registry
- * (src/core/engineRegistry.ts), registered by src/core/allEngines.ts. The cluster model's checks
- * (clusterModel) stay on the first screen because validation needs them.
+ * The clusters design's two-level model (whose errors validatePlan reports) and closed forms, as
+ * validatePlan and analysePlan reach them through the engine registry (src/core/engineRegistry.ts),
+ * registered by src/core/allEngines.ts.
  */
-export const clusterEngine = { analyseClusterPlan };
+export const clusterEngine = { analyseClusterPlan, clusterModel, ClusterModelError };
 
 export type ClusterEngine = typeof clusterEngine;

@@ -5,15 +5,16 @@ import { covariateCorrectedAncovaEstimate } from './covariateCorrectedAncovaEsti
 import { covariateGainScoreEstimate } from './covariateGainScoreEstimate';
 import { covariateMatchedEstimate } from './covariateMatchedEstimate';
 import { covariateMatchedShare } from './covariateMatchedShare';
+import { deriveCovariateModel } from './covariateModel';
+import { covariateModelProblems, joinNames } from './covariateModelProblems';
 import { expectedCovariateBalance } from './expectedCovariateBalance';
 import { mahalanobisCaliperSuggestion } from './mahalanobisCaliperSuggestion';
 import { unmeasuredBias } from './unmeasuredBias';
 
 /**
- * The covariate model's closed forms that analysePlan and rankRemedies reach through the engine
- * registry (src/core/engineRegistry.ts), registered by src/core/allEngines.ts. The functions are
- * the ones in this folder, unchanged; the model itself (deriveCovariateModel) and its checks stay
- * on the first screen because validation needs them.
+ * The covariate model's checks and closed forms that validatePlan, analysePlan and rankRemedies
+ * reach through the engine registry (src/core/engineRegistry.ts), registered by
+ * src/core/allEngines.ts. The functions are the ones in this folder, unchanged.
  */
 export const covariateEngine = {
   analyseCovariateAnalysis,
@@ -25,7 +26,10 @@ export const covariateEngine = {
   covariateModelWithMeasured,
   covariateModelWithPoolSizes,
   covariateModelWithSem,
+  covariateModelProblems,
+  deriveCovariateModel,
   expectedCovariateBalance,
+  joinNames,
   mahalanobisCaliperSuggestion,
   unmeasuredBias,
 };
