@@ -18,14 +18,13 @@ import type { Plugin } from 'vite';
 export const FIRST_SCREEN_LIMIT_KB = 150;
 
 /**
- * What the test enforces today (kB gzip): the first screen may not grow past it. It is above the
- * goal because the planner analyses the plan on the page's own thread as it is typed: React
- * (~68 kB), the store and the form, and src/core with zod/mini — including the engines for
- * covariates, clusters and selection rules, which the store, the form and the core's shared
- * functions (remedies, sensitivity, validation) import directly. DEVELOPERS.md ("What the first
- * screen loads") says what is left and how it could leave; lower this as it does.
+ * What the test enforces today (kB gzip): the first screen may not grow past it (143.8 kB measured,
+ * rounded up). The engines for covariates, clusters and selection rules (src/core/engineRegistry.ts),
+ * the design explorer's actions with src/core/explore and the pilot reader's actions with its plan
+ * update load on demand; DEVELOPERS.md ("What the first screen loads") says what is left. Lower
+ * this when something else leaves.
  */
-export const FIRST_SCREEN_BUDGET_KB = 171;
+export const FIRST_SCREEN_BUDGET_KB = 144;
 
 /** One file of the first screen and its gzip size in bytes. */
 export interface FirstScreenFile {

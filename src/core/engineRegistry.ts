@@ -15,9 +15,12 @@ import { usesCovariateModel } from './multivariate/covariateUse';
  * src/core/allEngines.ts. An engine that was never registered is an error naming it
  * (MissingEngineError), never a silent fallback to another design's formulas.
  *
- * What stays outside the registry: each design's validation (the covariate checks, the cluster
- * model's checks and the selection rule's derived groups), so a plan file, link or example is
- * checked at once and never with a wrong message; and the small design seam (studyDesign).
+ * validatePlan asks the registry too, for the covariate checks and the cluster model's checks: a
+ * plan that needs one of them is not checked without it (MissingEngineError, never the catch-all
+ * message), and the page's store waits for the engine and checks it then. What stays outside the
+ * registry, on the first screen: the small design seam (studyDesign), which engine a plan needs
+ * (covariateUse.ts), and the selection model with its derived groups (selectionModel,
+ * derivedGroups), which the form and the draft use directly for a selection plan's group sizes.
  *
  * To add an engine: a name in EngineName and its type in Engines, one object of functions in its
  * folder (like multivariate/covariateEngine.ts), one registerEngine call in allEngines.ts, and a

@@ -64,6 +64,31 @@ describe('the first screen', () => {
     }
   });
 
+  it('leaves out the engines for covariates, clusters and selection rules, the explorer\'s actions and core, and the pilot reader\'s actions', () => {
+    // A string each moved module keeps in its minified code (a message or a key of its own).
+    const markers = {
+      'covariate checks (src/core/multivariate/covariateModelProblems.ts)': 'Raise the reliabilities or check the correlation',
+      'cluster model (src/core/clusters/clusterModel.ts)': 'part of the true-score variance',
+      'cluster remedies (src/core/clusters/clusterRemedies.ts)': 'Match on a cluster mean of the people who will sit the posttest',
+      'selection closed forms (src/core/design/analyseSelectionPlan.ts)': 'A sharp cut-off on the pretest leaves no overlap',
+      'explorer core (src/core/explore/exploreSpec.ts)': 'are allowed (use fewer steps)',
+      "explorer's actions (src/state/explorerSlice.ts)": 'The explorer cannot simulate in this browser',
+      'pilot plan update (src/pilot/pilotPlanUpdate.ts)': 'it breaks a plan rule',
+      "pilot reader's actions (src/state/pilotSlice.ts)": 'meanward.pilotMapping.v1',
+    };
+    const first = firstScreenFiles(dist);
+    const firstScreen = first.filter((f) => f.endsWith('.js')).map((f) => readFileSync(join(dist, f), 'utf8'));
+    const lazyJs = allFiles(dist).filter((f) => f.endsWith('.js') && !first.includes(f)).map((f) => readFileSync(join(dist, f), 'utf8'));
+    for (const [module, marker] of Object.entries(markers)) {
+      expect(firstScreen.some((code) => code.includes(marker)), module).toBe(false);
+      // …and each is in a chunk the page loads later (so the check above can fail).
+      expect(lazyJs.some((code) => code.includes(marker)), module).toBe(true);
+    }
+    // The engines' chunk is its own file, loaded with import() (src/state/pageEngines.ts).
+    expect(allFiles(dist).some((f) => /^assets\/allEngines-[\w-]+\.js$/.test(f))).toBe(true);
+    expect(first.some((f) => f.includes('allEngines-'))).toBe(false);
+  });
+
   it(`stays within its budget of ${FIRST_SCREEN_BUDGET_KB} kB gzip (goal ${FIRST_SCREEN_LIMIT_KB} kB)`, () => {
     const { files, totalKb } = firstScreenSize(dist);
     // The sizes are real gzip streams of the files: each inflates back to the file (zlib, RFC 1952).
