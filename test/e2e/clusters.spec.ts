@@ -7,6 +7,8 @@
 // strings through the planner's formatters; the headline's clusters needed from
 // the quick simulation of the planned procedure, run in Node with the same seed). The schools example is also shown
 // at a phone's and a laptop's width with every chart label inside its chart.
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import AxeBuilder from '@axe-core/playwright';
 import { expect, test } from '@playwright/test';
 import { analysePlan } from '../../src/core/analysePlan';

@@ -2,6 +2,8 @@
 // break and fix a correlation cell, match on a propensity score, simulate and
 // see the balance per covariate; load the invented covariate example and see
 // the unmeasured part; accessibility (axe) in the covariate state.
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import AxeBuilder from '@axe-core/playwright';
 import { expect, test } from '@playwright/test';
 import { AFTER_SCHOOL_MATHS } from '../../src/io/examplePlans';

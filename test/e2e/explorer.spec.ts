@@ -5,6 +5,8 @@
 // the one-process result bit for bit); clicking a cell and pressing Enter on
 // a focused cell make candidate plans; a bigger grid is cancelled; axe finds
 // no violations in the panel; screenshots at 1280 × 800 and 390 px.
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import { mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import AxeBuilder from '@axe-core/playwright';

@@ -7,6 +7,8 @@
 // then the plan on screen unchanged), and no request off the origin.
 // Expected outcomes come from the same readers in Node (decodePlanFromLink,
 // restoreDrafts), so a case the browser handles differently fails.
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import { expect, test, type Page } from '@playwright/test';
 import type { Plan } from '../../src/core/plan';
 import { demoPlan } from '../../src/io/demoPlan';

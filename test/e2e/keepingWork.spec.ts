@@ -3,6 +3,8 @@
 // every replace can be undone by keyboard; a link opened in a second tab leaves
 // the first tab's draft alone; and a half-typed pre–post correlation never
 // becomes "the last complete plan". Screens at 1280×800 and 390×844.
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import { readFileSync } from 'node:fs';
 import { expect, test, type Page } from '@playwright/test';
 import { analysePlan } from '../../src/core/analysePlan';

@@ -3,6 +3,8 @@
 // in Node, the quick figures from the same seed), the caution and the
 // references; the copy button is reached and pressed by keyboard, puts the
 // text on the clipboard and announces "Copied". Screenshot for review.
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import { expect, test } from '@playwright/test';
 import { methodsText } from '../../src/core/methodsText';
 import { demoPlan } from '../../src/io/demoPlan';

@@ -4,6 +4,8 @@
 // results), a bad file explains itself and leaves the plan alone, a 100,000-row
 // file is read and estimated without freezing the page, nothing leaves the
 // machine, and axe finds no violations with the panel open.
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import AxeBuilder from '@axe-core/playwright';
 import { writeFileSync } from 'node:fs';
 import { expect, test, type Page } from '@playwright/test';

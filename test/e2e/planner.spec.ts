@@ -4,6 +4,8 @@
 import AxeBuilder from '@axe-core/playwright';
 import { readFileSync } from 'node:fs';
 import { expect, test } from '@playwright/test';
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import { demoPlan } from '../../src/io/demoPlan';
 import { analysePlannedProcedure } from '../../src/sim/analysePlannedProcedure';
 import {

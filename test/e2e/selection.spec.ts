@@ -4,6 +4,8 @@
 // finds no accessibility violations. Figures on screen are compared with the
 // same core functions run in Node (2-decimal display; tolerance 0.01 for the
 // quick simulation of the planned procedure, exact for closed forms).
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import AxeBuilder from '@axe-core/playwright';
 import { expect, test } from '@playwright/test';
 import { analysePlan } from '../../src/core/analysePlan';

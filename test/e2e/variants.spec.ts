@@ -3,6 +3,8 @@
 // artefacts also checked by hand against closed forms); the PDF downloaded
 // from the page carries the comparison (read back with pdfjs-dist);
 // screenshots at 1280x800 and 390 px; axe finds no violations.
+// Every design's closed forms, for the figures this spec computes itself (src/core/engineRegistry.ts).
+import '../../src/core/allEngines';
 import { mkdirSync, readFileSync } from 'node:fs';
 import path from 'node:path';
 import AxeBuilder from '@axe-core/playwright';
