@@ -1,30 +1,18 @@
 import type { Plan } from '../core/plan';
-import { createPilotReader, type PilotReader } from '../pilot/pilotClient';
-import { pessimisticPlanResult, type PessimisticPlanResult } from '../pilot/pessimisticPlan';
+import { createPilotReader } from '../pilot/pilotClient';
+import { pessimisticPlanResult } from '../pilot/pessimisticPlan';
 import { applyPilotOffer, pilotPlanUpdate, pilotReliabilityOptions, type PilotPlanUpdateOptions } from '../pilot/pilotPlanUpdate';
 import type { ColumnFacts, PilotTableSummary } from '../pilot/pilotWorkerProtocol';
-import type {
-  AppliedPilotField,
-  Delimiter,
-  PilotEstimates,
-  PilotMapping,
-  PilotOffer,
-  PilotPlanUpdate,
-  PilotReliabilitySource,
-  SkippedPilotField,
-} from '../pilot/types';
+import type { PilotMapping, PilotOffer } from '../pilot/types';
 import type { DraftStorage } from './deps';
 import { draftProvenance, withDraftProvenance } from './draftSlice';
 import { FIELD_NAMES, setDraftField, type PlanDraft } from './planDraft';
-import type { MeanwardState } from './store';
-
 import {
   EMPTY_MAPPING,
   initialPilot,
   installPilotActions,
   type PilotActions,
   type PilotActionsFactory,
-  type PilotApplyReport,
   type PilotDeps,
   type PilotMappingDraft,
   type PilotProblem,

@@ -3,12 +3,11 @@ import type { Plan } from '../core/plan';
 import type { PilotReader } from '../pilot/pilotClient';
 import type { PessimisticPlanResult } from '../pilot/pessimisticPlan';
 import type { PilotPlanUpdateOptions } from '../pilot/pilotPlanUpdate';
-import type { ColumnFacts, PilotTableSummary } from '../pilot/pilotWorkerProtocol';
+import type { PilotTableSummary } from '../pilot/pilotWorkerProtocol';
 import type {
   AppliedPilotField,
   Delimiter,
   PilotEstimates,
-  PilotMapping,
   PilotOffer,
   PilotPlanUpdate,
   PilotReliabilitySource,
