@@ -338,6 +338,7 @@ class MultivariateRunner {
           where: `simulated replication ${i + 1}`,
           start: this.discriminantStart(),
           workspace: this.logistic as LogisticWorkspace,
+          finalDeviance: false,
         });
         score = this.logit;
         const sums = this.sums;
