@@ -1,0 +1,119 @@
+import { describe, expect, it } from 'vitest';
+import type { CovariateSimModel } from '../../src/sim/multivariate/covariateSimModel';
+import { createCovariatePools, drawCovariatePools, INDICATOR, WHOLE_NUMBERS, type CovariatePools } from '../../src/sim/multivariate/drawCovariatePools';
+import { NormalSampler } from '../../src/sim/normalSampler';
+import { Xoshiro128StarStar } from '../../src/sim/xoshiro128StarStar';
+
+/*
+ * The several-covariate engine's fast paths against the code they replaced,
+ * bit for bit (Object.is). Not an outside check: existing plans must give the
+ * same numbers to the last bit (a project rule; test/core/existingPlansUnchanged.test.ts
+ * checks the built-in examples), so each faster loop must keep every kept
+ * double's operations and their order. The replaced code is kept here, only as
+ * the reference.
+ */
+
+/** drawCovariatePools as it was: variable by variable and term by term, one sweep per term (the reference). */
+function drawCovariatePoolsByTerm(pools: CovariatePools, normal: NormalSampler): void {
+  const { nComparison: nC, size, variables: p, stride, observed, trueScore, outcome, normals: z } = pools;
+  const { sem, errorVariables, recording, beta, residualSD } = pools;
+  const nErr = errorVariables.length;
+  normal.fillStandard(z, z.length);
+  for (let g = 0; g < 2; g++) {
+    const programme = g === 1;
+    const from = programme ? nC : 0;
+    const to = programme ? size : nC;
+    const L = programme ? pools.choleskyProgramme : pools.choleskyComparison;
+    const mu = programme ? pools.meanProgramme : pools.meanComparison;
+    const shift = programme ? pools.programmeShift : 0;
+    const cut = programme ? pools.thresholdProgramme : pools.thresholdComparison;
+    for (let i = from, at = from * stride + stride - 1; i < to; i++, at += stride) outcome[i] = shift + residualSD * z[at]!;
+    for (let a = 0; a < p; a++) {
+      const T = trueScore[a]!;
+      const O = observed[a]!;
+      const m = mu[a]!;
+      const ba = beta[a]!;
+      const row = a * p;
+      const rec = recording[a]!;
+      const threshold = cut[a]!;
+      for (let i = from; i < to; i++) T[i] = m;
+      for (let b = 0; b <= a; b++) {
+        const l = L[row + b]!;
+        for (let i = from, at = from * stride + b; i < to; i++, at += stride) T[i] = T[i]! + l * z[at]!;
+      }
+      if (rec === WHOLE_NUMBERS) for (let i = from; i < to; i++) T[i] = Math.round(T[i]!);
+      else if (rec === INDICATOR) for (let i = from; i < to; i++) T[i] = T[i]! > threshold ? 1 : 0;
+      O.set(T.subarray(from, to), from);
+      for (let i = from; i < to; i++) outcome[i] = outcome[i]! + ba * T[i]!;
+    }
+    for (let e = 0; e < nErr; e++) {
+      const a = errorVariables[e]!;
+      const O = observed[a]!;
+      const s = sem[a]!;
+      const rec = recording[a]!;
+      for (let i = from, at = from * stride + p + e; i < to; i++, at += stride) {
+        const x = O[i]! + s * z[at]!;
+        O[i] = rec === WHOLE_NUMBERS ? Math.round(x) : rec === INDICATOR ? (x > 0.5 ? 1 : 0) : x;
+      }
+    }
+  }
+}
+
+/**
+ * An invented model of p variables (pretest first) cycling through every kind the engine
+ * draws: fallible and measured, unmeasured, exact whole numbers (error-free), an exact 0/1
+ * indicator, error-free and not exact. Equicorrelated true scores (r = 0.2, positive definite).
+ */
+function invented(p: number, nP: number, nC: number, shift: number): CovariateSimModel {
+  const kinds = Array.from({ length: p }, (_, j) => (j === 0 ? 0 : (j + shift) % 5));
+  const sd = kinds.map((k) => (k === 3 ? 0.5 : k === 2 ? 3 : 8));
+  const meanC = kinds.map((k, j) => (k === 3 ? 0.5 : k === 2 ? 40 : 50 + 10 * j));
+  const meanP = kinds.map((k, j) => (k === 3 ? 0.4 : (meanC[j] as number) - (k === 2 ? 1 : 4)));
+  const sigma = Array.from({ length: p }, (_, a) => Array.from({ length: p }, (_, b) => (a === b ? 1 : 0.2) * (sd[a] as number) * (sd[b] as number)));
+  return {
+    names: kinds.map((k, j) => (j === 0 ? 'Pretest' : `Invented ${j} (kind ${k})`)),
+    measured: kinds.map((k) => k !== 1),
+    exact: kinds.map((k) => k === 2 || k === 3),
+    mean: { programme: meanP, comparison: meanC },
+    sem: kinds.map((k) => (k === 0 || k === 1 ? 4 : 0)),
+    beta: kinds.map((_, j) => 0.3 / (j + 1)),
+    residualSD: 6,
+    growthGap: 1,
+    effect: 2,
+    n: { programme: nP, comparison: nC },
+    sigmaT: { programme: sigma, comparison: sigma },
+  };
+}
+
+describe('drawCovariatePools: one sweep per variable gives the same bits as one sweep per term', () => {
+  it('p = 1 … 9 variables of every kind, small and uneven pools, several replications', () => {
+    for (let p = 1; p <= 9; p++) {
+      for (const shift of [0, 2]) {
+        const model = invented(p, 37 + p, 211 + 3 * p, shift);
+        const fast = createCovariatePools(model);
+        const reference = createCovariatePools(model);
+        const rng = new Xoshiro128StarStar();
+        const normal = new NormalSampler(rng);
+        for (let r = 0; r < 3; r++) {
+          rng.reseed(11 + p, r);
+          drawCovariatePools(fast, normal);
+          const after = rng.nextUint32();
+          rng.reseed(11 + p, r);
+          drawCovariatePoolsByTerm(reference, normal);
+          expect(rng.nextUint32(), 'the stream is left at the same place').toBe(after);
+          let differ = 0;
+          for (let v = 0; v < p; v++) {
+            for (let i = 0; i < fast.size; i++) {
+              if (!Object.is(fast.observed[v]![i], reference.observed[v]![i])) differ++;
+              if (!Object.is(fast.trueScore[v]![i], reference.trueScore[v]![i])) differ++;
+            }
+          }
+          for (let i = 0; i < fast.size; i++) if (!Object.is(fast.outcome[i], reference.outcome[i])) differ++;
+          expect(differ, `p = ${p}, kinds from ${shift}, replication ${r}`).toBe(0);
+          // The draw is not degenerate: the indicator and whole-number kinds are both there when p ≥ 6.
+          if (p >= 6) expect(fast.recording.some((k) => k === INDICATOR) && fast.recording.some((k) => k === WHOLE_NUMBERS)).toBe(true);
+        }
+      }
+    }
+  });
+});
