@@ -1,4 +1,5 @@
 import { describe, expect, it } from 'vitest';
+import { createGroupMoments, groupMoments, type GroupMoments } from '../../src/sim/multivariate/ancovaOnCovariates';
 import type { CovariateSimModel } from '../../src/sim/multivariate/covariateSimModel';
 import { createCovariatePools, drawCovariatePools, INDICATOR, WHOLE_NUMBERS, type CovariatePools } from '../../src/sim/multivariate/drawCovariatePools';
 import { NormalSampler } from '../../src/sim/normalSampler';
@@ -113,6 +114,110 @@ describe('drawCovariatePools: one sweep per variable gives the same bits as one 
           // The draw is not degenerate: the indicator and whole-number kinds are both there when p ≥ 6.
           if (p >= 6) expect(fast.recording.some((k) => k === INDICATOR) && fast.recording.some((k) => k === WHOLE_NUMBERS)).toBe(true);
         }
+      }
+    }
+  });
+});
+
+/** groupMoments as it was: one sweep per column pair (a, b ≥ a), two running sums each (the reference). */
+function groupMomentsByPair(columns: readonly Float64Array[], y: Float64Array, from: number, to: number, weight: ArrayLike<number> | null, out: GroupMoments): void {
+  const p = out.p;
+  const q = p + 1;
+  const shift = new Float64Array(q);
+  const sum = new Float64Array(q);
+  const prod = new Float64Array(q * q);
+  let first = -1;
+  for (let i = from; i < to && first < 0; i++) if (!weight || weight[i - from] !== 0) first = i;
+  let n = 0;
+  if (first >= 0) {
+    for (let a = 0; a < p; a++) shift[a] = columns[a]![first]!;
+    shift[p] = y[first]!;
+    const rows: number[] = [];
+    const rowWeight: number[] = [];
+    if (weight) {
+      for (let i = first; i < to; i++) {
+        const w = weight[i - from]!;
+        if (w === 0) continue;
+        n += w;
+        rows.push(i);
+        rowWeight.push(w);
+      }
+    } else n = to - first;
+    for (let a = 0; a < q; a++) {
+      const xa = a < p ? columns[a]! : y;
+      const sa = shift[a]!;
+      for (let b = a; b < q; b++) {
+        const xb = b < p ? columns[b]! : y;
+        const sb = shift[b]!;
+        let s = 0;
+        let h = 0;
+        if (weight) {
+          for (let t = 0; t < rows.length; t++) {
+            const i = rows[t]!;
+            const wa = rowWeight[t]! * (xa[i]! - sa);
+            s += wa;
+            h += wa * (xb[i]! - sb);
+          }
+        } else {
+          for (let i = first; i < to; i++) {
+            const da = xa[i]! - sa;
+            s += da;
+            h += da * (xb[i]! - sb);
+          }
+        }
+        if (b === a) sum[a] = s;
+        prod[a * q + b] = h;
+      }
+    }
+  }
+  out.n = n;
+  if (n === 0) {
+    out.means.fill(0);
+    out.meanY = 0;
+    out.sxx.fill(0);
+    out.sxy.fill(0);
+    out.syy = 0;
+    return;
+  }
+  for (let a = 0; a < p; a++) out.means[a] = shift[a]! + sum[a]! / n;
+  out.meanY = shift[p]! + sum[p]! / n;
+  const centred = (a: number, b: number): number => prod[a * q + b]! - (sum[a]! * sum[b]!) / n;
+  for (let a = 0; a < p; a++) {
+    for (let b = a; b < p; b++) {
+      const v = centred(a, b);
+      out.sxx[a * p + b] = v;
+      out.sxx[b * p + a] = v;
+    }
+    out.sxy[a] = centred(a, p);
+  }
+  out.syy = centred(p, p);
+}
+
+describe('groupMoments: up to five products per sweep gives the same bits as one sweep per column pair', () => {
+  it('p = 1 … 12 columns (blocks of one to five), unweighted and with whole-number weights (zeros, repeats, a leading zero)', () => {
+    const rng = Xoshiro128StarStar.forReplication(404, 0);
+    const z = new NormalSampler(rng);
+    const n = 157;
+    for (let p = 1; p <= 12; p++) {
+      // Invented columns far from 0 (as pretests are), one of them 0/1, and an outcome.
+      const cols = Array.from({ length: p }, (_, j) => Float64Array.from({ length: n }, () => (j === 2 ? (rng.nextFloat() < 0.4 ? 1 : 0) : 100 * j + (j + 1) * z.next())));
+      const y = Float64Array.from({ length: n }, (_, i) => 0.4 * cols[0]![i]! + 3 * z.next());
+      const from = 9;
+      const uses = Float64Array.from({ length: n - from }, (_, t) => (t === 0 ? 0 : Math.floor(3 * rng.nextFloat())));
+      for (const weight of [null, uses]) {
+        const fast = createGroupMoments(p);
+        const reference = createGroupMoments(p);
+        groupMoments(cols, y, from, n, weight, fast);
+        groupMomentsByPair(cols, y, from, n, weight, reference);
+        const label = `p = ${p}, ${weight ? 'weighted' : 'unweighted'}`;
+        expect(fast.n, label).toBe(reference.n);
+        expect(Object.is(fast.meanY, reference.meanY) && Object.is(fast.syy, reference.syy), label).toBe(true);
+        let differ = 0;
+        for (let a = 0; a < p; a++) {
+          if (!Object.is(fast.means[a], reference.means[a]) || !Object.is(fast.sxy[a], reference.sxy[a])) differ++;
+          for (let b = 0; b < p; b++) if (!Object.is(fast.sxx[a * p + b], reference.sxx[a * p + b])) differ++;
+        }
+        expect(differ, label).toBe(0);
       }
     }
   });
