@@ -168,10 +168,10 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
   const { nComparison: nC, size, variables: p, stride, observed, trueScore, outcome, normals: z } = pools;
   const { sem, errorSlot, recording, beta, residualSD } = pools;
   normal.fillStandard(z, z.length);
-  // One sweep per variable over each group's rows: the true score
-  // T_a = mean_a + L[a, 0] z_0 + … + L[a, a] z_a (terms added in that order), its
-  // recording, the observed value (with its error, when it has one), and the
-  // outcome's term; the outcome is Y = shift + residualSD z'' + beta_0 T_0 + beta_1 T_1 + …,
+  // Variable by variable over each group's rows (drawVariable): the true score
+  // T_a = mean_a + L[a, 0] z_0 + … + L[a, a] z_a (terms added in that order) in one
+  // sweep, its recording, the outcome's term, the observed value (with its error,
+  // when it has one); the outcome is Y = shift + residualSD z'' + beta_0 T_0 + beta_1 T_1 + …,
   // accumulated in that order. Every kept double takes the same operations in the
   // same order as a person-by-person draw (and as the earlier term-by-term sweeps).
   for (let g = 0; g < 2; g++) {
@@ -208,10 +208,12 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
 }
 
 /**
- * One variable's sweep over rows [from, to) (drawCovariatePools): T from its `terms`
- * normal variates (unrolled up to six terms, the general loop beyond), recorded;
- * O = T, or T + sem z_err recorded (errorAt ≥ 0: the error variate's position in
- * a person's block); outcome += beta T.
+ * One variable over rows [from, to) (drawCovariatePools): T from its `terms`
+ * normal variates (one loop per number of terms up to six, the general loop
+ * beyond), then its recording, outcome += beta T, and O = T, or T + sem z_err
+ * recorded (errorAt ≥ 0: the error variate's position in a person's block).
+ * Short loops with no choice inside them run about twice as fast as one loop
+ * doing all of it.
  */
 function drawVariable(
   T: Float64Array,
@@ -237,28 +239,40 @@ function drawVariable(
   const l3 = terms > 3 ? (L[row + 3] as number) : 0;
   const l4 = terms > 4 ? (L[row + 4] as number) : 0;
   const l5 = terms > 5 ? (L[row + 5] as number) : 0;
-  for (let i = from, at = from * stride; i < to; i++, at += stride) {
-    let t: number;
-    if (terms === 1) t = m + l0 * (z[at] as number);
-    else if (terms === 2) t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number);
-    else if (terms === 3) t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number);
-    else if (terms === 4) t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number);
-    else if (terms === 5) {
-      t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number) + l4 * (z[at + 4] as number);
-    } else if (terms === 6) {
-      t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number) + l4 * (z[at + 4] as number) + l5 * (z[at + 5] as number);
-    } else {
-      t = m;
-      for (let b = 0; b < terms; b++) t += (L[row + b] as number) * (z[at + b] as number);
+  const start = from * stride;
+  // T = m + l0 z0 + l1 z1 + … (added left to right, as the general loop does).
+  if (terms === 1) for (let i = from, at = start; i < to; i++, at += stride) T[i] = m + l0 * (z[at] as number);
+  else if (terms === 2) for (let i = from, at = start; i < to; i++, at += stride) T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number);
+  else if (terms === 3) {
+    for (let i = from, at = start; i < to; i++, at += stride) T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number);
+  } else if (terms === 4) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number);
     }
-    if (rec === WHOLE_NUMBERS) t = Math.round(t);
-    else if (rec === INDICATOR) t = t > threshold ? 1 : 0;
-    T[i] = t;
-    outcome[i] = (outcome[i] as number) + ba * t;
-    if (errorAt < 0) O[i] = t;
-    else {
-      const x = t + s * (z[at + errorAt] as number);
-      O[i] = rec === WHOLE_NUMBERS ? Math.round(x) : rec === INDICATOR ? (x > 0.5 ? 1 : 0) : x;
+  } else if (terms === 5) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number) + l4 * (z[at + 4] as number);
+    }
+  } else if (terms === 6) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number) + l4 * (z[at + 4] as number) + l5 * (z[at + 5] as number);
+    }
+  } else {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      let t = m;
+      for (let b = 0; b < terms; b++) t += (L[row + b] as number) * (z[at + b] as number);
+      T[i] = t;
+    }
+  }
+  if (rec === WHOLE_NUMBERS) for (let i = from; i < to; i++) T[i] = Math.round(T[i] as number);
+  else if (rec === INDICATOR) for (let i = from; i < to; i++) T[i] = (T[i] as number) > threshold ? 1 : 0;
+  for (let i = from; i < to; i++) outcome[i] = (outcome[i] as number) + ba * (T[i] as number);
+  if (errorAt < 0) O.set(T.subarray(from, to), from);
+  else if (rec === CONTINUOUS) for (let i = from, at = start + errorAt; i < to; i++, at += stride) O[i] = (T[i] as number) + s * (z[at] as number);
+  else {
+    for (let i = from, at = start + errorAt; i < to; i++, at += stride) {
+      const x = (T[i] as number) + s * (z[at] as number);
+      O[i] = rec === WHOLE_NUMBERS ? Math.round(x) : x > 0.5 ? 1 : 0;
     }
   }
 }
