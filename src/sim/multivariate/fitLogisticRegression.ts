@@ -362,9 +362,10 @@ function rowPass(
 }
 
 /*
- * The fast passes (the engine's): the same sums as rowPass, in two steps. First
- * one row loop computes each row's logit, the deviance, and the row's weight
- * w = p(1 − p) and residual r = y − p, kept in the workspace (logitPass); then
+ * The fast passes (the engine's): the same sums as rowPass, in steps. First
+ * each row's logit (one loop per number of columns), then the deviance and the
+ * row's weight w = p(1 − p) and residual r = y − p, kept in the workspace
+ * (logitPass); then
  * short loops sum the gradient and the information from those, with at most
  * eleven sums in one loop (sumsFor1…4; pair by pair beyond four columns), so
  * V8 keeps every running sum in a register: a single loop over all of them
@@ -388,10 +389,10 @@ function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b
 }
 
 /**
- * One row loop at coefficients b: the logit of each row into eta (b0 + b1 z1 + …,
- * in that order), ws.maxAbsEta, and, with `deviance`, the deviance (as rowPass;
- * NaN without); with `weights`, w_i = p_i (1 − p_i) and r_i = y_i − p_i into
- * ws.weight and ws.residual.
+ * The rows at coefficients b: the logit of each row into eta (b0 + b1 z1 + …,
+ * in that order) and ws.maxAbsEta (logits); then, with `deviance`, the
+ * deviance (as rowPass; NaN without), and with `weights`, w_i = p_i (1 − p_i)
+ * and r_i = y_i − p_i into ws.weight and ws.residual, in one more loop.
  */
 function logitPass(
   z: Float64Array,
@@ -404,32 +405,16 @@ function logitPass(
   weights: boolean,
   deviance: boolean,
 ): number {
-  const b0 = b[0] as number;
-  const b1 = b[1] as number;
-  const b2 = k >= 2 ? (b[2] as number) : 0;
-  const b3 = k >= 3 ? (b[3] as number) : 0;
-  const b4 = k >= 4 ? (b[4] as number) : 0;
+  ws.maxAbsEta = logits(z, n, k, b, eta);
+  if (!deviance && !weights) return NaN;
   const { weight, residual } = ws;
   let linear = 0;
   let logs = 0;
   let product = 1;
   let inChunk = 0;
-  let maxAbsEta = 0;
-  for (let i = 0, base = 0; i < n; i++, base += k) {
-    let e: number;
-    if (k === 4) e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number) + b3 * (z[base + 2] as number) + b4 * (z[base + 3] as number);
-    else if (k === 3) e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number) + b3 * (z[base + 2] as number);
-    else if (k === 2) e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number);
-    else if (k === 1) e = b0 + b1 * (z[base] as number);
-    else {
-      e = b0;
-      for (let j = 0; j < k; j++) e += (b[j + 1] as number) * (z[base + j] as number);
-    }
-    eta[i] = e;
-    const ae = Math.abs(e);
-    if (ae > maxAbsEta) maxAbsEta = ae;
-    if (!deviance && !weights) continue;
-    const ex = Math.exp(-ae);
+  for (let i = 0; i < n; i++) {
+    const e = eta[i] as number;
+    const ex = Math.exp(-Math.abs(e));
     const onePlus = 1 + ex;
     const yi = y[i] as number;
     linear += Math.max(0, yi === 0 ? e : -e);
@@ -445,8 +430,55 @@ function logitPass(
     weight[i] = p * (1 - p);
     residual[i] = yi - p;
   }
-  ws.maxAbsEta = maxAbsEta;
   return deviance ? 2 * (logs + Math.log(product) + linear) : NaN;
+}
+
+/** Each row's logit b0 + b1 z1 + … (added in that order) into eta, in one loop per number of columns up to four; returns the largest |logit|. */
+function logits(z: Float64Array, n: number, k: number, b: Float64Array, eta: Float64Array): number {
+  const b0 = b[0] as number;
+  const b1 = b[1] as number;
+  const b2 = k >= 2 ? (b[2] as number) : 0;
+  const b3 = k >= 3 ? (b[3] as number) : 0;
+  const b4 = k >= 4 ? (b[4] as number) : 0;
+  let largest = 0;
+  if (k === 4) {
+    for (let i = 0, base = 0; i < n; i++, base += 4) {
+      const e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number) + b3 * (z[base + 2] as number) + b4 * (z[base + 3] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  } else if (k === 3) {
+    for (let i = 0, base = 0; i < n; i++, base += 3) {
+      const e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number) + b3 * (z[base + 2] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  } else if (k === 2) {
+    for (let i = 0, base = 0; i < n; i++, base += 2) {
+      const e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  } else if (k === 1) {
+    for (let i = 0; i < n; i++) {
+      const e = b0 + b1 * (z[i] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  } else {
+    for (let i = 0, base = 0; i < n; i++, base += k) {
+      let e = b0;
+      for (let j = 0; j < k; j++) e += (b[j + 1] as number) * (z[base + j] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  }
+  return largest;
 }
 
 /** The gradient and information sums for 1 column, from ws.weight and ws.residual. */
