@@ -113,14 +113,7 @@ export function fitLogisticRegression(
   // values side by side, so each pass over the rows reads them in one sweep).
   const ws = options.workspace && options.workspace.rows >= n && options.workspace.columns === k ? options.workspace : createLogisticWorkspace(n, k);
   const { centre, scale, z } = ws;
-  for (let j = 0; j < k; j++) {
-    const col = columns[j] as Float64Array;
-    let s = 0;
-    for (let i = 0; i < n; i++) s += col[i] as number;
-    const m = s / n;
-    let ss = 0;
-    for (let i = 0; i < n; i++) ss += ((col[i] as number) - m) ** 2;
-    const sd = Math.sqrt(ss / (n - 1));
+  const standardise = (j: number, m: number, sd: number): void => {
     if (!Number.isFinite(m) || !Number.isFinite(sd)) {
       throw new Error(`The covariate "${names[j]}" has values that are not finite numbers${at}.`);
     }
@@ -131,6 +124,51 @@ export function fitLogisticRegression(
     }
     centre[j] = m;
     scale[j] = 1 / sd;
+  };
+  // Four columns per sweep while there are four (each column's sums over the rows in order, as one
+  // column at a time: the same bits), the rest one at a time; checked in column order.
+  let j = 0;
+  for (; j + 4 <= k; j += 4) {
+    const c0 = columns[j] as Float64Array;
+    const c1 = columns[j + 1] as Float64Array;
+    const c2 = columns[j + 2] as Float64Array;
+    const c3 = columns[j + 3] as Float64Array;
+    let s0 = 0; let s1 = 0; let s2 = 0; let s3 = 0;
+    for (let i = 0; i < n; i++) {
+      s0 += c0[i] as number;
+      s1 += c1[i] as number;
+      s2 += c2[i] as number;
+      s3 += c3[i] as number;
+    }
+    const m0 = s0 / n; const m1 = s1 / n; const m2 = s2 / n; const m3 = s3 / n;
+    let q0 = 0; let q1 = 0; let q2 = 0; let q3 = 0;
+    for (let i = 0; i < n; i++) {
+      q0 += ((c0[i] as number) - m0) ** 2;
+      q1 += ((c1[i] as number) - m1) ** 2;
+      q2 += ((c2[i] as number) - m2) ** 2;
+      q3 += ((c3[i] as number) - m3) ** 2;
+    }
+    const d0 = Math.sqrt(q0 / (n - 1)); const d1 = Math.sqrt(q1 / (n - 1)); const d2 = Math.sqrt(q2 / (n - 1)); const d3 = Math.sqrt(q3 / (n - 1));
+    standardise(j, m0, d0);
+    standardise(j + 1, m1, d1);
+    standardise(j + 2, m2, d2);
+    standardise(j + 3, m3, d3);
+    for (let i = 0, t = j; i < n; i++, t += k) {
+      z[t] = ((c0[i] as number) - m0) / d0;
+      z[t + 1] = ((c1[i] as number) - m1) / d1;
+      z[t + 2] = ((c2[i] as number) - m2) / d2;
+      z[t + 3] = ((c3[i] as number) - m3) / d3;
+    }
+  }
+  for (; j < k; j++) {
+    const col = columns[j] as Float64Array;
+    let s = 0;
+    for (let i = 0; i < n; i++) s += col[i] as number;
+    const m = s / n;
+    let ss = 0;
+    for (let i = 0; i < n; i++) ss += ((col[i] as number) - m) ** 2;
+    const sd = Math.sqrt(ss / (n - 1));
+    standardise(j, m, sd);
     for (let i = 0, t = j; i < n; i++, t += k) z[t] = ((col[i] as number) - m) / sd;
   }
 
