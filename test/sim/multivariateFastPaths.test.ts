@@ -1,4 +1,6 @@
+import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
+import { createDiscriminantWorkspace, discriminantStart } from '../../src/sim/multivariate/discriminantStart';
 import { createGroupMoments, groupMoments, type GroupMoments } from '../../src/sim/multivariate/ancovaOnCovariates';
 import type { CovariateSimModel } from '../../src/sim/multivariate/covariateSimModel';
 import { createCovariatePools, drawCovariatePools, INDICATOR, WHOLE_NUMBERS, type CovariatePools } from '../../src/sim/multivariate/drawCovariatePools';
@@ -218,6 +220,67 @@ describe('groupMoments: up to five products per sweep gives the same bits as one
           for (let b = 0; b < p; b++) if (!Object.is(fast.sxx[a * p + b], reference.sxx[a * p + b])) differ++;
         }
         expect(differ, label).toBe(0);
+      }
+    }
+  });
+});
+
+/** The discriminant start as it was, with ml-matrix 6.15.1's objects (the reference). */
+function discriminantStartWithLibrary(P: GroupMoments, C: GroupMoments, nP: number, nC: number): number[] | undefined {
+  const p = P.p;
+  const s = new Matrix(p, p);
+  for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) s.set(a, b, (P.sxx[a * p + b]! + C.sxx[a * p + b]!) / (nP + nC - 2));
+  const cho = new CholeskyDecomposition(s);
+  if (!cho.isPositiveDefinite()) return undefined;
+  const d = Matrix.columnVector(Array.from({ length: p }, (_, a) => P.means[a]! - C.means[a]!));
+  const slopes = cho.solve(d).getColumn(0);
+  let intercept = Math.log(nP / nC);
+  for (let a = 0; a < p; a++) intercept -= (slopes[a]! * (P.means[a]! + C.means[a]!)) / 2;
+  return [intercept, ...slopes];
+}
+
+describe('discriminantStart: preallocated arrays give the same bits as ml-matrix 6.15.1 (npm)', () => {
+  it('a hand-worked case: one covariate, means 1 and 0, Sxx 4 and 4, five people each → slope 1, intercept −0.5', () => {
+    const P = createGroupMoments(1);
+    const C = createGroupMoments(1);
+    P.means[0] = 1;
+    C.means[0] = 0;
+    P.sxx[0] = 4;
+    C.sxx[0] = 4;
+    expect(discriminantStart(P, C, 5, 5, createDiscriminantWorkspace(1))).toEqual([-0.5, 1]);
+  });
+
+  it('p = 1 … 9 covariates of random moments (invented), and a singular case', () => {
+    const rng = Xoshiro128StarStar.forReplication(77, 0);
+    const z = new NormalSampler(rng);
+    for (let p = 1; p <= 9; p++) {
+      const ws = createDiscriminantWorkspace(p);
+      for (let r = 0; r < 4; r++) {
+        const n = 60 + 10 * p;
+        const cols = Array.from({ length: p }, (_, j) => Float64Array.from({ length: n }, () => 10 * j + (j + 1) * z.next()));
+        const y = Float64Array.from({ length: n }, () => z.next());
+        const P = createGroupMoments(p);
+        const C = createGroupMoments(p);
+        groupMoments(cols, y, 0, 25, null, P);
+        groupMoments(cols, y, 25, n, null, C);
+        const fast = discriminantStart(P, C, 25, n - 25, ws);
+        const reference = discriminantStartWithLibrary(P, C, 25, n - 25);
+        expect(fast, `p = ${p}`).toBeDefined();
+        expect(fast!.length).toBe(p + 1);
+        for (let j = 0; j <= p; j++) expect(Object.is(fast![j], reference![j]), `p = ${p}, coefficient ${j}`).toBe(true);
+      }
+      if (p >= 2) {
+        // Two identical columns: S is singular, both say so.
+        const n = 50;
+        const col = Float64Array.from({ length: n }, () => z.next());
+        const cols = [col, ...Array.from({ length: p - 1 }, () => col)];
+        const y = Float64Array.from({ length: n }, () => z.next());
+        const P = createGroupMoments(p);
+        const C = createGroupMoments(p);
+        groupMoments(cols, y, 0, 20, null, P);
+        groupMoments(cols, y, 20, n, null, C);
+        expect(discriminantStartWithLibrary(P, C, 20, 30)).toBeUndefined();
+        expect(discriminantStart(P, C, 20, 30, ws)).toBeUndefined();
       }
     }
   });

@@ -1,4 +1,4 @@
-import { CholeskyDecomposition, inverse, Matrix } from 'ml-matrix';
+import { inverse, Matrix } from 'ml-matrix';
 import type { MatchingDistance, Plan } from '../../core/plan';
 import { assumedTrueScoreCovariance } from '../../core/multivariate/covariateCorrectedAncovaEstimate';
 import { deriveCovariateModel, matchingDistance, type CovariateModel } from '../../core/multivariate/covariateModel';
@@ -20,6 +20,7 @@ import { ancovaOnCovariates, createGroupMoments, groupMoments, residualVariance,
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { createCovariatePools, drawCovariatePools, type CovariatePools } from './drawCovariatePools';
 import { exactStrata } from './exactStrata';
+import { createDiscriminantWorkspace, discriminantStart, type DiscriminantWorkspace } from './discriminantStart';
 import { createLogisticWorkspace, fitLogisticRegression, type LogisticWorkspace } from './fitLogisticRegression';
 import { createMahalanobisMatchingWorkspace, matchOnMahalanobis, type MahalanobisMatchingWorkspace } from './matchOnMahalanobis';
 import { createScoreMatchingWorkspace, matchOnScore, type ScoreMatchingWorkspace } from './matchOnScore';
@@ -275,6 +276,8 @@ class MultivariateRunner {
   /** The stacked matched comparison rows for the matched-sample ANCOVA (sigma2 set per replication). */
   readonly stacked: { weights: MatchingWeights; columns: readonly Float64Array[]; from: number; sigma2: number };
   readonly pooledSxx: Float64Array;
+  /** discriminantStart's buffers. */
+  readonly startWork: DiscriminantWorkspace;
   /** Per-replication estimates, SEs and flags of the five estimators. */
   readonly records: AnalysisRecords;
   readonly matchedCount: Float64Array;
@@ -325,6 +328,7 @@ class MultivariateRunner {
     this.MP = createGroupMoments(p);
     this.MC = createGroupMoments(p);
     this.pooledSxx = new Float64Array(p * p);
+    this.startWork = createDiscriminantWorkspace(p);
     this.programmeGroup = new Uint8Array(N).fill(1, this.nC);
     this.logit = distance === 'propensity' ? new Float64Array(N) : new Float64Array(0);
     this.logistic = distance === 'propensity' ? createLogisticWorkspace(N, p) : null;
@@ -456,25 +460,9 @@ class MultivariateRunner {
     if (i === 0) this.example = this.captureExample(matching);
   }
 
-  /**
-   * Linear discriminant coefficients from this replication's moments, as the
-   * logistic regression's starting point: slopes S^-1 (x̄_P − x̄_C) with S the
-   * pooled within-group covariance, intercept log(n_P / n_C) − slopes'(x̄_P + x̄_C)/2
-   * (the log-odds under normal covariates with a common covariance; Efron 1975, from memory).
-   * Undefined when S is singular (the regression then starts from zero slopes).
-   */
+  /** The logistic regression's start: the linear discriminant of this replication's moments (discriminantStart). */
   private discriminantStart(): number[] | undefined {
-    const { P, C, nP, nC } = this;
-    const p = P.p;
-    const s = new Matrix(p, p);
-    for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) s.set(a, b, ((P.sxx[a * p + b] as number) + (C.sxx[a * p + b] as number)) / (nP + nC - 2));
-    const cho = new CholeskyDecomposition(s);
-    if (!cho.isPositiveDefinite()) return undefined;
-    const d = Matrix.columnVector(Array.from({ length: p }, (_, a) => (P.means[a] as number) - (C.means[a] as number)));
-    const slopes = cho.solve(d).getColumn(0);
-    let intercept = Math.log(nP / nC);
-    for (let a = 0; a < p; a++) intercept -= ((slopes[a] as number) * ((P.means[a] as number) + (C.means[a] as number))) / 2;
-    return [intercept, ...slopes];
+    return discriminantStart(this.P, this.C, this.nP, this.nC, this.startWork);
   }
 
   /** Observed and true differences of every variable before and after matching (replication i). */
