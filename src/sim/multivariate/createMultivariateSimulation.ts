@@ -229,6 +229,8 @@ class MultivariateRunner {
   readonly k: number;
   readonly distance: MatchingDistance;
   readonly settings: MatchSettings;
+  /** The settings with this replication's caliper in score units (matchOnScore), reused. */
+  readonly scoreSettings: MatchSettings;
   readonly caliperUnits: number;
   readonly names: string[];
   readonly measuredNames: string[];
@@ -295,6 +297,12 @@ class MultivariateRunner {
     this.k = plan.matching.ratio;
     this.distance = distance;
     this.caliperUnits = plan.matching.caliper;
+    this.scoreSettings = {
+      caliper: 0,
+      method: plan.matching.method,
+      replacement: plan.matching.replacement,
+      order: plan.matching.order ?? 'random',
+    };
     this.settings = {
       caliper: plan.matching.caliper,
       method: plan.matching.method,
@@ -413,9 +421,10 @@ class MultivariateRunner {
         vC = (C.sxx[0] as number) / (nC - 1);
       }
       // Caliper in pooled SDs of the score, sqrt((s_P² + s_C²) / 2) (Cochran & Rubin 1973; Austin 2011 for the logit).
-      const caliper = this.caliperUnits * Math.sqrt((vP + vC) / 2);
+      const scoreSettings = this.scoreSettings;
+      scoreSettings.caliper = this.caliperUnits * Math.sqrt((vP + vC) / 2);
       const ws = this.scoreWs as ScoreMatchingWorkspace;
-      m = matchOnScore(score, strata, strataCount, { ...settings, caliper }, this.rng, ws);
+      m = matchOnScore(score, strata, strataCount, scoreSettings, this.rng, ws);
       matching = ws;
     }
 
