@@ -292,15 +292,36 @@ function blockSumsWeighted(
   let h2 = 0;
   let h3 = 0;
   let h4 = 0;
-  for (let t = 0; t < count; t++) {
-    const i = rows[t] as number;
-    const wa = (weight[t] as number) * ((xa[i] as number) - sa);
-    s += wa;
-    h0 += wa * ((x0[i] as number) - s0);
-    if (width > 1) h1 += wa * ((x1[i] as number) - s1);
-    if (width > 2) h2 += wa * ((x2[i] as number) - s2);
-    if (width > 3) h3 += wa * ((x3[i] as number) - s3);
-    if (width > 4) h4 += wa * ((x4[i] as number) - s4);
+  if (width === 5) {
+    for (let t = 0; t < count; t++) {
+      const i = rows[t] as number;
+      const wa = (weight[t] as number) * ((xa[i] as number) - sa);
+      s += wa;
+      h0 += wa * ((x0[i] as number) - s0);
+      h1 += wa * ((x1[i] as number) - s1);
+      h2 += wa * ((x2[i] as number) - s2);
+      h3 += wa * ((x3[i] as number) - s3);
+      h4 += wa * ((x4[i] as number) - s4);
+    }
+  } else if (width === 4) {
+    for (let t = 0; t < count; t++) {
+      const i = rows[t] as number;
+      const wa = (weight[t] as number) * ((xa[i] as number) - sa);
+      s += wa;
+      h0 += wa * ((x0[i] as number) - s0);
+      h1 += wa * ((x1[i] as number) - s1);
+      h2 += wa * ((x2[i] as number) - s2);
+      h3 += wa * ((x3[i] as number) - s3);
+    }
+  } else {
+    for (let t = 0; t < count; t++) {
+      const i = rows[t] as number;
+      const wa = (weight[t] as number) * ((xa[i] as number) - sa);
+      s += wa;
+      h0 += wa * ((x0[i] as number) - s0);
+      if (width > 1) h1 += wa * ((x1[i] as number) - s1);
+      if (width > 2) h2 += wa * ((x2[i] as number) - s2);
+    }
   }
   out[0] = s;
   out[1] = h0;

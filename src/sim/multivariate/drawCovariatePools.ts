@@ -266,9 +266,17 @@ function drawVariable(
   }
   if (rec === WHOLE_NUMBERS) for (let i = from; i < to; i++) T[i] = Math.round(T[i] as number);
   else if (rec === INDICATOR) for (let i = from; i < to; i++) T[i] = (T[i] as number) > threshold ? 1 : 0;
+  if (errorAt >= 0 && rec === CONTINUOUS) {
+    // The common case (a fallible score) in one loop: the outcome's term and the observed value.
+    for (let i = from, at = start + errorAt; i < to; i++, at += stride) {
+      const t = T[i] as number;
+      outcome[i] = (outcome[i] as number) + ba * t;
+      O[i] = t + s * (z[at] as number);
+    }
+    return;
+  }
   for (let i = from; i < to; i++) outcome[i] = (outcome[i] as number) + ba * (T[i] as number);
   if (errorAt < 0) O.set(T.subarray(from, to), from);
-  else if (rec === CONTINUOUS) for (let i = from, at = start + errorAt; i < to; i++, at += stride) O[i] = (T[i] as number) + s * (z[at] as number);
   else {
     for (let i = from, at = start + errorAt; i < to; i++, at += stride) {
       const x = (T[i] as number) + s * (z[at] as number);
