@@ -428,9 +428,10 @@ function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b
 
 /**
  * The rows at coefficients b: the logit of each row into eta (b0 + b1 z1 + …,
- * in that order) and ws.maxAbsEta (logits); then, with `deviance`, the
- * deviance (as rowPass; NaN without), and with `weights`, w_i = p_i (1 − p_i)
- * and r_i = y_i − p_i into ws.weight and ws.residual, in one more loop.
+ * in that order) and ws.maxAbsEta (logits); then each row's exp(−|logit|), and
+ * from it, with `deviance`, the deviance (as rowPass; NaN without), and with
+ * `weights`, w_i = p_i (1 − p_i) and r_i = y_i − p_i into ws.weight and
+ * ws.residual, in one more loop.
  */
 function logitPass(
   z: Float64Array,
@@ -446,13 +447,16 @@ function logitPass(
   ws.maxAbsEta = logits(z, n, k, b, eta);
   if (!deviance && !weights) return NaN;
   const { weight, residual } = ws;
+  // The exponentials first, in a loop of their own (little is live across the calls), into
+  // ws.weight, which the next loop reads and then overwrites with p(1 − p).
+  for (let i = 0; i < n; i++) weight[i] = Math.exp(-Math.abs(eta[i] as number));
   let linear = 0;
   let logs = 0;
   let product = 1;
   let inChunk = 0;
   for (let i = 0; i < n; i++) {
     const e = eta[i] as number;
-    const ex = Math.exp(-Math.abs(e));
+    const ex = weight[i] as number;
     const onePlus = 1 + ex;
     const yi = y[i] as number;
     linear += Math.max(0, yi === 0 ? e : -e);
