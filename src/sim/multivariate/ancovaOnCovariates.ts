@@ -27,6 +27,8 @@ export interface GroupMoments {
     prod: Float64Array;
     /** The running sums of one groupMoments sweep (a column's sum and up to five products). */
     block: Float64Array;
+    /** The last three columns' nine sums (lastThreeSums). */
+    tail: Float64Array;
     /** The covariate columns and the outcome, as groupMoments sweeps them (references only). */
     all: Float64Array[];
     /** The counted rows of a weighted call and their weights (grown on first use). */
@@ -63,6 +65,7 @@ export function createGroupMoments(p: number): GroupMoments {
       sum: new Float64Array(q),
       prod: new Float64Array(q * q),
       block: new Float64Array(6),
+      tail: new Float64Array(9),
       all: new Array<Float64Array>(q),
       rows: new Int32Array(0),
       rowWeight: new Float64Array(0),
@@ -143,7 +146,9 @@ export function groupMoments(
     for (let a = 0; a < p; a++) all[a] = columns[a] as Float64Array;
     all[p] = y;
     const block = out.work.block;
-    for (let a = 0; a < q; a++) {
+    // The last three columns (one to three sums of products each) share one sweep (lastThreeSums).
+    const single = q >= 3 ? q - 3 : q;
+    for (let a = 0; a < single; a++) {
       const xa = all[a] as Float64Array;
       const sa = shift[a] as number;
       for (let b = a; b < q; b += 5) {
@@ -164,6 +169,27 @@ export function groupMoments(
         if (b === a) sum[a] = block[0] as number;
         for (let j = 0; j < width; j++) prod[a * q + b + j] = block[j + 1] as number;
       }
+    }
+    if (single < q) {
+      const a = single;
+      const x0 = all[a] as Float64Array;
+      const x1 = all[a + 1] as Float64Array;
+      const x2 = all[a + 2] as Float64Array;
+      const s0 = shift[a] as number;
+      const s1 = shift[a + 1] as number;
+      const s2 = shift[a + 2] as number;
+      const t = out.work.tail;
+      if (weight) lastThreeSumsWeighted(x0, s0, x1, s1, x2, s2, out.work.rows, out.work.rowWeight, counted, t);
+      else lastThreeSums(x0, s0, x1, s1, x2, s2, first, to, t);
+      sum[a] = t[0] as number;
+      prod[a * q + a] = t[1] as number;
+      prod[a * q + a + 1] = t[2] as number;
+      prod[a * q + a + 2] = t[3] as number;
+      sum[a + 1] = t[4] as number;
+      prod[(a + 1) * q + a + 1] = t[5] as number;
+      prod[(a + 1) * q + a + 2] = t[6] as number;
+      sum[a + 2] = t[7] as number;
+      prod[(a + 2) * q + a + 2] = t[8] as number;
     }
   }
   out.n = n;
@@ -264,6 +290,74 @@ function blockSums(
   out[3] = h2;
   out[4] = h3;
   out[5] = h4;
+}
+
+/**
+ * The sums of the last three columns a, b, c in one sweep over rows [first, to), in order:
+ * out = [Σd_a, Σd_a d_a, Σd_a d_b, Σd_a d_c, Σd_b, Σd_b d_b, Σd_b d_c, Σd_c, Σd_c d_c]
+ * with d = x − shift (each sum as blockSums would take it).
+ */
+function lastThreeSums(xa: Float64Array, sa: number, xb: Float64Array, sb: number, xc: Float64Array, sc: number, first: number, to: number, out: Float64Array): void {
+  let a1 = 0; let aa = 0; let ab = 0; let ac = 0;
+  let b1 = 0; let bb = 0; let bc = 0;
+  let c1 = 0; let cc = 0;
+  for (let i = first; i < to; i++) {
+    const da = (xa[i] as number) - sa;
+    const db = (xb[i] as number) - sb;
+    const dc = (xc[i] as number) - sc;
+    a1 += da;
+    aa += da * da;
+    ab += da * db;
+    ac += da * dc;
+    b1 += db;
+    bb += db * db;
+    bc += db * dc;
+    c1 += dc;
+    cc += dc * dc;
+  }
+  out[0] = a1; out[1] = aa; out[2] = ab; out[3] = ac;
+  out[4] = b1; out[5] = bb; out[6] = bc;
+  out[7] = c1; out[8] = cc;
+}
+
+/** lastThreeSums over the listed rows with weights (each sum as blockSumsWeighted would take it: w d_a, then (w d_a) d_b). */
+function lastThreeSumsWeighted(
+  xa: Float64Array,
+  sa: number,
+  xb: Float64Array,
+  sb: number,
+  xc: Float64Array,
+  sc: number,
+  rows: Int32Array,
+  weight: Float64Array,
+  count: number,
+  out: Float64Array,
+): void {
+  let a1 = 0; let aa = 0; let ab = 0; let ac = 0;
+  let b1 = 0; let bb = 0; let bc = 0;
+  let c1 = 0; let cc = 0;
+  for (let t = 0; t < count; t++) {
+    const i = rows[t] as number;
+    const w = weight[t] as number;
+    const da = (xa[i] as number) - sa;
+    const db = (xb[i] as number) - sb;
+    const dc = (xc[i] as number) - sc;
+    const wa = w * da;
+    a1 += wa;
+    aa += wa * da;
+    ab += wa * db;
+    ac += wa * dc;
+    const wb = w * db;
+    b1 += wb;
+    bb += wb * db;
+    bc += wb * dc;
+    const wc = w * dc;
+    c1 += wc;
+    cc += wc * dc;
+  }
+  out[0] = a1; out[1] = aa; out[2] = ab; out[3] = ac;
+  out[4] = b1; out[5] = bb; out[6] = bc;
+  out[7] = c1; out[8] = cc;
 }
 
 /** The same over the listed rows rows[0..count), row rows[t] counted weight[t] times (the rows of weight 0 left out, in order): sums of w (x_a − s_a) and of w (x_a − s_a)(x_bj − s_bj). */
