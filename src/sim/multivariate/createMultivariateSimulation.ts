@@ -270,6 +270,8 @@ class MultivariateRunner {
   readonly scoreWs: ScoreMatchingWorkspace | null;
   readonly mahalanobisWs: MahalanobisMatchingWorkspace | null;
   readonly matchedFlag: Uint8Array;
+  /** Each matched set's difference D_j, in programme order (run). */
+  readonly setDiff: Float64Array;
   /**
    * Per comparison member: uses n_j (stacked rows), matching weight K_j (Σ over the sets using it
    * of 1 / (partners in that set)) and K'_j, reset through a touched list each replication.
@@ -344,6 +346,7 @@ class MultivariateRunner {
     this.scoreWs = distance === 'mahalanobis' ? null : createScoreMatchingWorkspace(this.nP, this.nC, this.k);
     this.mahalanobisWs = distance === 'mahalanobis' ? createMahalanobisMatchingWorkspace(this.nP, this.nC, this.k) : null;
     this.matchedFlag = new Uint8Array(this.nP);
+    this.setDiff = new Float64Array(this.nP);
     this.rowsP = new Int32Array(this.nP);
     this.weightsP = new Float64Array(this.nP);
     this.rowsC = new Int32Array(this.nC);
@@ -433,8 +436,8 @@ class MultivariateRunner {
     const matchedFlag = this.matchedFlag;
     const weights = this.weights;
     weights.reset();
-    let dS = 0;
-    let dSS = 0;
+    const setDiff = this.setDiff;
+    let sets = 0;
     for (let j = 0; j < nP; j++) {
       const cnt = partnerCount[j] as number;
       matchedFlag[j] = cnt > 0 ? 1 : 0;
@@ -445,7 +448,13 @@ class MultivariateRunner {
         weights.add(c, cnt);
         ySum += y[c] as number;
       }
-      const d = (y[nC + j] as number) - ySum / cnt;
+      setDiff[sets++] = (y[nC + j] as number) - ySum / cnt;
+    }
+    // The sums over the matched sets in order (a loop of their own, free of calls).
+    let dS = 0;
+    let dSS = 0;
+    for (let t = 0; t < sets; t++) {
+      const d = setDiff[t] as number;
       dS += d;
       dSS += d * d;
     }
