@@ -1,5 +1,6 @@
 import { CholeskyDecomposition, Matrix } from 'ml-matrix';
 import { describe, expect, it } from 'vitest';
+import { countedRows, pairedSubsetSums, subsetSums } from '../../src/sim/multivariate/balanceSums';
 import { createDiscriminantWorkspace, discriminantStart } from '../../src/sim/multivariate/discriminantStart';
 import { createGroupMoments, groupMoments, type GroupMoments } from '../../src/sim/multivariate/ancovaOnCovariates';
 import type { CovariateSimModel } from '../../src/sim/multivariate/covariateSimModel';
@@ -281,6 +282,49 @@ describe('discriminantStart: preallocated arrays give the same bits as ml-matrix
         groupMoments(cols, y, 20, n, null, C);
         expect(discriminantStartWithLibrary(P, C, 20, 30)).toBeUndefined();
         expect(discriminantStart(P, C, 20, 30, ws)).toBeUndefined();
+      }
+    }
+  });
+});
+
+describe('balance sums: two columns per sweep give the same bits as one at a time', () => {
+  it('a hand-worked case (col 1, 2, 3; row 2 counted twice; shift 1)', () => {
+    const out = new Float64Array(6);
+    subsetSums(Float64Array.of(1, 2, 3), 0, 3, Int32Array.of(2), Float64Array.of(2), 1, 1, out);
+    // Full: d = 0, 1, 2 → n 3, Σd 3, Σd² 5; listed: weight 2, d = 2 → 2, 4, 8.
+    expect(Array.from(out)).toEqual([3, 3, 5, 2, 4, 8]);
+  });
+
+  it('observed and true columns, matching weights of 1:1, 1:2 and 1:3 sets with reuse (fractions, zeros), both groups', () => {
+    const rng = Xoshiro128StarStar.forReplication(909, 0);
+    const z = new NormalSampler(rng);
+    for (const [nC, nP] of [[400, 60], [97, 31]] as const) {
+      const n = nC + nP;
+      // Invented columns far from 0 (the engine shifts by the first value).
+      const observed = Float64Array.from({ length: n }, () => 80 + 12 * z.next());
+      const trueScore = Float64Array.from(observed, (x) => 0.8 * x + 16 + 3 * z.next());
+      // Comparison weights as matching leaves them: Σ 1/(set size) over the sets using a member, often 0.
+      const setWeight = Float64Array.from({ length: nC }, () => {
+        const u = rng.nextFloat();
+        return u < 0.6 ? 0 : u < 0.75 ? 1 : u < 0.85 ? 0.5 : u < 0.95 ? 1 / 3 + 0.5 : 2;
+      });
+      const matchedFlag = Float64Array.from({ length: nP }, () => (rng.nextFloat() < 0.8 ? 1 : 0));
+      for (const [weight, from, to] of [[setWeight, 0, nC], [matchedFlag, nC, n]] as const) {
+        const rows = new Int32Array(to - from);
+        const weights = new Float64Array(to - from);
+        const count = countedRows(weight, from, to, rows, weights);
+        const a = new Float64Array(6);
+        const b = new Float64Array(6);
+        const refA = new Float64Array(6);
+        const refB = new Float64Array(6);
+        pairedSubsetSums(observed, trueScore, from, to, rows, weights, count, observed[0]!, trueScore[0]!, a, b);
+        subsetSums(observed, from, to, rows, weights, count, observed[0]!, refA);
+        subsetSums(trueScore, from, to, rows, weights, count, trueScore[0]!, refB);
+        for (let j = 0; j < 6; j++) {
+          expect(Object.is(a[j], refA[j]), `observed, sum ${j}`).toBe(true);
+          expect(Object.is(b[j], refB[j]), `true, sum ${j}`).toBe(true);
+        }
+        expect(count).toBeGreaterThan(0);
       }
     }
   });
