@@ -41,8 +41,8 @@ function exampleReplicationData(replication: number): { cols: Float64Array[]; y:
   return { cols: model.measuredIndices.map((j) => Float64Array.from(pools.observed[j]!)), y: new Uint8Array(n).fill(1, pools.nComparison), n };
 }
 
-describe('the logistic fit: unrolled passes, reusable workspace, tolerance', () => {
-  it('agrees with ml-logistic-regression 2.0.0 (npm) for one, three, four and six columns (unrolled passes for 1–4, the general loop beyond; two columns: multivariateLogistic.test.ts)', () => {
+describe('the logistic fit: fast passes, reusable workspace, tolerance', () => {
+  it('agrees with ml-logistic-regression 2.0.0 (npm) for one, three, four and six columns (the fast passes: unrolled sums for 1–4, pair by pair beyond; two columns: multivariateLogistic.test.ts)', () => {
     // The reference maximises the same likelihood by plain gradient ascent on the columns as given; on
     // standardised columns (so that 0.01 is a stable step; the estimate is the same up to the change of
     // scale) 3,000 steps bring it within 1e-6 of the maximum, the tolerance on each coefficient (log-odds
@@ -64,22 +64,62 @@ describe('the logistic fit: unrolled passes, reusable workspace, tolerance', () 
     }
   });
 
-  it('the unrolled passes give the same bits as the general loop (one to four columns)', () => {
+  it('the fast passes give the same bits as the general row loop (one to nine columns, and the maths-club example)', () => {
     // Not an outside check: the two are the same sums in the same order, so the engine's results do not
     // depend on which one runs (existing plans stay bit-identical; test/core/existingPlansUnchanged.test.ts).
-    for (const k of [1, 2, 3, 4]) {
-      for (let seed = 0; seed < 5; seed++) {
+    const cases: { cols: Float64Array[]; y: Uint8Array; n: number; label: string }[] = [];
+    for (let k = 1; k <= 9; k++) {
+      for (let seed = 0; seed < 3; seed++) {
         const n = 150 + 37 * seed;
-        const { cols, y } = logisticData(100 * k + seed, n, k);
-        const a = new Float64Array(n);
-        const b = new Float64Array(n);
-        const unrolled = fitLogisticRegression(cols, y, n, { linearPredictor: a });
-        const general = fitLogisticRegression(cols, y, n, { linearPredictor: b, generalPass: true });
-        expect(unrolled.iterations).toBe(general.iterations);
-        expect(Object.is(unrolled.deviance, general.deviance)).toBe(true);
-        for (let j = 0; j <= k; j++) expect(Object.is(unrolled.coefficients[j], general.coefficients[j])).toBe(true);
-        for (let i = 0; i < n; i++) expect(Object.is(a[i], b[i])).toBe(true);
+        cases.push({ ...logisticData(100 * k + seed, n, k), n, label: `k = ${k}, seed ${seed}` });
       }
+    }
+    for (let r = 0; r < 3; r++) cases.push({ ...exampleReplicationData(r), label: `maths-club replication ${r}` });
+    for (const { cols, y, n, label } of cases) {
+      const k = cols.length;
+      const a = new Float64Array(n);
+      const b = new Float64Array(n);
+      const c = new Float64Array(n);
+      const fast = fitLogisticRegression(cols, y, n, { linearPredictor: a });
+      const general = fitLogisticRegression(cols, y, n, { linearPredictor: b, generalPass: true });
+      // Without the final deviance (the engine's call): the same logits and coefficients, deviance NaN.
+      const logitsOnly = fitLogisticRegression(cols, y, n, { linearPredictor: c, finalDeviance: false });
+      expect(fast.iterations, label).toBe(general.iterations);
+      expect(logitsOnly.iterations, label).toBe(general.iterations);
+      expect(Object.is(fast.deviance, general.deviance), label).toBe(true);
+      expect(Number.isNaN(logitsOnly.deviance), label).toBe(true);
+      for (let j = 0; j <= k; j++) {
+        expect(Object.is(fast.coefficients[j], general.coefficients[j]), `${label}, coefficient ${j}`).toBe(true);
+        expect(Object.is(logitsOnly.coefficients[j], general.coefficients[j]), `${label}, coefficient ${j}`).toBe(true);
+      }
+      let same = 0;
+      for (let i = 0; i < n; i++) if (Object.is(a[i], b[i]) && Object.is(c[i], b[i])) same++;
+      expect(same, label).toBe(n);
+    }
+  });
+
+  it('standardises four columns per sweep to the same bits as one column at a time (one to nine columns)', () => {
+    // Not an outside check: the centred and scaled copy the fit works on (ws.z, ws.centre, ws.scale)
+    // must be what the column-at-a-time code gave (mean, then the sum of squared deviations, then
+    // (x − m) / sd), so that every later pass, and the engine's results, stay the same to the last bit.
+    for (let k = 1; k <= 9; k++) {
+      const n = 211;
+      const { cols, y } = logisticData(500 + k, n, k);
+      const ws = createLogisticWorkspace(n, k);
+      fitLogisticRegression(cols, y, n, { workspace: ws });
+      let differ = 0;
+      for (let j = 0; j < k; j++) {
+        const col = cols[j]!;
+        let s = 0;
+        for (let i = 0; i < n; i++) s += col[i]!;
+        const m = s / n;
+        let ss = 0;
+        for (let i = 0; i < n; i++) ss += (col[i]! - m) ** 2;
+        const sd = Math.sqrt(ss / (n - 1));
+        if (!Object.is(ws.centre[j], m) || !Object.is(ws.scale[j], 1 / sd)) differ++;
+        for (let i = 0; i < n; i++) if (!Object.is(ws.z[i * k + j], (col[i]! - m) / sd)) differ++;
+      }
+      expect(differ, `k = ${k}`).toBe(0);
     }
   });
 

@@ -25,8 +25,12 @@ export interface GroupMoments {
     row: Float64Array;
     sum: Float64Array;
     prod: Float64Array;
-    /** Two running sums of groupMoments (one column pair). */
-    pair: Float64Array;
+    /** The running sums of one groupMoments sweep (a column's sum and up to five products). */
+    block: Float64Array;
+    /** The last three columns' nine sums (lastThreeSums). */
+    tail: Float64Array;
+    /** The covariate columns and the outcome, as groupMoments sweeps them (references only). */
+    all: Float64Array[];
     /** The counted rows of a weighted call and their weights (grown on first use). */
     rows: Int32Array;
     rowWeight: Float64Array;
@@ -60,7 +64,9 @@ export function createGroupMoments(p: number): GroupMoments {
       row: new Float64Array(q),
       sum: new Float64Array(q),
       prod: new Float64Array(q * q),
-      pair: new Float64Array(2),
+      block: new Float64Array(6),
+      tail: new Float64Array(9),
+      all: new Array<Float64Array>(q),
       rows: new Int32Array(0),
       rowWeight: new Float64Array(0),
       W: new Float64Array(p * p),
@@ -132,20 +138,58 @@ export function groupMoments(
         rowWeight[counted++] = w;
       }
     } else n = to - first;
-    // Column pair by column pair, each sum over the rows in order with the same operations
-    // per row as a row-by-row sweep (w (x_a − shift_a)) (x_b − shift_b): the same bits, in
-    // tight loops whose sums stay in registers.
-    for (let a = 0; a < q; a++) {
-      const xa = a < p ? (columns[a] as Float64Array) : y;
+    // Column by column, each sweep summing one column a's shifted values and its products with up
+    // to five columns b ≥ a (blockSums), each sum over the rows in order with the same operations
+    // per row as a row-by-row sweep (w (x_a − shift_a)) (x_b − shift_b): the same bits, with
+    // every running sum of a sweep in a register, in q(q + 1)/2 / 5 sweeps or so instead of one per pair.
+    const all = out.work.all;
+    for (let a = 0; a < p; a++) all[a] = columns[a] as Float64Array;
+    all[p] = y;
+    const block = out.work.block;
+    // The last three columns (one to three sums of products each) share one sweep (lastThreeSums).
+    const single = q >= 3 ? q - 3 : q;
+    for (let a = 0; a < single; a++) {
+      const xa = all[a] as Float64Array;
       const sa = shift[a] as number;
-      for (let b = a; b < q; b++) {
-        const xb = b < p ? (columns[b] as Float64Array) : y;
-        const sb = shift[b] as number;
-        if (weight) pairSumsWeighted(xa, sa, xb, sb, out.work.rows, out.work.rowWeight, counted, out.work.pair);
-        else pairSums(xa, sa, xb, sb, first, to, out.work.pair);
-        if (b === a) sum[a] = out.work.pair[0] as number;
-        prod[a * q + b] = out.work.pair[1] as number;
+      for (let b = a; b < q; b += 5) {
+        const width = Math.min(5, q - b);
+        // Columns b … b + width − 1 (the unused places filled with column a, ignored).
+        const x0 = all[b] as Float64Array;
+        const x1 = width > 1 ? (all[b + 1] as Float64Array) : xa;
+        const x2 = width > 2 ? (all[b + 2] as Float64Array) : xa;
+        const x3 = width > 3 ? (all[b + 3] as Float64Array) : xa;
+        const x4 = width > 4 ? (all[b + 4] as Float64Array) : xa;
+        const s0 = shift[b] as number;
+        const s1 = width > 1 ? (shift[b + 1] as number) : sa;
+        const s2 = width > 2 ? (shift[b + 2] as number) : sa;
+        const s3 = width > 3 ? (shift[b + 3] as number) : sa;
+        const s4 = width > 4 ? (shift[b + 4] as number) : sa;
+        if (weight) blockSumsWeighted(xa, sa, x0, s0, x1, s1, x2, s2, x3, s3, x4, s4, width, out.work.rows, out.work.rowWeight, counted, block);
+        else blockSums(xa, sa, x0, s0, x1, s1, x2, s2, x3, s3, x4, s4, width, first, to, block);
+        if (b === a) sum[a] = block[0] as number;
+        for (let j = 0; j < width; j++) prod[a * q + b + j] = block[j + 1] as number;
       }
+    }
+    if (single < q) {
+      const a = single;
+      const x0 = all[a] as Float64Array;
+      const x1 = all[a + 1] as Float64Array;
+      const x2 = all[a + 2] as Float64Array;
+      const s0 = shift[a] as number;
+      const s1 = shift[a + 1] as number;
+      const s2 = shift[a + 2] as number;
+      const t = out.work.tail;
+      if (weight) lastThreeSumsWeighted(x0, s0, x1, s1, x2, s2, out.work.rows, out.work.rowWeight, counted, t);
+      else lastThreeSums(x0, s0, x1, s1, x2, s2, first, to, t);
+      sum[a] = t[0] as number;
+      prod[a * q + a] = t[1] as number;
+      prod[a * q + a + 1] = t[2] as number;
+      prod[a * q + a + 2] = t[3] as number;
+      sum[a + 1] = t[4] as number;
+      prod[(a + 1) * q + a + 1] = t[5] as number;
+      prod[(a + 1) * q + a + 2] = t[6] as number;
+      sum[a + 2] = t[7] as number;
+      prod[(a + 2) * q + a + 2] = t[8] as number;
     }
   }
   out.n = n;
@@ -171,40 +215,214 @@ export function groupMoments(
   out.syy = centred(p, p);
 }
 
-/** Σ (x_a − s_a) and Σ (x_a − s_a)(x_b − s_b) over rows [first, to), into out[0], out[1]. */
-function pairSums(xa: Float64Array, sa: number, xb: Float64Array, sb: number, first: number, to: number, out: Float64Array): void {
+/**
+ * Σ (x_a − s_a) into out[0] and Σ (x_a − s_a)(x_bj − s_bj) into out[1 + j] for the
+ * `width` (1..5) columns b0…b4 (unused ones are ignored), over rows [first, to) in order.
+ */
+function blockSums(
+  xa: Float64Array,
+  sa: number,
+  x0: Float64Array,
+  s0: number,
+  x1: Float64Array,
+  s1: number,
+  x2: Float64Array,
+  s2: number,
+  x3: Float64Array,
+  s3: number,
+  x4: Float64Array,
+  s4: number,
+  width: number,
+  first: number,
+  to: number,
+  out: Float64Array,
+): void {
   let s = 0;
-  let h = 0;
-  for (let i = first; i < to; i++) {
-    const da = (xa[i] as number) - sa;
-    s += da;
-    h += da * ((xb[i] as number) - sb);
+  let h0 = 0;
+  let h1 = 0;
+  let h2 = 0;
+  let h3 = 0;
+  let h4 = 0;
+  if (width === 5) {
+    for (let i = first; i < to; i++) {
+      const da = (xa[i] as number) - sa;
+      s += da;
+      h0 += da * ((x0[i] as number) - s0);
+      h1 += da * ((x1[i] as number) - s1);
+      h2 += da * ((x2[i] as number) - s2);
+      h3 += da * ((x3[i] as number) - s3);
+      h4 += da * ((x4[i] as number) - s4);
+    }
+  } else if (width === 4) {
+    for (let i = first; i < to; i++) {
+      const da = (xa[i] as number) - sa;
+      s += da;
+      h0 += da * ((x0[i] as number) - s0);
+      h1 += da * ((x1[i] as number) - s1);
+      h2 += da * ((x2[i] as number) - s2);
+      h3 += da * ((x3[i] as number) - s3);
+    }
+  } else if (width === 3) {
+    for (let i = first; i < to; i++) {
+      const da = (xa[i] as number) - sa;
+      s += da;
+      h0 += da * ((x0[i] as number) - s0);
+      h1 += da * ((x1[i] as number) - s1);
+      h2 += da * ((x2[i] as number) - s2);
+    }
+  } else if (width === 2) {
+    for (let i = first; i < to; i++) {
+      const da = (xa[i] as number) - sa;
+      s += da;
+      h0 += da * ((x0[i] as number) - s0);
+      h1 += da * ((x1[i] as number) - s1);
+    }
+  } else {
+    for (let i = first; i < to; i++) {
+      const da = (xa[i] as number) - sa;
+      s += da;
+      h0 += da * ((x0[i] as number) - s0);
+    }
   }
   out[0] = s;
-  out[1] = h;
+  out[1] = h0;
+  out[2] = h1;
+  out[3] = h2;
+  out[4] = h3;
+  out[5] = h4;
 }
 
-/** The same over the listed rows rows[0..count), row rows[t] counted weight[t] times (the rows of weight 0 left out, in order). */
-function pairSumsWeighted(
+/**
+ * The sums of the last three columns a, b, c in one sweep over rows [first, to), in order:
+ * out = [Σd_a, Σd_a d_a, Σd_a d_b, Σd_a d_c, Σd_b, Σd_b d_b, Σd_b d_c, Σd_c, Σd_c d_c]
+ * with d = x − shift (each sum as blockSums would take it).
+ */
+function lastThreeSums(xa: Float64Array, sa: number, xb: Float64Array, sb: number, xc: Float64Array, sc: number, first: number, to: number, out: Float64Array): void {
+  let a1 = 0; let aa = 0; let ab = 0; let ac = 0;
+  let b1 = 0; let bb = 0; let bc = 0;
+  let c1 = 0; let cc = 0;
+  for (let i = first; i < to; i++) {
+    const da = (xa[i] as number) - sa;
+    const db = (xb[i] as number) - sb;
+    const dc = (xc[i] as number) - sc;
+    a1 += da;
+    aa += da * da;
+    ab += da * db;
+    ac += da * dc;
+    b1 += db;
+    bb += db * db;
+    bc += db * dc;
+    c1 += dc;
+    cc += dc * dc;
+  }
+  out[0] = a1; out[1] = aa; out[2] = ab; out[3] = ac;
+  out[4] = b1; out[5] = bb; out[6] = bc;
+  out[7] = c1; out[8] = cc;
+}
+
+/** lastThreeSums over the listed rows with weights (each sum as blockSumsWeighted would take it: w d_a, then (w d_a) d_b). */
+function lastThreeSumsWeighted(
   xa: Float64Array,
   sa: number,
   xb: Float64Array,
   sb: number,
+  xc: Float64Array,
+  sc: number,
+  rows: Int32Array,
+  weight: Float64Array,
+  count: number,
+  out: Float64Array,
+): void {
+  let a1 = 0; let aa = 0; let ab = 0; let ac = 0;
+  let b1 = 0; let bb = 0; let bc = 0;
+  let c1 = 0; let cc = 0;
+  for (let t = 0; t < count; t++) {
+    const i = rows[t] as number;
+    const w = weight[t] as number;
+    const da = (xa[i] as number) - sa;
+    const db = (xb[i] as number) - sb;
+    const dc = (xc[i] as number) - sc;
+    const wa = w * da;
+    a1 += wa;
+    aa += wa * da;
+    ab += wa * db;
+    ac += wa * dc;
+    const wb = w * db;
+    b1 += wb;
+    bb += wb * db;
+    bc += wb * dc;
+    const wc = w * dc;
+    c1 += wc;
+    cc += wc * dc;
+  }
+  out[0] = a1; out[1] = aa; out[2] = ab; out[3] = ac;
+  out[4] = b1; out[5] = bb; out[6] = bc;
+  out[7] = c1; out[8] = cc;
+}
+
+/** The same over the listed rows rows[0..count), row rows[t] counted weight[t] times (the rows of weight 0 left out, in order): sums of w (x_a − s_a) and of w (x_a − s_a)(x_bj − s_bj). */
+function blockSumsWeighted(
+  xa: Float64Array,
+  sa: number,
+  x0: Float64Array,
+  s0: number,
+  x1: Float64Array,
+  s1: number,
+  x2: Float64Array,
+  s2: number,
+  x3: Float64Array,
+  s3: number,
+  x4: Float64Array,
+  s4: number,
+  width: number,
   rows: Int32Array,
   weight: Float64Array,
   count: number,
   out: Float64Array,
 ): void {
   let s = 0;
-  let h = 0;
-  for (let t = 0; t < count; t++) {
-    const i = rows[t] as number;
-    const wa = (weight[t] as number) * ((xa[i] as number) - sa);
-    s += wa;
-    h += wa * ((xb[i] as number) - sb);
+  let h0 = 0;
+  let h1 = 0;
+  let h2 = 0;
+  let h3 = 0;
+  let h4 = 0;
+  if (width === 5) {
+    for (let t = 0; t < count; t++) {
+      const i = rows[t] as number;
+      const wa = (weight[t] as number) * ((xa[i] as number) - sa);
+      s += wa;
+      h0 += wa * ((x0[i] as number) - s0);
+      h1 += wa * ((x1[i] as number) - s1);
+      h2 += wa * ((x2[i] as number) - s2);
+      h3 += wa * ((x3[i] as number) - s3);
+      h4 += wa * ((x4[i] as number) - s4);
+    }
+  } else if (width === 4) {
+    for (let t = 0; t < count; t++) {
+      const i = rows[t] as number;
+      const wa = (weight[t] as number) * ((xa[i] as number) - sa);
+      s += wa;
+      h0 += wa * ((x0[i] as number) - s0);
+      h1 += wa * ((x1[i] as number) - s1);
+      h2 += wa * ((x2[i] as number) - s2);
+      h3 += wa * ((x3[i] as number) - s3);
+    }
+  } else {
+    for (let t = 0; t < count; t++) {
+      const i = rows[t] as number;
+      const wa = (weight[t] as number) * ((xa[i] as number) - sa);
+      s += wa;
+      h0 += wa * ((x0[i] as number) - s0);
+      if (width > 1) h1 += wa * ((x1[i] as number) - s1);
+      if (width > 2) h2 += wa * ((x2[i] as number) - s2);
+    }
   }
   out[0] = s;
-  out[1] = h;
+  out[1] = h0;
+  out[2] = h1;
+  out[3] = h2;
+  out[4] = h3;
+  out[5] = h4;
 }
 
 /**

@@ -1,4 +1,4 @@
-import { CholeskyDecomposition, inverse, Matrix } from 'ml-matrix';
+import { inverse, Matrix } from 'ml-matrix';
 import type { MatchingDistance, Plan } from '../../core/plan';
 import { assumedTrueScoreCovariance } from '../../core/multivariate/covariateCorrectedAncovaEstimate';
 import { deriveCovariateModel, matchingDistance, type CovariateModel } from '../../core/multivariate/covariateModel';
@@ -19,7 +19,9 @@ import { MatchingWeights } from '../matchingWeights';
 import { ancovaOnCovariates, createGroupMoments, groupMoments, residualVariance, type GroupMoments, type StackedComparison } from './ancovaOnCovariates';
 import type { CovariateMatching, MatchSettings } from './covariateMatching';
 import { createCovariatePools, drawCovariatePools, type CovariatePools } from './drawCovariatePools';
+import { countedRows, pairedSubsetSums, subsetSums } from './balanceSums';
 import { exactStrata } from './exactStrata';
+import { createDiscriminantWorkspace, discriminantStart, type DiscriminantWorkspace } from './discriminantStart';
 import { createLogisticWorkspace, fitLogisticRegression, type LogisticWorkspace } from './fitLogisticRegression';
 import { createMahalanobisMatchingWorkspace, matchOnMahalanobis, type MahalanobisMatchingWorkspace } from './matchOnMahalanobis';
 import { createScoreMatchingWorkspace, matchOnScore, type ScoreMatchingWorkspace } from './matchOnScore';
@@ -102,58 +104,6 @@ export function createMultivariateSimulation(plan: Plan, options: SimulationOpti
   );
 }
 
-/**
- * The rows i of [from, to) whose weight[i − from] is not 0, in order, into
- * rows[] with their weights into weights[]; returns how many.
- */
-function countedRows(weight: ArrayLike<number>, from: number, to: number, rows: Int32Array, weights: Float64Array): number {
-  let count = 0;
-  for (let i = from; i < to; i++) {
-    const w = weight[i - from] as number;
-    if (w === 0) continue;
-    rows[count] = i;
-    weights[count++] = w;
-  }
-  return count;
-}
-
-/**
- * Count, shifted sum and sum of squares of col[from..to) (out[0..2]) and of
- * the listed rows rows[0..count) weighted by weights[t] (out[3..5], from
- * countedRows); values are shifted by `shift` (Chan, Golub & LeVeque 1983).
- * Each sum runs over its rows in order, as one pass skipping the rows of weight 0 would.
- */
-function subsetSums(
-  col: Float64Array,
-  from: number,
-  to: number,
-  rows: Int32Array,
-  weights: Float64Array,
-  count: number,
-  shift: number,
-  out: Float64Array,
-): void {
-  let s = 0, ss = 0, n2 = 0, s2 = 0, ss2 = 0;
-  for (let i = from; i < to; i++) {
-    const d = (col[i] as number) - shift;
-    s += d;
-    ss += d * d;
-  }
-  for (let t = 0; t < count; t++) {
-    const w = weights[t] as number;
-    const d = (col[rows[t] as number] as number) - shift;
-    n2 += w;
-    s2 += w * d;
-    ss2 += w * d * d;
-  }
-  out[0] = to - from;
-  out[1] = s;
-  out[2] = ss;
-  out[3] = n2;
-  out[4] = s2;
-  out[5] = ss2;
-}
-
 /** Mean and variance (divisor n − 1; 0 when n < 2) from shifted sums. */
 function meanOf(n: number, s: number, shift: number): number {
   return n > 0 ? shift + s / n : 0;
@@ -175,6 +125,8 @@ class MultivariateRunner {
   readonly k: number;
   readonly distance: MatchingDistance;
   readonly settings: MatchSettings;
+  /** The settings with this replication's caliper in score units (matchOnScore), reused. */
+  readonly scoreSettings: MatchSettings;
   readonly caliperUnits: number;
   readonly names: string[];
   readonly measuredNames: string[];
@@ -198,6 +150,10 @@ class MultivariateRunner {
   readonly MC: GroupMoments;
   readonly out = new Float64Array(3);
   readonly sums = new Float64Array(6);
+  /** Balance sums of the true values, and the programme group's of both series (recordBalance). */
+  readonly sumsTrue = new Float64Array(6);
+  readonly programmeSums = new Float64Array(6);
+  readonly programmeSumsTrue = new Float64Array(6);
   /** The matched programme rows and the used comparison rows, with their weights (countedRows), per replication. */
   readonly rowsP: Int32Array;
   readonly weightsP: Float64Array;
@@ -210,6 +166,8 @@ class MultivariateRunner {
   readonly scoreWs: ScoreMatchingWorkspace | null;
   readonly mahalanobisWs: MahalanobisMatchingWorkspace | null;
   readonly matchedFlag: Uint8Array;
+  /** Each matched set's difference D_j, in programme order (run). */
+  readonly setDiff: Float64Array;
   /**
    * Per comparison member: uses n_j (stacked rows), matching weight K_j (Σ over the sets using it
    * of 1 / (partners in that set)) and K'_j, reset through a touched list each replication.
@@ -218,6 +176,8 @@ class MultivariateRunner {
   /** The stacked matched comparison rows for the matched-sample ANCOVA (sigma2 set per replication). */
   readonly stacked: { weights: MatchingWeights; columns: readonly Float64Array[]; from: number; sigma2: number };
   readonly pooledSxx: Float64Array;
+  /** discriminantStart's buffers. */
+  readonly startWork: DiscriminantWorkspace;
   /** Per-replication estimates, SEs and flags of the five estimators. */
   readonly records: AnalysisRecords;
   readonly matchedCount: Float64Array;
@@ -235,6 +195,12 @@ class MultivariateRunner {
     this.k = plan.matching.ratio;
     this.distance = distance;
     this.caliperUnits = plan.matching.caliper;
+    this.scoreSettings = {
+      caliper: 0,
+      method: plan.matching.method,
+      replacement: plan.matching.replacement,
+      order: plan.matching.order ?? 'random',
+    };
     this.settings = {
       caliper: plan.matching.caliper,
       method: plan.matching.method,
@@ -268,6 +234,7 @@ class MultivariateRunner {
     this.MP = createGroupMoments(p);
     this.MC = createGroupMoments(p);
     this.pooledSxx = new Float64Array(p * p);
+    this.startWork = createDiscriminantWorkspace(p);
     this.programmeGroup = new Uint8Array(N).fill(1, this.nC);
     this.logit = distance === 'propensity' ? new Float64Array(N) : new Float64Array(0);
     this.logistic = distance === 'propensity' ? createLogisticWorkspace(N, p) : null;
@@ -275,6 +242,7 @@ class MultivariateRunner {
     this.scoreWs = distance === 'mahalanobis' ? null : createScoreMatchingWorkspace(this.nP, this.nC, this.k);
     this.mahalanobisWs = distance === 'mahalanobis' ? createMahalanobisMatchingWorkspace(this.nP, this.nC, this.k) : null;
     this.matchedFlag = new Uint8Array(this.nP);
+    this.setDiff = new Float64Array(this.nP);
     this.rowsP = new Int32Array(this.nP);
     this.weightsP = new Float64Array(this.nP);
     this.rowsC = new Int32Array(this.nC);
@@ -338,6 +306,7 @@ class MultivariateRunner {
           where: `simulated replication ${i + 1}`,
           start: this.discriminantStart(),
           workspace: this.logistic as LogisticWorkspace,
+          finalDeviance: false,
         });
         score = this.logit;
         const sums = this.sums;
@@ -351,9 +320,10 @@ class MultivariateRunner {
         vC = (C.sxx[0] as number) / (nC - 1);
       }
       // Caliper in pooled SDs of the score, sqrt((s_P² + s_C²) / 2) (Cochran & Rubin 1973; Austin 2011 for the logit).
-      const caliper = this.caliperUnits * Math.sqrt((vP + vC) / 2);
+      const scoreSettings = this.scoreSettings;
+      scoreSettings.caliper = this.caliperUnits * Math.sqrt((vP + vC) / 2);
       const ws = this.scoreWs as ScoreMatchingWorkspace;
-      m = matchOnScore(score, strata, strataCount, { ...settings, caliper }, this.rng, ws);
+      m = matchOnScore(score, strata, strataCount, scoreSettings, this.rng, ws);
       matching = ws;
     }
 
@@ -362,8 +332,8 @@ class MultivariateRunner {
     const matchedFlag = this.matchedFlag;
     const weights = this.weights;
     weights.reset();
-    let dS = 0;
-    let dSS = 0;
+    const setDiff = this.setDiff;
+    let sets = 0;
     for (let j = 0; j < nP; j++) {
       const cnt = partnerCount[j] as number;
       matchedFlag[j] = cnt > 0 ? 1 : 0;
@@ -374,7 +344,13 @@ class MultivariateRunner {
         weights.add(c, cnt);
         ySum += y[c] as number;
       }
-      const d = (y[nC + j] as number) - ySum / cnt;
+      setDiff[sets++] = (y[nC + j] as number) - ySum / cnt;
+    }
+    // The sums over the matched sets in order (a loop of their own, free of calls).
+    let dS = 0;
+    let dSS = 0;
+    for (let t = 0; t < sets; t++) {
+      const d = setDiff[t] as number;
       dS += d;
       dSS += d * d;
     }
@@ -398,25 +374,9 @@ class MultivariateRunner {
     if (i === 0) this.example = this.captureExample(matching);
   }
 
-  /**
-   * Linear discriminant coefficients from this replication's moments, as the
-   * logistic regression's starting point: slopes S^-1 (x̄_P − x̄_C) with S the
-   * pooled within-group covariance, intercept log(n_P / n_C) − slopes'(x̄_P + x̄_C)/2
-   * (the log-odds under normal covariates with a common covariance; Efron 1975, from memory).
-   * Undefined when S is singular (the regression then starts from zero slopes).
-   */
+  /** The logistic regression's start: the linear discriminant of this replication's moments (discriminantStart). */
   private discriminantStart(): number[] | undefined {
-    const { P, C, nP, nC } = this;
-    const p = P.p;
-    const s = new Matrix(p, p);
-    for (let a = 0; a < p; a++) for (let b = 0; b < p; b++) s.set(a, b, ((P.sxx[a * p + b] as number) + (C.sxx[a * p + b] as number)) / (nP + nC - 2));
-    const cho = new CholeskyDecomposition(s);
-    if (!cho.isPositiveDefinite()) return undefined;
-    const d = Matrix.columnVector(Array.from({ length: p }, (_, a) => (P.means[a] as number) - (C.means[a] as number)));
-    const slopes = cho.solve(d).getColumn(0);
-    let intercept = Math.log(nP / nC);
-    for (let a = 0; a < p; a++) intercept -= ((slopes[a] as number) * ((P.means[a] as number) + (C.means[a] as number))) / 2;
-    return [intercept, ...slopes];
+    return discriminantStart(this.P, this.C, this.nP, this.nC, this.startWork);
   }
 
   /** Observed and true differences of every variable before and after matching (replication i). */
@@ -428,23 +388,34 @@ class MultivariateRunner {
     const { rowsP, weightsP, rowsC, weightsC } = this;
     const countP = countedRows(matchedFlag, nC, N, rowsP, weightsP);
     const countC = countedRows(setWeight, 0, nC, rowsC, weightsC);
+    const sumsTrue = this.sumsTrue;
     for (let v = 0; v < p; v++) {
       let ok = 0;
+      // Observed and true values side by side in each sweep (pairedSubsetSums: each sum as subsetSums's).
+      const observedCol = pools.observed[v] as Float64Array;
+      const trueCol = pools.trueScore[v] as Float64Array;
+      const shiftObserved = observedCol[0] as number;
+      const shiftTrue = trueCol[0] as number;
+      pairedSubsetSums(observedCol, trueCol, nC, N, rowsP, weightsP, countP, shiftObserved, shiftTrue, sums, sumsTrue);
+      const programmeObserved = this.programmeSums;
+      const programmeTrue = this.programmeSumsTrue;
+      programmeObserved.set(sums);
+      programmeTrue.set(sumsTrue);
+      pairedSubsetSums(observedCol, trueCol, 0, nC, rowsC, weightsC, countC, shiftObserved, shiftTrue, sums, sumsTrue);
       for (let series = 0; series < 2; series++) {
-        const col = (series === 0 ? pools.observed[v] : pools.trueScore[v]) as Float64Array;
-        const shift = col[0] as number;
-        subsetSums(col, nC, N, rowsP, weightsP, countP, shift, sums);
-        const meanP = meanOf(sums[0] as number, sums[1] as number, shift);
-        const varP = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
-        const nMP = sums[3] as number;
-        const meanMP = meanOf(nMP, sums[4] as number, shift);
-        const varMP = varianceOf(nMP, sums[4] as number, sums[5] as number);
-        subsetSums(col, 0, nC, rowsC, weightsC, countC, shift, sums);
-        const meanC = meanOf(sums[0] as number, sums[1] as number, shift);
-        const varC = varianceOf(sums[0] as number, sums[1] as number, sums[2] as number);
-        const nMC = sums[3] as number;
-        const meanMC = meanOf(nMC, sums[4] as number, shift);
-        const varMC = varianceOf(nMC, sums[4] as number, sums[5] as number);
+        const shift = series === 0 ? shiftObserved : shiftTrue;
+        const sp = series === 0 ? programmeObserved : programmeTrue;
+        const sc = series === 0 ? sums : sumsTrue;
+        const meanP = meanOf(sp[0] as number, sp[1] as number, shift);
+        const varP = varianceOf(sp[0] as number, sp[1] as number, sp[2] as number);
+        const nMP = sp[3] as number;
+        const meanMP = meanOf(nMP, sp[4] as number, shift);
+        const varMP = varianceOf(nMP, sp[4] as number, sp[5] as number);
+        const meanC = meanOf(sc[0] as number, sc[1] as number, shift);
+        const varC = varianceOf(sc[0] as number, sc[1] as number, sc[2] as number);
+        const nMC = sc[3] as number;
+        const meanMC = meanOf(nMC, sc[4] as number, shift);
+        const varMC = varianceOf(nMC, sc[4] as number, sc[5] as number);
         const base = v * B_COUNT;
         (bal[base + (series === 0 ? B_OBS_BEFORE : B_TRUE_BEFORE)] as Float64Array)[i] = meanP - meanC;
         (bal[base + (series === 0 ? B_OBS_SD : B_TRUE_SD)] as Float64Array)[i] = Math.sqrt((varP + varC) / 2);

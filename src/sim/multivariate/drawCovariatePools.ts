@@ -32,6 +32,8 @@ export interface CovariatePools {
   readonly sem: Float64Array;
   /** Indices of the variables measured with error (sem > 0), ascending. */
   readonly errorVariables: Int32Array;
+  /** Per variable, its position in errorVariables (the error variate's slot after the p true-score variates), or −1 without error. */
+  readonly errorSlot: Int32Array;
   /**
    * How each variable is recorded: CONTINUOUS, WHOLE_NUMBERS (a categorical
    * variable matched exactly: the draw rounded) or INDICATOR (a 0/1 variable
@@ -120,6 +122,7 @@ export function createCovariatePools(model: CovariateSimModel): CovariatePools {
     meanComparison: Float64Array.from(model.mean.comparison),
     sem: Float64Array.from(model.sem),
     errorVariables,
+    errorSlot: Int32Array.from(model.sem, (_, j) => errorVariables.indexOf(j)),
     recording,
     thresholdProgramme: threshold('programme'),
     thresholdComparison: threshold('comparison'),
@@ -163,12 +166,14 @@ export function createCovariatePools(model: CovariateSimModel): CovariatePools {
  */
 export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler): void {
   const { nComparison: nC, size, variables: p, stride, observed, trueScore, outcome, normals: z } = pools;
-  const { sem, errorVariables, recording, beta, residualSD } = pools;
-  const nErr = errorVariables.length;
+  const { sem, errorSlot, recording, beta, residualSD } = pools;
   normal.fillStandard(z, z.length);
-  // Variable by variable over each group's rows (each column written in one sweep); every
-  // person's numbers take the same operations in the same order as person by person:
-  // Y = shift + residualSD z'' + beta_0 T_0 + beta_1 T_1 + …, accumulated in `outcome`.
+  // Variable by variable over each group's rows (drawVariable): the true score
+  // T_a = mean_a + L[a, 0] z_0 + … + L[a, a] z_a (terms added in that order) in one
+  // sweep, its recording, the outcome's term, the observed value (with its error,
+  // when it has one); the outcome is Y = shift + residualSD z'' + beta_0 T_0 + beta_1 T_1 + …,
+  // accumulated in that order. Every kept double takes the same operations in the
+  // same order as a person-by-person draw (and as the earlier term-by-term sweeps).
   for (let g = 0; g < 2; g++) {
     const programme = g === 1;
     const from = programme ? nC : 0;
@@ -179,33 +184,171 @@ export function drawCovariatePools(pools: CovariatePools, normal: NormalSampler)
     const cut = programme ? pools.thresholdProgramme : pools.thresholdComparison;
     for (let i = from, at = from * stride + stride - 1; i < to; i++, at += stride) outcome[i] = shift + residualSD * (z[at] as number);
     for (let a = 0; a < p; a++) {
-      const T = trueScore[a] as Float64Array;
-      const O = observed[a] as Float64Array;
-      const m = mu[a] as number;
-      const ba = beta[a] as number;
-      const row = a * p;
-      const rec = recording[a] as number;
-      const threshold = cut[a] as number;
-      // T = mean + Σ_b≤a L[a, b] z_b, one sweep per term (the same sum, term by term, as person by person).
-      for (let i = from; i < to; i++) T[i] = m;
-      for (let b = 0; b <= a; b++) {
-        const l = L[row + b] as number;
-        for (let i = from, at = from * stride + b; i < to; i++, at += stride) T[i] = (T[i] as number) + l * (z[at] as number);
-      }
-      if (rec === WHOLE_NUMBERS) for (let i = from; i < to; i++) T[i] = Math.round(T[i] as number);
-      else if (rec === INDICATOR) for (let i = from; i < to; i++) T[i] = (T[i] as number) > threshold ? 1 : 0;
-      O.set(T.subarray(from, to), from);
-      for (let i = from; i < to; i++) outcome[i] = (outcome[i] as number) + ba * (T[i] as number);
+      const e = errorSlot[a] as number;
+      drawVariable(
+        trueScore[a] as Float64Array,
+        observed[a] as Float64Array,
+        outcome,
+        z,
+        from,
+        to,
+        stride,
+        mu[a] as number,
+        L,
+        a * p,
+        a + 1,
+        recording[a] as number,
+        cut[a] as number,
+        beta[a] as number,
+        e >= 0 ? p + e : -1,
+        e >= 0 ? (sem[a] as number) : 0,
+      );
     }
-    for (let e = 0; e < nErr; e++) {
-      const a = errorVariables[e] as number;
-      const O = observed[a] as Float64Array;
-      const s = sem[a] as number;
-      const rec = recording[a] as number;
-      for (let i = from, at = from * stride + p + e; i < to; i++, at += stride) {
-        const x = (O[i] as number) + s * (z[at] as number);
-        O[i] = rec === WHOLE_NUMBERS ? Math.round(x) : rec === INDICATOR ? (x > 0.5 ? 1 : 0) : x;
-      }
+  }
+}
+
+/**
+ * One variable over rows [from, to) (drawCovariatePools): T from its `terms`
+ * normal variates (one loop per number of terms up to six, the general loop
+ * beyond), then its recording, outcome += beta T, and O = T, or T + sem z_err
+ * recorded (errorAt ≥ 0: the error variate's position in a person's block).
+ * Short loops with no choice inside them run about twice as fast as one loop
+ * doing all of it.
+ */
+function drawVariable(
+  T: Float64Array,
+  O: Float64Array,
+  outcome: Float64Array,
+  z: Float64Array,
+  from: number,
+  to: number,
+  stride: number,
+  m: number,
+  L: Float64Array,
+  row: number,
+  terms: number,
+  rec: number,
+  threshold: number,
+  ba: number,
+  errorAt: number,
+  s: number,
+): void {
+  const l0 = L[row] as number;
+  const l1 = terms > 1 ? (L[row + 1] as number) : 0;
+  const l2 = terms > 2 ? (L[row + 2] as number) : 0;
+  const l3 = terms > 3 ? (L[row + 3] as number) : 0;
+  const l4 = terms > 4 ? (L[row + 4] as number) : 0;
+  const l5 = terms > 5 ? (L[row + 5] as number) : 0;
+  const start = from * stride;
+  if (rec === CONTINUOUS && errorAt >= 0 && terms <= 5) {
+    // The common case (a fallible score of up to five terms): everything in one loop.
+    fallibleScore(T, O, outcome, z, from, to, stride, m, l0, l1, l2, l3, l4, terms, ba, errorAt, s);
+    return;
+  }
+  // T = m + l0 z0 + l1 z1 + … (added left to right, as the general loop does).
+  if (terms === 1) for (let i = from, at = start; i < to; i++, at += stride) T[i] = m + l0 * (z[at] as number);
+  else if (terms === 2) for (let i = from, at = start; i < to; i++, at += stride) T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number);
+  else if (terms === 3) {
+    for (let i = from, at = start; i < to; i++, at += stride) T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number);
+  } else if (terms === 4) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number);
+    }
+  } else if (terms === 5) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number) + l4 * (z[at + 4] as number);
+    }
+  } else if (terms === 6) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      T[i] = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number) + l4 * (z[at + 4] as number) + l5 * (z[at + 5] as number);
+    }
+  } else {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      let t = m;
+      for (let b = 0; b < terms; b++) t += (L[row + b] as number) * (z[at + b] as number);
+      T[i] = t;
+    }
+  }
+  if (rec === WHOLE_NUMBERS) for (let i = from; i < to; i++) T[i] = Math.round(T[i] as number);
+  else if (rec === INDICATOR) for (let i = from; i < to; i++) T[i] = (T[i] as number) > threshold ? 1 : 0;
+  if (errorAt >= 0 && rec === CONTINUOUS) {
+    // The common case (a fallible score) in one loop: the outcome's term and the observed value.
+    for (let i = from, at = start + errorAt; i < to; i++, at += stride) {
+      const t = T[i] as number;
+      outcome[i] = (outcome[i] as number) + ba * t;
+      O[i] = t + s * (z[at] as number);
+    }
+    return;
+  }
+  for (let i = from; i < to; i++) outcome[i] = (outcome[i] as number) + ba * (T[i] as number);
+  if (errorAt < 0) O.set(T.subarray(from, to), from);
+  else {
+    for (let i = from, at = start + errorAt; i < to; i++, at += stride) {
+      const x = (T[i] as number) + s * (z[at] as number);
+      O[i] = rec === WHOLE_NUMBERS ? Math.round(x) : x > 0.5 ? 1 : 0;
+    }
+  }
+}
+
+/**
+ * drawVariable for a continuous variable measured with error and up to five terms, in one loop per
+ * number of terms: T = m + l0 z0 + … (left to right), outcome += beta T, O = T + sem z_err; the
+ * same operations as the separate loops.
+ */
+function fallibleScore(
+  T: Float64Array,
+  O: Float64Array,
+  outcome: Float64Array,
+  z: Float64Array,
+  from: number,
+  to: number,
+  stride: number,
+  m: number,
+  l0: number,
+  l1: number,
+  l2: number,
+  l3: number,
+  l4: number,
+  terms: number,
+  ba: number,
+  errorAt: number,
+  s: number,
+): void {
+  const start = from * stride;
+  if (terms === 1) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      const t = m + l0 * (z[at] as number);
+      T[i] = t;
+      outcome[i] = (outcome[i] as number) + ba * t;
+      O[i] = t + s * (z[at + errorAt] as number);
+    }
+  } else if (terms === 2) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      const t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number);
+      T[i] = t;
+      outcome[i] = (outcome[i] as number) + ba * t;
+      O[i] = t + s * (z[at + errorAt] as number);
+    }
+  } else if (terms === 3) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      const t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number);
+      T[i] = t;
+      outcome[i] = (outcome[i] as number) + ba * t;
+      O[i] = t + s * (z[at + errorAt] as number);
+    }
+  } else if (terms === 4) {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      const t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number);
+      T[i] = t;
+      outcome[i] = (outcome[i] as number) + ba * t;
+      O[i] = t + s * (z[at + errorAt] as number);
+    }
+  } else {
+    for (let i = from, at = start; i < to; i++, at += stride) {
+      const t = m + l0 * (z[at] as number) + l1 * (z[at + 1] as number) + l2 * (z[at + 2] as number) + l3 * (z[at + 3] as number) + l4 * (z[at + 4] as number);
+      T[i] = t;
+      outcome[i] = (outcome[i] as number) + ba * t;
+      O[i] = t + s * (z[at + errorAt] as number);
     }
   }
 }

@@ -2,6 +2,8 @@
 const DENSE_KEYS = 1 << 16;
 /** The table's buffer, shared by calls (filled afresh by each; it carries nothing from one call to the next). */
 let denseTable = new Int32Array(0);
+/** groupByStratum's running offsets, shared by calls likewise (no allocation per call). */
+let fillScratch = new Int32Array(16);
 
 /**
  * Strata for exact matching: people with identical values on every exactly
@@ -23,7 +25,6 @@ export function exactStrata(columns: readonly Float64Array[], size: number, out:
   let count = size > 0 ? 1 : 0;
   for (const col of columns) {
     // Refine the strata column by column: key (previous stratum, value) → new stratum.
-    const ids = new Map<string | number, number>();
     let lo = Infinity;
     let hi = -Infinity;
     let wholeNumbers = true;
@@ -55,6 +56,7 @@ export function exactStrata(columns: readonly Float64Array[], size: number, out:
       continue;
     }
     const numericKeys = integral && count * span < 2 ** 52;
+    const ids = new Map<string | number, number>();
     for (let i = 0; i < size; i++) {
       const v = col[i] as number;
       const key = numericKeys && Number.isInteger(v) ? (out[i] as number) * span + (v - lo) : `${out[i]}|${v}`;
@@ -88,7 +90,9 @@ export function groupByStratum(stratum: Int32Array, from: number, to: number, co
   start.fill(0, 0, count + 1);
   for (let i = from; i < to; i++) start[(stratum[i] as number) + 1] = (start[(stratum[i] as number) + 1] as number) + 1;
   for (let s = 0; s < count; s++) start[s + 1] = (start[s + 1] as number) + (start[s] as number);
-  const fill = start.slice(0, count);
+  if (fillScratch.length < count) fillScratch = new Int32Array(Math.max(count, 2 * fillScratch.length));
+  const fill = fillScratch;
+  fill.set(start.subarray(0, count));
   for (let i = from; i < to; i++) {
     const s = stratum[i] as number;
     order[fill[s] as number] = i;

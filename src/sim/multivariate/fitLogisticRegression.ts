@@ -6,7 +6,7 @@ export interface LogisticFit {
   coefficients: number[];
   /** Newton steps taken. */
   iterations: number;
-  /** Residual deviance −2 log L at the estimate. */
+  /** Residual deviance −2 log L at the estimate (NaN when options.finalDeviance is false). */
   deviance: number;
 }
 
@@ -37,10 +37,18 @@ export interface LogisticOptions {
    */
   workspace?: LogisticWorkspace;
   /**
-   * Use the general row loop even for one to four columns, instead of the
-   * unrolled passes (default false). The two give the same bits; tests compare them.
+   * Use the general row loop (rowPass: every sum in one sweep over the rows)
+   * instead of the fast passes (logitPass and the sums after it; default false).
+   * The two give the same bits; tests compare them.
    */
   generalPass?: boolean;
+  /**
+   * Compute the deviance at the estimate (default true). The pass after the last
+   * Newton step then takes one exponential per row for it; with false that pass
+   * computes only the logits (the same bits) and `deviance` is NaN. The
+   * propensity engine, which keeps only the logits, passes false.
+   */
+  finalDeviance?: boolean;
 }
 
 /** Fitted logits beyond this size mean fitted probabilities within about 1e-13 of 0 or 1. */
@@ -105,14 +113,7 @@ export function fitLogisticRegression(
   // values side by side, so each pass over the rows reads them in one sweep).
   const ws = options.workspace && options.workspace.rows >= n && options.workspace.columns === k ? options.workspace : createLogisticWorkspace(n, k);
   const { centre, scale, z } = ws;
-  for (let j = 0; j < k; j++) {
-    const col = columns[j] as Float64Array;
-    let s = 0;
-    for (let i = 0; i < n; i++) s += col[i] as number;
-    const m = s / n;
-    let ss = 0;
-    for (let i = 0; i < n; i++) ss += ((col[i] as number) - m) ** 2;
-    const sd = Math.sqrt(ss / (n - 1));
+  const standardise = (j: number, m: number, sd: number): void => {
     if (!Number.isFinite(m) || !Number.isFinite(sd)) {
       throw new Error(`The covariate "${names[j]}" has values that are not finite numbers${at}.`);
     }
@@ -123,6 +124,51 @@ export function fitLogisticRegression(
     }
     centre[j] = m;
     scale[j] = 1 / sd;
+  };
+  // Four columns per sweep while there are four (each column's sums over the rows in order, as one
+  // column at a time: the same bits), the rest one at a time; checked in column order.
+  let j = 0;
+  for (; j + 4 <= k; j += 4) {
+    const c0 = columns[j] as Float64Array;
+    const c1 = columns[j + 1] as Float64Array;
+    const c2 = columns[j + 2] as Float64Array;
+    const c3 = columns[j + 3] as Float64Array;
+    let s0 = 0; let s1 = 0; let s2 = 0; let s3 = 0;
+    for (let i = 0; i < n; i++) {
+      s0 += c0[i] as number;
+      s1 += c1[i] as number;
+      s2 += c2[i] as number;
+      s3 += c3[i] as number;
+    }
+    const m0 = s0 / n; const m1 = s1 / n; const m2 = s2 / n; const m3 = s3 / n;
+    let q0 = 0; let q1 = 0; let q2 = 0; let q3 = 0;
+    for (let i = 0; i < n; i++) {
+      q0 += ((c0[i] as number) - m0) ** 2;
+      q1 += ((c1[i] as number) - m1) ** 2;
+      q2 += ((c2[i] as number) - m2) ** 2;
+      q3 += ((c3[i] as number) - m3) ** 2;
+    }
+    const d0 = Math.sqrt(q0 / (n - 1)); const d1 = Math.sqrt(q1 / (n - 1)); const d2 = Math.sqrt(q2 / (n - 1)); const d3 = Math.sqrt(q3 / (n - 1));
+    standardise(j, m0, d0);
+    standardise(j + 1, m1, d1);
+    standardise(j + 2, m2, d2);
+    standardise(j + 3, m3, d3);
+    for (let i = 0, t = j; i < n; i++, t += k) {
+      z[t] = ((c0[i] as number) - m0) / d0;
+      z[t + 1] = ((c1[i] as number) - m1) / d1;
+      z[t + 2] = ((c2[i] as number) - m2) / d2;
+      z[t + 3] = ((c3[i] as number) - m3) / d3;
+    }
+  }
+  for (; j < k; j++) {
+    const col = columns[j] as Float64Array;
+    let s = 0;
+    for (let i = 0; i < n; i++) s += col[i] as number;
+    const m = s / n;
+    let ss = 0;
+    for (let i = 0; i < n; i++) ss += ((col[i] as number) - m) ** 2;
+    const sd = Math.sqrt(ss / (n - 1));
+    standardise(j, m, sd);
     for (let i = 0, t = j; i < n; i++, t += k) z[t] = ((col[i] as number) - m) / sd;
   }
 
@@ -175,7 +221,7 @@ export function fitLogisticRegression(
     for (let a = 0; a < q; a++) lambda2 += (delta[a] as number) * (ws.grad[a] as number);
     if (lambda2 / (Math.abs(dev) + 0.1) < tolerance) {
       for (let a = 0; a < q; a++) b[a] = (b[a] as number) + (delta[a] as number);
-      dev = rowPass(z, y, n, k, b, eta, ws, false);
+      dev = options.finalDeviance === false && !general ? logitPass(z, y, n, k, b, eta, ws, false, false) : rowPass(z, y, n, k, b, eta, ws, false, general);
       converged = true;
       break;
     }
@@ -229,6 +275,11 @@ export interface LogisticWorkspace {
   readonly grad: Float64Array;
   /** Running sums of one pass, packed: the gradient's q entries, then X'WX's upper triangle row by row. */
   readonly sums: Float64Array;
+  /** Per row, p(1 − p) and y − p of the last information pass (the fast passes). */
+  readonly weight: Float64Array;
+  readonly residual: Float64Array;
+  /** The deviance's products of 64 factors, one per chunk of rows (the fast passes). */
+  readonly chunkProducts: Float64Array;
   /** Largest |logit| of the last pass. */
   maxAbsEta: number;
 }
@@ -256,6 +307,9 @@ export function createLogisticWorkspace(rows: number, columns: number): Logistic
     hess: new Float64Array(q * q),
     grad: new Float64Array(q),
     sums: new Float64Array(q + (q * (q + 1)) / 2),
+    weight: new Float64Array(rows),
+    residual: new Float64Array(rows),
+    chunkProducts: new Float64Array(Math.ceil(rows / 64) + 1),
     maxAbsEta: 0,
   };
 }
@@ -282,12 +336,9 @@ function rowPass(
   information: boolean,
   general = false,
 ): number {
-  if (information && !general) {
-    // Up to four columns (the pretest and three covariates, or fewer), the unrolled passes below.
-    if (k === 1) return informationPass1(z, y, n, b, eta, ws);
-    if (k === 2) return informationPass2(z, y, n, b, eta, ws);
-    if (k === 3) return informationPass3(z, y, n, b, eta, ws);
-    if (k === 4) return informationPass4(z, y, n, b, eta, ws);
+  if (!general) {
+    // The fast passes below (the same bits).
+    return information ? informationPass(z, y, n, k, b, eta, ws) : logitPass(z, y, n, k, b, eta, ws, false, true);
   }
   const q = k + 1;
   const sums = ws.sums;
@@ -352,45 +403,143 @@ function rowPass(
 }
 
 /*
- * The information passes for one to four columns: rowPass's loop unrolled, with
- * every sum in a local variable (V8 keeps them in registers), about 1.5 times
- * as fast as the general loop. Each sum takes the same operations in the same
- * order as there, so the results are the same to the last bit (a test checks).
+ * The fast passes (the engine's): the same sums as rowPass, in steps. First
+ * each row's logit (one loop per number of columns), then the deviance and the
+ * row's weight w = p(1 − p) and residual r = y − p, kept in the workspace
+ * (logitPass); then
+ * short loops sum the gradient and the information from those, with at most
+ * eleven sums in one loop (sumsFor1…4; pair by pair beyond four columns), so
+ * V8 keeps every running sum in a register: a single loop over all of them
+ * (fifteen information entries and five gradient entries for four columns)
+ * spills them to memory and ran about 1.7 times slower. Every sum still runs
+ * over the rows in order with the same operations per row as rowPass (w and r
+ * are the same doubles, stored and read back), so the results are the same to
+ * the last bit (a test compares them with rowPass on data of one to nine
+ * columns).
  */
 
-/** informationPass for 1 column: the same sums as the general loop, each in a register. */
-function informationPass1(z: Float64Array, y: Uint8Array, n: number, b: Float64Array, eta: Float64Array, ws: LogisticWorkspace): number {
-  const b0 = b[0] as number;
-  const b1 = b[1] as number;
+/** The information pass: logitPass, then the sums for k columns. Returns the deviance. */
+function informationPass(z: Float64Array, y: Uint8Array, n: number, k: number, b: Float64Array, eta: Float64Array, ws: LogisticWorkspace): number {
+  const deviance = logitPass(z, y, n, k, b, eta, ws, true, true);
+  if (k === 1) sumsFor1(z, n, ws);
+  else if (k === 2) sumsFor2(z, n, ws);
+  else if (k === 3) sumsFor3(z, n, ws);
+  else if (k === 4) sumsFor4(z, n, ws);
+  else sumsByPair(z, n, k, ws);
+  return deviance;
+}
+
+/**
+ * The rows at coefficients b: the logit of each row into eta (b0 + b1 z1 + …,
+ * in that order) and ws.maxAbsEta (logits); then each row's exp(−|logit|), and
+ * from it, with `deviance`, the deviance (as rowPass; NaN without), and with
+ * `weights`, w_i = p_i (1 − p_i) and r_i = y_i − p_i into ws.weight and
+ * ws.residual, in one more loop.
+ */
+function logitPass(
+  z: Float64Array,
+  y: Uint8Array,
+  n: number,
+  k: number,
+  b: Float64Array,
+  eta: Float64Array,
+  ws: LogisticWorkspace,
+  weights: boolean,
+  deviance: boolean,
+): number {
+  ws.maxAbsEta = logits(z, n, k, b, eta);
+  if (!deviance && !weights) return NaN;
+  const { weight, residual } = ws;
+  // The exponentials first, in a loop of their own (little is live across the calls), into
+  // ws.weight, which the next loop reads and then overwrites with p(1 − p).
+  for (let i = 0; i < n; i++) weight[i] = Math.exp(-Math.abs(eta[i] as number));
+  // Each chunk of 64 rows' product is kept and its logarithm added after the loop, in order (the
+  // same sum as adding it at once; a call inside the loop made V8 box the running sums).
+  const chunkProducts = ws.chunkProducts;
+  let chunks = 0;
   let linear = 0;
-  let logs = 0;
   let product = 1;
   let inChunk = 0;
-  let maxAbsEta = 0;
-  let sw = 0;
-  let sr = 0;
-  let g1 = 0;
-  let h01 = 0; let h11 = 0;
-  for (let i = 0, base = 0; i < n; i++, base++) {
-    const z1 = z[base] as number;
-    const e = b0 + b1 * z1;
-    eta[i] = e;
-    const ae = Math.abs(e);
-    if (ae > maxAbsEta) maxAbsEta = ae;
-    const ex = Math.exp(-ae);
+  for (let i = 0; i < n; i++) {
+    const e = eta[i] as number;
+    const ex = weight[i] as number;
     const onePlus = 1 + ex;
     const yi = y[i] as number;
     linear += Math.max(0, yi === 0 ? e : -e);
     product *= onePlus;
     if (++inChunk === 64) {
-      logs += Math.log(product);
+      chunkProducts[chunks++] = product;
       product = 1;
       inChunk = 0;
     }
+    if (!weights) continue;
     const inv = 1 / onePlus;
     const p = e >= 0 ? inv : ex * inv;
-    const w = p * (1 - p);
-    const r = yi - p;
+    weight[i] = p * (1 - p);
+    residual[i] = yi - p;
+  }
+  if (!deviance) return NaN;
+  let logs = 0;
+  for (let c = 0; c < chunks; c++) logs += Math.log(chunkProducts[c] as number);
+  return 2 * (logs + Math.log(product) + linear);
+}
+
+/** Each row's logit b0 + b1 z1 + … (added in that order) into eta, in one loop per number of columns up to four; returns the largest |logit|. */
+function logits(z: Float64Array, n: number, k: number, b: Float64Array, eta: Float64Array): number {
+  const b0 = b[0] as number;
+  const b1 = b[1] as number;
+  const b2 = k >= 2 ? (b[2] as number) : 0;
+  const b3 = k >= 3 ? (b[3] as number) : 0;
+  const b4 = k >= 4 ? (b[4] as number) : 0;
+  let largest = 0;
+  if (k === 4) {
+    for (let i = 0, base = 0; i < n; i++, base += 4) {
+      const e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number) + b3 * (z[base + 2] as number) + b4 * (z[base + 3] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  } else if (k === 3) {
+    for (let i = 0, base = 0; i < n; i++, base += 3) {
+      const e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number) + b3 * (z[base + 2] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  } else if (k === 2) {
+    for (let i = 0, base = 0; i < n; i++, base += 2) {
+      const e = b0 + b1 * (z[base] as number) + b2 * (z[base + 1] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  } else if (k === 1) {
+    for (let i = 0; i < n; i++) {
+      const e = b0 + b1 * (z[i] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  } else {
+    for (let i = 0, base = 0; i < n; i++, base += k) {
+      let e = b0;
+      for (let j = 0; j < k; j++) e += (b[j + 1] as number) * (z[base + j] as number);
+      eta[i] = e;
+      const ae = Math.abs(e);
+      if (ae > largest) largest = ae;
+    }
+  }
+  return largest;
+}
+
+/** The gradient and information sums for 1 column, from ws.weight and ws.residual. */
+function sumsFor1(z: Float64Array, n: number, ws: LogisticWorkspace): void {
+  const { weight, residual, hess, grad } = ws;
+  let sw = 0; let sr = 0; let g1 = 0; let h01 = 0; let h11 = 0;
+  for (let i = 0; i < n; i++) {
+    const w = weight[i] as number;
+    const r = residual[i] as number;
+    const z1 = z[i] as number;
     sw += w;
     sr += r;
     g1 += r * z1;
@@ -398,52 +547,19 @@ function informationPass1(z: Float64Array, y: Uint8Array, n: number, b: Float64A
     h01 += w1;
     h11 += w1 * z1;
   }
-  ws.maxAbsEta = maxAbsEta;
-  const { hess, grad } = ws;
-  hess[0] = sw;
-  grad[0] = sr;
-  grad[1] = g1;
-  hess[1] = h01;
-  hess[3] = h11;
-  return 2 * (logs + Math.log(product) + linear);
+  hess[0] = sw; grad[0] = sr; grad[1] = g1; hess[1] = h01; hess[3] = h11;
 }
 
-/** informationPass for 2 columns: the same sums as the general loop, each in a register. */
-function informationPass2(z: Float64Array, y: Uint8Array, n: number, b: Float64Array, eta: Float64Array, ws: LogisticWorkspace): number {
-  const b0 = b[0] as number;
-  const b1 = b[1] as number;
-  const b2 = b[2] as number;
-  let linear = 0;
-  let logs = 0;
-  let product = 1;
-  let inChunk = 0;
-  let maxAbsEta = 0;
-  let sw = 0;
-  let sr = 0;
-  let g1 = 0; let g2 = 0;
-  let h01 = 0; let h11 = 0; let h12 = 0;
-  let h02 = 0; let h22 = 0;
+/** The same for 2 columns. */
+function sumsFor2(z: Float64Array, n: number, ws: LogisticWorkspace): void {
+  const { weight, residual, hess, grad } = ws;
+  let sw = 0; let sr = 0; let g1 = 0; let g2 = 0;
+  let h01 = 0; let h11 = 0; let h12 = 0; let h02 = 0; let h22 = 0;
   for (let i = 0, base = 0; i < n; i++, base += 2) {
+    const w = weight[i] as number;
+    const r = residual[i] as number;
     const z1 = z[base] as number;
     const z2 = z[base + 1] as number;
-    const e = b0 + b1 * z1 + b2 * z2;
-    eta[i] = e;
-    const ae = Math.abs(e);
-    if (ae > maxAbsEta) maxAbsEta = ae;
-    const ex = Math.exp(-ae);
-    const onePlus = 1 + ex;
-    const yi = y[i] as number;
-    linear += Math.max(0, yi === 0 ? e : -e);
-    product *= onePlus;
-    if (++inChunk === 64) {
-      logs += Math.log(product);
-      product = 1;
-      inChunk = 0;
-    }
-    const inv = 1 / onePlus;
-    const p = e >= 0 ? inv : ex * inv;
-    const w = p * (1 - p);
-    const r = yi - p;
     sw += w;
     sr += r;
     g1 += r * z1;
@@ -456,59 +572,21 @@ function informationPass2(z: Float64Array, y: Uint8Array, n: number, b: Float64A
     h02 += w2;
     h22 += w2 * z2;
   }
-  ws.maxAbsEta = maxAbsEta;
-  const { hess, grad } = ws;
-  hess[0] = sw;
-  grad[0] = sr;
-  grad[1] = g1;
-  grad[2] = g2;
-  hess[1] = h01;
-  hess[4] = h11;
-  hess[5] = h12;
-  hess[2] = h02;
-  hess[8] = h22;
-  return 2 * (logs + Math.log(product) + linear);
+  hess[0] = sw; grad[0] = sr; grad[1] = g1; grad[2] = g2;
+  hess[1] = h01; hess[4] = h11; hess[5] = h12; hess[2] = h02; hess[8] = h22;
 }
 
-/** informationPass for 3 columns: the same sums as the general loop, each in a register. */
-function informationPass3(z: Float64Array, y: Uint8Array, n: number, b: Float64Array, eta: Float64Array, ws: LogisticWorkspace): number {
-  const b0 = b[0] as number;
-  const b1 = b[1] as number;
-  const b2 = b[2] as number;
-  const b3 = b[3] as number;
-  let linear = 0;
-  let logs = 0;
-  let product = 1;
-  let inChunk = 0;
-  let maxAbsEta = 0;
-  let sw = 0;
-  let sr = 0;
-  let g1 = 0; let g2 = 0; let g3 = 0;
+/** The same for 3 columns, in two loops. */
+function sumsFor3(z: Float64Array, n: number, ws: LogisticWorkspace): void {
+  const { weight, residual, hess, grad } = ws;
+  let sw = 0; let sr = 0; let g1 = 0; let g2 = 0; let g3 = 0;
   let h01 = 0; let h11 = 0; let h12 = 0; let h13 = 0;
-  let h02 = 0; let h22 = 0; let h23 = 0;
-  let h03 = 0; let h33 = 0;
   for (let i = 0, base = 0; i < n; i++, base += 3) {
+    const w = weight[i] as number;
+    const r = residual[i] as number;
     const z1 = z[base] as number;
     const z2 = z[base + 1] as number;
     const z3 = z[base + 2] as number;
-    const e = b0 + b1 * z1 + b2 * z2 + b3 * z3;
-    eta[i] = e;
-    const ae = Math.abs(e);
-    if (ae > maxAbsEta) maxAbsEta = ae;
-    const ex = Math.exp(-ae);
-    const onePlus = 1 + ex;
-    const yi = y[i] as number;
-    linear += Math.max(0, yi === 0 ? e : -e);
-    product *= onePlus;
-    if (++inChunk === 64) {
-      logs += Math.log(product);
-      product = 1;
-      inChunk = 0;
-    }
-    const inv = 1 / onePlus;
-    const p = e >= 0 ? inv : ex * inv;
-    const w = p * (1 - p);
-    const r = yi - p;
     sw += w;
     sr += r;
     g1 += r * z1;
@@ -519,6 +597,12 @@ function informationPass3(z: Float64Array, y: Uint8Array, n: number, b: Float64A
     h11 += w1 * z1;
     h12 += w1 * z2;
     h13 += w1 * z3;
+  }
+  let h02 = 0; let h22 = 0; let h23 = 0; let h03 = 0; let h33 = 0;
+  for (let i = 0, base = 0; i < n; i++, base += 3) {
+    const w = weight[i] as number;
+    const z2 = z[base + 1] as number;
+    const z3 = z[base + 2] as number;
     const w2 = w * z2;
     h02 += w2;
     h22 += w2 * z2;
@@ -527,67 +611,23 @@ function informationPass3(z: Float64Array, y: Uint8Array, n: number, b: Float64A
     h03 += w3;
     h33 += w3 * z3;
   }
-  ws.maxAbsEta = maxAbsEta;
-  const { hess, grad } = ws;
-  hess[0] = sw;
-  grad[0] = sr;
-  grad[1] = g1;
-  grad[2] = g2;
-  grad[3] = g3;
-  hess[1] = h01;
-  hess[5] = h11;
-  hess[6] = h12;
-  hess[7] = h13;
-  hess[2] = h02;
-  hess[10] = h22;
-  hess[11] = h23;
-  hess[3] = h03;
-  hess[15] = h33;
-  return 2 * (logs + Math.log(product) + linear);
+  hess[0] = sw; grad[0] = sr; grad[1] = g1; grad[2] = g2; grad[3] = g3;
+  hess[1] = h01; hess[5] = h11; hess[6] = h12; hess[7] = h13;
+  hess[2] = h02; hess[10] = h22; hess[11] = h23; hess[3] = h03; hess[15] = h33;
 }
 
-/** informationPass for 4 columns: the same sums as the general loop, each in a register. */
-function informationPass4(z: Float64Array, y: Uint8Array, n: number, b: Float64Array, eta: Float64Array, ws: LogisticWorkspace): number {
-  const b0 = b[0] as number;
-  const b1 = b[1] as number;
-  const b2 = b[2] as number;
-  const b3 = b[3] as number;
-  const b4 = b[4] as number;
-  let linear = 0;
-  let logs = 0;
-  let product = 1;
-  let inChunk = 0;
-  let maxAbsEta = 0;
-  let sw = 0;
-  let sr = 0;
-  let g1 = 0; let g2 = 0; let g3 = 0; let g4 = 0;
+/** The same for 4 columns, in two loops. */
+function sumsFor4(z: Float64Array, n: number, ws: LogisticWorkspace): void {
+  const { weight, residual, hess, grad } = ws;
+  let sw = 0; let sr = 0; let g1 = 0; let g2 = 0; let g3 = 0; let g4 = 0;
   let h01 = 0; let h11 = 0; let h12 = 0; let h13 = 0; let h14 = 0;
-  let h02 = 0; let h22 = 0; let h23 = 0; let h24 = 0;
-  let h03 = 0; let h33 = 0; let h34 = 0;
-  let h04 = 0; let h44 = 0;
   for (let i = 0, base = 0; i < n; i++, base += 4) {
+    const w = weight[i] as number;
+    const r = residual[i] as number;
     const z1 = z[base] as number;
     const z2 = z[base + 1] as number;
     const z3 = z[base + 2] as number;
     const z4 = z[base + 3] as number;
-    const e = b0 + b1 * z1 + b2 * z2 + b3 * z3 + b4 * z4;
-    eta[i] = e;
-    const ae = Math.abs(e);
-    if (ae > maxAbsEta) maxAbsEta = ae;
-    const ex = Math.exp(-ae);
-    const onePlus = 1 + ex;
-    const yi = y[i] as number;
-    linear += Math.max(0, yi === 0 ? e : -e);
-    product *= onePlus;
-    if (++inChunk === 64) {
-      logs += Math.log(product);
-      product = 1;
-      inChunk = 0;
-    }
-    const inv = 1 / onePlus;
-    const p = e >= 0 ? inv : ex * inv;
-    const w = p * (1 - p);
-    const r = yi - p;
     sw += w;
     sr += r;
     g1 += r * z1;
@@ -600,6 +640,14 @@ function informationPass4(z: Float64Array, y: Uint8Array, n: number, b: Float64A
     h12 += w1 * z2;
     h13 += w1 * z3;
     h14 += w1 * z4;
+  }
+  let h02 = 0; let h22 = 0; let h23 = 0; let h24 = 0;
+  let h03 = 0; let h33 = 0; let h34 = 0; let h04 = 0; let h44 = 0;
+  for (let i = 0, base = 0; i < n; i++, base += 4) {
+    const w = weight[i] as number;
+    const z2 = z[base + 1] as number;
+    const z3 = z[base + 2] as number;
+    const z4 = z[base + 3] as number;
     const w2 = w * z2;
     h02 += w2;
     h22 += w2 * z2;
@@ -613,27 +661,38 @@ function informationPass4(z: Float64Array, y: Uint8Array, n: number, b: Float64A
     h04 += w4;
     h44 += w4 * z4;
   }
-  ws.maxAbsEta = maxAbsEta;
-  const { hess, grad } = ws;
+  hess[0] = sw; grad[0] = sr; grad[1] = g1; grad[2] = g2; grad[3] = g3; grad[4] = g4;
+  hess[1] = h01; hess[6] = h11; hess[7] = h12; hess[8] = h13; hess[9] = h14;
+  hess[2] = h02; hess[12] = h22; hess[13] = h23; hess[14] = h24;
+  hess[3] = h03; hess[18] = h33; hess[19] = h34; hess[4] = h04; hess[24] = h44;
+}
+
+/** The same for any number of columns: the weights' and residuals' sums, then column by column and pair by pair. */
+function sumsByPair(z: Float64Array, n: number, k: number, ws: LogisticWorkspace): void {
+  const { weight, residual, hess, grad } = ws;
+  const q = k + 1;
+  let sw = 0;
+  let sr = 0;
+  for (let i = 0; i < n; i++) {
+    sw += weight[i] as number;
+    sr += residual[i] as number;
+  }
   hess[0] = sw;
   grad[0] = sr;
-  grad[1] = g1;
-  grad[2] = g2;
-  grad[3] = g3;
-  grad[4] = g4;
-  hess[1] = h01;
-  hess[6] = h11;
-  hess[7] = h12;
-  hess[8] = h13;
-  hess[9] = h14;
-  hess[2] = h02;
-  hess[12] = h22;
-  hess[13] = h23;
-  hess[14] = h24;
-  hess[3] = h03;
-  hess[18] = h33;
-  hess[19] = h34;
-  hess[4] = h04;
-  hess[24] = h44;
-  return 2 * (logs + Math.log(product) + linear);
+  for (let a = 0; a < k; a++) {
+    let g = 0;
+    let h0 = 0;
+    for (let i = 0, at = a; i < n; i++, at += k) {
+      const za = z[at] as number;
+      g += (residual[i] as number) * za;
+      h0 += (weight[i] as number) * za;
+    }
+    grad[a + 1] = g;
+    hess[a + 1] = h0;
+    for (let c = a; c < k; c++) {
+      let h = 0;
+      for (let i = 0, at = i * k; i < n; i++, at += k) h += ((weight[i] as number) * (z[at + a] as number)) * (z[at + c] as number);
+      hess[(a + 1) * q + c + 1] = h;
+    }
+  }
 }

@@ -10,6 +10,8 @@ export interface SortWorkspace {
   readonly positions: Int32Array;
   /** Scratch for the fallback sort and the final permutation. */
   readonly packed: Float64Array;
+  /** The segment's scores by position in it (read once, so the passes below index one array). */
+  readonly values: Float64Array;
 }
 
 /** Allocate a sort workspace. @param capacity longest segment (≥ 1). @returns the buffers. @throws never. @example createSortWorkspace(1200).positions.length // 1200 */
@@ -21,6 +23,7 @@ export function createSortWorkspace(capacity: number): SortWorkspace {
     counts: new Int32Array(n + 1),
     positions: new Int32Array(n),
     packed: new Float64Array(n),
+    values: new Float64Array(n),
   };
 }
 
@@ -48,19 +51,20 @@ export function sortIndicesByScore(score: Float64Array, idx: Int32Array, from: n
   const m = to - from;
   if (m < 2) return;
   if (m > ws.capacity) throw new Error(`Cannot sort ${m} people with a workspace for ${ws.capacity}.`);
+  const { buckets, counts, positions: pos, values } = ws;
   let lo = Infinity;
   let hi = -Infinity;
-  for (let j = from; j < to; j++) {
-    const s = score[idx[j] as number] as number;
+  for (let j = 0; j < m; j++) {
+    const s = score[idx[from + j] as number] as number;
     if (!Number.isFinite(s)) throw new Error(`A matching score is not a finite number (${s}).`);
+    values[j] = s;
     if (s < lo) lo = s;
     if (s > hi) hi = s;
   }
-  const { buckets, counts, positions: pos } = ws;
   const f = hi > lo ? (m - 1) / (hi - lo) : 0;
   counts.fill(0, 0, m + 1);
   for (let j = 0; j < m; j++) {
-    const b = Math.floor(((score[idx[from + j] as number] as number) - lo) * f);
+    const b = Math.floor(((values[j] as number) - lo) * f);
     const c = b < m ? b : m - 1;
     buckets[j] = c;
     counts[c + 1] = (counts[c + 1] as number) + 1;
@@ -74,42 +78,42 @@ export function sortIndicesByScore(score: Float64Array, idx: Int32Array, from: n
   }
   // Exact order by (score, position) within buckets.
   const limit = 16 * m + 64;
-  const moves = insertionPass(score, idx, from, m, pos, limit);
+  const moves = insertionPass(values, m, pos, limit);
   const out = ws.packed;
-  if (moves > limit) comparisonSort(score, idx, from, m, pos, out, lo, hi);
+  if (moves > limit) comparisonSort(values, m, pos, out, lo, hi);
   // Permute the segment.
   for (let j = 0; j < m; j++) out[j] = idx[from + (pos[j] as number)] as number;
   for (let j = 0; j < m; j++) idx[from + j] = out[j] as number;
 }
 
 /** Fallback: positions sorted by (score, position) with the built-in numeric sort of packed keys, then an insertion pass. */
-function comparisonSort(score: Float64Array, idx: Int32Array, from: number, m: number, pos: Int32Array, keys: Float64Array, lo: number, hi: number): void {
+function comparisonSort(values: Float64Array, m: number, pos: Int32Array, keys: Float64Array, lo: number, hi: number): void {
   const levels = 2 ** 29 - 1;
   const f = hi > lo ? levels / (hi - lo) : 0;
-  for (let j = 0; j < m; j++) keys[j] = Math.min(levels, Math.floor(((score[idx[from + j] as number] as number) - lo) * f)) * PACK + j;
+  for (let j = 0; j < m; j++) keys[j] = Math.min(levels, Math.floor(((values[j] as number) - lo) * f)) * PACK + j;
   const view = keys.subarray(0, m);
   view.sort();
   for (let j = 0; j < m; j++) {
     const key = view[j] as number;
     pos[j] = key - Math.floor(key / PACK) * PACK;
   }
-  insertionPass(score, idx, from, m, pos, Infinity);
+  insertionPass(values, m, pos, Infinity);
 }
 
 /**
- * Insertion sort of positions pos[0 .. m) by (score of idx[from + position],
- * position), in place; stops starting new elements once more than `limit`
- * moves have been made (Infinity: sorts fully). Returns the moves made.
+ * Insertion sort of positions pos[0 .. m) by (values[position], position), in
+ * place; stops starting new elements once more than `limit` moves have been
+ * made (Infinity: sorts fully). Returns the moves made.
  */
-function insertionPass(score: Float64Array, idx: Int32Array, from: number, m: number, pos: Int32Array, limit: number): number {
+function insertionPass(values: Float64Array, m: number, pos: Int32Array, limit: number): number {
   let moves = 0;
   for (let j = 1; j < m && moves <= limit; j++) {
     const p = pos[j] as number;
-    const s = score[idx[from + p] as number] as number;
+    const s = values[p] as number;
     let q = j - 1;
     while (q >= 0) {
       const pq = pos[q] as number;
-      const sq = score[idx[from + pq] as number] as number;
+      const sq = values[pq] as number;
       if (sq < s || (sq === s && pq < p)) break;
       pos[q + 1] = pq;
       q--;
