@@ -1,4 +1,5 @@
-import { ancovaOnCovariates, createGroupMoments, type GroupMoments, type StackedComparison } from './multivariate/ancovaOnCovariates';
+import type { StackedComparison } from './multivariate/ancovaOnCovariates';
+import { welchSatterthwaite } from './welchSatterthwaite';
 
 /**
  * The two-group ANCOVA estimate of the programme effect from within-group
@@ -27,10 +28,11 @@ import { ancovaOnCovariates, createGroupMoments, type GroupMoments, type Stacked
  * means that the correction multiplies (c ≠ 1), and does not assume equal
  * residual variances (c = 1 too). df: Welch–Satterthwaite (Welch 1947), each
  * group's share u_g = s²_{D,g}/n_g + c² ΔX̄² Sxx_g σ̂²_g / Sxx² taken as a
- * scaled chi-square on n_g − 2 df (welchSatterthwaite). Computed by the
- * several-covariate ancovaOnCovariates with p = 1 and Λ = [rho'] (one code
- * path for both engines); a group whose X has no spread uses the pooled
- * residual variance instead of its own.
+ * scaled chi-square on n_g − 2 df (welchSatterthwaite). The numbers are the
+ * several-covariate ancovaOnCovariates' with p = 1 and Λ = [rho'], bit for bit
+ * (its operations written out in scalars, ancovaOneCovariate below: the
+ * one-pretest engines call this three times a replication); a group whose X
+ * has no spread uses the pooled residual variance instead of its own.
  *
  * Stacked comparison rows (ANCOVA in a matched sample with replacement, a
  * comparison member used n_j times appearing n_j times): pass `stacked`
@@ -66,23 +68,109 @@ export function ancovaEstimate(
   out: Float64Array,
   stacked: StackedComparison | null = null,
 ): boolean {
-  fill(ONE_P, m, 0);
-  fill(ONE_C, m, 6);
-  if (reliabilityCorrection === 1) return ancovaOnCovariates(ONE_P, ONE_C, null, out, stacked);
-  LAMBDA[0] = reliabilityCorrection;
-  return ancovaOnCovariates(ONE_P, ONE_C, LAMBDA, out, stacked);
+  return ancovaOneCovariate(m, reliabilityCorrection === 1 ? null : reliabilityCorrection, out, stacked);
 }
 
-// One-covariate moments and Λ = [rho'], reused by every call (no allocation per replication).
-const ONE_P = createGroupMoments(1);
-const ONE_C = createGroupMoments(1);
-const LAMBDA = new Float64Array(1);
+/**
+ * ancovaOnCovariates with p = 1 written out in scalars: the same floating-point
+ * operations in the same order (a 1 × 1 Cholesky factor is sqrt(A), each solve
+ * divides by it twice, each length-1 sum starts from 0), so the same bits, without
+ * the general routine's loops over typed-array work space (the engine calls this
+ * three times a replication). test/sim/ancovaOneCovariate.test.ts checks it
+ * against ancovaOnCovariates bit for bit.
+ * @param m moments in ancovaEstimate's layout. @param lambda rho', or null for none (rho' = 1).
+ * @param out [estimate, SE, df] (and the naive figures when it has room 5). @param stacked as ancovaEstimate.
+ * @returns as ancovaOnCovariates (false leaves `out` untouched). @throws never.
+ * @example ancovaOneCovariate(Float64Array.of(20, 10, 12, 10, 5, 30, 20, 12, 13, 10, 5, 30), null, out) // out[0] = 0 (hand-worked, as ancovaEstimate)
+ */
+function ancovaOneCovariate(m: Float64Array, lambda: number | null, out: Float64Array, stacked: StackedComparison | null): boolean {
+  const nP = m[0] as number, mxP = m[1] as number, myP = m[2] as number;
+  const sxxP = m[3] as number, sxyP = m[4] as number, syyP = m[5] as number;
+  const nC = m[6] as number, mxC = m[7] as number, myC = m[8] as number;
+  const sxxC = m[9] as number, sxyC = m[10] as number, syyC = m[11] as number;
+  const df = nP + nC - 2 - 1;
+  if (!(df >= 1) || !(nP > 1 + 1) || !(nC > 1 + 1)) return false;
+  const W = sxxP + sxxC;
+  const w = sxyP + sxyC;
+  let A: number;
+  let c: number;
+  if (lambda !== null) {
+    const LW = 0 + lambda * W;
+    c = 0 + lambda * w;
+    A = 0 + LW * lambda;
+  } else {
+    A = W;
+    c = w;
+  }
+  // Cholesky of the 1 × 1 matrix A (choleskyInPlace's test), then b = A^-1 c and x = A^-1 ΔX̄.
+  if (!(A > 1e-12 * Math.abs(A)) || !(A > 0)) return false;
+  const L = Math.sqrt(A);
+  const b = c / L / L;
+  const dx = mxP - mxC;
+  const bc = 0 + b * c;
+  const bdx = 0 + b * dx;
+  const x = dx / L / L;
+  const quad = 0 + dx * x;
+  const rss = syyP + syyC - bc;
+  if (!(rss > 0)) return false;
+  const estimate = myP - myC - bdx;
+  if (!Number.isFinite(estimate)) return false;
+  const h = lambda !== null ? 0 + lambda * x : x;
+  const pooled2 = rss / df;
+  const sigma2P = residualVariance1(nP, sxxP, sxyP, syyP);
+  const uP = varianceOfYMinusBX1(sxxP, sxyP, syyP, b) / (nP - 1) / nP + (Number.isNaN(sigma2P) ? pooled2 : sigma2P) * quadraticForm1(sxxP, h);
+  let uC: number;
+  let dfC: number;
+  if (stacked === null) {
+    const sigma2C = residualVariance1(nC, sxxC, sxyC, syyC);
+    uC = varianceOfYMinusBX1(sxxC, sxyC, syyC, b) / (nC - 1) / nC + (Number.isNaN(sigma2C) ? pooled2 : sigma2C) * quadraticForm1(sxxC, h);
+    dfC = nC - 1 - 1;
+  } else {
+    const { weights, columns, from, sigma2 } = stacked;
+    const n2 = weights.sumUses2();
+    const N = nC;
+    const effective = (N * N) / n2;
+    if (!(effective > 1 + 1)) return false;
+    const { uses, touched } = weights;
+    const column = columns[0] as Float64Array;
+    let q = 0;
+    for (let t = 0; t < weights.touchedCount; t++) {
+      const j = touched[t] as number;
+      const z = 0 + h * ((column[from + j] as number) - mxC);
+      const u = uses[j] as number;
+      q += u * u * z * z;
+    }
+    uC = (varianceOfYMinusBX1(sxxC, sxyC, syyC, b) / (N - n2 / N)) * (n2 / (N * N)) + Math.max(0, sigma2) * q;
+    dfC = effective - 1 - 1;
+  }
+  if (!welchSatterthwaite(Math.max(0, uP), nP - 1 - 1, Math.max(0, uC), dfC, out)) return false;
+  out[0] = estimate;
+  if (out.length >= 5) {
+    out[3] = Math.sqrt(pooled2 * (1 / nP + 1 / nC + quad));
+    out[4] = df;
+  }
+  return true;
+}
 
-function fill(G: GroupMoments, m: Float64Array, at: number): void {
-  G.n = m[at] as number;
-  G.means[0] = m[at + 1] as number;
-  G.meanY = m[at + 2] as number;
-  G.sxx[0] = m[at + 3] as number;
-  G.sxy[0] = m[at + 4] as number;
-  G.syy = m[at + 5] as number;
+/** residualVariance (ancovaOnCovariates.ts) with p = 1. */
+function residualVariance1(n: number, sxx: number, sxy: number, syy: number): number {
+  const df = n - 1 - 1;
+  if (!(df > 0)) return NaN;
+  if (!(sxx > 1e-12 * Math.abs(sxx)) || !(sxx > 0)) return NaN;
+  const L = Math.sqrt(sxx);
+  const g = sxy / L / L;
+  const fit = 0 + g * sxy;
+  return Math.max(0, syy - fit) / df;
+}
+
+/** varianceOfYMinusBX (ancovaOnCovariates.ts) with p = 1: Σ (Y − bX − mean)². */
+function varianceOfYMinusBX1(sxx: number, sxy: number, syy: number, b: number): number {
+  const bw = 0 + b * sxy;
+  return Math.max(0, syy - 2 * bw + quadraticForm1(sxx, b));
+}
+
+/** quadraticForm (ancovaOnCovariates.ts) with p = 1: v S v. */
+function quadraticForm1(S: number, v: number): number {
+  const r = 0 + S * v;
+  return 0 + v * r;
 }

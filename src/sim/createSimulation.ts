@@ -148,6 +148,8 @@ class ReplicationRunner {
   readonly weights: MatchingWeights;
   /** The stacked matched comparison rows for the matched-sample ANCOVA (sigma2 set per replication). */
   readonly stacked: { weights: MatchingWeights; columns: Float64Array[]; from: number; sigma2: number };
+  /** The pretest and outcome centres the matched-set sums are taken about (fixed per simulation; one object, not one per replication). */
+  readonly centres: { px: number; py: number; cx: number; cy: number };
   /** Per-replication estimates, SEs and flags of the five estimators. */
   readonly records: AnalysisRecords;
   readonly rec: Float64Array[] = [];
@@ -183,6 +185,7 @@ class ReplicationRunner {
     this.yCentreP = model.growthGap + this.tau + this.beta * this.muP;
     this.yCentreC = this.beta * this.muC;
 
+    this.centres = { px: this.muP, py: this.yCentreP, cx: this.muC, cy: this.yCentreC };
     this.xp = new Float64Array(nP);
     this.tp = new Float64Array(nP);
     this.yp = new Float64Array(nP);
@@ -327,7 +330,7 @@ class ReplicationRunner {
     sums[MS_QSX] = qSx; sums[MS_QSXX] = qSxx; sums[MS_QSY] = qSy; sums[MS_QSYY] = qSyy; sums[MS_QSXY] = qSxy;
     sums[MS_RN] = rN; sums[MS_RSX] = rSx; sums[MS_RSXX] = rSxx; sums[MS_RSY] = rSy; sums[MS_RSYY] = rSyy; sums[MS_RSXY] = rSxy;
     const excess = this.replacement && m >= 2 ? weights.reuseExcess() : 0;
-    recordMatchedSampleAnalyses(this.records, i, sums, { px: muP, py: yCentreP, cx: muC, cy: yCentreC }, sigma2C, excess, moments, out, this.stacked);
+    recordMatchedSampleAnalyses(this.records, i, sums, this.centres, sigma2C, excess, moments, out, this.stacked);
 
     // Balance before and after matching, observed and true scores.
     (rec[M_MATCHED] as Float64Array)[i] = m;
