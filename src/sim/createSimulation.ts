@@ -193,7 +193,8 @@ class ReplicationRunner {
     this.tc = new Float64Array(nC);
     this.yc = new Float64Array(nC);
     // The comparison pool is drawn sorted on X; this index finds positions in it for the matching.
-    this.sorterC = new NormalSampleIndex(nC);
+    // One search per programme member (two for random-within-caliper): the index samples the pool to suit.
+    this.sorterC = new NormalSampleIndex(nC, this.method === 'nearest' ? nP : 2 * nP);
     this.sortProgramme = sortProgramme;
     // A replication's standard normal variates, drawn in one go: 3 per person
     // (observed pretest, true score given it, outcome residual).

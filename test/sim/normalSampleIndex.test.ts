@@ -36,6 +36,36 @@ describe('NormalSampleIndex', () => {
     );
   });
 
+  it('searches exactly when only every 2nd, 4th or 8th position is indexed (few searches), ties and all (fast-check, 300 cases)', () => {
+    // Reference: a linear scan (definition). `searches` picks the stride; values rounded to make ties common.
+    fc.assert(
+      fc.property(
+        fc.array(fc.double({ min: -4, max: 4, noNaN: true }), { minLength: 1, maxLength: 400 }),
+        fc.double({ min: -100, max: 100, noNaN: true }),
+        fc.double({ min: 0.01, max: 100, noNaN: true }),
+        fc.integer({ min: 1, max: 40 }),
+        fc.boolean(),
+        fc.array(fc.double({ min: -1e4, max: 1e4, noNaN: true }), { minLength: 1, maxLength: 20 }),
+        (zs, mean, sd, searches, ties, queries) => {
+          const sorted = Float64Array.from(zs.map((v) => mean + sd * (ties ? Math.round(v * 4) / 4 : v))).sort();
+          const copy = Array.from(sorted);
+          const index = new NormalSampleIndex(sorted.length, searches);
+          expect([1, 2, 4, 8]).toContain(index.stride);
+          index.indexSorted(sorted, mean, sd);
+          for (const q of [...queries, ...copy.slice(0, 8), ...copy.slice(-3), mean]) {
+            expect(index.lowerBound(q)).toBe(firstIndex(copy, (v) => v >= q));
+            expect(index.upperBound(q)).toBe(firstIndex(copy, (v) => v > q));
+          }
+        },
+      ),
+      { numRuns: 300, seed: 16 },
+    );
+    // The stride the engine's demo plan gets (1,200 searched 180 times): sqrt(2.5 · 1200 / 180) ≈ 4.1 → 4.
+    expect(new NormalSampleIndex(1200, 180).stride).toBe(4);
+    expect(new NormalSampleIndex(1200).stride).toBe(1);
+    expect(new NormalSampleIndex(100000, 1).stride).toBe(8);
+  });
+
   it('refuses to index values that are not ascending, naming the position', () => {
     const index = new NormalSampleIndex(3);
     expect(() => index.indexSorted(Float64Array.from([1, 3, 2]), 0, 1)).toThrow('Values to index must be in ascending order; position 2 holds 2 after 3.');
@@ -55,7 +85,8 @@ describe('NormalSampleIndex', () => {
         (cz, px, caliper, method, replacement, ratio) => {
           const nC = cz.length;
           const xc = Float64Array.from(cz, (v) => 50 + 10 * v).sort();
-          const index = new NormalSampleIndex(nC);
+          // Sized as the engine sizes it (one or two searches per programme member: strides 1 to 8).
+          const index = new NormalSampleIndex(nC, method === 'nearest' ? px.length : 2 * px.length);
           index.indexSorted(xc, 50, 10);
           const xp = Float64Array.from(px.map((v) => 50 + 10 * v));
           const cal = caliper * 10;
