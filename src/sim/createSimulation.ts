@@ -294,6 +294,7 @@ class ReplicationRunner {
     // matched difference does; with 1:1 this equals the stacked rows exactly.
     let wSx = 0, wSxx = 0, wSt = 0;
     const weights = this.weights;
+    const replacement = this.replacement;
     weights.reset();
     for (let j = 0; j < nP; j++) {
       const cnt = counts[j] as number;
@@ -316,7 +317,8 @@ class ReplicationRunner {
         const cy = y - yCentreC;
         rSx += cx; rSxx += cx * cx; rSy += cy; rSyy += cy * cy; rSxy += cx * cy;
         setX += cx; setXX += cx * cx; setT += t - muC;
-        weights.add(c, cnt);
+        if (replacement) weights.add(c, cnt);
+        else weights.addUse(c); // matching weights only enter the reuse term, 0 without replacement
       }
       rN += cnt;
       wSx += setX / cnt;

@@ -61,6 +61,17 @@ export class MatchingWeights {
     this.weight2[j] = (this.weight2[j] as number) + w * w;
   }
 
+  /**
+   * Record comparison member j's use only (uses and the touched list, as `add`
+   * does), leaving weight and weight2 at 0: for callers that read neither
+   * (the one-pretest engine without replacement, whose reuse term is 0).
+   */
+  addUse(j: number): void {
+    const u = this.uses[j] as number;
+    if (u === 0) this.touched[this.touchedCount++] = j;
+    this.uses[j] = u + 1;
+  }
+
   /** Σ_j (K_j² − K'_j): 0 without reuse; the reuse term of the Abadie–Imbens variance (times σ²_C / m²). */
   reuseExcess(): number {
     const { weight, weight2, touched } = this;

@@ -103,3 +103,39 @@ describe('ancovaEstimate (one covariate, in scalars)', () => {
     expect(out[0]).toBeCloseTo(1, 12);
   });
 });
+
+describe('MatchingWeights.addUse (the one-pretest engine without replacement)', () => {
+  it('records the same use counts and touched list as add, and what the stacked ANCOVA reads gives the same bits', () => {
+    const rng = new Xoshiro128StarStar();
+    rng.reseed(16, 3);
+    for (let trial = 0; trial < 200; trial++) {
+      const nPool = 3 + Math.floor(rng.nextFloat() * 50);
+      const full = new MatchingWeights(nPool);
+      const usesOnly = new MatchingWeights(nPool);
+      const rows = 3 + Math.floor(rng.nextFloat() * 60);
+      for (let r = 0; r < rows; r++) {
+        const j = Math.floor(rng.nextFloat() * nPool);
+        full.add(j, 1 + (r % 3));
+        usesOnly.addUse(j);
+      }
+      expect(usesOnly.touchedCount).toBe(full.touchedCount);
+      expect(Array.from(usesOnly.touched)).toEqual(Array.from(full.touched));
+      expect(Array.from(usesOnly.uses)).toEqual(Array.from(full.uses));
+      expect(usesOnly.sumUses2()).toBe(full.sumUses2());
+      expect(Array.from(usesOnly.weight).every((w) => w === 0)).toBe(true);
+      const column = Float64Array.from({ length: nPool }, () => 40 + 20 * rng.nextFloat());
+      const m = randomMoments(rng, 0);
+      m[6] = rows;
+      const a = new Float64Array(3).fill(SENTINEL);
+      const b = new Float64Array(3).fill(SENTINEL);
+      expect(ancovaEstimate(m, 1, a, { weights: usesOnly, columns: [column], from: 0, sigma2: 30 })).toBe(
+        ancovaEstimate(m, 1, b, { weights: full, columns: [column], from: 0, sigma2: 30 }),
+      );
+      for (let t = 0; t < 3; t++) expect(Object.is(a[t], b[t])).toBe(true);
+      // After reset both are empty again (the engine reuses them every replication).
+      usesOnly.reset();
+      expect(usesOnly.touchedCount).toBe(0);
+      expect(Array.from(usesOnly.uses).every((u) => u === 0)).toBe(true);
+    }
+  });
+});
